@@ -1,0 +1,12 @@
+/**
+ * The product's cell kinds. Adding a kind: write `cells/<kind>/mod.ts`
+ * exporting its record, then list it here (see DEVELOPERS.md).
+ *
+ * @module
+ */
+import { makeRegistry, type Registry } from "../kernel/registry.ts";
+import { tableKind } from "./table/mod.ts";
+import { fitKind } from "./fit/mod.ts";
+
+/** Every kind Plumb knows, by name. */
+export const registry: Registry = makeRegistry([tableKind, fitKind]);

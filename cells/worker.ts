@@ -1,0 +1,11 @@
+/**
+ * The product's compute worker entry. Started with no permissions by the
+ * kernel; imports the registry statically because a permission-less worker
+ * cannot import modules dynamically.
+ *
+ * @module
+ */
+import { serveComputeWorker } from "../kernel/worker/compute_worker.ts";
+import { registry } from "./mod.ts";
+
+serveComputeWorker(registry);

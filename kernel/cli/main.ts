@@ -1,0 +1,41 @@
+/**
+ * The `plumb` command line.
+ *
+ * ```
+ * plumb run <document.md> [--json]   run every cell headless
+ * plumb help                         this text
+ * ```
+ *
+ * Exit status (../shared/RUN-JSON.md): 0 when every cell is current, 1 when
+ * any cell failed or is held, 2 for a usage error or an unreadable document.
+ *
+ * @module
+ */
+import { runCommand } from "./run.ts";
+
+const USAGE = `Plumb: fit models to measurements and judge them
+
+Usage:
+  plumb run <document.md> [--json]   run every cell of an analysis document
+  plumb help                         show this text
+
+  --json   print the machine-readable result (RUN-JSON) on standard output`;
+
+/**
+ * Runs the command line with the given arguments.
+ *
+ * @param args Command-line arguments (without the program name).
+ * @returns The exit status.
+ */
+export async function main(args: string[]): Promise<number> {
+  const [command, ...rest] = args;
+  if (command === undefined || command === "help" || command === "--help" || command === "-h") {
+    console.log(USAGE);
+    return command === undefined ? 2 : 0;
+  }
+  if (command === "run") return await runCommand(rest);
+  console.error(`Unknown command "${command}"\n\n${USAGE}`);
+  return 2;
+}
+
+if (import.meta.main) Deno.exit(await main(Deno.args));

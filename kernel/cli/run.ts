@@ -1,0 +1,83 @@
+/**
+ * `plumb run`: one headless run of a document, printed for people or as RUN-JSON.
+ *
+ * @module
+ */
+import { dirname } from "node:path";
+import { registry } from "../../cells/mod.ts";
+import { VERSION } from "../version.ts";
+import { type RunReport, Session } from "../session/session.ts";
+import { formatHuman } from "./format_human.ts";
+
+const WORKER = new URL("../../cells/worker.ts", import.meta.url);
+
+/**
+ * The RUN-JSON object of a run (../shared/RUN-JSON.md).
+ *
+ * @param document The document path as given.
+ * @param report The session's report.
+ * @returns Plain JSON data.
+ */
+export function runJson(document: string, report: RunReport): Record<string, unknown> {
+  return {
+    plumb: VERSION,
+    document,
+    ok: report.cells.every((c) => c.state === "current"),
+    cells: report.cells.map((c) => ({
+      name: c.name,
+      kind: c.kind,
+      state: c.state,
+      line: c.line,
+      error: c.error,
+      warnings: c.warnings,
+      result: c.state === "current" ? c.result : null,
+    })),
+    document_errors: report.errors,
+  };
+}
+
+/** Typed arrays become plain arrays; non-finite numbers become null (JSON has neither). */
+function replacer(_key: string, value: unknown): unknown {
+  if (ArrayBuffer.isView(value)) return Array.from(value as unknown as ArrayLike<number>);
+  return value;
+}
+
+/**
+ * Runs `plumb run` with its arguments.
+ *
+ * @param args Arguments after `run`.
+ * @returns The exit status.
+ */
+export async function runCommand(args: string[]): Promise<number> {
+  const json = args.includes("--json");
+  const paths = args.filter((a) => a !== "--json");
+  const unknown = paths.find((a) => a.startsWith("-"));
+  if (paths.length !== 1 || unknown) {
+    console.error(
+      unknown ? `Unknown option "${unknown}"` : "Usage: plumb run <document.md> [--json]",
+    );
+    return 2;
+  }
+  const path = paths[0];
+  let source: string;
+  try {
+    source = new TextDecoder("utf-8", { fatal: true }).decode(await Deno.readFile(path));
+  } catch (err) {
+    const why = err instanceof Deno.errors.NotFound
+      ? "no such file"
+      : err instanceof TypeError
+      ? "not valid UTF-8"
+      : (err as Error).message;
+    console.error(`Cannot read document "${path}": ${why}`);
+    return 2;
+  }
+  const session = new Session({ registry, workerUrl: WORKER, dir: dirname(path) });
+  try {
+    const report = await session.run(source);
+    if (json) console.log(JSON.stringify(runJson(path, report), replacer, 2));
+    else console.log(formatHuman(path, report));
+    return report.cells.every((c) => c.state === "current") ? 0 : 1;
+  } finally {
+    session.close();
+  }
+}

@@ -1,0 +1,247 @@
+/**
+ * From a parsed document to a checked dependency graph, before anything runs.
+ *
+ * Every cell becomes a {@link CellNode}. The checks, in order, each leaving a
+ * located error on the cell it concerns (and never stopping the others):
+ *
+ * 1. the fence itself (unclosed fence, from the document layer);
+ * 2. unknown kind (pointing at the kind word, nearest kind suggested);
+ * 3. duplicate name (the later cell fails; references go to the first);
+ * 4. YAML options, then the kind's own `parse`;
+ * 5. references: unknown cell (nearest name suggested), wrong output type;
+ * 6. cycles (each member fails with the whole path).
+ *
+ * @module
+ */
+import type { DocSettings, FileRef, InputRef } from "../../cells/types.ts";
+import type { CellBlock, ParsedDocument } from "../document/mod.ts";
+import { lineColumnAt, parseOptions } from "../document/mod.ts";
+import { CellError, LocatedError, type OptionPath, type SourcePos } from "../errors.ts";
+import type { AnyKind, Registry } from "../registry.ts";
+import { didYouMean } from "../suggest.ts";
+import { canonicalJson } from "../hash.ts";
+import { findCycles } from "./cycles.ts";
+
+/** One cell of the graph. */
+export interface CellNode {
+  /** Position among the document's cells. */
+  index: number;
+  name: string;
+  kind: string;
+  /** Line of the opening fence. */
+  line: number;
+  block: CellBlock;
+  plugin: AnyKind | null;
+  /** The kind's spec, when parse succeeded. */
+  spec: unknown;
+  /** Canonical JSON of `spec` (what the cache key hashes). */
+  specJson: string;
+  /** References found by the kind's `inputs`. */
+  refs: InputRef[];
+  /** Names of the cells read, deduplicated, in reference order. */
+  deps: string[];
+  files: FileRef[];
+  /** A static error: the cell fails without running. */
+  error: LocatedError | null;
+  /** Warnings raised while parsing. */
+  warnings: string[];
+  /** Maps an option path (and offset into its text) to a document position. */
+  locate(path: OptionPath, offset?: number): SourcePos;
+}
+
+/** The checked graph of a document. */
+export interface Graph {
+  nodes: CellNode[];
+  byName: Map<string, CellNode>;
+  /** Nodes in an order where every cell comes after the cells it reads (cycle members last). */
+  order: CellNode[];
+  /** Downstream edges: cell name → names of the cells that read it. */
+  readers: Map<string, string[]>;
+}
+
+/**
+ * Resolves a {@link CellError} (or any error) thrown by cell code into a located error.
+ *
+ * @param node The cell the error belongs to.
+ * @param err What was thrown.
+ * @returns A located error whose message is the original message.
+ */
+export function locateError(node: Pick<CellNode, "name" | "locate">, err: unknown): LocatedError {
+  if (err instanceof LocatedError) return err;
+  if (err instanceof CellError) return new LocatedError(err.message, node.locate(err.path, err.offset));
+  const message = err instanceof Error ? err.message : String(err);
+  return new LocatedError(`Internal error in cell "${node.name}": ${message}`, node.locate([]));
+}
+
+function fencePos(block: CellBlock): SourcePos {
+  return { line: block.line, column: block.column };
+}
+
+function newNode(block: CellBlock, index: number): CellNode {
+  return {
+    index,
+    name: block.name,
+    kind: block.kind,
+    line: block.line,
+    block,
+    plugin: null,
+    spec: null,
+    specJson: "null",
+    refs: [],
+    deps: [],
+    files: [],
+    error: block.error,
+    warnings: [],
+    locate: () => fencePos(block),
+  };
+}
+
+function parseNode(
+  node: CellNode,
+  doc: ParsedDocument,
+  registry: Registry,
+  settings: DocSettings,
+): void {
+  const plugin = registry.get(node.kind);
+  if (!plugin) {
+    node.error = new LocatedError(
+      `Unknown cell kind "${node.kind}"${didYouMean(node.kind, registry.keys())}` +
+        ` (kinds: ${[...registry.keys()].join(", ")})`,
+      lineColumnAt(doc, node.block.kindStart),
+    );
+    return;
+  }
+  node.plugin = plugin;
+  let options: Record<string, unknown> = {};
+  if (plugin.body === "yaml") {
+    const parsed = parseOptions(node.block, doc);
+    node.locate = parsed.locate;
+    if (parsed.errors.length > 0) {
+      node.error = parsed.errors[0];
+      return;
+    }
+    options = parsed.options;
+  }
+  try {
+    node.spec = plugin.parse({
+      name: node.name,
+      kind: node.kind,
+      options,
+      body: node.block.body,
+      settings,
+      warn: (m) => {
+        if (!node.warnings.includes(m)) node.warnings.push(m);
+      },
+    });
+    node.specJson = canonicalJson(node.spec);
+    node.refs = plugin.inputs(node.spec);
+    node.files = plugin.files?.(node.spec) ?? [];
+  } catch (err) {
+    node.error = locateError(node, err);
+  }
+}
+
+function checkRefs(node: CellNode, byName: Map<string, CellNode>): void {
+  for (const ref of node.refs) {
+    const target = byName.get(ref.name);
+    if (!target) {
+      node.error = new LocatedError(
+        `Unknown cell "${ref.name}" in "${node.name}"${didYouMean(ref.name, byName.keys())}`,
+        node.locate(ref.path),
+      );
+      return;
+    }
+    const output = target.plugin?.output;
+    if (output && !ref.accepts.includes(output)) {
+      const want = ref.accepts.map((t) => t.toLowerCase()).join(" or ");
+      node.error = new LocatedError(
+        `"${ref.path.join(".")}" of "${node.name}" must name a ${want} cell, ` +
+          `but "${ref.name}" is a ${target.kind} cell (gives ${output.toLowerCase()})`,
+        node.locate(ref.path),
+      );
+      return;
+    }
+    if (ref.name === node.name) {
+      node.error = new LocatedError(`Cell "${node.name}" reads itself`, node.locate(ref.path));
+      return;
+    }
+    if (!node.deps.includes(ref.name)) node.deps.push(ref.name);
+  }
+}
+
+/**
+ * Builds and checks the dependency graph of a parsed document.
+ *
+ * @param doc The parsed document.
+ * @param registry The cell kinds.
+ * @param settings Document settings (from the front matter).
+ * @returns The graph; errors sit on the nodes they concern.
+ */
+export function buildGraph(doc: ParsedDocument, registry: Registry, settings: DocSettings): Graph {
+  const nodes: CellNode[] = [];
+  const byName = new Map<string, CellNode>();
+  for (const block of doc.blocks) {
+    if (block.type !== "cell") continue;
+    const node = newNode(block, nodes.length);
+    nodes.push(node);
+    const first = byName.get(node.name);
+    if (first) {
+      node.error ??= new LocatedError(
+        `Duplicate cell name "${node.name}": already used by the ${first.kind} cell at line ${first.line}`,
+        lineColumnAt(doc, block.nameStart),
+      );
+    } else byName.set(node.name, node);
+  }
+  for (const node of nodes) if (!node.error) parseNode(node, doc, registry, settings);
+  for (const node of nodes) if (!node.error) checkRefs(node, byName);
+  for (const cycle of findCycles(nodes.filter((n) => !n.error), byName)) {
+    const path = [...cycle, cycle[0]].join(" → ");
+    for (const name of cycle) {
+      const node = byName.get(name)!;
+      const ref = node.refs.find((r) => cycle.includes(r.name));
+      node.error = new LocatedError(`Cycle: ${path}`, node.locate(ref?.path ?? []));
+    }
+  }
+  return { nodes, byName, order: topologicalOrder(nodes, byName), readers: readersOf(nodes) };
+}
+
+function readersOf(nodes: CellNode[]): Map<string, string[]> {
+  const readers = new Map<string, string[]>();
+  for (const n of nodes) {
+    for (const d of n.deps) {
+      const list = readers.get(d) ?? [];
+      list.push(n.name);
+      readers.set(d, list);
+    }
+  }
+  return readers;
+}
+
+/** Depth-first post-order from each node in document order; a cycle member is emitted once. */
+function topologicalOrder(nodes: CellNode[], byName: Map<string, CellNode>): CellNode[] {
+  const order: CellNode[] = [];
+  const mark = new Map<CellNode, 1 | 2>();
+  const visit = (start: CellNode) => {
+    // Iterative, so a 10,000-cell chain does not overflow the stack.
+    const stack: [CellNode, number][] = [[start, 0]];
+    mark.set(start, 1);
+    while (stack.length > 0) {
+      const top = stack[stack.length - 1];
+      const [node, i] = top;
+      if (i < node.deps.length) {
+        top[1]++;
+        const dep = byName.get(node.deps[i]);
+        if (dep && dep !== node && !mark.has(dep)) {
+          mark.set(dep, 1);
+          stack.push([dep, 0]);
+        }
+      } else {
+        stack.pop();
+        mark.set(node, 2);
+        order.push(node);
+      }
+    }
+  };
+  for (const n of nodes) if (!mark.has(n)) visit(n);
+  return order;
+}

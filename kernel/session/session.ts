@@ -1,0 +1,314 @@
+/**
+ * A session runs one analysis document: parse, plan, execute, remember.
+ *
+ * ```
+ *  source ──plan()──▶ graph + cache keys ──execute──▶ cell states
+ *                        │ key = hash(kind, spec, settings,
+ *                        │            keys of inputs, SHA-256 of files)
+ *                        ▼
+ *              outcome cache (key → summary | error)
+ * ```
+ *
+ * A cell reruns only when its key is new, so an edit that changes nothing
+ * (YAML whitespace, prose) reruns nothing, and a change reruns exactly the
+ * cells downstream of it. A run superseded by a newer one stops updating
+ * states at its next step; whatever it computed stays cached under its key.
+ *
+ * @module
+ */
+import type { DocSettings, FileData } from "../../cells/types.ts";
+import { parseDocument, type ParsedDocument, readSettings } from "../document/mod.ts";
+import { LocatedError } from "../errors.ts";
+import { hashValue } from "../hash.ts";
+import type { Registry } from "../registry.ts";
+import { buildGraph, type CellNode, type Graph, locateError } from "../graph/build.ts";
+import { ComputeWorker } from "../worker/client.ts";
+import type { DoneMessage } from "../worker/protocol.ts";
+import { FileStore } from "./files.ts";
+import { checkInlineRefs } from "./inline_refs.ts";
+
+/** The states of a cell, in our own words. */
+export type CellState = "current" | "queued" | "computing" | "failed" | "held";
+
+/** The state and result of one cell after a run. */
+export interface CellReport {
+  name: string;
+  kind: string;
+  line: number;
+  state: CellState;
+  error: { message: string; line: number; column: number } | null;
+  warnings: string[];
+  /** The kind's summary (RUN-JSON `result`); null unless current. */
+  result: unknown;
+  /** One human line of the result. */
+  summaryLine: string | null;
+  /** Time the computation took (when it last ran), in milliseconds. */
+  ms: number;
+  /** True when this run reused a cached result. */
+  cached: boolean;
+}
+
+/** The outcome of a run. */
+export interface RunReport {
+  settings: DocSettings;
+  cells: CellReport[];
+  /** Errors outside cells: front matter, inline references in prose. */
+  errors: { message: string; line: number; column: number }[];
+  /** Names of the cells computed by this run, in order. */
+  ran: string[];
+  superseded: boolean;
+}
+
+/** The sync part of a run: what would be computed. */
+export interface Plan {
+  doc: ParsedDocument;
+  settings: DocSettings;
+  graph: Graph;
+  docErrors: LocatedError[];
+  /** Cache key of every cell that can run (static errors and held cells have none). */
+  keys: Map<string, string>;
+  /** Cells whose key has no cached outcome: these will compute. */
+  stale: string[];
+}
+
+/** A state change, for live views. */
+export interface SessionEvent {
+  name: string;
+  state: CellState;
+  fraction?: number;
+  note?: string;
+}
+
+interface Outcome {
+  done: DoneMessage;
+}
+
+/** Options of a session. */
+export interface SessionOptions {
+  registry: Registry;
+  /** The compute worker entry module (for the product: `cells/worker.ts`). */
+  workerUrl: URL;
+  /** The document's folder, where data files are looked up. */
+  dir: string;
+  onEvent?: (e: SessionEvent) => void;
+}
+
+const located = (e: LocatedError) => ({ message: e.message, line: e.pos.line, column: e.pos.column });
+
+/** Runs one document reactively; keep it alive between edits to reuse results. */
+export class Session {
+  #opts: SessionOptions;
+  #worker: ComputeWorker;
+  #files: FileStore;
+  #outcomes = new Map<string, Outcome>();
+  #generation = 0;
+  /** How many times each cell was computed over the session's life. */
+  readonly runs = new Map<string, number>();
+
+  /** @param opts Registry, worker entry and the document's folder. */
+  constructor(opts: SessionOptions) {
+    this.#opts = opts;
+    this.#worker = new ComputeWorker(opts.workerUrl);
+    this.#files = new FileStore(opts.dir);
+  }
+
+  /** The file store (a watcher calls `forget` on it). */
+  get files(): FileStore {
+    return this.#files;
+  }
+
+  /**
+   * Parses and checks a document and computes every cell's cache key.
+   *
+   * @param source The document text.
+   * @param fileShas SHA-256 of each file path as written (missing entries make a cell fail later).
+   * @returns The plan; `stale` lists what a run would compute.
+   */
+  plan(source: string, fileShas: ReadonlyMap<string, string>): Plan {
+    return this.#keyed(this.#prepare(source), fileShas);
+  }
+
+  #prepare(source: string): Omit<Plan, "keys" | "stale"> {
+    const doc = parseDocument(source);
+    const { settings, errors } = readSettings(doc);
+    const graph = buildGraph(doc, this.#opts.registry, settings);
+    const docErrors = [...doc.errors.filter((e) => !isCellError(doc, e)), ...errors];
+    docErrors.push(...checkInlineRefs(doc, graph));
+    return { doc, settings, graph, docErrors };
+  }
+
+  #keyed(prep: Omit<Plan, "keys" | "stale">, fileShas: ReadonlyMap<string, string>): Plan {
+    const keys = new Map<string, string>();
+    const settingsKey = hashValue({ ...prep.settings, title: undefined });
+    for (const node of prep.graph.order) {
+      if (node.error) continue;
+      const depKeys = node.deps.map((d) => keys.get(d));
+      if (depKeys.some((k) => k === undefined)) continue;
+      const shas = node.files.map((f) => fileShas.get(f.path) ?? null);
+      keys.set(node.name, hashValue([node.kind, node.specJson, settingsKey, depKeys, shas]));
+    }
+    const stale = prep.graph.order
+      .filter((n) => keys.has(n.name) && !this.#outcomes.has(keys.get(n.name)!))
+      .map((n) => n.name);
+    return { ...prep, keys, stale };
+  }
+
+  /**
+   * Runs a document: reads its data files, then computes what is stale.
+   *
+   * @param source The document text.
+   * @returns States and results of every cell.
+   */
+  async run(source: string): Promise<RunReport> {
+    const generation = ++this.#generation;
+    const prep = this.#prepare(source);
+    const { fileData, fileErrors } = await this.#readFiles(prep.graph, prep.settings);
+    const plan = this.#keyed(prep, new Map([...fileData].map(([p, f]) => [p, f.sha256])));
+    const reports = new Map<string, CellReport>();
+    const ran: string[] = [];
+    for (const node of plan.graph.nodes) {
+      if (!node.error && plan.keys.has(node.name)) this.#emit(node.name, "queued");
+    }
+    for (const node of plan.graph.order) {
+      if (generation !== this.#generation) {
+        return { settings: plan.settings, cells: [], errors: [], ran, superseded: true };
+      }
+      reports.set(node.name, await this.#runNode(node, plan, reports, fileData, fileErrors, ran));
+    }
+    this.#forgetUnused(plan, fileData);
+    const cells = plan.graph.nodes.map((n) => reports.get(n.name)!);
+    return { settings: plan.settings, cells, errors: plan.docErrors.map(located), ran, superseded: false };
+  }
+
+  async #readFiles(graph: Graph, settings: DocSettings) {
+    const fileData = new Map<string, FileData>();
+    const fileErrors = new Map<CellNode, LocatedError>();
+    for (const node of graph.nodes) {
+      if (node.error) continue;
+      for (const f of node.files) {
+        if (fileData.has(f.path)) continue;
+        try {
+          fileData.set(f.path, await this.#files.read(f.path, f.option, settings.maxFileBytes));
+        } catch (err) {
+          fileErrors.set(node, locateError(node, err));
+        }
+      }
+    }
+    return { fileData, fileErrors };
+  }
+
+  async #runNode(
+    node: CellNode,
+    plan: Plan,
+    reports: Map<string, CellReport>,
+    fileData: Map<string, FileData>,
+    fileErrors: Map<CellNode, LocatedError>,
+    ran: string[],
+  ): Promise<CellReport> {
+    const base = {
+      name: node.name,
+      kind: node.kind,
+      line: node.line,
+      warnings: [...node.warnings],
+      result: null,
+      summaryLine: null,
+      ms: 0,
+      cached: false,
+    };
+    const staticError = node.error ?? fileErrors.get(node);
+    if (staticError) {
+      this.#emit(node.name, "failed");
+      return { ...base, state: "failed", error: located(staticError) };
+    }
+    const blocked = node.deps.find((d) => reports.get(d)?.state !== "current");
+    if (blocked !== undefined || !plan.keys.has(node.name)) {
+      this.#emit(node.name, "held");
+      const why = blocked === undefined ? "an input cannot run" : `input "${blocked}" is ${reports.get(blocked)?.state ?? "not ready"}`;
+      return { ...base, state: "held", error: { message: `Held: ${why}`, line: node.line, column: 1 } };
+    }
+    const key = plan.keys.get(node.name)!;
+    let outcome = this.#outcomes.get(key);
+    const cached = outcome !== undefined;
+    if (!outcome) {
+      const done = await this.#compute(node, plan, fileData, ran);
+      outcome = { done };
+      if (!isTransient(done)) this.#outcomes.set(key, outcome);
+    }
+    const d = outcome.done;
+    const warnings = [...base.warnings, ...d.warnings.filter((w) => !base.warnings.includes(w))];
+    if (d.ok) {
+      this.#emit(node.name, "current");
+      return {
+        ...base,
+        state: "current",
+        error: null,
+        warnings,
+        result: d.summary,
+        summaryLine: d.line ?? null,
+        ms: d.ms,
+        cached,
+      };
+    }
+    this.#emit(node.name, "failed");
+    const err = d.error!;
+    const message = err.internal ? `Internal error in cell "${node.name}": ${err.message}` : err.message;
+    const pos = node.locate(err.path ?? [], err.offset);
+    return { ...base, state: "failed", error: { message, ...pos }, warnings, ms: d.ms, cached };
+  }
+
+  /** Computes a node, first recomputing any input whose output the worker no longer holds. */
+  async #compute(
+    node: CellNode,
+    plan: Plan,
+    fileData: Map<string, FileData>,
+    ran: string[],
+  ): Promise<DoneMessage> {
+    for (const dep of node.deps) {
+      const depKey = plan.keys.get(dep)!;
+      if (!this.#worker.has(depKey)) {
+        const redo = await this.#compute(plan.graph.byName.get(dep)!, plan, fileData, ran);
+        if (!redo.ok) return redo;
+      }
+    }
+    const files: Record<string, FileData> = {};
+    for (const f of node.files) files[f.path] = fileData.get(f.path)!;
+    this.#emit(node.name, "computing");
+    ran.push(node.name);
+    this.runs.set(node.name, (this.runs.get(node.name) ?? 0) + 1);
+    return await this.#worker.run({
+      key: plan.keys.get(node.name)!,
+      kind: node.kind,
+      name: node.name,
+      spec: node.spec,
+      settings: plan.settings,
+      inputs: Object.fromEntries(node.deps.map((d) => [d, plan.keys.get(d)!])),
+      files,
+      onProgress: (fraction, note) => this.#emit(node.name, "computing", fraction, note),
+    });
+  }
+
+  /** Drops cached outcomes and worker outputs that the current document no longer uses. */
+  #forgetUnused(plan: Plan, fileData: Map<string, FileData>): void {
+    const live = new Set(plan.keys.values());
+    for (const k of this.#outcomes.keys()) if (!live.has(k)) this.#outcomes.delete(k);
+    this.#worker.retain(live, [...fileData.values()].map((f) => f.sha256));
+  }
+
+  #emit(name: string, state: CellState, fraction?: number, note?: string): void {
+    this.#opts.onEvent?.({ name, state, fraction, note });
+  }
+
+  /** Stops the compute worker. */
+  close(): void {
+    this.#worker.close();
+  }
+}
+
+function isTransient(done: DoneMessage): boolean {
+  return !done.ok && done.error?.transient === true;
+}
+
+/** Document errors that belong to a cell (an unclosed fence) are reported on that cell instead. */
+function isCellError(doc: ParsedDocument, e: LocatedError): boolean {
+  return doc.blocks.some((b) => b.type === "cell" && b.error === e);
+}

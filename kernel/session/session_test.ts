@@ -1,0 +1,176 @@
+import { deepEqual, equal, match, ok } from "node:assert/strict";
+import { join } from "node:path";
+import { Session } from "./session.ts";
+import { fakeRegistry } from "./testdata/fake_kinds.ts";
+
+const WORKER = new URL("./testdata/fake_worker.ts", import.meta.url);
+
+function cell(kind: string, name: string, body: string): string {
+  return "```" + `${kind} ${name}\n${body}\n` + "```\n";
+}
+
+async function withSession(fn: (s: Session, dir: string) => Promise<void>) {
+  const dir = await Deno.makeTempDir({ prefix: "plumb-session-" });
+  const s = new Session({ registry: fakeRegistry, workerUrl: WORKER, dir });
+  try {
+    await fn(s, dir);
+  } finally {
+    s.close();
+    await Deno.remove(dir, { recursive: true });
+  }
+}
+
+const stateOf = (r: Awaited<ReturnType<Session["run"]>>, name: string) =>
+  r.cells.find((c) => c.name === name)!;
+
+//        a
+//       / \
+//      b   c
+//       \ /
+//        d
+const diamond = (a: number, prose = "Some prose.") =>
+  `# Diamond\n\n${prose}\n\n` + cell("num", "a", `value: ${a}`) +
+  cell("sum", "b", "of: [a]") + cell("sum", "c", "of: [a, a]") + cell("sum", "d", "of: [b, c]");
+
+Deno.test("Session.run() computes a diamond's bottom cell once per change", async () => {
+  await withSession(async (s) => {
+    let r = await s.run(diamond(1));
+    deepEqual(r.ran, ["a", "b", "c", "d"]);
+    equal((stateOf(r, "d").result as { value: number }).value, 3);
+    r = await s.run(diamond(2));
+    deepEqual(r.ran, ["a", "b", "c", "d"]);
+    equal(s.runs.get("d"), 2);
+    equal((stateOf(r, "d").result as { value: number }).value, 6);
+  });
+});
+
+Deno.test("Session.run() recomputes nothing after a prose edit or a YAML whitespace edit", async () => {
+  await withSession(async (s) => {
+    await s.run(diamond(1));
+    let r = await s.run(diamond(1, "Other prose, with an edit."));
+    deepEqual(r.ran, []);
+    ok(r.cells.every((c) => c.state === "current" && c.cached));
+    r = await s.run(diamond(1).replace("value: 1", "value:    1   # same"));
+    deepEqual(r.ran, []);
+  });
+});
+
+//   a ── b ── c        x ── y
+// editing b reruns b and c only
+Deno.test("Session.run() reruns exactly the downstream cells of an edit", async () => {
+  const doc = (bOf: string) =>
+    cell("num", "a", "value: 1") + cell("sum", "b", `of: [${bOf}]`) + cell("sum", "c", "of: [b]") +
+    cell("num", "x", "value: 5") + cell("sum", "y", "of: [x]");
+  await withSession(async (s) => {
+    await s.run(doc("a"));
+    const r = await s.run(doc("a, a"));
+    deepEqual(r.ran, ["b", "c"]);
+    deepEqual([...s.runs.entries()].sort(), [["a", 1], ["b", 2], ["c", 2], ["x", 1], ["y", 1]]);
+  });
+});
+
+Deno.test("Session.run() reports a cycle of three cells naming the whole path", async () => {
+  const doc = cell("sum", "a", "of: [b]") + cell("sum", "b", "of: [c]") + cell("sum", "c", "of: [a]") +
+    cell("num", "free", "value: 1");
+  await withSession(async (s) => {
+    const r = await s.run(doc);
+    for (const n of ["a", "b", "c"]) {
+      equal(stateOf(r, n).state, "failed");
+      match(stateOf(r, n).error!.message, /^Cycle: /);
+    }
+    equal(stateOf(r, "a").error!.message, "Cycle: a → b → c → a");
+    equal(stateOf(r, "a").error!.line, 2);
+    equal(stateOf(r, "free").state, "current");
+  });
+});
+
+Deno.test("Session.run() suggests the nearest name for an unknown reference and holds dependents", async () => {
+  const doc = cell("num", "cycles", "value: 1") + cell("sum", "s", "of: [cylces]") +
+    cell("sum", "t", "of: [s]");
+  await withSession(async (s) => {
+    const r = await s.run(doc);
+    equal(stateOf(r, "s").state, "failed");
+    equal(stateOf(r, "s").error!.message, 'Unknown cell "cylces" in "s": did you mean "cycles"?');
+    deepEqual([stateOf(r, "s").error!.line, stateOf(r, "s").error!.column], [5, 6]);
+    equal(stateOf(r, "t").state, "held");
+    equal(stateOf(r, "cycles").state, "current");
+  });
+});
+
+Deno.test("Session.run() refuses a reference to a cell of the wrong output type", async () => {
+  await withSession(async (s, dir) => {
+    await Deno.writeTextFile(join(dir, "data.txt"), "12345");
+    const r = await s.run(cell("bytes", "raw", "from: data.txt") + cell("sum", "s", "of: [raw]"));
+    equal(stateOf(r, "raw").state, "current");
+    equal(
+      stateOf(r, "s").error!.message,
+      '"of.0" of "s" must name a value cell, but "raw" is a bytes cell (gives table)',
+    );
+  });
+});
+
+Deno.test("Session.run() fails a duplicate name and an unknown kind, other cells still run", async () => {
+  const doc = cell("num", "a", "value: 1") + cell("num", "a", "value: 2") + cell("nmu", "b", "value: 3") +
+    cell("sum", "c", "of: [a]");
+  await withSession(async (s) => {
+    const r = await s.run(doc);
+    equal(r.cells[1].state, "failed");
+    match(r.cells[1].error!.message, /^Duplicate cell name "a": already used by the num cell at line 1/);
+    equal(r.cells[2].state, "failed");
+    match(r.cells[2].error!.message, /^Unknown cell kind "nmu": did you mean "num"\?/);
+    deepEqual([r.cells[2].error!.line, r.cells[2].error!.column], [7, 4]);
+    equal((stateOf(r, "c").result as { value: number }).value, 1);
+  });
+});
+
+Deno.test("Session.run() reruns a file's readers when the file changes, and only them", async () => {
+  await withSession(async (s, dir) => {
+    const path = join(dir, "data.txt");
+    await Deno.writeTextFile(path, "abc");
+    const doc = cell("bytes", "raw", "from: data.txt") + cell("num", "k", "value: 1");
+    await s.run(doc);
+    await Deno.writeTextFile(path, "abcdef");
+    s.files.forget(path);
+    const r = await s.run(doc);
+    deepEqual(r.ran, ["raw"]);
+    equal((stateOf(r, "raw").result as { value: number }).value, 6);
+  });
+});
+
+Deno.test("Session.run() locates a missing file and a path leaving the folder at the option", async () => {
+  await withSession(async (s) => {
+    const r = await s.run(cell("bytes", "a", "from: nope.csv") + cell("bytes", "b", "from: ../etc/passwd"));
+    match(stateOf(r, "a").error!.message, /^File "nope.csv" not found/);
+    deepEqual([stateOf(r, "a").error!.line, stateOf(r, "a").error!.column], [2, 7]);
+    match(stateOf(r, "b").error!.message, /^File "..\/etc\/passwd" is outside the document's folder/);
+  });
+});
+
+Deno.test("compute worker has no permissions: a cell reading the disk is refused", async () => {
+  await withSession(async (s) => {
+    const r = await s.run(cell("peek", "p", "path: /etc/hostname"));
+    equal(stateOf(r, "p").state, "failed");
+    equal(stateOf(r, "p").error!.message, "Refused: NotCapable");
+  });
+});
+
+Deno.test("Session.run() superseded by a newer run stops updating and the newer one wins", async () => {
+  await withSession(async (s) => {
+    const slow = (tag: number) => cell("spin", "a", `ms: 150\ntag: ${tag}`) + cell("spin", "b", `ms: 150\ntag: ${tag}`);
+    const first = s.run(slow(1));
+    await new Promise((r) => setTimeout(r, 20));
+    const second = await s.run(slow(2));
+    const old = await first;
+    ok(old.superseded);
+    equal(second.superseded, false);
+    equal((stateOf(second, "b").result as { value: number }).value, 2);
+  });
+});
+
+Deno.test("Session.run() locates a kind's parse error at the option", async () => {
+  await withSession(async (s) => {
+    const r = await s.run("Intro\n\n" + cell("num", "a", "# comment\nvalue: high"));
+    equal(stateOf(r, "a").error!.message, '"value" of "a" must be a number');
+    deepEqual([stateOf(r, "a").error!.line, stateOf(r, "a").error!.column], [5, 8]);
+  });
+});

@@ -1,0 +1,112 @@
+/**
+ * Tiny cell kinds for kernel tests: numbers, sums and a file reader. They
+ * exercise the contract without any statistics.
+ *
+ * @module
+ */
+import { h } from "preact";
+import type { CellKind, CellOutput } from "../../../cells/types.ts";
+import { CellError } from "../../errors.ts";
+import { makeRegistry } from "../../registry.ts";
+
+interface Num extends CellOutput {
+  value: number;
+}
+
+const view = () => h("span", null);
+
+/** `num x` with `value: 3` gives 3. */
+export const numKind: CellKind<{ value: number }, Num, { value: number }> = {
+  kind: "num",
+  body: "yaml",
+  output: "Value",
+  description: "a constant",
+  parse(ctx) {
+    const v = ctx.options.value;
+    if (typeof v !== "number") throw new CellError(`"value" of "${ctx.name}" must be a number`, ["value"]);
+    return { value: v };
+  },
+  inputs: () => [],
+  run: (spec) => ({ type: "Value", value: spec.value }),
+  summary: (out) => ({ value: out.value }),
+  line: (r) => String(r.value),
+  view,
+};
+
+/** `sum s` with `of: [a, b]` adds the values of cells a and b. */
+export const sumKind: CellKind<{ of: string[] }, Num, { value: number }> = {
+  kind: "sum",
+  body: "yaml",
+  output: "Value",
+  description: "a sum of other cells",
+  parse(ctx) {
+    const of = ctx.options.of;
+    if (!Array.isArray(of)) throw new CellError(`"of" of "${ctx.name}" must be a list of cells`, ["of"]);
+    return { of: of.map(String) };
+  },
+  inputs: (spec) => spec.of.map((name, i) => ({ name, accepts: ["Value"] as const, path: ["of", i] })),
+  run(spec, ctx) {
+    let total = 0;
+    for (const n of spec.of) total += (ctx.inputs[n] as Num).value;
+    return { type: "Value", value: total };
+  },
+  summary: (out) => ({ value: out.value }),
+  line: (r) => String(r.value),
+  view,
+};
+
+/** `bytes b` with `from: data.txt` gives the file's length (as a "Table", to test wrong-kind references). */
+export const bytesKind: CellKind<{ from: string }, Num, { value: number }> = {
+  kind: "bytes",
+  body: "yaml",
+  output: "Table",
+  description: "a file's length",
+  parse: (ctx) => ({ from: String(ctx.options.from) }),
+  inputs: () => [],
+  files: (spec) => [{ path: spec.from, option: ["from"] }],
+  run: (spec, ctx) => ({ type: "Table", value: ctx.files[spec.from].bytes.length }),
+  summary: (out) => ({ value: out.value }),
+  line: (r) => `${r.value} bytes`,
+  view,
+};
+
+/** `peek p` tries to read a file from inside the worker (it must be refused). */
+export const peekKind: CellKind<{ path: string }, Num, { value: number }> = {
+  kind: "peek",
+  body: "yaml",
+  output: "Value",
+  description: "tries to escape the sandbox",
+  parse: (ctx) => ({ path: String(ctx.options.path) }),
+  inputs: () => [],
+  run(spec) {
+    try {
+      return { type: "Value", value: Deno.readTextFileSync(spec.path).length };
+    } catch (err) {
+      throw new CellError(`Refused: ${(err as Error).constructor.name}`);
+    }
+  },
+  summary: (out) => ({ value: out.value }),
+  line: (r) => String(r.value),
+  view,
+};
+
+/** `spin s` with `ms: 200` busy-waits, for superseded-run tests. */
+export const spinKind: CellKind<{ ms: number; tag: number }, Num, { value: number }> = {
+  kind: "spin",
+  body: "yaml",
+  output: "Value",
+  description: "busy for a while",
+  parse: (ctx) => ({ ms: Number(ctx.options.ms), tag: Number(ctx.options.tag ?? 0) }),
+  inputs: () => [],
+  run(spec) {
+    const end = performance.now() + spec.ms;
+    while (performance.now() < end) { /* busy on purpose */ }
+    return { type: "Value", value: spec.tag };
+  },
+  summary: (out) => ({ value: out.value }),
+  line: (r) => String(r.value),
+  view,
+};
+
+/** The test registry. */
+export const fakeRegistry = makeRegistry([numKind, sumKind, bytesKind, peekKind, spinKind]);

@@ -1,0 +1,173 @@
+/**
+ * The kernel's side of the compute worker: starts it with no permissions,
+ * sends requests, routes replies, and remembers which outputs and files the
+ * worker holds so nothing is sent or computed twice.
+ *
+ * If the worker dies (a crash, an exhausted heap), every pending request
+ * fails with that reason, the worker is started afresh, and the record of
+ * what it held is cleared, so the next run recomputes what it needs.
+ *
+ * @module
+ */
+import type { DocSettings, FileData } from "../../cells/types.ts";
+import type { DoneMessage, FromWorker, ToWorker } from "./protocol.ts";
+
+/** One cell to run. */
+export interface WorkerJob {
+  key: string;
+  kind: string;
+  name: string;
+  spec: unknown;
+  settings: DocSettings;
+  inputs: Record<string, string>;
+  files: Record<string, FileData>;
+  onProgress?: (fraction: number, note?: string) => void;
+}
+
+interface Pending {
+  resolve: (m: DoneMessage) => void;
+  onProgress?: (fraction: number, note?: string) => void;
+  key: string;
+}
+
+/** A compute worker with no permissions. */
+export class ComputeWorker {
+  #url: URL;
+  #worker!: Worker;
+  #nextId = 1;
+  #pending = new Map<number, Pending>();
+  /** Output keys the worker holds. */
+  #outputs = new Set<string>();
+  /** File SHA-256s the worker holds. */
+  #files = new Set<string>();
+  /** Number of times the worker was (re)started. */
+  starts = 0;
+
+  /**
+   * @param url The worker entry module (it calls `serveComputeWorker`).
+   */
+  constructor(url: URL) {
+    this.#url = url;
+    this.#start();
+  }
+
+  #start(): void {
+    this.starts++;
+    this.#outputs.clear();
+    this.#files.clear();
+    const w = new Worker(this.#url, { type: "module", deno: { permissions: "none" } });
+    w.onmessage = (e: MessageEvent<FromWorker>) => this.#receive(e.data);
+    w.onerror = (e: ErrorEvent) => {
+      e.preventDefault();
+      this.#crash(e.message || "the compute worker stopped");
+    };
+    w.onmessageerror = () => this.#crash("a message could not be read");
+    this.#worker = w;
+  }
+
+  #crash(reason: string): void {
+    try {
+      this.#worker.terminate();
+    } catch { /* already gone */ }
+    const pending = [...this.#pending.entries()];
+    this.#pending.clear();
+    this.#start();
+    for (const [id, p] of pending) {
+      p.resolve({
+        op: "done",
+        id,
+        ok: false,
+        warnings: [],
+        ms: 0,
+        error: { message: `The compute worker stopped: ${reason}`, internal: false, transient: true },
+      });
+    }
+  }
+
+  #receive(m: FromWorker): void {
+    const p = this.#pending.get(m.id);
+    if (!p) return;
+    if (m.op === "progress") {
+      p.onProgress?.(m.fraction, m.note);
+      return;
+    }
+    this.#pending.delete(m.id);
+    if (m.ok) this.#outputs.add(p.key);
+    p.resolve(m);
+  }
+
+  #post(m: ToWorker): void {
+    this.#worker.postMessage(m);
+  }
+
+  /**
+   * Whether the worker holds the output stored under `key`.
+   *
+   * @param key A cache key.
+   * @returns True when a later job may name it as an input.
+   */
+  has(key: string): boolean {
+    return this.#outputs.has(key);
+  }
+
+  /**
+   * Runs one cell; resolves with the worker's reply (never rejects).
+   *
+   * @param job What to run.
+   * @returns The reply, with the summary or the unlocated error.
+   */
+  run(job: WorkerJob): Promise<DoneMessage> {
+    const files: Record<string, string> = {};
+    for (const [path, f] of Object.entries(job.files)) {
+      if (!this.#files.has(f.sha256)) {
+        this.#post({ op: "file", sha256: f.sha256, path, bytes: f.bytes });
+        this.#files.add(f.sha256);
+      }
+      files[path] = f.sha256;
+    }
+    const id = this.#nextId++;
+    return new Promise((resolve) => {
+      this.#pending.set(id, { resolve, onProgress: job.onProgress, key: job.key });
+      this.#post({
+        op: "run",
+        id,
+        key: job.key,
+        kind: job.kind,
+        name: job.name,
+        spec: job.spec,
+        settings: job.settings,
+        inputs: job.inputs,
+        files,
+      });
+    });
+  }
+
+  /**
+   * Lets the worker drop every output and file not listed.
+   *
+   * @param keys Output keys still needed.
+   * @param shas File digests still needed.
+   */
+  retain(keys: Iterable<string>, shas: Iterable<string>): void {
+    const k = new Set(keys), s = new Set(shas);
+    for (const x of this.#outputs) if (!k.has(x)) this.#outputs.delete(x);
+    for (const x of this.#files) if (!s.has(x)) this.#files.delete(x);
+    this.#post({ op: "retain", keys: [...this.#outputs], shas: [...this.#files] });
+  }
+
+  /** Stops the worker. */
+  close(): void {
+    this.#worker.terminate();
+    for (const [id, p] of this.#pending) {
+      p.resolve({
+        op: "done",
+        id,
+        ok: false,
+        warnings: [],
+        ms: 0,
+        error: { message: "The compute worker was closed", internal: false, transient: true },
+      });
+    }
+    this.#pending.clear();
+  }
+}

@@ -1,0 +1,98 @@
+/**
+ * The compute worker's message loop. A worker entry module imports a
+ * registry and calls {@link serveComputeWorker}; the entry is started with
+ * `deno: { permissions: "none" }`, so cell code cannot touch disk, network or
+ * environment (a dynamic import would need read access, hence one static
+ * entry module per registry: `cells/worker.ts` for the product).
+ *
+ * @module
+ */
+import type { CellOutput, FileData } from "../../cells/types.ts";
+import { CellError } from "../errors.ts";
+import type { Registry } from "../registry.ts";
+import type { DoneMessage, FromWorker, RunRequest, ToWorker, WireError } from "./protocol.ts";
+
+function toWire(err: unknown): WireError {
+  if (err instanceof CellError) {
+    return { message: err.message, path: [...err.path], offset: err.offset, internal: false };
+  }
+  if (err instanceof RangeError && /allocation|memory|Array buffer/i.test(err.message)) {
+    return { message: `Out of memory: ${err.message}`, internal: false };
+  }
+  const message = err instanceof Error ? err.message : String(err);
+  return { message, internal: true };
+}
+
+/**
+ * Serves run requests on `self` until the worker is terminated.
+ *
+ * @param registry The cell kinds this worker can run.
+ */
+export function serveComputeWorker(registry: Registry): void {
+  const outputs = new Map<string, CellOutput>();
+  const files = new Map<string, FileData>();
+  const post = (m: FromWorker) => self.postMessage(m);
+
+  async function run(req: RunRequest): Promise<DoneMessage> {
+    const t0 = performance.now();
+    const warnings: string[] = [];
+    const done = (rest: Partial<DoneMessage>): DoneMessage => ({
+      op: "done",
+      id: req.id,
+      ok: false,
+      warnings,
+      ms: performance.now() - t0,
+      ...rest,
+    });
+    const kind = registry.get(req.kind);
+    if (!kind) return done({ error: { message: `Unknown cell kind "${req.kind}"`, internal: true } });
+    const inputs: Record<string, CellOutput> = {};
+    for (const [name, key] of Object.entries(req.inputs)) {
+      const out = outputs.get(key);
+      if (!out) return done({ error: { message: `Input "${name}" is not computed`, internal: true } });
+      inputs[name] = out;
+    }
+    const fileData: Record<string, FileData> = {};
+    for (const [path, sha] of Object.entries(req.files)) {
+      const f = files.get(sha);
+      if (!f) return done({ error: { message: `File "${path}" was not sent`, internal: true } });
+      fileData[path] = { ...f, path };
+    }
+    try {
+      const out = await kind.run(req.spec, {
+        name: req.name,
+        settings: req.settings,
+        inputs,
+        files: fileData,
+        warn: (m) => {
+          if (!warnings.includes(m)) warnings.push(m);
+        },
+        progress: (fraction, note) => post({ op: "progress", id: req.id, fraction, note }),
+      });
+      outputs.set(req.key, out);
+      const summary = kind.summary(out, req.spec);
+      return done({ ok: true, summary, line: kind.line(summary) });
+    } catch (err) {
+      return done({ error: toWire(err) });
+    }
+  }
+
+  // Messages are handled one at a time, in arrival order: a run may read the
+  // output of the run just before it, and a retain must not overtake a run.
+  let queue = Promise.resolve();
+  self.onmessage = (e: MessageEvent<ToWorker>) => {
+    const msg = e.data;
+    queue = queue.then(async () => {
+      if (msg.op === "file") {
+        files.set(msg.sha256, { path: msg.path, bytes: msg.bytes, sha256: msg.sha256 });
+      } else if (msg.op === "retain") {
+        const keep = new Set(msg.keys);
+        for (const k of outputs.keys()) if (!keep.has(k)) outputs.delete(k);
+        const keepFiles = new Set(msg.shas);
+        for (const s of files.keys()) if (!keepFiles.has(s)) files.delete(s);
+      } else {
+        post(await run(msg));
+      }
+    });
+  };
+}
