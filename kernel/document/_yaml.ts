@@ -1,0 +1,113 @@
+/**
+ * YAML parsing of a slice of the document, with errors placed in the
+ * document. The slice's line endings are normalised to LF first (the `yaml`
+ * package does not treat a lone CR as a line break); `toSource` maps offsets
+ * in the normalised text back to document offsets.
+ *
+ * @module
+ */
+import { type Document, isPair, isScalar, parseDocument, visit } from "yaml";
+import { LocatedError } from "../errors.ts";
+import type { ParsedDocument } from "./types.ts";
+import { floorIndex } from "./_lines.ts";
+import { lineColumnAt } from "./line_column.ts";
+
+/** Messages for one YAML region ("Options of cell …", "Front matter …"). */
+export interface YamlWording {
+  invalid(detail: string): string;
+  repeat(key: string): string;
+  notMapping: string;
+}
+
+/** A parsed YAML region. */
+export interface YamlRegion {
+  yaml: Document.Parsed;
+  /** The LF-normalised text that was parsed. */
+  text: string;
+  /** Document offset of an offset in `text`. */
+  toSource(local: number): number;
+  /** The plain data (`{}` for empty text or when there were errors). */
+  data: Record<string, unknown>;
+  errors: LocatedError[];
+}
+
+/** Offsets in the normalised text where a CR was dropped (a CRLF became LF). */
+function normalise(raw: string): { text: string; dropped: number[] } {
+  const dropped: number[] = [];
+  let text = "";
+  let from = 0;
+  for (let i = 0; i < raw.length; i++) {
+    if (raw.charCodeAt(i) !== 13) continue;
+    text += raw.slice(from, i);
+    if (raw.charCodeAt(i + 1) === 10) dropped.push(text.length);
+    else text += "\n";
+    from = i + 1;
+  }
+  return { text: text + raw.slice(from), dropped };
+}
+
+/** Our own words where the package's message names its API. */
+const OWN_WORDS: Record<string, string> = {
+  MULTIPLE_DOCS: 'a line "---" starts a second YAML document; write one mapping',
+};
+
+function detail(message: string, code?: string): string {
+  if (code !== undefined && code in OWN_WORDS) return OWN_WORDS[code];
+  const d = message.replace(/ at line \d+, column \d+:[\s\S]*$/, "").trim();
+  return /^[A-Z][a-z]/.test(d) ? d[0].toLowerCase() + d.slice(1) : d;
+}
+
+function keyAt(yaml: Document.Parsed, at: number): string {
+  let key = "";
+  visit(yaml, {
+    Pair(_, pair) {
+      if (isPair(pair) && isScalar(pair.key) && pair.key.range?.[0] === at) {
+        key = String(pair.key.value);
+        return visit.BREAK;
+      }
+    },
+  });
+  return key;
+}
+
+/**
+ * Parses `doc.source.slice(start, end)` as one YAML document whose top level
+ * must be a mapping (or empty).
+ */
+export function parseYamlRegion(
+  doc: ParsedDocument,
+  start: number,
+  end: number,
+  wording: YamlWording,
+): YamlRegion {
+  const { text, dropped } = normalise(doc.source.slice(start, end));
+  const toSource = (local: number) => {
+    const before = dropped.length === 0 || local < dropped[0] ? 0 : floorIndex(dropped, local) + 1;
+    return start + local + before;
+  };
+  const at = (local: number) => lineColumnAt(doc, toSource(local));
+  const yaml = parseDocument(text, {
+    keepSourceTokens: true,
+    uniqueKeys: true,
+    prettyErrors: false,
+  });
+  const errors = yaml.errors.map((e) =>
+    e.code === "DUPLICATE_KEY"
+      ? new LocatedError(wording.repeat(keyAt(yaml, e.pos[0])), at(e.pos[0]))
+      : new LocatedError(wording.invalid(detail(e.message, e.code)), at(e.pos[0]))
+  );
+  let data: Record<string, unknown> = {};
+  const top = yaml.contents;
+  const empty = top === null ||
+    isScalar(top) && top.value === null && top.range[0] === top.range[1];
+  if (errors.length === 0 && !empty) {
+    try {
+      const js = yaml.toJS({ maxAliasCount: 1000 });
+      if (js !== null && typeof js === "object" && !Array.isArray(js)) data = js;
+      else errors.push(new LocatedError(wording.notMapping, at(top.range[0])));
+    } catch (e) {
+      errors.push(new LocatedError(wording.invalid(detail(String((e as Error).message))), at(0)));
+    }
+  }
+  return { yaml, text, toSource, data, errors };
+}

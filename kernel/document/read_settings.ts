@@ -1,0 +1,132 @@
+/**
+ * Document settings from the YAML front matter, validated, with defaults.
+ *
+ * | key | default | rule |
+ * |---|---|---|
+ * | `title` | `"Untitled analysis"` | text (a number is taken as text) |
+ * | `confidence` | `0.95` | a number strictly between 0 and 1 |
+ * | `seed` | `1` | a whole number, 0 or more |
+ * | `criterion` | `"aicc"` | `aic`, `aicc`, `bic` or `loo` (any letter case) |
+ * | `max_file_size` | 512 MiB | bytes, or text like `512 MB`, `2 GiB` |
+ *
+ * Every other key is kept in `extra`.
+ *
+ * @module
+ */
+import { isMap, isPair, isScalar, type Node } from "yaml";
+import { LocatedError, type SourcePos } from "../errors.ts";
+import type { DocSettings } from "../../cells/types.ts";
+import type { ParsedDocument } from "./types.ts";
+import { didYouMean } from "../suggest.ts";
+import { parseYamlRegion, type YamlRegion } from "./_yaml.ts";
+import { byteSize } from "./_byte_size.ts";
+import { lineColumnAt } from "./line_column.ts";
+
+/** Settings and the problems found reading them. */
+export interface SettingsResult {
+  settings: DocSettings;
+  errors: LocatedError[];
+}
+
+const CRITERIA = ["aic", "aicc", "bic", "loo"];
+const KNOWN = new Set(["title", "confidence", "seed", "criterion", "max_file_size"]);
+
+function describe(value: unknown): string {
+  if (Array.isArray(value)) return "a list";
+  if (value !== null && typeof value === "object") return "a mapping";
+  return typeof value === "string" ? `"${value}"` : String(value);
+}
+
+function valuePos(doc: ParsedDocument, region: YamlRegion, key: string): SourcePos {
+  const top = region.yaml.contents;
+  if (isMap(top)) {
+    const pair = top.items.find((p) => isPair(p) && isScalar(p.key) && p.key.value === key);
+    const node = (pair?.value ?? pair?.key) as Node | undefined;
+    if (node?.range) return lineColumnAt(doc, region.toSource(node.range[0]));
+  }
+  return { line: 1, column: 1 };
+}
+
+type Check = (v: unknown) => { value: unknown } | { problem: string; hint?: string };
+
+const CHECKS: Record<string, [keyof DocSettings, Check]> = {
+  title: [
+    "title",
+    (v) =>
+      typeof v === "string" || typeof v === "number"
+        ? { value: String(v) }
+        : { problem: "must be text" },
+  ],
+  confidence: ["confidence", (v) =>
+    typeof v === "number" && v > 0 && v < 1 ? { value: v } : {
+      problem: "must be a number between 0 and 1, exclusive",
+      hint: typeof v === "number" && v > 1 && v < 100 ? `; for ${v}% write ${v / 100}` : "",
+    }],
+  seed: ["seed", (v) =>
+    Number.isSafeInteger(v) && (v as number) >= 0 ? { value: v } : {
+      problem: "must be a whole number, 0 or more",
+    }],
+  criterion: ["criterion", (v) => {
+    const c = typeof v === "string" ? v.toLowerCase() : "";
+    return CRITERIA.includes(c) ? { value: c } : {
+      problem: `must be one of ${CRITERIA.join(", ")}`,
+      hint: didYouMean(c || String(v), CRITERIA),
+    };
+  }],
+  max_file_size: ["maxFileBytes", (v) => {
+    const n = byteSize(v);
+    return n === null
+      ? { problem: "must be a size such as 512 MB, 2 GiB or a number of bytes" }
+      : { value: n };
+  }],
+};
+
+/**
+ * Reads a document's settings from its front matter. Problems are returned
+ * (never thrown) at the offending value's line and column; a bad value keeps
+ * its default.
+ *
+ * @param doc A parsed document (with or without front matter).
+ * @returns The settings with defaults filled in, and any errors.
+ * @example
+ * ```ts
+ * import { parseDocument, readSettings } from "./mod.ts";
+ * const doc = parseDocument("---\ntitle: Fade\nmax_file_size: 2 GiB\n---\n");
+ * const { settings } = readSettings(doc);
+ * if (settings.maxFileBytes !== 2 * 2 ** 30 || settings.confidence !== 0.95) {
+ *   throw new Error(JSON.stringify(settings));
+ * }
+ * ```
+ */
+export function readSettings(doc: ParsedDocument): SettingsResult {
+  const settings: DocSettings = {
+    title: "Untitled analysis",
+    confidence: 0.95,
+    seed: 1,
+    criterion: "aicc",
+    maxFileBytes: 512 * 2 ** 20,
+    extra: {},
+  };
+  const fm = doc.frontMatter;
+  if (fm === null) return { settings, errors: [] };
+  const region = parseYamlRegion(doc, fm.bodyStart, fm.bodyEnd, {
+    invalid: (d) => `Front matter is not valid YAML: ${d}`,
+    repeat: (k) => `Front matter repeats key "${k}": each key may appear once`,
+    notMapping: "Front matter must be a YAML mapping of key: value",
+  });
+  const errors = region.errors;
+  for (const [key, value] of Object.entries(region.data)) {
+    if (!KNOWN.has(key)) {
+      settings.extra[key] = value;
+      continue;
+    }
+    const [field, check] = CHECKS[key];
+    const r = check(value);
+    if ("value" in r) (settings as unknown as Record<string, unknown>)[field] = r.value;
+    else {
+      const msg = `Setting "${key}" ${r.problem}: got ${describe(value)}${r.hint ?? ""}`;
+      errors.push(new LocatedError(msg, valuePos(doc, region, key)));
+    }
+  }
+  return { settings, errors };
+}
