@@ -1,0 +1,40 @@
+/**
+ * Plumb's expression language: model formulas in `fit` cells
+ * (`capacity = q0 - a*sqrt(cycle)`) and derived columns in `table` cells.
+ *
+ * ```
+ *  text ──parseModel / parseColumnExpression / parseExpression──▶ Expr
+ *  Expr ──simplify / derivative / format / freeNames / isLinearIn
+ *  Expr ──compile (row loop) / compileScalar──▶ JavaScript function
+ * ```
+ *
+ * Functions: `exp log log10 sqrt abs sin cos tan atan tanh` (one argument),
+ * `pow min max` (two); constants `pi e`; operators `+ - * / ^` with `^`
+ * right-associative and binding tighter than unary minus. Derivatives are
+ * written with two internal functions, `sign` and `ifpos` (see
+ * derivative.ts). New functions are added to the table in functions.ts.
+ *
+ * @example
+ * ```ts
+ * import { compile, derivative, format, parseModel } from "./mod.ts";
+ * const m = parseModel("capacity = q0 - a*sqrt(cycle)", ["cycle", "capacity"]);
+ * if (format(derivative(m.rhs, "q0")) !== "1") throw new Error("d/dq0");
+ * const f = compile(m.rhs, m.columns, m.parameters);
+ * if (f([[4]], [1, 0.25], 1)[0] !== 0.5) throw new Error("1 - 0.25*2");
+ * ```
+ *
+ * @module
+ */
+export type { BinaryOp, Expr } from "./expr.ts";
+export { ExprError } from "./expr_error.ts";
+export { CONSTANTS, type FunctionInfo, FUNCTIONS, PUBLIC_FUNCTIONS } from "./functions.ts";
+export { parseExpression } from "./parse_expression.ts";
+export { type Model, parseModel } from "./parse_model.ts";
+export { parseColumnExpression } from "./parse_column_expression.ts";
+export { simplify } from "./simplify.ts";
+export { derivative } from "./derivative.ts";
+export { format } from "./format.ts";
+export { freeNames } from "./free_names.ts";
+export { compile, type Compiled } from "./compile.ts";
+export { compileScalar } from "./compile_scalar.ts";
+export { isLinearIn } from "./is_linear_in.ts";
