@@ -15,7 +15,8 @@
  */
 import type { DocSettings, FileRef, InputRef } from "../../cells/types.ts";
 import type { CellBlock, ParsedDocument } from "../document/mod.ts";
-import { lineColumnAt, parseOptions } from "../document/mod.ts";
+import { lineColumnAt } from "../document/mod.ts";
+import { OptionsCache } from "./options_cache.ts";
 import { CellError, LocatedError, type OptionPath, type SourcePos } from "../errors.ts";
 import type { AnyKind, Registry } from "../registry.ts";
 import { didYouMean } from "../suggest.ts";
@@ -101,6 +102,7 @@ function parseNode(
   doc: ParsedDocument,
   registry: Registry,
   settings: DocSettings,
+  cache: OptionsCache,
 ): void {
   const plugin = registry.get(node.kind);
   if (!plugin) {
@@ -114,7 +116,7 @@ function parseNode(
   node.plugin = plugin;
   let options: Record<string, unknown> = {};
   if (plugin.body === "yaml") {
-    const parsed = parseOptions(node.block, doc);
+    const parsed = cache.get(node.block, doc);
     node.locate = parsed.locate;
     if (parsed.errors.length > 0) {
       node.error = parsed.errors[0];
@@ -175,9 +177,15 @@ function checkRefs(node: CellNode, byName: Map<string, CellNode>): void {
  * @param doc The parsed document.
  * @param registry The cell kinds.
  * @param settings Document settings (from the front matter).
+ * @param cache Parsed options from earlier documents (a session keeps one).
  * @returns The graph; errors sit on the nodes they concern.
  */
-export function buildGraph(doc: ParsedDocument, registry: Registry, settings: DocSettings): Graph {
+export function buildGraph(
+  doc: ParsedDocument,
+  registry: Registry,
+  settings: DocSettings,
+  cache: OptionsCache = new OptionsCache(),
+): Graph {
   const nodes: CellNode[] = [];
   const byName = new Map<string, CellNode>();
   for (const block of doc.blocks) {
@@ -192,7 +200,8 @@ export function buildGraph(doc: ParsedDocument, registry: Registry, settings: Do
       );
     } else byName.set(node.name, node);
   }
-  for (const node of nodes) if (!node.error) parseNode(node, doc, registry, settings);
+  for (const node of nodes) if (!node.error) parseNode(node, doc, registry, settings, cache);
+  cache.sweep();
   for (const node of nodes) if (!node.error) checkRefs(node, byName);
   for (const cycle of findCycles(nodes.filter((n) => !n.error), byName)) {
     const path = [...cycle, cycle[0]].join(" → ");

@@ -22,6 +22,7 @@ import { LocatedError } from "../errors.ts";
 import { hashValue } from "../hash.ts";
 import type { Registry } from "../registry.ts";
 import { buildGraph, type CellNode, type Graph, locateError } from "../graph/build.ts";
+import { OptionsCache } from "../graph/options_cache.ts";
 import { ComputeWorker } from "../worker/client.ts";
 import type { DoneMessage } from "../worker/protocol.ts";
 import { FileStore } from "./files.ts";
@@ -101,6 +102,7 @@ export class Session {
   #worker: ComputeWorker;
   #files: FileStore;
   #outcomes = new Map<string, Outcome>();
+  #optionsCache = new OptionsCache();
   #generation = 0;
   /** How many times each cell was computed over the session's life. */
   readonly runs = new Map<string, number>();
@@ -131,7 +133,7 @@ export class Session {
   #prepare(source: string): Omit<Plan, "keys" | "stale"> {
     const doc = parseDocument(source);
     const { settings, errors } = readSettings(doc);
-    const graph = buildGraph(doc, this.#opts.registry, settings);
+    const graph = buildGraph(doc, this.#opts.registry, settings, this.#optionsCache);
     const docErrors = [...doc.errors.filter((e) => !isCellError(doc, e)), ...errors];
     docErrors.push(...checkInlineRefs(doc, graph));
     return { doc, settings, graph, docErrors };
@@ -164,7 +166,7 @@ export class Session {
     const prep = this.#prepare(source);
     const { fileData, fileErrors } = await this.#readFiles(prep.graph, prep.settings);
     const plan = this.#keyed(prep, new Map([...fileData].map(([p, f]) => [p, f.sha256])));
-    const reports = new Map<string, CellReport>();
+    const reports = new Map<CellNode, CellReport>();
     const ran: string[] = [];
     for (const node of plan.graph.nodes) {
       if (!node.error && plan.keys.has(node.name)) this.#emit(node.name, "queued");
@@ -173,10 +175,10 @@ export class Session {
       if (generation !== this.#generation) {
         return { settings: plan.settings, cells: [], errors: [], ran, superseded: true };
       }
-      reports.set(node.name, await this.#runNode(node, plan, reports, fileData, fileErrors, ran));
+      reports.set(node, await this.#runNode(node, plan, reports, fileData, fileErrors, ran));
     }
     this.#forgetUnused(plan, fileData);
-    const cells = plan.graph.nodes.map((n) => reports.get(n.name)!);
+    const cells = plan.graph.nodes.map((n) => reports.get(n)!);
     return { settings: plan.settings, cells, errors: plan.docErrors.map(located), ran, superseded: false };
   }
 
@@ -200,7 +202,7 @@ export class Session {
   async #runNode(
     node: CellNode,
     plan: Plan,
-    reports: Map<string, CellReport>,
+    reports: Map<CellNode, CellReport>,
     fileData: Map<string, FileData>,
     fileErrors: Map<CellNode, LocatedError>,
     ran: string[],
@@ -220,10 +222,11 @@ export class Session {
       this.#emit(node.name, "failed");
       return { ...base, state: "failed", error: located(staticError) };
     }
-    const blocked = node.deps.find((d) => reports.get(d)?.state !== "current");
+    const stateOf = (d: string) => reports.get(plan.graph.byName.get(d)!)?.state;
+    const blocked = node.deps.find((d) => stateOf(d) !== "current");
     if (blocked !== undefined || !plan.keys.has(node.name)) {
       this.#emit(node.name, "held");
-      const why = blocked === undefined ? "an input cannot run" : `input "${blocked}" is ${reports.get(blocked)?.state ?? "not ready"}`;
+      const why = blocked === undefined ? "an input cannot run" : `input "${blocked}" is ${stateOf(blocked) ?? "not ready"}`;
       return { ...base, state: "held", error: { message: `Held: ${why}`, line: node.line, column: 1 } };
     }
     const key = plan.keys.get(node.name)!;

@@ -55,7 +55,9 @@ export class ComputeWorker {
     this.starts++;
     this.#outputs.clear();
     this.#files.clear();
-    const w = new Worker(this.#url, { type: "module", deno: { permissions: "none" } });
+    // The cast: with the DOM library loaded (for views), WorkerOptions lacks Deno's `deno` field.
+    const options = { type: "module", deno: { permissions: "none" } } as WorkerOptions;
+    const w = new Worker(this.#url, options);
     w.onmessage = (e: MessageEvent<FromWorker>) => this.#receive(e.data);
     w.onerror = (e: ErrorEvent) => {
       e.preventDefault();

@@ -1,0 +1,98 @@
+/**
+ * Householder reflector steps shared by the QR routines.
+ *
+ * Method: Golub & Van Loan, *Matrix Computations*, 4th ed., §5.1.2–5.1.4
+ * (Householder vectors and their application) and §5.2.1 (Householder QR).
+ * The helpers follow LAPACK's split of that algorithm: DNRM2 (a column norm
+ * safe from overflow), DLARFG (make the reflector), DLARF (apply it from the
+ * left). Deviation from DLARFG: no rescaling loop for a β below the safe
+ * minimum (subnormal data); columns reach here equilibrated by powers of two.
+ *
+ * Data layout: every matrix is a column-major Float64Array, element (i, j) of
+ * an m×n matrix at `a[i + j*m]`. A reflector H = I − τ·v·vᵀ is stored packed:
+ * v(0) = 1 is implied, v(1..) sits below the diagonal of its column.
+ *
+ * ```
+ *   column k after step k:   [ r_0k … r_kk | v_1 v_2 … v_{m-k-1} ]
+ *                               above+on diag   below diag (v, v_0 = 1 implied)
+ * ```
+ *
+ * These are deliberately small, pure step functions over (array, offset,
+ * length) so that a double-double variant can mirror them one for one.
+ *
+ * @module
+ */
+
+/**
+ * Euclidean norm of `a[start .. start+len)`, safe from overflow and underflow.
+ * The fast path sums squares; it falls back to a scaled sum (as DNRM2 does)
+ * only when that sum is not finite or is so small that squares underflowed.
+ */
+export function columnNorm(a: Float64Array, start: number, len: number): number {
+  let s = 0;
+  const end = start + len;
+  for (let i = start; i < end; i++) s += a[i] * a[i];
+  if (Number.isFinite(s) && s > 1e-280) return Math.sqrt(s);
+  let scale = 0, ssq = 1;
+  for (let i = start; i < end; i++) {
+    const x = Math.abs(a[i]);
+    if (x === 0) continue;
+    if (scale < x) {
+      ssq = 1 + ssq * (scale / x) * (scale / x);
+      scale = x;
+    } else ssq += (x / scale) * (x / scale);
+  }
+  return scale * Math.sqrt(ssq);
+}
+
+/**
+ * DLARFG: turns `a[start .. start+len)` = (α, x) into (β, v(1..)) in place so
+ * that H·(α, x)ᵀ = (β, 0)ᵀ with H = I − τ·v·vᵀ, v(0) = 1. β = −sign(α)·‖(α, x)‖
+ * keeps 1 − … free of cancellation (GVL §5.1.3). Returns τ (0 when x = 0:
+ * H is then the identity and β = α).
+ */
+export function makeReflector(a: Float64Array, start: number, len: number): number {
+  if (len <= 1) return 0;
+  const alpha = a[start];
+  const xnorm = columnNorm(a, start + 1, len - 1);
+  if (xnorm === 0) return 0;
+  const beta = -Math.sign(alpha || 1) * Math.hypot(alpha, xnorm);
+  const tau = (beta - alpha) / beta;
+  const inv = 1 / (alpha - beta);
+  const end = start + len;
+  for (let i = start + 1; i < end; i++) a[i] *= inv;
+  a[start] = beta;
+  return tau;
+}
+
+/**
+ * DLARF (side = left, one column): c ← H·c for the reflector stored at
+ * `v[vStart ..]` (v(0) = 1 implied) acting on `c[cStart .. cStart+len)`.
+ */
+export function applyReflector(
+  v: Float64Array,
+  vStart: number,
+  tau: number,
+  c: Float64Array,
+  cStart: number,
+  len: number,
+): void {
+  if (tau === 0) return;
+  // w = vᵀc, then c −= τ·w·v
+  let w = c[cStart];
+  for (let i = 1; i < len; i++) w += v[vStart + i] * c[cStart + i];
+  const tw = tau * w;
+  c[cStart] -= tw;
+  for (let i = 1; i < len; i++) c[cStart + i] -= tw * v[vStart + i];
+}
+
+/** Swaps columns `j` and `k` (each `m` long) of a column-major array in place. */
+export function swapColumns(a: Float64Array, m: number, j: number, k: number): void {
+  if (j === k) return;
+  const oj = j * m, ok = k * m;
+  for (let i = 0; i < m; i++) {
+    const t = a[oj + i];
+    a[oj + i] = a[ok + i];
+    a[ok + i] = t;
+  }
+}

@@ -1,0 +1,66 @@
+/**
+ * Applying the orthogonal factor of a packed Householder QR to vectors.
+ *
+ * Method: LAPACK DORMQR (side = left, unblocked, as DORM2R): Qᵀ·y = H_{k−1}⋯H_1·H_0·y
+ * and Q·z = H_0·H_1⋯H_{k−1}·z, each reflector applied without forming Q
+ * (Golub & Van Loan, *Matrix Computations*, 4th ed., §5.1.6 and §5.2.2 on
+ * factored-form representation).
+ *
+ * @module
+ */
+import { applyReflector } from "./_householder.ts";
+import type { QRFactorization } from "./householder_qr.ts";
+
+function checkLength(f: QRFactorization, y: ArrayLike<number>, what: string): void {
+  if (y.length !== f.m) {
+    throw new RangeError(`Cannot apply ${what}: vector has ${y.length} entries, expected ${f.m}`);
+  }
+}
+
+/**
+ * Computes Qᵀ·y (DORMQR 'L', 'T').
+ *
+ * @param f A factorization from `householderQR`.
+ * @param y A vector of length m; not modified.
+ * @returns A new vector Qᵀ·y of length m.
+ * @throws {RangeError} When `y` is not m long.
+ * @example
+ * ```ts
+ * import { householderQR } from "./householder_qr.ts";
+ * import { applyQt } from "./apply_qt.ts";
+ * const f = householderQR(new Float64Array([3, 4]), 2, 1);
+ * const z = applyQt(f, new Float64Array([3, 4])); // (±5, 0)
+ * if (Math.abs(Math.abs(z[0]) - 5) > 1e-15 || Math.abs(z[1]) > 1e-15) throw new Error("unexpected");
+ * ```
+ */
+export function applyQt(f: QRFactorization, y: ArrayLike<number>): Float64Array {
+  checkLength(f, y, "Qᵀ");
+  const z = Float64Array.from(y);
+  const { qr, tau, m } = f;
+  for (let i = 0; i < tau.length; i++) applyReflector(qr, i + i * m, tau[i], z, i, m - i);
+  return z;
+}
+
+/**
+ * Computes Q·z (DORMQR 'L', 'N').
+ *
+ * @param f A factorization from `householderQR`.
+ * @param z A vector of length m; not modified.
+ * @returns A new vector Q·z of length m.
+ * @throws {RangeError} When `z` is not m long.
+ * @example
+ * ```ts
+ * import { householderQR } from "./householder_qr.ts";
+ * import { applyQ, applyQt } from "./apply_qt.ts";
+ * const f = householderQR(new Float64Array([1, 2, 2]), 3, 1);
+ * const back = applyQ(f, applyQt(f, [1, 0, 0]));
+ * if (Math.abs(back[0] - 1) > 1e-15) throw new Error("Q·Qᵀ should be the identity");
+ * ```
+ */
+export function applyQ(f: QRFactorization, z: ArrayLike<number>): Float64Array {
+  checkLength(f, z, "Q");
+  const y = Float64Array.from(z);
+  const { qr, tau, m } = f;
+  for (let i = tau.length - 1; i >= 0; i--) applyReflector(qr, i + i * m, tau[i], y, i, m - i);
+  return y;
+}

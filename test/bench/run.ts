@@ -1,0 +1,112 @@
+/**
+ * `deno task bench`: measures the figures the issues set targets for and
+ * writes them, with every `*_bench.ts` micro-benchmark, to
+ * `bench-report.json` at the repository root.
+ *
+ * Figures measured here (each a median over repeated runs after a warm-up):
+ *
+ * - `csv_ingest`: MB/s of `readDelimited` on a seeded 1,000,000-row ×
+ *   11-column numeric CSV (about 100 MB).
+ * - `schedule_chain_200`: time to decide what reruns after a one-cell edit
+ *   of a 200-cell chain document (parse, check, key every cell, diff with
+ *   the cache); target under 20 ms.
+ *
+ * @module
+ */
+import { makeNumericCsv, readDelimited } from "../../kernel/csv/mod.ts";
+import { Session } from "../../kernel/session/session.ts";
+import { fakeRegistry } from "../../kernel/session/testdata/fake_kinds.ts";
+import { VERSION } from "../../kernel/version.ts";
+
+const root = new URL("../../", import.meta.url);
+
+function quantile(sorted: number[], q: number): number {
+  const i = (sorted.length - 1) * q;
+  const lo = Math.floor(i), hi = Math.ceil(i);
+  return sorted[lo] + (sorted[hi] - sorted[lo]) * (i - lo);
+}
+
+function timeMany(reps: number, fn: () => void): { p50: number; p95: number; min: number } {
+  fn(); // warm-up
+  const t: number[] = [];
+  for (let i = 0; i < reps; i++) {
+    const t0 = performance.now();
+    fn();
+    t.push(performance.now() - t0);
+  }
+  t.sort((a, b) => a - b);
+  return { p50: quantile(t, 0.5), p95: quantile(t, 0.95), min: t[0] };
+}
+
+function csvIngest() {
+  const bytes = makeNumericCsv(1_000_000, 11, 20261201);
+  const mb = bytes.length / 1e6;
+  let rows = 0;
+  const t = timeMany(3, () => {
+    rows = readDelimited(bytes, { name: "bench.csv" }).rowCount;
+  });
+  return {
+    rows,
+    columns: 11,
+    megabytes: mb,
+    seconds_median: t.p50 / 1000,
+    mb_per_second: mb / (t.p50 / 1000),
+  };
+}
+
+async function scheduleChain() {
+  const cells = ["```num c0\nvalue: 1\n```\n"];
+  for (let i = 1; i < 200; i++) cells.push("```sum c" + i + `\nof: [c${i - 1}]\n` + "```\n");
+  const doc = "# Chain\n\n" + cells.join("\nSome prose between cells.\n\n");
+  const edited = doc.replace("of: [c99]", "of: [c99, c99]");
+  const session = new Session({
+    registry: fakeRegistry,
+    workerUrl: new URL("../../kernel/session/testdata/fake_worker.ts", import.meta.url),
+    dir: ".",
+  });
+  try {
+    await session.run(doc);
+    let stale = 0;
+    const t = timeMany(50, () => {
+      stale = session.plan(edited, new Map()).stale.length;
+    });
+    return { cells: 200, rerun_after_edit: stale, p50_ms: t.p50, p95_ms: t.p95, target_ms: 20 };
+  } finally {
+    session.close();
+  }
+}
+
+async function microBenches(): Promise<unknown[]> {
+  const cmd = new Deno.Command(Deno.execPath(), {
+    args: ["bench", "--allow-read", "--allow-env", "--json"],
+    cwd: root,
+    stdout: "piped",
+    stderr: "inherit",
+  });
+  const out = await cmd.output();
+  if (!out.success) throw new Error("deno bench failed");
+  const report = JSON.parse(new TextDecoder().decode(out.stdout));
+  return report.benches.map((b: { name: string; group: string | null; origin: string; results: { ok?: { avg: number; p75: number; n: number } }[] }) => ({
+    name: b.name,
+    group: b.group,
+    file: b.origin.replace(root.href, ""),
+    avg_ms: b.results[0]?.ok ? b.results[0].ok.avg / 1e6 : null,
+    n: b.results[0]?.ok?.n ?? null,
+  }));
+}
+
+const report = {
+  plumb: VERSION,
+  deno: Deno.version.deno,
+  date: new Date().toISOString(),
+  cores: navigator.hardwareConcurrency,
+  figures: {
+    csv_ingest: csvIngest(),
+    schedule_chain_200: await scheduleChain(),
+  },
+  benches: await microBenches(),
+};
+const path = new URL("bench-report.json", root);
+await Deno.writeTextFile(path, JSON.stringify(report, null, 2) + "\n");
+console.log(JSON.stringify(report.figures, null, 2));
+console.log(`Wrote ${path.pathname}`);

@@ -1,0 +1,76 @@
+/**
+ * `plumb run` as scripts use it: a subprocess with the task's permissions,
+ * RUN-JSON on stdout, exit status 0, 1 or 2 (../shared/RUN-JSON.md).
+ */
+import { deepEqual, equal, match, ok } from "node:assert/strict";
+import { join } from "node:path";
+
+const MAIN = new URL("../../kernel/cli/main.ts", import.meta.url).pathname;
+const DEMO = new URL("../../examples/fade/fade.md", import.meta.url).pathname;
+
+async function plumb(...args: string[]) {
+  const out = await new Deno.Command(Deno.execPath(), {
+    args: ["run", "--allow-read", MAIN, ...args],
+    stdout: "piped",
+    stderr: "piped",
+    env: { NO_COLOR: "1" },
+  }).output();
+  const dec = new TextDecoder();
+  return { code: out.code, stdout: dec.decode(out.stdout), stderr: dec.decode(out.stderr) };
+}
+
+Deno.test("plumb run --json prints RUN-JSON for the demo and exits 0", async () => {
+  const r = await plumb("run", DEMO, "--json");
+  equal(r.code, 0, r.stderr + r.stdout);
+  const json = JSON.parse(r.stdout);
+  equal(json.plumb, "0.1.0");
+  equal(json.ok, true);
+  deepEqual(json.cells.map((c: { kind: string }) => c.kind), ["table", "fit", "fit", "fit"]);
+  const table = json.cells[0];
+  deepEqual(Object.keys(table), ["name", "kind", "state", "line", "error", "warnings", "result"]);
+  equal(table.result.rows_read, 120);
+  equal(table.result.rows_used, 119);
+  deepEqual(table.result.excluded.map((e: { row: number }) => e.row), [41]);
+  match(table.result.sha256, /^[0-9a-f]{64}$/);
+  const root = json.cells[2].result;
+  equal(root.method, "linear");
+  equal(root.n, 119);
+  equal(root.rows.length, 119);
+  ok(!root.rows.includes(41), "the excluded row is not used");
+});
+
+Deno.test("plumb run prints one line a cell and the state counts", async () => {
+  const r = await plumb("run", DEMO);
+  equal(r.code, 0, r.stderr);
+  match(r.stdout, /^Capacity fade, pouch cells of batch 7/);
+  match(r.stdout, /current +fit +root +capacity = q0 - a\*sqrt\(cycle\)/);
+  match(r.stdout, /4 current, 0 failed, 0 held/);
+});
+
+Deno.test("plumb run exits 1 with the located error when a cell fails", async () => {
+  const dir = await Deno.makeTempDir({ prefix: "plumb-cli-" });
+  try {
+    const doc = join(dir, "bad.md");
+    await Deno.writeTextFile(doc, "# Bad\n\n```table t\nfrom: nowhere.csv\n```\n\n```fit f\non: t\nmodel: y = a + b*x\n```\n");
+    const r = await plumb("run", doc, "--json");
+    equal(r.code, 1);
+    const json = JSON.parse(r.stdout);
+    equal(json.ok, false);
+    deepEqual(json.cells.map((c: { state: string }) => c.state), ["failed", "held"]);
+    deepEqual([json.cells[0].error.line, json.cells[0].error.column], [4, 7]);
+    equal(json.cells[0].result, null);
+    const human = await plumb("run", doc);
+    match(human.stdout, /failed +table +t +line 4:7 +File "nowhere.csv" not found/);
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+});
+
+Deno.test("plumb exits 2 for a usage error and for an unreadable document", async () => {
+  equal((await plumb("run")).code, 2);
+  equal((await plumb("frobnicate")).code, 2);
+  const missing = await plumb("run", "/nonexistent/doc.md", "--json");
+  equal(missing.code, 2);
+  equal(missing.stdout, "");
+  match(missing.stderr, /Cannot read document "\/nonexistent\/doc.md": no such file/);
+});
