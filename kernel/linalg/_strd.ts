@@ -45,26 +45,26 @@ async function sha256Hex(bytes: Uint8Array): Promise<string> {
 }
 
 /**
- * Loads a set by name, or returns null (after one console line) when the
+ * Loads a set by name (from `base`, default {@link REFERENCE_DIR}), or returns null (after one console line) when the
  * reference folder is absent and PLUMB_REQUIRE_REFERENCE is not "1".
  */
-export async function loadStrd(name: string): Promise<StrdSet | null> {
+export async function loadStrd(name: string, base: URL = REFERENCE_DIR): Promise<StrdSet | null> {
   let manifestText: string;
   try {
-    manifestText = await Deno.readTextFile(new URL("strd/manifest.json", REFERENCE_DIR));
+    manifestText = await Deno.readTextFile(new URL("strd/manifest.json", base));
   } catch (e) {
     if (!(e instanceof Deno.errors.NotFound)) throw e;
     if (Deno.env.get("PLUMB_REQUIRE_REFERENCE") === "1") {
       throw new Error(
-        `Reference data missing: "${REFERENCE_DIR.pathname}" not found and PLUMB_REQUIRE_REFERENCE=1`,
+        `Reference data missing: "${base.pathname}" not found and PLUMB_REQUIRE_REFERENCE=1`,
       );
     }
-    console.log(`skipped: NIST StRD ${name} check, no reference data at ${REFERENCE_DIR.pathname}`);
+    console.log(`skipped: NIST StRD ${name} check, no reference data at ${base.pathname}`);
     return null;
   }
   const set = (JSON.parse(manifestText).sets as ManifestSet[]).find((s) => s.name === name);
   if (!set) throw new Error(`Reference set "${name}" is not in the StRD manifest`);
-  const bytes = await Deno.readFile(new URL(`strd/${set.file}`, REFERENCE_DIR));
+  const bytes = await Deno.readFile(new URL(`strd/${set.file}`, base));
   const digest = await sha256Hex(bytes);
   if (digest !== set.sha256) {
     throw new Error(

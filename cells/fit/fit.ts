@@ -1,0 +1,46 @@
+/**
+ * The `Fit` value a fit cell gives other cells (compare, check, predict,
+ * chart). It stays in the compute worker; only its summary travels.
+ *
+ * @module
+ */
+import type { Model } from "../../kernel/expr/mod.ts";
+import type { CellOutput } from "../types.ts";
+import type { FitStatistics } from "./_statistics.ts";
+
+/** A fitted model with everything downstream cells need to judge and use it. */
+export interface Fit extends CellOutput {
+  type: "Fit";
+  method: "linear" | "nonlinear";
+  /** The table cell it was fitted on. */
+  on: string;
+  /** The parsed model (response, right side, parameters, columns). */
+  model: Model;
+  /** The response as written, e.g. `log(y)`. */
+  responseText: string;
+  weighted: false;
+  /** Parameter names, in the model's order. */
+  parameters: string[];
+  estimates: Float64Array;
+  /** (XᵀX)⁻¹ or (JᵀJ)⁻¹, p×p column-major. */
+  unscaledCovariance: Float64Array;
+  statistics: FitStatistics;
+  /** Values of `model.columns` on the rows used. */
+  columns: Float64Array[];
+  /** The response as written (transformed), on the rows used. */
+  y: Float64Array;
+  fitted: Float64Array;
+  residuals: Float64Array;
+  /** Source row number of each row used. */
+  rows: Int32Array;
+  /** Design (linear) or Jacobian (nonlinear) columns, one per parameter. */
+  design: Float64Array[];
+  /** The parameter-free part of a linear model per row, or null. */
+  offset: Float64Array | null;
+  /** Whether a constant is in the span of the design (R² centred). */
+  hasIntercept: boolean;
+  /** σ_max/σ_min of the design as evaluated. */
+  conditionNumber: number;
+  converged: boolean;
+  iterations: number;
+}

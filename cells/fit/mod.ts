@@ -1,0 +1,47 @@
+/**
+ * The `fit` cell kind: fits a model equation to a table cell.
+ *
+ * ```fit root
+ * on: cycles
+ * model: capacity = q0 - a*sqrt(cycle)
+ * ```
+ *
+ * Models linear in their parameters are solved directly by QR least squares
+ * (kernel/linalg); nonlinear models wait for the numerical core
+ * (`solve_nonlinear.ts` is the slot). Rows with a missing value in a column
+ * the model uses are left out, with a warning that counts them.
+ *
+ * @example
+ * ```ts
+ * import { fitKind } from "./mod.ts";
+ * if (fitKind.kind !== "fit" || fitKind.output !== "Fit") throw new Error("unexpected");
+ * ```
+ *
+ * @module
+ */
+import type { CellKind } from "../types.ts";
+import { type FitSpec, parseFitSpec } from "./spec.ts";
+import type { Fit } from "./fit.ts";
+import { type FitResult, summarizeFit } from "./result.ts";
+import { runFit } from "./run.ts";
+import { FitView } from "./view.tsx";
+import { formatNumber, formatR2 } from "./_format.ts";
+
+export type { FitSpec } from "./spec.ts";
+export type { Fit } from "./fit.ts";
+export type { FitParameterResult, FitResult } from "./result.ts";
+export type { FitProblem, FitSolution } from "./problem.ts";
+
+/** The `fit` kind record. */
+export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
+  kind: "fit",
+  body: "yaml",
+  output: "Fit",
+  description: "fits a model equation to a table by least squares",
+  parse: parseFitSpec,
+  inputs: (spec) => [{ name: spec.on, accepts: ["Table"], path: ["on"] }],
+  run: runFit,
+  summary: (out) => summarizeFit(out),
+  line: (r) => `${r.model} · n ${r.n} · R² ${formatR2(r.r2)} · σ ${formatNumber(r.sigma, 3)}`,
+  view: FitView,
+};

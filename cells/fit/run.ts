@@ -1,0 +1,124 @@
+/**
+ * Running a fit cell: table + model → {@link Fit}.
+ *
+ * ```
+ *  inputs[on] ─buildProblem─▶ FitProblem ─isLinearIn?─┬─ yes: solveLinear (QR)
+ *                                                     └─ no:  solveNonlinear (slot)
+ *                       FitSolution ─fitStatistics─▶ Fit
+ * ```
+ *
+ * A parameter that is one edit away from a column and is used like a column
+ * (it multiplies another parameter, or is ≥ 3 characters long) is most likely
+ * a misspelt column: when the fit then fails (nonlinear, aliased) the error
+ * names that identifier with a suggestion instead.
+ *
+ * @module
+ */
+import { derivative, freeNames, isLinearIn } from "../../kernel/expr/mod.ts";
+import { CellError } from "../../kernel/errors.ts";
+import { nearest } from "../../kernel/suggest.ts";
+import { quotedList } from "../../kernel/linalg/mod.ts";
+import type { RunContext, Table } from "../types.ts";
+import type { FitSpec } from "./spec.ts";
+import type { Fit } from "./fit.ts";
+import type { FitProblem, FitSolution } from "./problem.ts";
+import { buildProblem } from "./_data.ts";
+import { solveLinear } from "./solve_linear.ts";
+import { solveNonlinear } from "./solve_nonlinear.ts";
+import { fitStatistics } from "./_statistics.ts";
+import { identifierOffset } from "./_offsets.ts";
+
+/**
+ * Fits the spec's model to its table.
+ *
+ * @param spec The normalised options.
+ * @param ctx Inputs (the table under `spec.on`) and the warning sink.
+ * @returns The fit.
+ * @throws {CellError} For a missing table, model errors (located in the model
+ *   text), too few rows, aliased terms or a nonlinear model (for now).
+ */
+export function runFit(spec: FitSpec, ctx: RunContext): Fit {
+  const table = tableInput(spec, ctx);
+  const problem = buildProblem(ctx.name, spec, table, ctx.warn);
+  const { model, n } = problem;
+  const p = model.parameters.length;
+  if (p === 0) {
+    throw new CellError(`Cannot fit "${ctx.name}": the model has no parameters to estimate`, [
+      "model",
+    ], model.rhs.start);
+  }
+  if (n <= p) {
+    throw new CellError(
+      `Cannot fit "${ctx.name}": ${n} ${n === 1 ? "row" : "rows"} for ${p} parameters ${
+        quotedList(model.parameters)
+      }: a fit needs more rows than parameters`,
+      ["model"],
+    );
+  }
+  const linear = isLinearIn(model.rhs, model.parameters);
+  const solution = solveOrExplain(problem, table, linear);
+  for (const w of model.warnings) ctx.warn(w.message);
+  if (linear && Object.keys(spec.start).length > 0) {
+    ctx.warn(`Start values of "${ctx.name}" are not used: the model is linear in its parameters`);
+  }
+  const statistics = fitStatistics(problem, solution, ctx.warn);
+  return {
+    type: "Fit",
+    method: solution.method,
+    on: spec.on,
+    model,
+    responseText: model.text.slice(model.response.start, model.response.end),
+    weighted: false,
+    parameters: model.parameters,
+    estimates: solution.estimates,
+    unscaledCovariance: solution.unscaledCovariance,
+    statistics,
+    columns: problem.columns,
+    y: problem.y,
+    fitted: solution.fitted,
+    residuals: solution.residuals,
+    rows: problem.rows,
+    design: solution.design,
+    offset: solution.offset,
+    hasIntercept: solution.hasIntercept,
+    conditionNumber: solution.conditionNumber,
+    converged: solution.converged,
+    iterations: solution.iterations,
+  };
+}
+
+function tableInput(spec: FitSpec, ctx: RunContext): Table {
+  const t = ctx.inputs[spec.on];
+  if (t === undefined || t.type !== "Table") {
+    throw new CellError(`Cannot fit "${ctx.name}": cell "${spec.on}" gives no table`, ["on"]);
+  }
+  return t as Table;
+}
+
+function solveOrExplain(problem: FitProblem, table: Table, linear: boolean): FitSolution {
+  try {
+    return linear ? solveLinear(problem) : solveNonlinear(problem);
+  } catch (e) {
+    if (e instanceof CellError) throw misspeltColumn(problem, table) ?? e;
+    throw e;
+  }
+}
+
+/** The error for a parameter that looks like a misspelt column, if there is one. */
+function misspeltColumn(problem: FitProblem, table: Table): CellError | undefined {
+  const { model } = problem;
+  const names = table.columns.map((c) => c.name);
+  const deps = model.parameters.map((q) => freeNames(derivative(model.rhs, q)));
+  for (const p of model.parameters) {
+    const near = nearest(p, names, 1);
+    if (near === undefined) continue;
+    const columnLike = p.length >= 3 || deps.some((d, j) => model.parameters[j] !== p && d.has(p));
+    if (!columnLike) continue;
+    return new CellError(
+      `Cannot fit "${problem.name}": unknown column "${p}", taken as a parameter: did you mean "${near}"?`,
+      ["model"],
+      identifierOffset(model.rhs, p),
+    );
+  }
+  return undefined;
+}
