@@ -22,7 +22,7 @@
  *   permuted scales, and X has the singular values of R̃·D⁻¹.
  * - Fitted values are X·β from the original columns and residuals y − X·β.
  *
- * A double-double variant can mirror these steps (equilibrate, factor, Qᵀy,
+ * A double-double variant (primitives in `dd.ts`) can mirror these steps (equilibrate, factor, Qᵀy,
  * back-substitute, invert R) one for one over hi/lo Float64Array pairs.
  *
  * @module

@@ -33,3 +33,15 @@ export {
   type LeastSquaresRefusal,
   type LeastSquaresResult,
 } from "./least_squares.ts";
+export {
+  type DD,
+  dd,
+  ddAdd,
+  ddDiv,
+  ddMul,
+  ddSqrt,
+  fastTwoSum,
+  split,
+  twoProduct,
+  twoSum,
+} from "./dd.ts";
