@@ -78,7 +78,7 @@ export function exactLo(text: string, hi: number): number {
   else den = 10n ** BigInt(-k);
   if (hi === 0) return ratioToDouble(num, den);
   const [mh, eh] = decompose(hi);
-  const hiNum = (hi < 0 ? -mh : mh);
+  const hiNum = hi < 0 ? -mh : mh;
   // residual = num/den − hiNum·2^eh
   if (eh >= 0) {
     return ratioToDouble(num - hiNum * den * (1n << BigInt(eh)), den);

@@ -68,7 +68,12 @@ export class MissingMarkers {
  * @param escaped The range contains doubled quotes.
  * @returns The field's text.
  */
-export function decodeField(bytes: Uint8Array, start: number, end: number, escaped: boolean): string {
+export function decodeField(
+  bytes: Uint8Array,
+  start: number,
+  end: number,
+  escaped: boolean,
+): string {
   let s: string;
   if (end - start <= 32) {
     s = "";

@@ -27,7 +27,9 @@ export function checkHeader(names: readonly string[], label: string): void {
     const first = seen.get(name);
     if (first !== undefined) {
       throw new DelimitedError(
-        `File "${label}": columns ${first + 1} and ${i + 1} are both named "${name}" in the header row`,
+        `File "${label}": columns ${first + 1} and ${
+          i + 1
+        } are both named "${name}" in the header row`,
         { column: name },
       );
     }
@@ -62,8 +64,10 @@ export function checkTypes(
 
 function describe(bad: readonly BadValue[], count: number): string {
   const first = bad[0];
-  const more = count > 1 ? ` (and ${count - 1} more, first in row${count > 2 ? "s" : ""} ` +
-    `${bad.slice(1).map((b) => b.row).join(", ")}${count > bad.length ? ", …" : ""})` : "";
+  const more = count > 1
+    ? ` (and ${count - 1} more, first in row${count > 2 ? "s" : ""} ` +
+      `${bad.slice(1).map((b) => b.row).join(", ")}${count > bad.length ? ", …" : ""})`
+    : "";
   return `row ${first.row} has ${JSON.stringify(first.text)}${more}`;
 }
 

@@ -109,7 +109,11 @@ export class DecimalParser {
    */
   parse(bytes: Uint8Array, start: number, end: number): number {
     let i = start, e = end;
-    if (i < e && bytes[i] <= 0x20) while (i < e && (bytes[i] === 0x20 || bytes[i] === 0x09)) i++;
+    if (i < e && bytes[i] <= 0x20) {
+      while (i < e && (bytes[i] === 0x20 || bytes[i] === 0x09)) {
+        i++;
+      }
+    }
     if (e > i && bytes[e - 1] <= 0x20) {
       while (e > i && (bytes[e - 1] === 0x20 || bytes[e - 1] === 0x09)) e--;
     }

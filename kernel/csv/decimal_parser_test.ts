@@ -114,7 +114,24 @@ Deno.test("DecimalParser.parse() keeps the sign of zero and accepts signs, bare 
 });
 
 Deno.test("DecimalParser.parse() rejects text that is not a decimal", () => {
-  for (const s of ["", " ", "-", ".", "e5", "1e", "1e+", "0x10", "Infinity", "NaN", "1,5", "1.2.3", "12a", "1 2"]) {
+  for (
+    const s of [
+      "",
+      " ",
+      "-",
+      ".",
+      "e5",
+      "1e",
+      "1e+",
+      "0x10",
+      "Infinity",
+      "NaN",
+      "1,5",
+      "1.2.3",
+      "12a",
+      "1 2",
+    ]
+  ) {
     assert.ok(Number.isNaN(parseDecimal(s)[0]), JSON.stringify(s));
   }
 });
@@ -127,7 +144,7 @@ Deno.test("DecimalParser.parse() reads a decimal comma", () => {
   assert.deepEqual([hi, lo], parseDecimal("0.1"));
 });
 
-Deno.test("DecimalParser lo makes hi + lo equal 1/10 to a few 1e-33 for \"0.1\"", () => {
+Deno.test('DecimalParser lo makes hi + lo equal 1/10 to a few 1e-33 for "0.1"', () => {
   // Exact value of the double 0.1 is 0.1000000000000000055511151231257827021181583404541015625
   // (IEEE 754 binary64; checked here in BigInt arithmetic, not assumed).
   const [hi, lo] = parseDecimal("0.1");

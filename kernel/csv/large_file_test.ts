@@ -18,10 +18,14 @@ Deno.test("readDelimited() loads a 200 MB numeric file into Float64Array columns
     assert.equal((c as { lo: unknown }).lo, null);
   }
   const index = data.columns[0].values as Float64Array;
-  for (let i = 0; i < rows; i++) if (index[i] !== i + 1) assert.fail(`row ${i + 1}: c0 is ${index[i]}`);
+  for (let i = 0; i < rows; i++) {
+    if (index[i] !== i + 1) assert.fail(`row ${i + 1}: c0 is ${index[i]}`);
+  }
   for (const c of data.columns) {
     const v = c.values as Float64Array;
-    for (let i = 0; i < rows; i++) if (!Number.isFinite(v[i])) assert.fail(`${c.name} row ${i + 1}: ${v[i]}`);
+    for (let i = 0; i < rows; i++) {
+      if (!Number.isFinite(v[i])) assert.fail(`${c.name} row ${i + 1}: ${v[i]}`);
+    }
   }
 });
 
@@ -35,7 +39,9 @@ Deno.test("makeNumericCsv() is deterministic for a seed and parses back to Numbe
   lines.forEach((line, r) => {
     line.split(",").forEach((field, c) => {
       const v = (data.columns[c].values as Float64Array)[r];
-      if (!Object.is(v, Number(field))) assert.fail(`row ${r + 1} col ${c}: "${field}" read as ${v}`);
+      if (!Object.is(v, Number(field))) {
+        assert.fail(`row ${r + 1} col ${c}: "${field}" read as ${v}`);
+      }
     });
   });
 });

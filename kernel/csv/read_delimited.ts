@@ -115,7 +115,10 @@ const PROGRESS_EVERY = 65536;
  * }
  * ```
  */
-export function readDelimited(bytes: Uint8Array, options: ReadDelimitedOptions = {}): DelimitedData {
+export function readDelimited(
+  bytes: Uint8Array,
+  options: ReadDelimitedOptions = {},
+): DelimitedData {
   const o = resolveOptions(options);
   const bom = bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
   const start = bom ? 3 : 0;

@@ -3,7 +3,8 @@ import { DelimitedError } from "./delimited_error.ts";
 import { type DelimitedData, readDelimited, type ReadDelimitedOptions } from "./read_delimited.ts";
 
 const enc = new TextEncoder();
-const read = (text: string, options?: ReadDelimitedOptions) => readDelimited(enc.encode(text), options);
+const read = (text: string, options?: ReadDelimitedOptions) =>
+  readDelimited(enc.encode(text), options);
 const col = (d: DelimitedData, name: string) => d.columns.find((c) => c.name === name)!;
 const nums = (d: DelimitedData, name: string) => Array.from(col(d, name).values as Float64Array);
 
@@ -31,7 +32,10 @@ Deno.test("readDelimited() reads RFC 4180 quoted fields with delimiters, newline
 
 Deno.test("readDelimited() reads quoted numbers as numbers and quoted header names", () => {
   const d = read('"time (s)","v"\n"1.5","2"\n');
-  assert.deepEqual(d.columns.map((c) => [c.name, c.type]), [["time (s)", "number"], ["v", "number"]]);
+  assert.deepEqual(d.columns.map((c) => [c.name, c.type]), [["time (s)", "number"], [
+    "v",
+    "number",
+  ]]);
   assert.deepEqual(nums(d, "time (s)"), [1.5]);
 });
 
@@ -49,7 +53,9 @@ Deno.test("readDelimited() keeps CRLF inside a quoted field", () => {
 });
 
 Deno.test("readDelimited() skips a UTF-8 byte order mark and decodes UTF-8 names and text", () => {
-  const d = readDelimited(new Uint8Array([0xef, 0xbb, 0xbf, ...enc.encode("Temp °C,site\n21.5,Zürich\n")]));
+  const d = readDelimited(
+    new Uint8Array([0xef, 0xbb, 0xbf, ...enc.encode("Temp °C,site\n21.5,Zürich\n")]),
+  );
   assert.deepEqual(d.columns.map((c) => c.name), ["Temp °C", "site"]);
   assert.deepEqual(nums(d, "Temp °C"), [21.5]);
   assert.deepEqual(col(d, "site").values, ["Zürich"]);
@@ -100,7 +106,10 @@ Deno.test("readDelimited() names the row and both counts for a ragged row", () =
     `File "data/x.csv": row 2 has 2 fields, expected 3 as in the header`,
   );
   assert.equal(e.row, 2);
-  throwsDelimited(() => read("a,b\n1,2\n3,4,5\n"), `File "input": row 2 has 3 fields, expected 2 as in the header`);
+  throwsDelimited(
+    () => read("a,b\n1,2\n3,4,5\n"),
+    `File "input": row 2 has 3 fields, expected 2 as in the header`,
+  );
 });
 
 Deno.test("readDelimited() refuses a mostly numeric column with a stray value, naming row and value", () => {
@@ -143,7 +152,10 @@ Deno.test("readDelimited() refuses declared types of unknown columns with a sugg
 Deno.test("readDelimited() refuses an empty file and a file holding only a BOM or blank lines", () => {
   const msg = `File "data/x.csv" is empty: expected a header row of column names`;
   throwsDelimited(() => readDelimited(new Uint8Array(0), { name: "data/x.csv" }), msg);
-  throwsDelimited(() => readDelimited(new Uint8Array([0xef, 0xbb, 0xbf]), { name: "data/x.csv" }), msg);
+  throwsDelimited(
+    () => readDelimited(new Uint8Array([0xef, 0xbb, 0xbf]), { name: "data/x.csv" }),
+    msg,
+  );
   throwsDelimited(() => read("\n\r\n", { name: "data/x.csv" }), msg);
 });
 
@@ -157,7 +169,10 @@ Deno.test("readDelimited() reads a header-only file as zero rows", () => {
 });
 
 Deno.test("readDelimited() refuses empty and repeated header names, naming the positions", () => {
-  throwsDelimited(() => read("a, ,c\n1,2,3\n"), `File "input": column 2 has no name in the header row`);
+  throwsDelimited(
+    () => read("a, ,c\n1,2,3\n"),
+    `File "input": column 2 has no name in the header row`,
+  );
   throwsDelimited(
     () => read("t,v, t\n1,2,3\n"),
     `File "input": columns 1 and 3 are both named "t" in the header row`,
@@ -170,7 +185,9 @@ Deno.test("readDelimited() names the bad byte, its row and offset for invalid UT
   const bytes = new Uint8Array([...head, 0x43, 0x61, 0x66, 0xe9, 0x2c, 0x32, 0x0a]);
   const e = throwsDelimited(
     () => readDelimited(bytes, { name: "data/x.csv" }),
-    `File "data/x.csv" is not valid UTF-8: bad byte 0xE9 at row 2 (byte ${head.length + 3}); save it as UTF-8`,
+    `File "data/x.csv" is not valid UTF-8: bad byte 0xE9 at row 2 (byte ${
+      head.length + 3
+    }); save it as UTF-8`,
   );
   assert.deepEqual([e.row, e.offset], [2, head.length + 3]);
   throwsDelimited(
@@ -180,7 +197,10 @@ Deno.test("readDelimited() names the bad byte, its row and offset for invalid UT
   // Inside quotes, an overlong encoding (0xC0 0xAF) and a surrogate (0xED 0xA0 0x80).
   for (const bad of [[0xc0, 0xaf], [0xed, 0xa0, 0x80]]) {
     const b = new Uint8Array([...enc.encode('a\n"x'), ...bad, 0x22, 0x0a]);
-    throwsDelimited(() => readDelimited(b), /is not valid UTF-8: bad byte 0x(C0|ED) at row 1 \(byte 4\)/);
+    throwsDelimited(
+      () => readDelimited(b),
+      /is not valid UTF-8: bad byte 0x(C0|ED) at row 1 \(byte 4\)/,
+    );
   }
 });
 

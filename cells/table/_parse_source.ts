@@ -1,0 +1,82 @@
+/**
+ * Normalisers for where a table's data comes from: the `from` path, the
+ * delimiter and the decimal separator.
+ *
+ * @module
+ */
+import { CellError } from "../../kernel/errors.ts";
+
+/**
+ * Checks `from`: a non-empty relative path that stays inside the document's
+ * folder (the kernel checks again, with symbolic links, when it reads).
+ *
+ * @throws {CellError} On ["from"].
+ */
+export function checkFromPath(v: unknown): string {
+  if (typeof v !== "string" || v.trim() === "") {
+    throw new CellError(`Option "from" must be a file path such as data/batch7.csv`, ["from"]);
+  }
+  const path = v.trim();
+  const outside = () =>
+    new CellError(
+      `File "${path}" is outside the document's folder: data files must sit beside the document or below it`,
+      ["from"],
+    );
+  if (/^([/\\]|[A-Za-z]:)/.test(path)) throw outside();
+  let depth = 0;
+  for (const part of path.split(/[/\\]/)) {
+    if (part === "..") depth--;
+    else if (part !== "." && part !== "") depth++;
+    if (depth < 0) throw outside();
+  }
+  return path;
+}
+
+const DELIMITER_WORDS: Record<string, string> = {
+  tab: "\t",
+  "\\t": "\t",
+  comma: ",",
+  semicolon: ";",
+  space: " ",
+};
+
+/**
+ * Normalises `delimiter`: one ASCII character other than a quote or line
+ * end, or one of the words tab, comma, semicolon, space (or `\t` written
+ * literally).
+ *
+ * @throws {CellError} On ["delimiter"].
+ */
+export function parseDelimiter(v: unknown, decimal: "." | ","): string | null {
+  if (v === undefined || v === null) return null;
+  const text = typeof v === "string" ? (DELIMITER_WORDS[v.trim().toLowerCase()] ?? v) : "";
+  const code = text.length === 1 ? text.charCodeAt(0) : -1;
+  if (code < 0 || code >= 0x80 || text === '"' || text === "\n" || text === "\r") {
+    throw new CellError(
+      `Delimiter ${
+        JSON.stringify(v)
+      } cannot be used: give one character such as ";" or the word tab`,
+      ["delimiter"],
+    );
+  }
+  if (text === "," && decimal === ",") {
+    throw new CellError(
+      `Delimiter "," cannot be used with a decimal comma: use ";" or tab between fields`,
+      ["delimiter"],
+    );
+  }
+  return text;
+}
+
+/**
+ * Normalises `decimal`: point (default) or comma, also written "." or ",".
+ *
+ * @throws {CellError} On ["decimal"].
+ */
+export function parseDecimalOption(v: unknown): "." | "," {
+  if (v === undefined || v === null || v === "point" || v === ".") return ".";
+  if (v === "comma" || v === ",") return ",";
+  throw new CellError(`Decimal separator ${JSON.stringify(v)} is not known: use point or comma`, [
+    "decimal",
+  ]);
+}

@@ -1,0 +1,47 @@
+/**
+ * The `table` cell kind: a CSV/TSV file beside the document, or inline rows,
+ * read into typed columns with units, exclusions (each with its reason),
+ * derived columns and a row filter. Options are described in `spec.ts`.
+ *
+ * @example
+ * ```ts
+ * import { tableKind } from "./mod.ts";
+ * const settings = { title: "", confidence: 0.95, seed: 1, criterion: "aicc", maxFileBytes: 2 ** 29, extra: {} };
+ * const spec = tableKind.parse({
+ *   name: "t", kind: "table", body: "", settings, warn: () => {},
+ *   options: { columns: ["x", "y"], rows: [[1, 2.5], [2, 4.5]], units: { y: "mV" } },
+ * });
+ * const out = await tableKind.run(spec, {
+ *   name: "t", settings, inputs: {}, files: {}, warn: () => {}, progress: () => {},
+ * });
+ * if (tableKind.line(tableKind.summary(out, spec)) !== "2 rows · 2 columns") throw new Error("unexpected");
+ * ```
+ *
+ * @module
+ */
+import type { CellKind } from "../types.ts";
+import { runTable, type TableOutput } from "./run.ts";
+import { parseTableSpec, type TableSpec } from "./spec.ts";
+import { summarizeTable, tableLine, type TableResult } from "./summary.ts";
+import { TableView } from "./view.tsx";
+
+export type { TableSpec } from "./spec.ts";
+export type { TableOutput } from "./run.ts";
+export type { TableColumnResult, TableResult } from "./summary.ts";
+export { TABLE_OPTIONS } from "./spec.ts";
+
+/** The `table` kind record. */
+export const tableKind: CellKind<TableSpec, TableOutput, TableResult> = {
+  kind: "table",
+  body: "yaml",
+  output: "Table",
+  description:
+    "Reads a CSV/TSV file or inline rows into typed columns, with units, exclusions and derived columns",
+  parse: parseTableSpec,
+  inputs: () => [],
+  files: (spec) => (spec.from === null ? [] : [{ path: spec.from, option: ["from"] }]),
+  run: runTable,
+  summary: (out) => summarizeTable(out),
+  line: tableLine,
+  view: TableView,
+};

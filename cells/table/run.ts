@@ -1,0 +1,89 @@
+/**
+ * Running a `table` cell: read → exclude → derive → filter.
+ *
+ * ```
+ *  bytes / inline rows ──readDelimited──▶ typed columns (rows_read)
+ *        ──exclude (rows + why)──▶ kept rows ──derive──▶ + derived columns
+ *        ──where──▶ rows used (Table.rows: source row numbers)
+ * ```
+ *
+ * Row numbers are source data rows (1-based, before exclusions); missing
+ * counts are over the rows used.
+ *
+ * @module
+ */
+import { CellError } from "../../kernel/errors.ts";
+import { ExprError } from "../../kernel/expr/mod.ts";
+import type { Column, NumberColumn, RunContext, Table } from "../types.ts";
+import { addDerived, checkUnits } from "./_derive.ts";
+import { readSource } from "./_read_source.ts";
+import { gather, indexesOf, keptAfterExclusions } from "./_select.ts";
+import { evaluateWhere } from "./_where.ts";
+import type { TableSpec } from "./spec.ts";
+
+/** A Table plus what the record needs beyond the shared type. */
+export interface TableOutput extends Table {
+  /** Rows dropped by `where` (not exclusions). */
+  rowsFiltered: number;
+}
+
+function applyWhere(spec: TableSpec, columns: Column[], rows: Int32Array): Int32Array {
+  if (spec.where === null) return Int32Array.from(rows.keys());
+  const numeric = columns.filter((c): c is NumberColumn => c.type === "number");
+  const text = columns.filter((c) => c.type === "text").map((c) => c.name);
+  try {
+    const keep = evaluateWhere(
+      spec.where,
+      numeric.map((c) => c.name),
+      numeric.map((c) => c.values),
+      rows.length,
+      text,
+    );
+    return indexesOf(keep);
+  } catch (e) {
+    if (e instanceof ExprError) throw new CellError(e.message, ["where"], e.offset);
+    throw e;
+  }
+}
+
+/**
+ * Reads the table and applies exclusions, derived columns and the filter.
+ *
+ * @param spec The normalised options.
+ * @param ctx Files, settings, warnings and progress.
+ * @returns The table.
+ * @throws {CellError} For unreadable data (placed on `from`, `rows` or
+ *   `types`), an excluded row beyond the data, a unit of an unknown column,
+ *   a bad derived column or filter.
+ */
+export function runTable(spec: TableSpec, ctx: RunContext): TableOutput {
+  const data = readSource(spec, ctx);
+  const kept = keptAfterExclusions(spec, data.rows);
+  const names = [...data.columns.map((c) => c.name), ...spec.derive.map((d) => d.name)];
+  checkUnits(spec.units, names);
+  const columns = data.columns.map((c) => gather(c, kept, data.rows, spec.units[c.name] ?? null));
+  const source = Int32Array.from(kept, (i) => i + 1);
+  addDerived(spec.derive, columns, source, spec.units, ctx.warn);
+  const pass = applyWhere(spec, columns, source);
+  const final = pass.length === source.length
+    ? columns
+    : columns.map((c) => gather(c, pass, source.length, c.unit));
+  const rows = pass.length === source.length ? source : Int32Array.from(pass, (i) => source[i]);
+  if (spec.where !== null && rows.length === 0 && source.length > 0) {
+    ctx.warn(`Filter "${spec.where}" keeps no rows`);
+  }
+  ctx.progress(1);
+  const excluded = spec.exclude
+    .flatMap((e) => e.rows.map((row) => ({ row, why: e.why })))
+    .sort((a, b) => a.row - b.row);
+  return {
+    type: "Table",
+    columns: final,
+    rows,
+    rowsRead: data.rows,
+    excluded,
+    sha256: spec.from !== null ? ctx.files[spec.from].sha256 : null,
+    source: spec.from,
+    rowsFiltered: source.length - rows.length,
+  };
+}
