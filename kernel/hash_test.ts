@@ -2,7 +2,10 @@ import { equal, notEqual } from "node:assert/strict";
 import { canonicalJson, hashString, hashValue, sha256Hex } from "./hash.ts";
 
 Deno.test("canonicalJson() sorts keys at every depth and flattens typed arrays", () => {
-  equal(canonicalJson({ b: { d: 1, c: 2 }, a: new Float64Array([1, 2]) }), '{"a":[1,2],"b":{"c":2,"d":1}}');
+  equal(
+    canonicalJson({ b: { d: 1, c: 2 }, a: new Float64Array([1, 2]) }),
+    '{"a":[1,2],"b":{"c":2,"d":1}}',
+  );
 });
 
 Deno.test("hashValue() is equal for equal data and differs for a one-character change", () => {
@@ -11,7 +14,7 @@ Deno.test("hashValue() is equal for equal data and differs for a one-character c
   equal(hashString("").length, 32);
 });
 
-Deno.test("sha256Hex() gives the FIPS 180-2 digest of \"abc\"", async () => {
+Deno.test('sha256Hex() gives the FIPS 180-2 digest of "abc"', async () => {
   // FIPS 180-2, Appendix B.1 (one-block message "abc").
   equal(
     await sha256Hex(new TextEncoder().encode("abc")),

@@ -20,8 +20,9 @@ export function formatHuman(document: string, report: RunReport): string {
   for (const c of report.cells) {
     const head = `${c.state.padEnd(9)} ${c.kind.padEnd(wKind)} ${c.name.padEnd(wName)}`;
     if (c.state === "current") out.push(`${head}  ${c.summaryLine ?? ""}`);
-    else if (c.error) out.push(`${head}  line ${c.error.line}:${c.error.column}  ${c.error.message}`);
-    else out.push(head);
+    else if (c.error) {
+      out.push(`${head}  line ${c.error.line}:${c.error.column}  ${c.error.message}`);
+    } else out.push(head);
     for (const w of c.warnings) out.push(`${" ".repeat(10)}warning: ${w}`);
   }
   for (const e of report.errors) out.push(`document  line ${e.line}:${e.column}  ${e.message}`);

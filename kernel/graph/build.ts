@@ -69,7 +69,9 @@ export interface Graph {
  */
 export function locateError(node: Pick<CellNode, "name" | "locate">, err: unknown): LocatedError {
   if (err instanceof LocatedError) return err;
-  if (err instanceof CellError) return new LocatedError(err.message, node.locate(err.path, err.offset));
+  if (err instanceof CellError) {
+    return new LocatedError(err.message, node.locate(err.path, err.offset));
+  }
   const message = err instanceof Error ? err.message : String(err);
   return new LocatedError(`Internal error in cell "${node.name}": ${message}`, node.locate([]));
 }

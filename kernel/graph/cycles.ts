@@ -79,7 +79,9 @@ export function findCycles<N extends CycleNode>(
           onStack.delete(w);
           component.push(w);
         } while (w !== v);
-        if (component.length > 1 || depsOf(v).includes(v)) cycles.push(orderCycle(component, depsOf));
+        if (component.length > 1 || depsOf(v).includes(v)) {
+          cycles.push(orderCycle(component, depsOf));
+        }
       }
     }
   }

@@ -16,7 +16,13 @@
  *
  * @module
  */
-import { type CellBlock, type CellOptions, parseDocument, type ParsedDocument, parseOptions } from "../document/mod.ts";
+import {
+  type CellBlock,
+  type CellOptions,
+  type ParsedDocument,
+  parseDocument,
+  parseOptions,
+} from "../document/mod.ts";
 import { LocatedError, type OptionPath, type SourcePos } from "../errors.ts";
 
 /** Parsed options keyed by cell text; entries unused by the last document are dropped. */

@@ -28,7 +28,9 @@ export function checkInlineRefs(doc: ParsedDocument, graph: Graph): LocatedError
       if (graph.byName.has(ref.cell)) continue;
       errors.push(
         new LocatedError(
-          `Unknown cell "${ref.cell}" in inline reference${didYouMean(ref.cell, graph.byName.keys())}`,
+          `Unknown cell "${ref.cell}" in inline reference${
+            didYouMean(ref.cell, graph.byName.keys())
+          }`,
           { line: ref.line, column: ref.column },
         ),
       );

@@ -17,7 +17,7 @@
  * @module
  */
 import type { DocSettings, FileData } from "../../cells/types.ts";
-import { parseDocument, type ParsedDocument, readSettings } from "../document/mod.ts";
+import { type ParsedDocument, parseDocument, readSettings } from "../document/mod.ts";
 import { LocatedError } from "../errors.ts";
 import { hashValue } from "../hash.ts";
 import type { Registry } from "../registry.ts";
@@ -94,7 +94,11 @@ export interface SessionOptions {
   onEvent?: (e: SessionEvent) => void;
 }
 
-const located = (e: LocatedError) => ({ message: e.message, line: e.pos.line, column: e.pos.column });
+const located = (e: LocatedError) => ({
+  message: e.message,
+  line: e.pos.line,
+  column: e.pos.column,
+});
 
 /** Runs one document reactively; keep it alive between edits to reuse results. */
 export class Session {
@@ -179,7 +183,13 @@ export class Session {
     }
     this.#forgetUnused(plan, fileData);
     const cells = plan.graph.nodes.map((n) => reports.get(n)!);
-    return { settings: plan.settings, cells, errors: plan.docErrors.map(located), ran, superseded: false };
+    return {
+      settings: plan.settings,
+      cells,
+      errors: plan.docErrors.map(located),
+      ran,
+      superseded: false,
+    };
   }
 
   async #readFiles(graph: Graph, settings: DocSettings) {
@@ -226,8 +236,14 @@ export class Session {
     const blocked = node.deps.find((d) => stateOf(d) !== "current");
     if (blocked !== undefined || !plan.keys.has(node.name)) {
       this.#emit(node.name, "held");
-      const why = blocked === undefined ? "an input cannot run" : `input "${blocked}" is ${stateOf(blocked) ?? "not ready"}`;
-      return { ...base, state: "held", error: { message: `Held: ${why}`, line: node.line, column: 1 } };
+      const why = blocked === undefined
+        ? "an input cannot run"
+        : `input "${blocked}" is ${stateOf(blocked) ?? "not ready"}`;
+      return {
+        ...base,
+        state: "held",
+        error: { message: `Held: ${why}`, line: node.line, column: 1 },
+      };
     }
     const key = plan.keys.get(node.name)!;
     let outcome = this.#outcomes.get(key);
@@ -254,7 +270,9 @@ export class Session {
     }
     this.#emit(node.name, "failed");
     const err = d.error!;
-    const message = err.internal ? `Internal error in cell "${node.name}": ${err.message}` : err.message;
+    const message = err.internal
+      ? `Internal error in cell "${node.name}": ${err.message}`
+      : err.message;
     const pos = node.locate(err.path ?? [], err.offset);
     return { ...base, state: "failed", error: { message, ...pos }, warnings, ms: d.ms, cached };
   }

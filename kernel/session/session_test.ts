@@ -70,7 +70,8 @@ Deno.test("Session.run() reruns exactly the downstream cells of an edit", async 
 });
 
 Deno.test("Session.run() reports a cycle of three cells naming the whole path", async () => {
-  const doc = cell("sum", "a", "of: [b]") + cell("sum", "b", "of: [c]") + cell("sum", "c", "of: [a]") +
+  const doc = cell("sum", "a", "of: [b]") + cell("sum", "b", "of: [c]") +
+    cell("sum", "c", "of: [a]") +
     cell("num", "free", "value: 1");
   await withSession(async (s) => {
     const r = await s.run(doc);
@@ -110,12 +111,16 @@ Deno.test("Session.run() refuses a reference to a cell of the wrong output type"
 });
 
 Deno.test("Session.run() fails a duplicate name and an unknown kind, other cells still run", async () => {
-  const doc = cell("num", "a", "value: 1") + cell("num", "a", "value: 2") + cell("nmu", "b", "value: 3") +
+  const doc = cell("num", "a", "value: 1") + cell("num", "a", "value: 2") +
+    cell("nmu", "b", "value: 3") +
     cell("sum", "c", "of: [a]");
   await withSession(async (s) => {
     const r = await s.run(doc);
     equal(r.cells[1].state, "failed");
-    match(r.cells[1].error!.message, /^Duplicate cell name "a": already used by the num cell at line 1/);
+    match(
+      r.cells[1].error!.message,
+      /^Duplicate cell name "a": already used by the num cell at line 1/,
+    );
     equal(r.cells[2].state, "failed");
     match(r.cells[2].error!.message, /^Unknown cell kind "nmu": did you mean "num"\?/);
     deepEqual([r.cells[2].error!.line, r.cells[2].error!.column], [7, 4]);
@@ -139,10 +144,15 @@ Deno.test("Session.run() reruns a file's readers when the file changes, and only
 
 Deno.test("Session.run() locates a missing file and a path leaving the folder at the option", async () => {
   await withSession(async (s) => {
-    const r = await s.run(cell("bytes", "a", "from: nope.csv") + cell("bytes", "b", "from: ../etc/passwd"));
+    const r = await s.run(
+      cell("bytes", "a", "from: nope.csv") + cell("bytes", "b", "from: ../etc/passwd"),
+    );
     match(stateOf(r, "a").error!.message, /^File "nope.csv" not found/);
     deepEqual([stateOf(r, "a").error!.line, stateOf(r, "a").error!.column], [2, 7]);
-    match(stateOf(r, "b").error!.message, /^File "..\/etc\/passwd" is outside the document's folder/);
+    match(
+      stateOf(r, "b").error!.message,
+      /^File "..\/etc\/passwd" is outside the document's folder/,
+    );
   });
 });
 
@@ -156,7 +166,8 @@ Deno.test("compute worker has no permissions: a cell reading the disk is refused
 
 Deno.test("Session.run() superseded by a newer run stops updating and the newer one wins", async () => {
   await withSession(async (s) => {
-    const slow = (tag: number) => cell("spin", "a", `ms: 150\ntag: ${tag}`) + cell("spin", "b", `ms: 150\ntag: ${tag}`);
+    const slow = (tag: number) =>
+      cell("spin", "a", `ms: 150\ntag: ${tag}`) + cell("spin", "b", `ms: 150\ntag: ${tag}`);
     const first = s.run(slow(1));
     await new Promise((r) => setTimeout(r, 20));
     const second = await s.run(slow(2));

@@ -81,7 +81,11 @@ export class ComputeWorker {
         ok: false,
         warnings: [],
         ms: 0,
-        error: { message: `The compute worker stopped: ${reason}`, internal: false, transient: true },
+        error: {
+          message: `The compute worker stopped: ${reason}`,
+          internal: false,
+          transient: true,
+        },
       });
     }
   }

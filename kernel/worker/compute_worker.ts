@@ -45,11 +45,15 @@ export function serveComputeWorker(registry: Registry): void {
       ...rest,
     });
     const kind = registry.get(req.kind);
-    if (!kind) return done({ error: { message: `Unknown cell kind "${req.kind}"`, internal: true } });
+    if (!kind) {
+      return done({ error: { message: `Unknown cell kind "${req.kind}"`, internal: true } });
+    }
     const inputs: Record<string, CellOutput> = {};
     for (const [name, key] of Object.entries(req.inputs)) {
       const out = outputs.get(key);
-      if (!out) return done({ error: { message: `Input "${name}" is not computed`, internal: true } });
+      if (!out) {
+        return done({ error: { message: `Input "${name}" is not computed`, internal: true } });
+      }
       inputs[name] = out;
     }
     const fileData: Record<string, FileData> = {};

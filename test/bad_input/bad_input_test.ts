@@ -13,7 +13,8 @@ const WORKER = new URL("../../cells/worker.ts", import.meta.url);
 const GOOD_CSV = "x,y\n1,2.1\n2,3.9\n3,6.2\n4,7.8\n5,10.1\n";
 
 /** A good table and fit that must stay current whatever else is wrong. */
-const GOOD = "```table good\nfrom: good.csv\n```\n\n```fit good-fit\non: good\nmodel: y = a + b*x\n```\n";
+const GOOD =
+  "```table good\nfrom: good.csv\n```\n\n```fit good-fit\non: good\nmodel: y = a + b*x\n```\n";
 
 async function snapshot(dir: string): Promise<Record<string, string>> {
   const out: Record<string, string> = {};
@@ -24,7 +25,10 @@ async function snapshot(dir: string): Promise<Record<string, string>> {
 }
 
 /** Runs `doc` with `files` in a fresh folder; checks the good cells and that nothing changed on disk. */
-async function runCase(doc: string, files: Record<string, string | Uint8Array> = {}): Promise<RunReport> {
+async function runCase(
+  doc: string,
+  files: Record<string, string | Uint8Array> = {},
+): Promise<RunReport> {
   const dir = await Deno.makeTempDir({ prefix: "plumb-bad-" });
   try {
     await Deno.writeTextFile(join(dir, "good.csv"), GOOD_CSV);
@@ -66,7 +70,7 @@ Deno.test("bad input: an unknown kind suggests the nearest kind", async () => {
   const r = await runCase(GOOD + "\n```fti line\non: good\n```\n");
   const c = cellNamed(r, "line");
   match(c.error!.message, /^Unknown cell kind "fti": did you mean "fit"\?/);
-  deepEqual([c.error!.line, c.error!.column], [11, 4]);
+  deepEqual([c.error!.line, c.error!.column], [10, 4]);
 });
 
 Deno.test("bad input: a YAML syntax error is located in the document, not in the block", async () => {
@@ -86,7 +90,7 @@ Deno.test("bad input: a missing data file is an error at the from option", async
   const r = await runCase(GOOD + "\n```table t\nfrom: missing.csv\n```\n");
   const c = cellNamed(r, "t");
   match(c.error!.message, /^File "missing.csv" not found/);
-  deepEqual([c.error!.line, c.error!.column], [12, 7]);
+  deepEqual([c.error!.line, c.error!.column], [11, 7]);
 });
 
 Deno.test("bad input: a ragged CSV row names the row", async () => {
@@ -99,8 +103,9 @@ Deno.test("bad input: a ragged CSV row names the row", async () => {
 Deno.test("bad input: a non-numeric value in a number column names row, column and value", async () => {
   const rows = Array.from({ length: 30 }, (_, i) => `${i + 1},${(i * 1.5).toFixed(1)}`);
   rows[16] = "17,2,5O1";
-  const r = await runCase(GOOD + "\n```table t\nfrom: typo.csv\ndelimiter: \",\"\n```\n", {
-    "typo.csv": "cycle,capacity\n" + rows.map((l) => l.replace("2,5O1", '"2,5O1"')).join("\n") + "\n",
+  const r = await runCase(GOOD + '\n```table t\nfrom: typo.csv\ndelimiter: ","\n```\n', {
+    "typo.csv": "cycle,capacity\n" + rows.map((l) => l.replace("2,5O1", '"2,5O1"')).join("\n") +
+      "\n",
   });
   const m = cellNamed(r, "t").error!.message;
   match(m, /capacity/);
@@ -114,7 +119,11 @@ Deno.test("bad input: an empty file is a clear error", async () => {
 });
 
 Deno.test("bad input: a file that is not UTF-8 says so with the row", async () => {
-  const latin1 = new Uint8Array([...new TextEncoder().encode("name,v\ncaf"), 0xe9, ...new TextEncoder().encode(",1\n")]);
+  const latin1 = new Uint8Array([
+    ...new TextEncoder().encode("name,v\ncaf"),
+    0xe9,
+    ...new TextEncoder().encode(",1\n"),
+  ]);
   const r = await runCase(GOOD + "\n```table t\nfrom: latin1.csv\n```\n", { "latin1.csv": latin1 });
   match(cellNamed(r, "t").error!.message, /not valid UTF-8/);
 });
@@ -122,7 +131,10 @@ Deno.test("bad input: a file that is not UTF-8 says so with the row", async () =
 Deno.test("bad input: a file over the size limit is refused before it is read", async () => {
   const doc = "---\nmax_file_size: 1 kB\n---\n\n" + GOOD + "\n```table big\nfrom: big.csv\n```\n";
   const r = await runCase(doc, { "big.csv": "x\n" + "1.5\n".repeat(1000) });
-  match(cellNamed(r, "big").error!.message, /^File "big.csv" is 4\.0 kB, over the limit of 1\.0 kB/);
+  match(
+    cellNamed(r, "big").error!.message,
+    /^File "big.csv" is 4\.0 kB, over the limit of 1\.0 kB/,
+  );
 });
 
 Deno.test("bad input: a 200 MB file loads without exhausting memory", async () => {

@@ -10,7 +10,7 @@ const DEMO = new URL("../../examples/fade/fade.md", import.meta.url).pathname;
 
 async function plumb(...args: string[]) {
   const out = await new Deno.Command(Deno.execPath(), {
-    args: ["run", "--allow-read", MAIN, ...args],
+    args: ["run", "--allow-read", "--allow-env=LOG_TOKENS,LOG_STREAM", MAIN, ...args],
     stdout: "piped",
     stderr: "piped",
     env: { NO_COLOR: "1" },
@@ -51,7 +51,10 @@ Deno.test("plumb run exits 1 with the located error when a cell fails", async ()
   const dir = await Deno.makeTempDir({ prefix: "plumb-cli-" });
   try {
     const doc = join(dir, "bad.md");
-    await Deno.writeTextFile(doc, "# Bad\n\n```table t\nfrom: nowhere.csv\n```\n\n```fit f\non: t\nmodel: y = a + b*x\n```\n");
+    await Deno.writeTextFile(
+      doc,
+      "# Bad\n\n```table t\nfrom: nowhere.csv\n```\n\n```fit f\non: t\nmodel: y = a + b*x\n```\n",
+    );
     const r = await plumb("run", doc, "--json");
     equal(r.code, 1);
     const json = JSON.parse(r.stdout);

@@ -23,7 +23,9 @@ export const numKind: CellKind<{ value: number }, Num, { value: number }> = {
   description: "a constant",
   parse(ctx) {
     const v = ctx.options.value;
-    if (typeof v !== "number") throw new CellError(`"value" of "${ctx.name}" must be a number`, ["value"]);
+    if (typeof v !== "number") {
+      throw new CellError(`"value" of "${ctx.name}" must be a number`, ["value"]);
+    }
     return { value: v };
   },
   inputs: () => [],
@@ -41,10 +43,13 @@ export const sumKind: CellKind<{ of: string[] }, Num, { value: number }> = {
   description: "a sum of other cells",
   parse(ctx) {
     const of = ctx.options.of;
-    if (!Array.isArray(of)) throw new CellError(`"of" of "${ctx.name}" must be a list of cells`, ["of"]);
+    if (!Array.isArray(of)) {
+      throw new CellError(`"of" of "${ctx.name}" must be a list of cells`, ["of"]);
+    }
     return { of: of.map(String) };
   },
-  inputs: (spec) => spec.of.map((name, i) => ({ name, accepts: ["Value"] as const, path: ["of", i] })),
+  inputs: (spec) =>
+    spec.of.map((name, i) => ({ name, accepts: ["Value"] as const, path: ["of", i] })),
   run(spec, ctx) {
     let total = 0;
     for (const n of spec.of) total += (ctx.inputs[n] as Num).value;
