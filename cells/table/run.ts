@@ -58,10 +58,12 @@ function applyWhere(spec: TableSpec, columns: Column[], rows: Int32Array): Int32
  */
 export function runTable(spec: TableSpec, ctx: RunContext): TableOutput {
   const data = readSource(spec, ctx);
-  const kept = keptAfterExclusions(spec, data.rows);
+  const kept = keptAfterExclusions(spec, data.rowCount);
   const names = [...data.columns.map((c) => c.name), ...spec.derive.map((d) => d.name)];
   checkUnits(spec.units, names);
-  const columns = data.columns.map((c) => gather(c, kept, data.rows, spec.units[c.name] ?? null));
+  const columns = data.columns.map((c) =>
+    gather(c, kept, data.rowCount, spec.units[c.name] ?? null)
+  );
   const source = Int32Array.from(kept, (i) => i + 1);
   addDerived(spec.derive, columns, source, spec.units, ctx.warn);
   const pass = applyWhere(spec, columns, source);
@@ -80,7 +82,7 @@ export function runTable(spec: TableSpec, ctx: RunContext): TableOutput {
     type: "Table",
     columns: final,
     rows,
-    rowsRead: data.rows,
+    rowsRead: data.rowCount,
     excluded,
     sha256: spec.from !== null ? ctx.files[spec.from].sha256 : null,
     source: spec.from,

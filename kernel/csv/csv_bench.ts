@@ -24,7 +24,7 @@ Deno.bench({
   warmup: 1,
   fn() {
     const data = readDelimited(bytes, { name: "bench.csv" });
-    if (data.rows !== ROWS) throw new Error("wrong row count");
+    if (data.rowCount !== ROWS) throw new Error("wrong row count");
   },
 });
 

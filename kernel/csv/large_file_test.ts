@@ -8,7 +8,7 @@ Deno.test("readDelimited() loads a 200 MB numeric file into Float64Array columns
   const bytes = makeNumericCsv(rows, 11, 4);
   assert.ok(bytes.length >= 200e6, `generated only ${bytes.length} bytes`);
   const data = readDelimited(bytes, { name: "big.csv" });
-  assert.equal(data.rows, rows);
+  assert.equal(data.rowCount, rows);
   assert.equal(data.columns.length, 11);
   for (const c of data.columns) {
     assert.equal(c.type, "number");

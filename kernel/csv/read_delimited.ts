@@ -77,8 +77,8 @@ export type DelimitedColumn = NumberData | TextData;
 
 /** What {@link readDelimited} returns. */
 export interface DelimitedData {
-  /** Number of data rows. */
-  rows: number;
+  /** Number of data rows (the header is not a row). */
+  rowCount: number;
   columns: DelimitedColumn[];
   /** The delimiter used. */
   delimiter: string;
@@ -110,7 +110,7 @@ const PROGRESS_EVERY = 65536;
  * import { readDelimited } from "./read_delimited.ts";
  * const data = readDelimited(new TextEncoder().encode("cycle,capacity\n1,2500.5\n2,NA\n"));
  * const cap = data.columns[1];
- * if (data.rows !== 2 || cap.type !== "number" || cap.values[0] !== 2500.5 || cap.missing !== 1) {
+ * if (data.rowCount !== 2 || cap.type !== "number" || cap.values[0] !== 2500.5 || cap.missing !== 1) {
  *   throw new Error("unexpected table");
  * }
  * ```
@@ -169,7 +169,7 @@ export function readDelimited(
       missing: pass1.missing[c],
     };
   });
-  return { rows, columns, delimiter: o.delimiter, decimal: o.decimal };
+  return { rowCount: rows, columns, delimiter: o.delimiter, decimal: o.decimal };
 }
 
 /** Runs one pass over the data records; returns the row count. */

@@ -24,7 +24,7 @@ function throwsDelimited(fn: () => unknown, message: string | RegExp): Delimited
 // RFC 4180 §2 rules 5–7 (quoted fields, embedded delimiters and line breaks, doubled quotes).
 Deno.test("readDelimited() reads RFC 4180 quoted fields with delimiters, newlines and doubled quotes", () => {
   const d = read('id,note,v\n1,"a, b",2\n2,"line one\nline two",3\n3,"say ""hi""",4\n4,"",5\n');
-  assert.equal(d.rows, 4);
+  assert.equal(d.rowCount, 4);
   assert.deepEqual(col(d, "note").values, ["a, b", "line one\nline two", 'say "hi"', null]);
   assert.deepEqual(nums(d, "v"), [2, 3, 4, 5]);
   assert.equal(col(d, "note").missing, 1);
@@ -42,7 +42,7 @@ Deno.test("readDelimited() reads quoted numbers as numbers and quoted header nam
 Deno.test("readDelimited() accepts CRLF, lone CR and a missing final line end", () => {
   for (const text of ["a,b\r\n1,2\r\n3,4\r\n", "a,b\r1,2\r3,4", "a,b\n1,2\n3,4"]) {
     const d = read(text);
-    assert.equal(d.rows, 2, JSON.stringify(text));
+    assert.equal(d.rowCount, 2, JSON.stringify(text));
     assert.deepEqual(nums(d, "b"), [2, 4]);
   }
 });
@@ -63,7 +63,7 @@ Deno.test("readDelimited() skips a UTF-8 byte order mark and decodes UTF-8 names
 
 Deno.test("readDelimited() skips blank lines, which are not rows", () => {
   const d = read("a,b\n1,2\n\n3,4\n\n\n");
-  assert.equal(d.rows, 2);
+  assert.equal(d.rowCount, 2);
   assert.deepEqual(nums(d, "a"), [1, 3]);
 });
 
@@ -161,7 +161,7 @@ Deno.test("readDelimited() refuses an empty file and a file holding only a BOM o
 
 Deno.test("readDelimited() reads a header-only file as zero rows", () => {
   const d = read("cycle,capacity\n");
-  assert.equal(d.rows, 0);
+  assert.equal(d.rowCount, 0);
   assert.deepEqual(d.columns.map((c) => [c.name, c.type, c.values.length]), [
     ["cycle", "number", 0],
     ["capacity", "number", 0],
