@@ -1,0 +1,142 @@
+/**
+ * Support for reference suites: where the shared reference data lives, the
+ * skip-or-fail rule, running a real document through `plumb run --json`, and
+ * NIST's log relative error.
+ *
+ * The data are read from `../shared/reference/` beside the repository at run
+ * time and never copied in. Where that folder is absent a suite skips with
+ * one console line; with PLUMB_REQUIRE_REFERENCE=1 (CI) it fails instead.
+ *
+ * @module
+ */
+import { join } from "node:path";
+
+/** `../shared/reference/` beside the repository. */
+export const REFERENCE_DIR = new URL("../../../shared/reference/", import.meta.url);
+
+const MAIN = new URL("../../kernel/cli/main.ts", import.meta.url).pathname;
+
+/**
+ * Whether the reference data are present. When absent, prints one line and
+ * returns false, or throws when PLUMB_REQUIRE_REFERENCE=1.
+ *
+ * @param suite The suite's name, for the message.
+ * @returns True when the suite can run.
+ * @throws {Error} When the data are missing and required.
+ */
+export function referenceAvailable(suite: string): boolean {
+  try {
+    Deno.statSync(REFERENCE_DIR);
+    return true;
+  } catch {
+    const msg = `Reference data not found at ${REFERENCE_DIR.pathname}`;
+    if (Deno.env.get("PLUMB_REQUIRE_REFERENCE") === "1") {
+      throw new Error(`${msg} and PLUMB_REQUIRE_REFERENCE=1: suite "${suite}" cannot run`);
+    }
+    console.log(`skipping ${suite}: ${msg}`);
+    return false;
+  }
+}
+
+/**
+ * Reads a JSON file from the reference folder.
+ *
+ * @param path Path inside `../shared/reference/`.
+ * @returns The parsed JSON.
+ */
+export async function readReferenceJson<T = unknown>(path: string): Promise<T> {
+  return JSON.parse(await Deno.readTextFile(new URL(path, REFERENCE_DIR))) as T;
+}
+
+/**
+ * Reads a text file from the reference folder.
+ *
+ * @param path Path inside `../shared/reference/`.
+ * @returns Its text.
+ */
+export function readReferenceText(path: string): Promise<string> {
+  return Deno.readTextFile(new URL(path, REFERENCE_DIR));
+}
+
+/** A cell of RUN-JSON (../shared/RUN-JSON.md). */
+export interface RunCell {
+  name: string;
+  kind: string;
+  state: string;
+  line: number;
+  error: { message: string; line: number; column: number } | null;
+  warnings: string[];
+  // deno-lint-ignore no-explicit-any
+  result: any;
+}
+
+/** RUN-JSON of a whole document. */
+export interface RunJson {
+  plumb: string;
+  document: string;
+  ok: boolean;
+  cells: RunCell[];
+}
+
+/**
+ * Writes a document and its data files into a fresh folder and runs it with
+ * `plumb run --json` in a subprocess with the CLI's own permissions.
+ *
+ * @param doc The analysis document's text.
+ * @param files Data files by name (text).
+ * @returns The parsed RUN-JSON and the exit status.
+ */
+export async function runDocument(
+  doc: string,
+  files: Record<string, string> = {},
+): Promise<RunJson & { exitCode: number }> {
+  const dir = await Deno.makeTempDir({ prefix: "plumb-ref-" });
+  try {
+    for (const [name, text] of Object.entries(files)) {
+      await Deno.writeTextFile(join(dir, name), text);
+    }
+    const path = join(dir, "analysis.md");
+    await Deno.writeTextFile(path, doc);
+    const out = await new Deno.Command(Deno.execPath(), {
+      args: [
+        "run",
+        "--allow-read",
+        "--allow-env=LOG_TOKENS,LOG_STREAM",
+        MAIN,
+        "run",
+        path,
+        "--json",
+      ],
+      stdout: "piped",
+      stderr: "piped",
+    }).output();
+    const stdout = new TextDecoder().decode(out.stdout);
+    if (out.code === 2) {
+      throw new Error(`plumb run failed: ${new TextDecoder().decode(out.stderr)}`);
+    }
+    return { ...JSON.parse(stdout), exitCode: out.code };
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+}
+
+/**
+ * Log relative error as NIST defines it for StRD: −log₁₀(|x − c| / |c|), or
+ * −log₁₀|x| when the certified value c is 0; capped at the digits certified.
+ *
+ * @param x The computed value.
+ * @param c The certified value.
+ * @param cap Largest LRE reported (15 for linear sets, 11 for nonlinear).
+ * @returns The number of agreeing significant digits (0 when x is not finite).
+ * @example
+ * ```ts
+ * import { lre } from "./_reference.ts";
+ * if (Math.abs(lre(1.0000001, 1) - 7) > 1e-6) throw new Error();
+ * ```
+ */
+export function lre(x: number, c: number, cap = 15): number {
+  if (!Number.isFinite(x)) return 0;
+  if (x === c) return cap;
+  const e = c === 0 ? Math.abs(x) : Math.abs(x - c) / Math.abs(c);
+  return Math.max(0, Math.min(cap, -Math.log10(e)));
+}
