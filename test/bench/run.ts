@@ -86,7 +86,14 @@ async function microBenches(): Promise<unknown[]> {
   const out = await cmd.output();
   if (!out.success) throw new Error("deno bench failed");
   const report = JSON.parse(new TextDecoder().decode(out.stdout));
-  return report.benches.map((b: { name: string; group: string | null; origin: string; results: { ok?: { avg: number; p75: number; n: number } }[] }) => ({
+  return report.benches.map((
+    b: {
+      name: string;
+      group: string | null;
+      origin: string;
+      results: { ok?: { avg: number; p75: number; n: number } }[];
+    },
+  ) => ({
     name: b.name,
     group: b.group,
     file: b.origin.replace(root.href, ""),
