@@ -34,6 +34,8 @@ export class NumberPass implements FieldSink {
   missing: number[];
   bad: number[];
   badSamples: BadValue[][];
+  /** Columns read by the scanner's fused number path (see FieldSink). */
+  readonly numbers: readonly boolean[];
   private cap: number;
   private readonly rowsWithLo: number;
   /** Some marker reads as a number (a sentinel such as -999): test markers before parsing. */
@@ -50,13 +52,14 @@ export class NumberPass implements FieldSink {
   constructor(
     private readonly bytes: Uint8Array,
     parse: readonly boolean[],
-    private readonly parser: DecimalParser,
+    readonly parser: DecimalParser,
     private readonly markers: MissingMarkers,
     loLimit: number,
     capacity: number,
   ) {
     const n = parse.length;
     this.markersFirst = markers.numeric(parser);
+    this.numbers = this.markersFirst ? [] : parse;
     const parsed = parse.filter((p) => p).length;
     this.cap = Math.max(16, capacity);
     this.rowsWithLo = parsed === 0 ? Infinity : Math.floor(loLimit / parsed);
@@ -88,6 +91,14 @@ export class NumberPass implements FieldSink {
     this.values = this.values.map(grow);
     this.lo = this.lo.map(grow);
     this.cap = cap;
+  }
+
+  number(col: number, x: number): void {
+    const r = this.row;
+    this.values[col]![r] = x;
+    const lo = this.lo[col];
+    if (lo !== null) lo[r] = this.parser.lo;
+    this.numeric[col]++;
   }
 
   field(col: number, start: number, end: number, _quoted: boolean, escaped: boolean): void {

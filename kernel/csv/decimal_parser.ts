@@ -98,8 +98,11 @@ export class DecimalParser {
     this.wantLo = options.wantLo ?? true;
   }
 
+  /** After {@link DecimalParser.scan}: one past the last byte it consumed. */
+  stop = 0;
+
   /**
-   * Parses `bytes[start, end)` as a decimal number.
+   * Parses `bytes[start, end)` as a decimal number, allowing spaces and tabs around it.
    *
    * @param bytes The buffer.
    * @param start First byte of the field.
@@ -110,21 +113,34 @@ export class DecimalParser {
   parse(bytes: Uint8Array, start: number, end: number): number {
     let i = start, e = end;
     if (i < e && bytes[i] <= 0x20) {
-      while (i < e && (bytes[i] === 0x20 || bytes[i] === 0x09)) {
-        i++;
-      }
+      while (i < e && (bytes[i] === 0x20 || bytes[i] === 0x09)) i++;
     }
     if (e > i && bytes[e - 1] <= 0x20) {
       while (e > i && (bytes[e - 1] === 0x20 || bytes[e - 1] === 0x09)) e--;
     }
-    const textStart = i;
-    let neg = false;
-    if (i < e && (bytes[i] === 0x2d || bytes[i] === 0x2b)) {
+    const x = this.scan(bytes, i, e);
+    return this.stop === e ? x : NaN;
+  }
+
+  /**
+   * Reads the longest decimal number starting at `start` (no spaces), for a
+   * scanner that parses while it looks for the end of a field. The caller
+   * checks that {@link DecimalParser.stop} is where the field ends.
+   *
+   * @param bytes The buffer.
+   * @param start Where the number should begin.
+   * @param end Do not read at or beyond this index.
+   * @returns The correctly rounded double of `bytes[start, stop)`, or NaN
+   *   when no number begins there.
+   */
+  scan(bytes: Uint8Array, start: number, end: number): number {
+    let i = start, neg = false;
+    if (i < end && (bytes[i] === 0x2d || bytes[i] === 0x2b)) {
       neg = bytes[i] === 0x2d;
       i++;
     }
     let m = 0, exact = true, frac = 0, digits = 0;
-    for (; i < e; i++) {
+    for (; i < end; i++) {
       const d = bytes[i] - 0x30;
       if (d < 0 || d > 9) break;
       digits++;
@@ -132,8 +148,8 @@ export class DecimalParser {
       if (t > MAX_EXACT) exact = false;
       else m = t;
     }
-    if (i < e && bytes[i] === this.decimalByte) {
-      for (i++; i < e; i++) {
+    if (i < end && bytes[i] === this.decimalByte) {
+      for (i++; i < end; i++) {
         const d = bytes[i] - 0x30;
         if (d < 0 || d > 9) break;
         digits++;
@@ -143,28 +159,29 @@ export class DecimalParser {
         else m = t;
       }
     }
+    this.stop = i;
     if (digits === 0) return NaN;
     let exp = 0;
-    if (i < e && (bytes[i] | 0x20) === 0x65) {
+    if (i < end && (bytes[i] | 0x20) === 0x65) {
       i++;
       let eneg = false;
-      if (i < e && (bytes[i] === 0x2d || bytes[i] === 0x2b)) {
+      if (i < end && (bytes[i] === 0x2d || bytes[i] === 0x2b)) {
         eneg = bytes[i] === 0x2d;
         i++;
       }
       const es = i;
-      for (; i < e; i++) {
+      for (; i < end; i++) {
         const d = bytes[i] - 0x30;
         if (d < 0 || d > 9) break;
         if (exp < 100000) exp = exp * 10 + d; // beyond this the value is 0 or infinite anyway
       }
+      this.stop = i;
       if (i === es) return NaN;
       if (eneg) exp = -exp;
     }
-    if (i !== e) return NaN;
     const k = exp - frac;
     if (exact && k >= -22 && k <= 22) return this.fast(m, k, neg);
-    return this.slow(bytes, textStart, e);
+    return this.slow(bytes, start, i);
   }
 
   /** Clinger's fast path with Dekker's exact residual. */
