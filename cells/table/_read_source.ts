@@ -13,20 +13,10 @@
  * @module
  */
 import { CellError, type OptionPath } from "../../kernel/errors.ts";
+import { formatBytes } from "../../kernel/format_bytes.ts";
 import { type DelimitedData, DelimitedError, readDelimited } from "../../kernel/csv/mod.ts";
 import type { RunContext } from "../types.ts";
 import type { InlineData, TableSpec } from "./spec.ts";
-
-/** "612 MB", in the decimal units the kernel's file messages use. */
-function formatBytes(bytes: number): string {
-  const units = ["bytes", "kB", "MB", "GB", "TB"];
-  let v = bytes, u = 0;
-  while (v >= 1000 && u < units.length - 1) {
-    v /= 1000;
-    u++;
-  }
-  return u === 0 ? `${v} bytes` : `${v >= 100 ? Math.round(v) : v.toFixed(1)} ${units[u]}`;
-}
 
 function quote(s: string): string {
   return '"' + s.replaceAll('"', '""') + '"';

@@ -106,7 +106,7 @@ Deno.test("tableKind.run() rechecks the file size against max_file_size", async 
   await runFails(
     { from: "big.csv" },
     { "big.csv": new Uint8Array(2_500_000) },
-    `File "big.csv" is 2.5 MB, over the limit of 2.0 MB (set max_file_size in the front matter to raise it)`,
+    `File "big.csv" is 2.4 MiB, over the limit of 1.9 MiB (set max_file_size in the front matter to raise it)`,
     ["from"],
     undefined,
     { maxFileBytes: 2_000_000 },

@@ -14,22 +14,7 @@ import { isAbsolute, join, relative, resolve } from "node:path";
 import type { FileData } from "../../cells/types.ts";
 import { CellError, type OptionPath } from "../errors.ts";
 import { sha256Hex } from "../hash.ts";
-
-/**
- * Formats a byte count for messages ("612 MB", "3.2 kB").
- *
- * @param bytes A size in bytes.
- * @returns A short human size in decimal units.
- */
-export function formatBytes(bytes: number): string {
-  const units = ["bytes", "kB", "MB", "GB", "TB"];
-  let v = bytes, u = 0;
-  while (v >= 1000 && u < units.length - 1) {
-    v /= 1000;
-    u++;
-  }
-  return u === 0 ? `${v} bytes` : `${v >= 100 ? Math.round(v) : v.toFixed(1)} ${units[u]}`;
-}
+import { formatBytes } from "../format_bytes.ts";
 
 interface Entry {
   size: number;

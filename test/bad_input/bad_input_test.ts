@@ -133,7 +133,7 @@ Deno.test("bad input: a file over the size limit is refused before it is read", 
   const r = await runCase(doc, { "big.csv": "x\n" + "1.5\n".repeat(1000) });
   match(
     cellNamed(r, "big").error!.message,
-    /^File "big.csv" is 4\.0 kB, over the limit of 1\.0 kB/,
+    /^File "big.csv" is 3\.9 KiB, over the limit of 1000 bytes/,
   );
 });
 
