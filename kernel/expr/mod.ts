@@ -6,6 +6,7 @@
  *  text ──parseModel / parseColumnExpression / parseExpression──▶ Expr
  *  Expr ──simplify / derivative / format / freeNames / isLinearIn
  *  Expr ──compile (row loop) / compileScalar──▶ JavaScript function
+ *  Expr ──compileDD──▶ row-wise evaluator in double-double (hi + lo arrays)
  * ```
  *
  * Functions: `exp log log10 sqrt abs sin cos tan atan tanh` (one argument),
@@ -37,4 +38,5 @@ export { format } from "./format.ts";
 export { freeNames } from "./free_names.ts";
 export { compile, type Compiled } from "./compile.ts";
 export { compileScalar } from "./compile_scalar.ts";
+export { compileDD, type CompiledDD } from "./compile_dd.ts";
 export { isLinearIn } from "./is_linear_in.ts";
