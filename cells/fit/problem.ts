@@ -15,6 +15,7 @@
  * @module
  */
 import type { Model } from "../../kernel/expr/mod.ts";
+import type { NumberColumn } from "../types.ts";
 
 /** What a solver is given. */
 export interface FitProblem {
@@ -32,6 +33,22 @@ export interface FitProblem {
   rows: Int32Array;
   /** Start values by parameter name (may be empty). */
   start: Readonly<Record<string, number>>;
+  /**
+   * Decimal corrections of `columns` and of the untransformed response
+   * column (`lo` of {@link NumberColumn}, on the rows used), for residuals
+   * in double-double; absent or null where the table kept none.
+   */
+  lo?: {
+    columns: (Float64Array | null)[];
+    /** The response column's values (before any transform) and their corrections. */
+    response: { hi: Float64Array; lo: Float64Array | null };
+  };
+  /** Bounds by parameter name, `null` for an open end (the fit's `within` option). */
+  limits?: Readonly<Record<string, readonly [number | null, number | null]>>;
+  /** Seed for the multi-start search (the document's `seed` setting). */
+  seed?: number;
+  /** Records a warning on the cell (solvers that warn use it). */
+  warn?: (message: string) => void;
 }
 
 /** What a solver returns. */
@@ -55,4 +72,9 @@ export interface FitSolution {
   design: Float64Array[];
   /** The part of the model free of parameters, evaluated per row (linear only; null when zero). */
   offset: Float64Array | null;
+  /**
+   * Per parameter: it ended on a bound of `limits` (nonlinear only). Its rows
+   * and columns of `unscaledCovariance` are then NaN: no standard error.
+   */
+  atBound?: boolean[];
 }
