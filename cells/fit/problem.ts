@@ -49,6 +49,26 @@ export interface FitProblem {
   seed?: number;
   /** Records a warning on the cell (solvers that warn use it). */
   warn?: (message: string) => void;
+  /**
+   * Weights wᵢ > 0 of the rows used; null or absent for an unweighted fit.
+   * Relative weights (`weights:`) and known standard deviations
+   * (`known_sigma:`, wᵢ = 1/σᵢ²) both arrive here, checked finite and
+   * positive (zero-weight rows are already left out). A solver then
+   * minimises Σ wᵢ·(yᵢ − f(xᵢ; θ))², and must:
+   *
+   * - multiply row i of the design (linear) or of the Jacobian (nonlinear)
+   *   and the residual yᵢ − fᵢ by √wᵢ before factoring or stepping
+   *   (`whiten` in `_weights.ts` does it for a list of columns);
+   * - return `rss` = Σ wᵢ·rᵢ² and `unscaledCovariance` = (XᵀWX)⁻¹ or
+   *   (JᵀWJ)⁻¹, i.e. what the whitened problem gives;
+   * - return `fitted`, `residuals` (= y − fitted) and `design` on the
+   *   original, unweighted scale;
+   * - decide `hasIntercept` on the unweighted design: a constant is in the
+   *   span of X exactly when √w is in the span of √W·X.
+   *
+   * The cell derives every weighted statistic from these (`_statistics.ts`).
+   */
+  weights?: Float64Array | null;
 }
 
 /** What a solver returns. */

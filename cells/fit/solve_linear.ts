@@ -27,6 +27,7 @@ import {
 import type { FitProblem, FitSolution } from "./problem.ts";
 import { identifierOffset, rowList } from "./_offsets.ts";
 import { notFinite } from "./_data.ts";
+import { rootWeights, unwhiten, whiten } from "./_weights.ts";
 
 /**
  * Fits a linear-in-parameters model by QR least squares.
@@ -59,7 +60,11 @@ export function solveLinear(problem: FitProblem): FitSolution {
   );
   const offset = offsetOf(problem, evalAt(model.rhs));
   const target = offset ? problem.y.map((v, i) => v - offset[i]) : problem.y;
-  const ls = leastSquares(design, target, params);
+  // Weighted: the whitened problem √W·X, √W·y (see FitProblem.weights).
+  const root = rootWeights(problem.weights);
+  const ls = root
+    ? leastSquares(whiten(design, root), whiten([target], root)[0], params)
+    : leastSquares(design, target, params);
   if (!ls.fullRank) {
     const first = ls.aliasing[0];
     throw new CellError(
@@ -70,15 +75,16 @@ export function solveLinear(problem: FitProblem): FitSolution {
       identifierOffset(model.rhs, first.name),
     );
   }
-  const fitted = offset ? ls.fitted.map((v, i) => v + offset[i]) : ls.fitted;
+  const part = root ? unwhiten(ls.fitted, root) : ls.fitted;
+  const fitted = offset ? part.map((v, i) => v + offset[i]) : part;
   return {
     method: "linear",
     estimates: ls.coefficients,
     unscaledCovariance: ls.unscaledCovariance,
     fitted,
-    residuals: ls.residuals,
+    residuals: root ? unwhiten(ls.residuals, root) : ls.residuals,
     rss: ls.rss,
-    hasIntercept: inColumnSpace(ls.qr, new Float64Array(n).fill(1)),
+    hasIntercept: inColumnSpace(ls.qr, root ?? new Float64Array(n).fill(1)),
     conditionNumber: ls.conditionEstimate,
     converged: true,
     iterations: 1,
