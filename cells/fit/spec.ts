@@ -5,6 +5,9 @@
  * on: cycles                          # the table cell to fit (required)
  * model: capacity = q0 - a*sqrt(cycle) # response = expression (required)
  * start: { q0: 2500, a: 1 }           # start values, used by nonlinear fits (optional)
+ * weights: 1/cycle                    # relative weights ∝ 1/variance (optional), or
+ * known_sigma: sd                     # each row's absolute standard deviation (optional)
+ * count_variance: true                # criteria count σ² as a parameter (default)
  * ```
  *
  * Model text is only checked for being a string here: its names are known only
@@ -15,6 +18,7 @@
 import { CellError } from "../../kernel/errors.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
 import type { ParseContext } from "../types.ts";
+import { parseWeighting } from "./_parse_weighting.ts";
 
 /** A `fit` cell's normalised options (plain JSON: hashed into the cache key). */
 export interface FitSpec {
@@ -24,6 +28,12 @@ export interface FitSpec {
   model: string;
   /** Start values by parameter name (nonlinear fits); empty when not given. */
   start: Record<string, number>;
+  /** Expression for relative weights ∝ 1/variance (`weights`), when given. */
+  weights?: string;
+  /** Expression for each row's known absolute standard deviation (`known_sigma`), when given. */
+  knownSigma?: string;
+  /** False when the criteria count only the mean parameters (`count_variance: false`). */
+  countVariance?: false;
 }
 
 /** Option keys a `fit` cell understands, with what each is for. */
@@ -31,7 +41,9 @@ export const FIT_OPTIONS = {
   on: "the table cell to fit",
   model: "the model equation, response = expression",
   start: "start values of parameters, for nonlinear fits",
-  weights: "weights by expression (not available yet)",
+  weights: "relative weights ∝ 1/variance, an expression over columns",
+  known_sigma: "each row's known standard deviation (absolute), an expression over columns",
+  count_variance: "whether AIC, AICc and BIC count the error variance as a parameter (default true)",
 } as const;
 
 /**
@@ -40,7 +52,7 @@ export const FIT_OPTIONS = {
  * @param ctx The parse context (cell name, YAML options).
  * @returns The spec.
  * @throws {CellError} For a missing or non-text `on` or `model`, a bad `start`
- *   mapping, `weights` (not available yet) or an unknown option.
+ *   mapping, bad weighting options (see `_parse_weighting.ts`) or an unknown option.
  * @example
  * ```ts
  * import { parseFitSpec } from "./spec.ts";
@@ -61,16 +73,11 @@ export function parseFitSpec(ctx: ParseContext): FitSpec {
       throw new CellError(`Unknown option "${key}" in fit "${ctx.name}"${hint}`, [key]);
     }
   }
-  if ("weights" in o) {
-    throw new CellError(
-      `Cannot fit "${ctx.name}" with weights: weighted fitting arrives with the numerical core`,
-      ["weights"],
-    );
-  }
   return {
     on: cellName(ctx, o.on),
     model: modelText(ctx, o.model),
     start: startValues(ctx, o.start),
+    ...parseWeighting(ctx),
   };
 }
 
