@@ -2,7 +2,9 @@
  * From a table and a model to a {@link FitProblem}: parse the model against
  * the table's columns, check the columns it uses are numeric, leave out rows
  * with missing values (with a warning that counts and names them) and
- * evaluate the response as written (`log(y)` included).
+ * evaluate the response as written (`log(y)` included). The problem also
+ * carries the columns' decimal corrections (`lo`), for the double-double
+ * solvers.
  *
  * @module
  */
@@ -46,6 +48,8 @@ export function buildProblem(
       model.response.start,
     );
   }
+  // Decimal corrections (NumberColumn.lo) on the rows used; null where the table kept none.
+  const pickLo = (c: NumberColumn) => (c.lo === null ? null : pick(c.lo));
   return {
     name,
     model,
@@ -54,6 +58,10 @@ export function buildProblem(
     y,
     rows,
     start: spec.start,
+    lo: {
+      columns: used.slice(1).map(pickLo),
+      response: { hi: pick(used[0].values), lo: pickLo(used[0]) },
+    },
   };
 }
 

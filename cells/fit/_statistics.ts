@@ -57,9 +57,8 @@ export function fitStatistics(
   const correlation = s.unscaledCovariance.map((v, k) =>
     v / Math.sqrt(diag(k % p) * diag(Math.floor(k / p)))
   );
-  const tss = s.hasIntercept
-    ? centredSumOfSquares(problem.y)
-    : problem.y.reduce((a, v) => a + v * v, 0);
+  const tss = s.tss ??
+    (s.hasIntercept ? centredSumOfSquares(problem.y) : problem.y.reduce((a, v) => a + v * v, 0));
   const written = problem.model.text.slice(
     problem.model.response.start,
     problem.model.response.end,

@@ -93,6 +93,12 @@ export interface FitSolution {
   /** The part of the model free of parameters, evaluated per row (linear only; null when zero). */
   offset: Float64Array | null;
   /**
+   * The total sum of squares of R² when the solver computed it more
+   * accurately than the doubles of `y` allow (the linear double-double path,
+   * unweighted fits): Σ(y − ȳ)² with an intercept, Σy² without.
+   */
+  tss?: number;
+  /**
    * Per parameter: it ended on a bound of `limits` (nonlinear only). Its rows
    * and columns of `unscaledCovariance` are then NaN: no standard error.
    */

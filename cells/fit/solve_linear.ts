@@ -9,6 +9,12 @@
  * (kernel/linalg; Golub & Van Loan, *Matrix Computations*, 4th ed., §5.3
  * and §5.4.1). Never the normal equations.
  *
+ * Two precisions: the double factorization always runs (it decides rank,
+ * aliasing, the pivot order, the intercept and the condition number); when
+ * n·p² ≤ 2e7 (`_precise_linear.ts`, chosen by kernel/linalg/qr_bench.ts) the
+ * problem is then solved again in double-double from the data as printed,
+ * and those estimates, residuals, RSS, TSS and covariance are returned.
+ *
  * ```
  *  capacity = q0 - a*sqrt(cycle)      X = [ 1 | -sqrt(cycle) ],  offset = 0
  *  y = 2*x + a                        X = [ 1 ],                 offset = 2*x
@@ -28,6 +34,7 @@ import type { FitProblem, FitSolution } from "./problem.ts";
 import { identifierOffset, rowList } from "./_offsets.ts";
 import { notFinite } from "./_data.ts";
 import { rootWeights, unwhiten, whiten } from "./_weights.ts";
+import { solvePrecise, usePrecise } from "./_precise_linear.ts";
 
 /**
  * Fits a linear-in-parameters model by QR least squares.
@@ -75,6 +82,23 @@ export function solveLinear(problem: FitProblem): FitSolution {
       identifierOffset(model.rhs, first.name),
     );
   }
+  const hasIntercept = inColumnSpace(ls.qr, root ?? new Float64Array(n).fill(1));
+  // Small and medium problems are solved again in double-double from the data as printed.
+  const precise = usePrecise(n, params.length)
+    ? solvePrecise(problem, terms, ls.qr.perm, root, hasIntercept)
+    : null;
+  if (precise !== null) {
+    return {
+      method: "linear",
+      ...precise,
+      hasIntercept,
+      conditionNumber: ls.conditionEstimate,
+      converged: true,
+      iterations: 1,
+      design,
+      offset,
+    };
+  }
   const part = root ? unwhiten(ls.fitted, root) : ls.fitted;
   const fitted = offset ? part.map((v, i) => v + offset[i]) : part;
   return {
@@ -84,7 +108,7 @@ export function solveLinear(problem: FitProblem): FitSolution {
     fitted,
     residuals: root ? unwhiten(ls.residuals, root) : ls.residuals,
     rss: ls.rss,
-    hasIntercept: inColumnSpace(ls.qr, root ?? new Float64Array(n).fill(1)),
+    hasIntercept,
     conditionNumber: ls.conditionEstimate,
     converged: true,
     iterations: 1,

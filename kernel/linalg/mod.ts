@@ -34,6 +34,12 @@ export {
   type LeastSquaresResult,
 } from "./least_squares.ts";
 export {
+  ddLeastSquares,
+  type DDLeastSquaresFit,
+  ddSumOfSquares,
+  type DDVector,
+} from "./dd_least_squares.ts";
+export {
   type DD,
   dd,
   ddAdd,
