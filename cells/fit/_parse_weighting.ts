@@ -70,9 +70,9 @@ function expression(ctx: ParseContext, key: string, v: unknown): string {
   if (typeof v === "number" && Number.isFinite(v)) return String(v);
   if (typeof v !== "string" || v.trim() === "") {
     throw new CellError(
-      `Option "${key}" of fit "${ctx.name}" is "${String(v)}": expected an expression over columns, such as ${
-        key === "weights" ? "1/conc^2" : "sd"
-      }`,
+      `Option "${key}" of fit "${ctx.name}" is "${
+        String(v)
+      }": expected an expression over columns, such as ${key === "weights" ? "1/conc^2" : "sd"}`,
       [key],
     );
   }

@@ -1,30 +1,48 @@
 /**
- * Fit statistics from a solution: residual standard error, standard errors,
- * covariance and correlation of the estimates, R² and adjusted R².
+ * Fit statistics from a solution: residual standard error, covariance,
+ * standard errors, t, p-values and intervals of the estimates, sums of
+ * squares, R², the overall F test, log-likelihood and criteria.
  *
- * Formulas (Draper & Smith, *Applied Regression Analysis*, 3rd ed., ch. 1–2
- * and 5; from memory for the chapter numbers):
+ * Formulas (Draper & Smith, *Applied Regression Analysis*, 3rd ed., ch. 1–2,
+ * 5 and 9 for weights; from memory for the chapter numbers):
  *
- * - σ = √(RSS/(n − p)); Cov(θ̂) = σ²·(XᵀX)⁻¹; se_j = σ·√[(XᵀX)⁻¹]_jj; t_j = θ̂_j/se_j.
+ * - σ = √(RSS/(n − p)), RSS = Σ wᵢrᵢ² (wᵢ = 1 unweighted).
+ * - Relative weights or none: Cov(θ̂) = σ²·(XᵀWX)⁻¹, t_j = θ̂_j/se_j tested
+ *   against t(n − p), interval θ̂_j ± t_{(1+c)/2; n−p}·se_j.
+ * - Known standard deviations (absolute): Cov(θ̂) = (XᵀWX)⁻¹, not rescaled;
+ *   z_j = θ̂_j/se_j against N(0, 1), interval θ̂_j ± z_{(1+c)/2}·se_j.
  * - With an intercept (a constant in the span of the design):
- *   TSS = Σ(y − ȳ)², R² = 1 − RSS/TSS, adj. R² = 1 − (1 − R²)(n − 1)/(n − p).
- * - Without one the centred identity TSS = ESS + RSS fails, so R² is the
- *   uncentred 1 − RSS/Σy² and adj. R² = 1 − (1 − R²)·n/(n − p), with a
+ *   TSS = Σ wᵢ(yᵢ − ȳ_w)², ȳ_w = Σwᵢyᵢ/Σwᵢ; R² = 1 − RSS/TSS;
+ *   adj. R² = 1 − (1 − R²)(n − 1)/(n − p); F = (ESS/(p − 1))/(RSS/(n − p))
+ *   against F(p − 1, n − p), ESS = TSS − RSS.
+ * - Without one the centred identity fails: R² is the uncentred
+ *   1 − RSS/Σwᵢyᵢ², adj. R² = 1 − (1 − R²)·n/(n − p), no F test, and a
  *   warning (as NIST certifies NoInt1/NoInt2; see DESIGN.md §5).
+ * - Nonlinear fits: R² = 1 − RSS/TSS with ESS = Σwᵢ(ŷᵢ − ȳ_w)² computed
+ *   directly, since TSS = ESS + RSS does not hold; no F test; a warning.
  * - TSS = 0: R² is undefined (null), with a warning.
+ *
+ * p-values are upper tails computed directly (kernel/stats), so values down
+ * to about 1e-300 are numbers, not 0.
  *
  * @module
  */
+import { fisherF, standardNormal, studentT } from "../../kernel/stats/mod.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";
+import { type Likelihood, likelihood } from "./_likelihood.ts";
+import type { Weighting } from "./_weighting.ts";
+import { explainedSum, totalSum } from "./_sums.ts";
 
 /** Statistics shared by every fit. `null` marks a value that does not exist. */
-export interface FitStatistics {
+export interface FitStatistics extends Likelihood {
   n: number;
   p: number;
   dfResidual: number;
+  /** Σ wᵢrᵢ² (Σ rᵢ² unweighted). */
   rss: number;
-  /** Σ(y − ȳ)² with an intercept, Σy² without (see `r2Centred`). */
+  /** Σwᵢ(yᵢ − ȳ_w)² with an intercept, Σwᵢyᵢ² without (see `r2Centred`). */
   tss: number;
+  ess: number;
   r2: number | null;
   adjR2: number | null;
   /** Whether R² is the centred (true) or uncentred (false) form. */
@@ -32,33 +50,117 @@ export interface FitStatistics {
   sigma: number | null;
   stdErrors: (number | null)[];
   t: (number | null)[];
-  /** σ²·(XᵀX)⁻¹, p×p column-major; null when df = 0. */
-  covariance: Float64Array | null;
+  pValues: (number | null)[];
+  /** Intervals at `confidence`. */
+  intervals: ([number, number] | null)[];
+  confidence: number;
+  /** The reference distribution of t and the intervals. */
+  inference: "t" | "normal";
+  /** Cov(θ̂), p×p column-major (NaN rows/columns for a parameter at a bound). */
+  covariance: Float64Array;
   /** Correlations of the estimates, p×p column-major. */
   correlation: Float64Array;
+  /** False with known standard deviations: the covariance is not rescaled by σ². */
+  covarianceScaled: boolean;
+  weighting: Weighting;
+  fStatistic: number | null;
+  fPValue: number | null;
 }
 
-/** Computes the statistics, warning about uncentred or undefined R². */
+/** What the statistics depend on besides problem and solution. */
+export interface StatisticsOptions {
+  /** Confidence level of the intervals (the document's `confidence`). */
+  confidence: number;
+  weighting: Weighting;
+  /** Whether the criteria count the error variance (default true). */
+  countVariance: boolean;
+}
+
+/**
+ * Computes the statistics, warning about uncentred, undefined or
+ * non-additive R², an unbounded log-likelihood or an undefined AICc.
+ *
+ * @param problem The problem solved (weights included).
+ * @param s The solver's solution.
+ * @param o Confidence level, weighting mode and k convention.
+ * @param warn Records a warning on the cell.
+ * @returns The statistics.
+ */
 export function fitStatistics(
   problem: FitProblem,
   s: FitSolution,
+  o: StatisticsOptions,
   warn: (m: string) => void,
 ): FitStatistics {
   const n = problem.n, p = s.estimates.length, df = n - p;
+  const weights = problem.weights ?? null;
+  const absolute = o.weighting === "absolute";
   const sigma = df > 0 ? Math.sqrt(s.rss / df) : null;
-  const cov = sigma === null ? null : s.unscaledCovariance.map((v) => v * sigma * sigma);
+  const scale = absolute ? 1 : sigma === null ? NaN : sigma * sigma;
+  const covariance = s.unscaledCovariance.map((v) => v * scale);
+  const inf = inference(covariance, s.estimates, o.confidence, absolute ? null : df);
   const diag = (j: number) => s.unscaledCovariance[j + j * p];
-  const stdErrors = Array.from(
-    s.estimates,
-    (_, j) => (sigma === null ? null : sigma * Math.sqrt(diag(j))),
-  );
-  const t = stdErrors.map((se, j) => finiteOrNull(se === null ? NaN : s.estimates[j] / se));
-  // σ² cancels: corr_ij = u_ij/√(u_ii·u_jj) with u = (XᵀX)⁻¹.
+  // σ² cancels: corr_ij = u_ij/√(u_ii·u_jj) with u = (XᵀWX)⁻¹.
   const correlation = s.unscaledCovariance.map((v, k) =>
     v / Math.sqrt(diag(k % p) * diag(Math.floor(k / p)))
   );
-  const tss = s.tss ??
-    (s.hasIntercept ? centredSumOfSquares(problem.y) : problem.y.reduce((a, v) => a + v * v, 0));
+  const r = rSquared(problem, s, weights, df, warn);
+  return {
+    n,
+    p,
+    dfResidual: df,
+    rss: s.rss,
+    ...r,
+    sigma,
+    ...inf,
+    confidence: o.confidence,
+    inference: absolute ? "normal" : "t",
+    covariance,
+    correlation,
+    covarianceScaled: !absolute,
+    weighting: o.weighting,
+    ...likelihood(
+      { name: problem.name, n, p, rss: s.rss, weights, weighting: o.weighting },
+      o.countVariance,
+      warn,
+    ),
+  };
+}
+
+/** Standard errors, t, two-sided p-values and intervals; df null: normal reference. */
+function inference(
+  cov: Float64Array,
+  est: Float64Array,
+  confidence: number,
+  df: number | null,
+) {
+  const p = est.length;
+  const ref = df === null ? standardNormal : studentT(df);
+  const q = ref.upperQuantile((1 - confidence) / 2);
+  const stdErrors = Array.from(est, (_, j) => finiteOrNull(Math.sqrt(cov[j + j * p])));
+  const t = stdErrors.map((se, j) => (se === null ? null : finiteOrNull(est[j] / se)));
+  const pValues = t.map((v) => (v === null ? null : Math.min(1, 2 * ref.upper(Math.abs(v)))));
+  const intervals = stdErrors.map((se, j): [number, number] | null =>
+    se === null ? null : [est[j] - q * se, est[j] + q * se]
+  );
+  return { stdErrors, t, pValues, intervals };
+}
+
+/** TSS, ESS, R², adjusted R² and the overall F test, with their warnings. */
+function rSquared(
+  problem: FitProblem,
+  s: FitSolution,
+  weights: Float64Array | null,
+  df: number,
+  warn: (m: string) => void,
+) {
+  const n = problem.n, p = s.estimates.length;
+  const linear = s.method === "linear", centred = s.hasIntercept;
+  // The linear solver's double-double TSS (unweighted fits) is the more accurate one when given.
+  const tss = weights === null && s.tss !== undefined
+    ? s.tss
+    : totalSum(problem.y, weights, centred);
+  const ess = linear ? tss - s.rss : explainedSum(s.fitted, problem.y, weights, centred);
   const written = problem.model.text.slice(
     problem.model.response.start,
     problem.model.response.end,
@@ -67,54 +169,30 @@ export function fitStatistics(
   if (tss === 0) {
     warn(
       `R² of "${problem.name}" is undefined: the response "${written}" is ${
-        s.hasIntercept ? "constant" : "zero"
+        centred ? "constant" : "zero"
       } on every row used`,
     );
   } else {
     r2 = 1 - s.rss / tss;
-    adjR2 = df > 0 ? 1 - (1 - r2) * (s.hasIntercept ? n - 1 : n) / df : null;
+    adjR2 = df > 0 ? 1 - (1 - r2) * (centred ? n - 1 : n) / df : null;
   }
-  if (!s.hasIntercept) {
+  if (!centred) {
     warn(
       `R² of "${problem.name}" is uncentred, 1 − RSS/Σy², because the model has no intercept: compare it only with fits without one`,
     );
+  } else if (!linear) {
+    warn(
+      `R² of "${problem.name}" is 1 − RSS/TSS of a nonlinear fit: TSS = ESS + RSS does not hold, so it is not the share of variance explained, and no overall F test is given`,
+    );
   }
-  return {
-    n,
-    p,
-    dfResidual: df,
-    rss: s.rss,
-    tss,
-    r2,
-    adjR2,
-    r2Centred: s.hasIntercept,
-    sigma,
-    stdErrors,
-    t,
-    covariance: cov,
-    correlation,
-  };
+  let fStatistic: number | null = null, fPValue: number | null = null;
+  if (linear && centred && p > 1 && df > 0 && tss > 0) {
+    fStatistic = finiteOrNull((ess / (p - 1)) / (s.rss / df));
+    if (fStatistic !== null) fPValue = fisherF(p - 1, df).upper(fStatistic);
+  }
+  return { tss, ess, r2, adjR2, r2Centred: centred, fStatistic, fPValue };
 }
 
 function finiteOrNull(x: number): number | null {
   return Number.isFinite(x) ? x : null;
-}
-
-/**
- * Σ(y − ȳ)² by the corrected two-pass algorithm (Chan, Golub & LeVeque 1983,
- * "Algorithms for computing the sample variance", Am. Statistician 37; from
- * memory); exactly 0 for a constant y.
- */
-function centredSumOfSquares(y: Float64Array): number {
-  const n = y.length;
-  if (y.every((v) => v === y[0])) return 0;
-  let mean = 0;
-  for (const v of y) mean += v;
-  mean /= n;
-  let corr = 0;
-  for (const v of y) corr += v - mean;
-  mean += corr / n;
-  let ss = 0;
-  for (const v of y) ss += (v - mean) * (v - mean);
-  return ss;
 }

@@ -7,6 +7,7 @@
 import type { Model } from "../../kernel/expr/mod.ts";
 import type { CellOutput } from "../types.ts";
 import type { FitStatistics } from "./_statistics.ts";
+import type { Weighting } from "./_weighting.ts";
 
 /** A fitted model with everything downstream cells need to judge and use it. */
 export interface Fit extends CellOutput {
@@ -18,7 +19,12 @@ export interface Fit extends CellOutput {
   model: Model;
   /** The response as written, e.g. `log(y)`. */
   responseText: string;
-  weighted: false;
+  /** Whether the rows were weighted (relative weights or known standard deviations). */
+  weighted: boolean;
+  /** none, relative (`weights`, rescaled by the residual variance) or absolute (`known_sigma`). */
+  weighting: Weighting;
+  /** wᵢ of the rows used (1/σᵢ² for known standard deviations), or null. */
+  weights: Float64Array | null;
   /** Parameter names, in the model's order. */
   parameters: string[];
   estimates: Float64Array;
@@ -43,4 +49,6 @@ export interface Fit extends CellOutput {
   conditionNumber: number;
   converged: boolean;
   iterations: number;
+  /** Per parameter: it ended on a bound (nonlinear fits with limits); absent otherwise. */
+  atBound?: boolean[];
 }

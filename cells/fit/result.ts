@@ -2,23 +2,32 @@
  * The RUN-JSON `result` of a fit cell (see RUN-JSON.md, `fit`), and the
  * summary that builds it from a {@link Fit}.
  *
- * Not filled yet (they need t and F distributions, which arrive with the
- * statistics work): `p_value`, `ci`, `f_statistic`, `f_p_value`; nor the
- * likelihood and criteria (`log_likelihood`, `k`, `aic`, `aicc`, `bic`).
+ * Our additions to the documented shape (extend, never rename): `r2_kind`,
+ * `condition_number`, `confidence`, `inference`, `weighting`,
+ * `weighting_statement`, `k_convention`.
+ *
+ * With weights, `rss`, `tss` and `ess` are the weighted sums Σwᵢrᵢ²,
+ * Σwᵢ(yᵢ − ȳ_w)² and TSS − RSS, and `fitted`/`residuals` are on the
+ * original (unweighted) scale.
  *
  * @module
  */
 import type { Fit } from "./fit.ts";
+import type { Weighting } from "./_weighting.ts";
 
 /** One parameter row. */
 export interface FitParameterResult {
   name: string;
   estimate: number;
-  /** σ·√[(XᵀX)⁻¹]_jj; null when there are no residual degrees of freedom. */
+  /** √Cov_jj; null when it does not exist (a parameter at a bound). */
   std_error: number | null;
   /** estimate / std_error; null when that does not exist. */
   t: number | null;
-  at_bound: false;
+  /** Two-sided p-value of t (t(n − p), or N(0, 1) with known σ); null with t. */
+  p_value: number | null;
+  /** Interval at the document's confidence level; null without a standard error. */
+  ci: [number, number] | null;
+  at_bound: boolean;
 }
 
 /** The `fit` result object. */
@@ -26,14 +35,14 @@ export interface FitResult {
   method: "linear" | "nonlinear";
   model: string;
   response: string;
-  weighted: false;
+  weighted: boolean;
   n: number;
   p: number;
   df_residual: number;
   parameters: FitParameterResult[];
-  covariance: number[][] | null;
-  correlation: number[][];
-  covariance_scaled: true;
+  covariance: (number | null)[][];
+  correlation: (number | null)[][];
+  covariance_scaled: boolean;
   rss: number;
   tss: number;
   ess: number;
@@ -42,6 +51,23 @@ export interface FitResult {
   /** Our addition: "centred" (with an intercept) or "uncentred" (1 − RSS/Σy²). */
   r2_kind: "centred" | "uncentred";
   sigma: number | null;
+  f_statistic: number | null;
+  f_p_value: number | null;
+  log_likelihood: number | null;
+  k: number;
+  /** Our addition: how `k` was counted, in words. */
+  k_convention: string;
+  aic: number | null;
+  aicc: number | null;
+  bic: number | null;
+  /** Our addition: the level of `ci` (the document's `confidence`). */
+  confidence: number;
+  /** Our addition: the reference distribution of t, p and ci. */
+  inference: "t" | "normal";
+  /** Our addition: none, relative (`weights`) or absolute (`known_sigma`). */
+  weighting: Weighting;
+  /** Our addition: the weighting in plain words. */
+  weighting_statement: string;
   /** Our addition: σ_max/σ_min of the design (or Jacobian) as evaluated. */
   condition_number: number | null;
   fitted: number[];
@@ -52,8 +78,22 @@ export interface FitResult {
   rank_deficient: null;
 }
 
-function square(a: Float64Array, p: number): number[][] {
-  return Array.from({ length: p }, (_, i) => Array.from({ length: p }, (_, j) => a[i + j * p]));
+/** The weighting of a fit in plain words (shown in the view and the result). */
+export const WEIGHTING_STATEMENTS: Readonly<Record<Weighting, string>> = {
+  none: "unweighted",
+  relative: "relative weights (∝ 1/variance), covariance rescaled by the residual variance",
+  absolute: "absolute (known σ): covariance not rescaled by the residual variance",
+};
+
+function num(x: number): number | null {
+  return Number.isFinite(x) ? x : null;
+}
+
+function square(a: Float64Array, p: number): (number | null)[][] {
+  return Array.from(
+    { length: p },
+    (_, i) => Array.from({ length: p }, (_, j) => num(a[i + j * p])),
+  );
 }
 
 /**
@@ -69,7 +109,7 @@ export function summarizeFit(fit: Fit): FitResult {
     method: fit.method,
     model: fit.model.text,
     response: fit.responseText,
-    weighted: false,
+    weighted: fit.weighted,
     n: st.n,
     p,
     df_residual: st.dfResidual,
@@ -78,19 +118,33 @@ export function summarizeFit(fit: Fit): FitResult {
       estimate: fit.estimates[j],
       std_error: st.stdErrors[j],
       t: st.t[j],
-      at_bound: false,
+      p_value: st.pValues[j],
+      ci: st.intervals[j],
+      at_bound: fit.atBound?.[j] ?? false,
     })),
-    covariance: st.covariance ? square(st.covariance, p) : null,
+    covariance: square(st.covariance, p),
     correlation: square(st.correlation, p),
-    covariance_scaled: true,
+    covariance_scaled: st.covarianceScaled,
     rss: st.rss,
     tss: st.tss,
-    ess: st.tss - st.rss,
+    ess: st.ess,
     r2: st.r2,
     adj_r2: st.adjR2,
     r2_kind: st.r2Centred ? "centred" : "uncentred",
     sigma: st.sigma,
-    condition_number: Number.isFinite(fit.conditionNumber) ? fit.conditionNumber : null,
+    f_statistic: st.fStatistic,
+    f_p_value: st.fPValue,
+    log_likelihood: st.logLikelihood,
+    k: st.k,
+    k_convention: st.kConvention,
+    aic: st.aic,
+    aicc: st.aicc,
+    bic: st.bic,
+    confidence: st.confidence,
+    inference: st.inference,
+    weighting: st.weighting,
+    weighting_statement: WEIGHTING_STATEMENTS[st.weighting],
+    condition_number: num(fit.conditionNumber),
     fitted: Array.from(fit.fitted),
     residuals: Array.from(fit.residuals),
     rows: Array.from(fit.rows),

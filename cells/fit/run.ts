@@ -26,6 +26,7 @@ import { buildProblem } from "./_data.ts";
 import { solveLinear } from "./solve_linear.ts";
 import { solveNonlinear } from "./solve_nonlinear.ts";
 import { fitStatistics } from "./_statistics.ts";
+import { applyWeighting } from "./_weighting.ts";
 import { identifierOffset } from "./_offsets.ts";
 
 /**
@@ -39,7 +40,13 @@ import { identifierOffset } from "./_offsets.ts";
  */
 export function runFit(spec: FitSpec, ctx: RunContext): Fit {
   const table = tableInput(spec, ctx);
-  const problem = buildProblem(ctx.name, spec, table, ctx.warn);
+  const weighted = applyWeighting(
+    buildProblem(ctx.name, spec, table, ctx.warn),
+    spec,
+    table,
+    ctx.warn,
+  );
+  const problem = weighted.problem;
   const { model, n } = problem;
   const p = model.parameters.length;
   if (p === 0) {
@@ -61,14 +68,20 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
   if (linear && Object.keys(spec.start).length > 0) {
     ctx.warn(`Start values of "${ctx.name}" are not used: the model is linear in its parameters`);
   }
-  const statistics = fitStatistics(problem, solution, ctx.warn);
+  const statistics = fitStatistics(problem, solution, {
+    confidence: ctx.settings.confidence,
+    weighting: weighted.weighting,
+    countVariance: spec.countVariance !== false,
+  }, ctx.warn);
   return {
     type: "Fit",
     method: solution.method,
     on: spec.on,
     model,
     responseText: model.text.slice(model.response.start, model.response.end),
-    weighted: false,
+    weighted: weighted.weighting !== "none",
+    weighting: weighted.weighting,
+    weights: problem.weights ?? null,
     parameters: model.parameters,
     estimates: solution.estimates,
     unscaledCovariance: solution.unscaledCovariance,
@@ -84,6 +97,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
     conditionNumber: solution.conditionNumber,
     converged: solution.converged,
     iterations: solution.iterations,
+    ...(solution.atBound ? { atBound: solution.atBound } : {}),
   };
 }
 
