@@ -1,7 +1,9 @@
 /**
- * The fit cell's view: the model, a parameter table and the fit statistics.
- * Shared by the live page and the static record, so it is plain markup with
- * no scripts or state.
+ * The fit cell's view: the model, a parameter table (estimate, standard
+ * error, interval at the document's confidence level, t, p), the fit
+ * statistics, the weighting stated plainly and the k convention of the
+ * criteria. Shared by the live page and the static record, so it is plain
+ * markup with no scripts or state.
  *
  * @module
  */
@@ -21,26 +23,34 @@ import { formatNumber, formatR2 } from "./_format.ts";
  * import { FitView } from "./view.tsx";
  * const html = renderToString(FitView({ name: "line", result: {
  *   method: "linear", model: "y = a + b*x", response: "y", weighted: false, n: 3, p: 2,
- *   df_residual: 1, parameters: [], covariance: null, correlation: [], covariance_scaled: true,
- *   rss: 0, tss: 1, ess: 1, r2: 1, adj_r2: 1, r2_kind: "centred", sigma: 0, condition_number: 1,
- *   fitted: [], residuals: [], rows: [], converged: true, iterations: 1, rank_deficient: null,
+ *   df_residual: 1, parameters: [], covariance: [], correlation: [], covariance_scaled: true,
+ *   rss: 0, tss: 1, ess: 1, r2: 1, adj_r2: 1, r2_kind: "centred", sigma: 0, f_statistic: null,
+ *   f_p_value: null, log_likelihood: null, k: 3, k_convention: "k = p + 1", aic: null, aicc: null,
+ *   bic: null, confidence: 0.95, inference: "t", weighting: "none", weighting_statement: "unweighted",
+ *   condition_number: 1, fitted: [], residuals: [], rows: [], converged: true, iterations: 1,
+ *   rank_deficient: null,
  * } }));
  * if (!html.includes("y = a + b*x")) throw new Error(html);
  * ```
  */
 export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
+  const level = `${formatNumber(100 * r.confidence, 4)}% interval`;
+  const stat = r.inference === "normal" ? "z" : "t";
   return (
     <section class="plumb-fit" aria-label={`Fit ${name}`}>
       <p class="plumb-fit-model">
         <code>{r.model}</code> <span class="plumb-fit-method">{r.method} least squares</span>
       </p>
+      <p class="plumb-fit-weighting">Weighting: {r.weighting_statement}</p>
       <table class="plumb-fit-parameters">
         <thead>
           <tr>
             <th scope="col">Parameter</th>
             <th scope="col">Estimate</th>
             <th scope="col">Std. error</th>
-            <th scope="col">t</th>
+            <th scope="col">{level}</th>
+            <th scope="col">{stat}</th>
+            <th scope="col">p</th>
           </tr>
         </thead>
         <tbody>
@@ -51,7 +61,9 @@ export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
               </th>
               <td>{formatNumber(p.estimate, 6)}</td>
               <td>{formatNumber(p.std_error, 3)}</td>
+              <td>{p.ci ? `${formatNumber(p.ci[0], 5)} … ${formatNumber(p.ci[1], 5)}` : "—"}</td>
               <td>{formatNumber(p.t, 3)}</td>
+              <td>{formatP(p.p_value)}</td>
             </tr>
           ))}
         </tbody>
@@ -65,16 +77,34 @@ export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
   );
 }
 
+/** p-values keep their size: 3.2e-27 is shown as such, never as 0. */
+function formatP(p: number | null): string {
+  if (p === null) return "—";
+  return p < 1e-4 ? p.toExponential(1).replace("e+", "e") : formatNumber(p, 2);
+}
+
 function statistics(r: FitResult): [string, string][] {
   const uncentred = r.r2_kind === "uncentred" ? " (uncentred: no intercept)" : "";
+  const weighted = r.weighted ? " (weighted)" : "";
+  const f = r.f_statistic === null
+    ? "—"
+    : `${formatNumber(r.f_statistic, 5)} on ${r.p - 1} and ${r.df_residual} df, p ${
+      formatP(r.f_p_value)
+    }`;
   return [
     ["Rows used", String(r.n)],
     ["Parameters", String(r.p)],
     ["Residual degrees of freedom", String(r.df_residual)],
-    ["Residual sum of squares", formatNumber(r.rss, 6)],
+    [`Residual sum of squares${weighted}`, formatNumber(r.rss, 6)],
     ["Residual standard error σ", formatNumber(r.sigma, 4)],
     ["R²", formatR2(r.r2) + uncentred],
     ["Adjusted R²", formatR2(r.adj_r2)],
+    ["F (all terms but the intercept)", f],
+    ["Log-likelihood (Gaussian)", formatNumber(r.log_likelihood, 6)],
+    ["AIC", formatNumber(r.aic, 6)],
+    ["AICc", formatNumber(r.aicc, 6)],
+    ["BIC", formatNumber(r.bic, 6)],
+    ["Parameters counted by the criteria", `${r.k} (${r.k_convention})`],
     ["Response", r.response],
   ];
 }
