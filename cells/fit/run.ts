@@ -46,7 +46,13 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
     table,
     ctx.warn,
   );
-  const problem = weighted.problem;
+  // Nonlinear fits also need the bounds, the seed for multi-start and the warning sink.
+  const problem = {
+    ...weighted.problem,
+    limits: spec.within,
+    seed: ctx.settings.seed,
+    warn: ctx.warn,
+  };
   const { model, n } = problem;
   const p = model.parameters.length;
   if (p === 0) {
@@ -67,6 +73,11 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
   for (const w of model.warnings) ctx.warn(w.message);
   if (linear && Object.keys(spec.start).length > 0) {
     ctx.warn(`Start values of "${ctx.name}" are not used: the model is linear in its parameters`);
+  }
+  if (linear && spec.within !== undefined) {
+    ctx.warn(
+      `Ranges ("within") of "${ctx.name}" are not used: the model is linear in its parameters`,
+    );
   }
   const statistics = fitStatistics(problem, solution, {
     confidence: ctx.settings.confidence,

@@ -8,6 +8,7 @@
  * weights: 1/cycle                    # relative weights ∝ 1/variance (optional), or
  * known_sigma: sd                     # each row's absolute standard deviation (optional)
  * count_variance: true                # criteria count σ² as a parameter (default)
+ * within: { a: [0, null] }            # ranges that nonlinear estimates stay inside (optional)
  * ```
  *
  * Model text is only checked for being a string here: its names are known only
@@ -19,6 +20,7 @@ import { CellError } from "../../kernel/errors.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
 import type { ParseContext } from "../types.ts";
 import { parseWeighting } from "./_parse_weighting.ts";
+import { type Limits, parseLimits } from "./_parse_limits.ts";
 
 /** A `fit` cell's normalised options (plain JSON: hashed into the cache key). */
 export interface FitSpec {
@@ -34,6 +36,8 @@ export interface FitSpec {
   knownSigma?: string;
   /** False when the criteria count only the mean parameters (`count_variance: false`). */
   countVariance?: false;
+  /** Ranges [lower, upper] by parameter (`within`; nonlinear fits), when given. */
+  within?: Limits;
 }
 
 /** Option keys a `fit` cell understands, with what each is for. */
@@ -43,7 +47,9 @@ export const FIT_OPTIONS = {
   start: "start values of parameters, for nonlinear fits",
   weights: "relative weights ∝ 1/variance, an expression over columns",
   known_sigma: "each row's known standard deviation (absolute), an expression over columns",
-  count_variance: "whether AIC, AICc and BIC count the error variance as a parameter (default true)",
+  count_variance:
+    "whether AIC, AICc and BIC count the error variance as a parameter (default true)",
+  within: "ranges [lower, upper] that nonlinear estimates stay inside, null for an open end",
 } as const;
 
 /**
@@ -52,7 +58,8 @@ export const FIT_OPTIONS = {
  * @param ctx The parse context (cell name, YAML options).
  * @returns The spec.
  * @throws {CellError} For a missing or non-text `on` or `model`, a bad `start`
- *   mapping, bad weighting options (see `_parse_weighting.ts`) or an unknown option.
+ *   mapping, bad weighting options (see `_parse_weighting.ts`), a bad `within` range
+ *   (see `_parse_limits.ts`) or an unknown option.
  * @example
  * ```ts
  * import { parseFitSpec } from "./spec.ts";
@@ -78,6 +85,7 @@ export function parseFitSpec(ctx: ParseContext): FitSpec {
     model: modelText(ctx, o.model),
     start: startValues(ctx, o.start),
     ...parseWeighting(ctx),
+    ...parseLimits(ctx),
   };
 }
 

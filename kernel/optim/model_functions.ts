@@ -1,0 +1,213 @@
+/**
+ * From a model expression and data to what the optimizer calls: residuals
+ * F(θ) = f(θ) − y and the exact Jacobian ∂f/∂θ from symbolic derivatives
+ * (kernel/expr `derivative`, compiled to row loops), the accurate residuals
+ * y − f(θ) in double-double for the final polishing (`compileDD`, from the
+ * data as printed: value + decimal correction), and the projection of the
+ * parameters that enter linearly (variable projection, Golub & Pereyra 1973,
+ * "The differentiation of pseudo-inverses and nonlinear least squares
+ * problems whose variables separate", SIAM J. Numer. Anal. 10) used by the
+ * multi-start search.
+ *
+ * @module
+ */
+import {
+  compile,
+  type Compiled,
+  compileDD,
+  derivative,
+  freeNames,
+  isLinearIn,
+  type Model,
+} from "../expr/mod.ts";
+import type { LeastSquaresProblem } from "./lmder.ts";
+import type { PolishProblem } from "./polish.ts";
+import { lsqSolve } from "./_lsq_solve.ts";
+import { twoSum } from "../linalg/mod.ts";
+
+const EPS = 2.220446049250313e-16;
+
+/** The data a model is fitted to (the fit cell's problem has this shape). */
+export interface ModelData {
+  model: Model;
+  /** Rows used. */
+  n: number;
+  /** Values of `model.columns`, in order. */
+  columns: Float64Array[];
+  /** The response as written (transformed). */
+  y: Float64Array;
+  /** Decimal corrections for double-double residuals (optional). */
+  lo?: {
+    columns: (Float64Array | null)[];
+    response: { hi: Float64Array; lo: Float64Array | null };
+  } | null;
+  /** Weights wᵢ > 0 (minimise Σwᵢrᵢ²); null or absent for none. */
+  weights?: Float64Array | null;
+}
+
+/** What the optimizer and the polishing call. */
+export interface ModelFunctions {
+  /** F = √w·(f − y) and √w·∂f/∂θ (weighted rows; w = 1 without weights). */
+  problem: LeastSquaresProblem;
+  /** f(θ) in double. */
+  f(x: Float64Array): Float64Array;
+  /** ∂f/∂θ (n×p, column-major), unweighted, into `out`. */
+  jac(x: Float64Array, out: Float64Array): void;
+  /** √wᵢ per row (ones without weights). */
+  sqrtW: Float64Array;
+  /**
+   * √w·(y − f) in double-double when the data carry corrections (else double,
+   * with its rounding bound), and √w·J.
+   */
+  accurate: PolishProblem;
+  /** Sets the linearly entering parameters by least squares; undefined when there are none. */
+  project?: (x: Float64Array) => boolean;
+  /** ‖Jᵀ(y − f)‖ at θ. */
+  gradientNorm(x: Float64Array): number;
+}
+
+/**
+ * Compiles the model, its derivatives and its double-double form.
+ *
+ * @param data The model and the rows used.
+ * @returns The functions (see {@link ModelFunctions}).
+ * @example
+ * ```ts
+ * import { parseModel } from "../expr/mod.ts";
+ * import { modelFunctions } from "./model_functions.ts";
+ * const model = parseModel("y = a*exp(-b*x)", ["x", "y"]);
+ * const fns = modelFunctions({ model, n: 2, columns: [Float64Array.from([0, 1])], y: Float64Array.from([2, 1]) });
+ * const J = new Float64Array(4);
+ * fns.jac(Float64Array.from([2, 0]), J); // ∂/∂a = exp(-b x) = 1, ∂/∂b = -a x exp(-b x)
+ * if (J.join() !== "1,1,0,-2") throw new Error(J.join());
+ * ```
+ */
+export function modelFunctions(data: ModelData): ModelFunctions {
+  const { model, n, columns, y } = data;
+  const params = model.parameters, p = params.length;
+  const fc = compile(model.rhs, model.columns, params);
+  const dc: Compiled[] = params.map((k) =>
+    compile(derivative(model.rhs, k), model.columns, params)
+  );
+  const jac = (x: Float64Array, out: Float64Array) => {
+    for (let j = 0; j < p; j++) dc[j](columns, x, n, out.subarray(j * n, (j + 1) * n));
+  };
+  const w = data.weights ?? null;
+  const sqrtW = w === null ? new Float64Array(n).fill(1) : w.map(Math.sqrt);
+  const weighRows = (out: Float64Array, cols: number) => {
+    if (w === null) return;
+    for (let j = 0; j < cols; j++) for (let i = 0; i < n; i++) out[i + j * n] *= sqrtW[i];
+  };
+  const wjac = (x: Float64Array, out: Float64Array) => (jac(x, out), weighRows(out, p));
+  const problem: LeastSquaresProblem = {
+    m: n,
+    n: p,
+    fcn(x, out) {
+      fc(columns, x, n, out);
+      for (let i = 0; i < n; i++) out[i] = sqrtW[i] * (out[i] - y[i]);
+    },
+    jac: wjac,
+  };
+  const unweighted = accurateResiduals(data, fc);
+  const residuals = (x: Float64Array, r: Float64Array) => {
+    const noise = unweighted(x, r);
+    let wmax = 0;
+    for (let i = 0; i < n; i++) wmax = Math.max(wmax, sqrtW[i]);
+    weighRows(r, 1);
+    return noise * wmax * wmax;
+  };
+  const f = (x: Float64Array) => fc(columns, x, n);
+  return {
+    problem,
+    f,
+    jac,
+    sqrtW,
+    accurate: { m: n, n: p, residuals, jac: wjac },
+    project: linearProjection(data, fc, jac, sqrtW),
+    gradientNorm(x) {
+      const r = new Float64Array(n), J = new Float64Array(n * p);
+      residuals(x, r);
+      wjac(x, J);
+      let s = 0;
+      for (let j = 0; j < p; j++) {
+        let g = 0;
+        for (let i = 0; i < n; i++) g += J[i + j * n] * r[i];
+        s += g * g;
+      }
+      return Math.sqrt(s);
+    },
+  };
+}
+
+/** y − f(θ): in double-double from the printed data when corrections exist, else in double. */
+function accurateResiduals(
+  data: ModelData,
+  fc: Compiled,
+): (x: Float64Array, r: Float64Array) => number {
+  const { model, n, columns, y, lo } = data;
+  if (lo === undefined || lo === null) {
+    // In double each r_i carries an error of about ε·|f_i|, so Σr² one of 2ε·Σ|f_i·r_i|.
+    return (x, r) => {
+      fc(columns, x, n, r);
+      let noise = 0;
+      for (let i = 0; i < n; i++) {
+        const f = r[i];
+        r[i] = y[i] - f;
+        noise += Math.abs(f * r[i]);
+      }
+      return 4 * EPS * noise;
+    };
+  }
+  const yd = compileDD(model.response, [model.responseColumn], [])(
+    [lo.response.hi],
+    [lo.response.lo],
+    [],
+    null,
+    n,
+  );
+  const fd = compileDD(model.rhs, model.columns, model.parameters);
+  const hi = new Float64Array(n), lw = new Float64Array(n);
+  return (x, r) => {
+    fd(columns, lo.columns, x, null, n, hi, lw);
+    for (let i = 0; i < n; i++) {
+      const [s, e] = twoSum(yd.hi[i], -hi[i]);
+      r[i] = s + (e + (yd.lo[i] - lw[i]));
+    }
+    return 0;
+  };
+}
+
+/**
+ * The largest set L of parameters the model is jointly linear in (greedy: those
+ * linear alone, dropping from the end until jointly linear), and the map that
+ * sets θ_L by least squares given the others: f = f(θ with θ_L = 0) + Σ θ_l ∂f/∂θ_l.
+ */
+function linearProjection(
+  data: ModelData,
+  fc: Compiled,
+  jac: (x: Float64Array, out: Float64Array) => void,
+  sqrtW: Float64Array,
+): ((x: Float64Array) => boolean) | undefined {
+  const { model, n, columns, y } = data;
+  const params = model.parameters, p = params.length;
+  let L = params.filter((k) => !freeNames(derivative(model.rhs, k)).has(k));
+  while (L.length > 0 && !isLinearIn(model.rhs, L)) L = L.slice(0, -1);
+  if (L.length === 0) return undefined;
+  const idx = L.map((k) => params.indexOf(k));
+  const J = new Float64Array(n * p), G = new Float64Array(n * idx.length);
+  const f0 = new Float64Array(n), b = new Float64Array(n);
+  return (x) => {
+    for (const j of idx) x[j] = 0;
+    fc(columns, x, n, f0);
+    jac(x, J);
+    idx.forEach((j, k) => {
+      for (let i = 0; i < n; i++) G[i + k * n] = sqrtW[i] * J[i + j * n];
+    });
+    for (let i = 0; i < n; i++) b[i] = sqrtW[i] * (y[i] - f0[i]);
+    if (!b.every(Number.isFinite) || !G.every(Number.isFinite)) return false;
+    const theta = lsqSolve(n, idx.length, G, b);
+    if (theta === null) return false;
+    idx.forEach((j, k) => (x[j] = theta[k]));
+    return true;
+  };
+}
