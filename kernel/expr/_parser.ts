@@ -27,19 +27,27 @@ import { FUNCTIONS, PUBLIC_FUNCTIONS } from "./functions.ts";
 import { at, type Token } from "./_lexer.ts";
 import { nearest } from "../suggest.ts";
 
+/** The model shorthands (see `_shorthands.ts`). */
+export const SHORTHANDS: readonly string[] = ["polynomial", "linear"];
+
 /** Parses tokens `[from, to)`; `tokens[to]` is treated as the end. */
 export class Parser {
   #tokens: readonly Token[];
   #pos: number;
   #to: number;
   #endAt: number;
+  #shorthands: boolean;
 
   /**
    * @param tokens Tokens of the whole text.
    * @param from First token of the range.
    * @param to Index one past the range's last token.
+   * @param shorthands Accept the model shorthands `polynomial(…)` and
+   *   `linear(…)` as calls with any number of arguments (expanded later by
+   *   `_shorthands.ts`); otherwise they are an error.
    */
-  constructor(tokens: readonly Token[], from: number, to: number) {
+  constructor(tokens: readonly Token[], from: number, to: number, shorthands = false) {
+    this.#shorthands = shorthands;
     this.#tokens = tokens;
     this.#pos = from;
     this.#to = to;
@@ -133,7 +141,8 @@ export class Parser {
       this.#pos++;
       if (this.#isSym("(")) {
         // `a (b)` with a space and no such function is a product missing its "*".
-        const spaced = this.#peek().start > t.end && !FUNCTIONS.has(t.text);
+        const spaced = this.#peek().start > t.end && !FUNCTIONS.has(t.text) &&
+          !SHORTHANDS.includes(t.text);
         if (spaced) this.#unexpected(this.#peek(), true);
         return this.#call(t);
       }
@@ -163,8 +172,9 @@ export class Parser {
 
   #call(name: Token): Expr {
     const info = FUNCTIONS.get(name.text);
+    if (SHORTHANDS.includes(name.text)) return this.#shorthand(name);
     if (info === undefined) {
-      const near = nearest(name.text, PUBLIC_FUNCTIONS);
+      const near = nearest(name.text, [...PUBLIC_FUNCTIONS, ...SHORTHANDS]);
       const tail = near === undefined
         ? `: the functions are ${PUBLIC_FUNCTIONS.join(", ")}`
         : `: did you mean "${near}"?`;
@@ -175,16 +185,8 @@ export class Parser {
       );
     }
     const open = this.#tokens[this.#pos++];
-    const args: Expr[] = [];
-    if (!this.#isSym(")")) {
-      args.push(this.#sum());
-      while (this.#isSym(",")) {
-        this.#pos++;
-        args.push(this.#sum());
-      }
-    }
-    this.#expectClose(open);
-    const end = this.#tokens[this.#pos - 1].end;
+    const args = this.#args();
+    const end = this.#closeArgs(open);
     if (args.length !== info.arity) {
       const noun = info.arity === 1 ? "argument" : "arguments";
       throw new ExprError(
@@ -194,5 +196,37 @@ export class Parser {
       );
     }
     return { op: "call", fn: info.name, args, start: name.start, end };
+  }
+
+  #args(): Expr[] {
+    const args: Expr[] = [];
+    if (!this.#isSym(")")) {
+      args.push(this.#sum());
+      while (this.#isSym(",")) {
+        this.#pos++;
+        args.push(this.#sum());
+      }
+    }
+    return args;
+  }
+
+  #closeArgs(open: Token): number {
+    this.#expectClose(open);
+    return this.#tokens[this.#pos - 1].end;
+  }
+
+  /** `polynomial(…)` or `linear(…)`: kept as a call for `_shorthands.ts`, arguments unchecked. */
+  #shorthand(name: Token): Expr {
+    if (!this.#shorthands) {
+      throw new ExprError(
+        `Shorthand "${name.text}" may be used only on the right side of a model`,
+        name.start,
+        name.end - name.start,
+      );
+    }
+    const open = this.#tokens[this.#pos++];
+    const args = this.#args();
+    const end = this.#closeArgs(open);
+    return { op: "call", fn: name.text, args, start: name.start, end };
   }
 }

@@ -15,6 +15,21 @@
  * written with two internal functions, `sign` and `ifpos` (see
  * derivative.ts). New functions are added to the table in functions.ts.
  *
+ * Shorthands, on the right side of a model only (`_shorthands.ts`), expand
+ * into explicit terms in {@link parseModel}:
+ *
+ * - `polynomial(x, d)`: `b0 + b1*x + … + bd*x^d`, with x a column and d a
+ *   whole-number literal from 0 to 30;
+ * - `linear(x1, x2, …)`: `b0 + b_x1*x1 + b_x2*x2 + …`, an intercept and one
+ *   slope per listed column.
+ *
+ * A shorthand is one operand like any other (`y = polynomial(x, 2) +
+ * c*exp(-k*x)`). Its parameters share one prefix letter, `b` first; if any
+ * of its names would clash with a column, a constant, another name in the
+ * model or an earlier shorthand's names, the whole shorthand takes the next
+ * free letter (`c0, c1, …`, then `d`, `f`, `g`, …; `e`, `i`, `l`, `o` are
+ * skipped).
+ *
  * @example
  * ```ts
  * import { compile, derivative, format, parseModel } from "./mod.ts";

@@ -9,6 +9,7 @@ import { CONSTANTS } from "./functions.ts";
 import { at, type Token, tokenize } from "./_lexer.ts";
 import { Parser } from "./_parser.ts";
 import { identifiers, type IdNode, likelyColumn, rejectBareFunction } from "./_identifiers.ts";
+import { expandShorthands } from "./_shorthands.ts";
 
 /** A parsed and resolved model equation. */
 export interface Model {
@@ -18,7 +19,7 @@ export interface Model {
   response: Expr;
   /** The column the response is made of. */
   responseColumn: string;
-  /** The right side. */
+  /** The right side, shorthands expanded (`polynomial(x, 2)` is `b0 + b1*x + b2*x^2` here). */
   rhs: Expr;
   /** Parameters of the right side, in first-appearance order. */
   parameters: string[];
@@ -39,12 +40,19 @@ const RESPONSE_FORM = "the left side is a column or a transformed column such as
  * The response must contain exactly one column and no parameters, and that
  * column may not appear on the right.
  *
+ * The right side may use the shorthands `polynomial(x, d)` and
+ * `linear(x1, x2, …)` (see the module notes of `mod.ts`); they are expanded
+ * here, so `rhs` and `parameters` show the explicit terms while `text`
+ * stays as written.
+ *
  * @param text The model text.
  * @param columns Names of the columns of the table being fitted.
  * @returns The model.
  * @throws {ExprError} On syntax errors (see {@link parseExpression}), a
  *   missing or repeated `=`, a response that is not one (transformed)
- *   column, or the response column used on the right.
+ *   column, the response column used on the right, or a misused shorthand
+ *   (a degree that is not a whole-number literal, an argument that is not a
+ *   column, an unknown column).
  * @example
  * ```ts
  * import { parseModel } from "./mod.ts";
@@ -56,7 +64,8 @@ export function parseModel(text: string, columns: readonly string[]): Model {
   const tokens = tokenize(text);
   const eq = splitAtEquals(text, tokens);
   const response = new Parser(tokens, 0, eq).parseAll();
-  const rhs = new Parser(tokens, eq + 1, tokens.length - 1).parseAll();
+  const parsed = new Parser(tokens, eq + 1, tokens.length - 1, true).parseAll();
+  const { rhs, generated } = expandShorthands(parsed, columns, text);
   const responseColumn = checkResponse(text, response, columns);
   const parameters: string[] = [], used: string[] = [];
   const warnings: Model["warnings"] = [];
@@ -83,7 +92,7 @@ export function parseModel(text: string, columns: readonly string[]): Model {
     } else if (!parameters.includes(name)) {
       rejectBareFunction(node);
       parameters.push(name);
-      const near = likelyColumn(name, columns, 1);
+      const near = generated.has(name) ? undefined : likelyColumn(name, columns, 1);
       if (near !== undefined) {
         warnings.push({
           message: `"${name}" is taken as a parameter: did you mean column "${near}"?`,
