@@ -64,7 +64,7 @@ export const CORRELATION_WARNING = 0.95;
  * ```
  */
 export function solveNonlinear(problem: FitProblem): FitSolution {
-  const { name, model } = problem;
+  const { model } = problem;
   const params = model.parameters, p = params.length;
   const fns = modelFunctions(problem);
   const { lower, upper } = limitVectors(problem);

@@ -109,8 +109,8 @@ export function modelFunctions(data: ModelData): ModelFunctions {
     jac: wjac,
   };
   const unweighted = accurateResiduals(data, fc);
-  const residuals = (x: Float64Array, r: Float64Array) => {
-    const noise = unweighted(x, r);
+  const residuals = (x: Float64Array, r: Float64Array, xlo?: Float64Array) => {
+    const noise = unweighted(x, r, xlo);
     let wmax = 0;
     for (let i = 0; i < n; i++) wmax = Math.max(wmax, sqrtW[i]);
     weighRows(r, 1);
@@ -143,7 +143,7 @@ export function modelFunctions(data: ModelData): ModelFunctions {
 function accurateResiduals(
   data: ModelData,
   fc: Compiled,
-): (x: Float64Array, r: Float64Array) => number {
+): (x: Float64Array, r: Float64Array, xlo?: Float64Array) => number {
   const { model, n, columns, y, lo } = data;
   if (lo === undefined || lo === null) {
     // In double each r_i carries an error of about ε·|f_i|, so Σr² one of 2ε·Σ|f_i·r_i|.
@@ -167,8 +167,8 @@ function accurateResiduals(
   );
   const fd = compileDD(model.rhs, model.columns, model.parameters);
   const hi = new Float64Array(n), lw = new Float64Array(n);
-  return (x, r) => {
-    fd(columns, lo.columns, x, null, n, hi, lw);
+  return (x, r, xlo) => {
+    fd(columns, lo.columns, x, xlo ?? null, n, hi, lw);
     for (let i = 0; i < n; i++) {
       const [s, e] = twoSum(yd.hi[i], -hi[i]);
       r[i] = s + (e + (yd.lo[i] - lw[i]));

@@ -14,6 +14,7 @@
  * @module
  */
 import { lsqSolve } from "./_lsq_solve.ts";
+import { fastTwoSum, twoSum } from "../linalg/mod.ts";
 
 /** Relative rise of the RSS treated as rounding noise (common practice, no source). */
 const RSS_NOISE = 1e-12;
@@ -23,17 +24,22 @@ export interface PolishProblem {
   m: number;
   n: number;
   /**
-   * Writes r = y − f(x), as accurately as the caller can, rounded to double,
-   * and returns a bound on the rounding error of Σr² (0 when negligible).
+   * Writes r = y − f(x + xlo), as accurately as the caller can, rounded to
+   * double, and returns a bound on the rounding error of Σr² (0 when
+   * negligible). `xlo` is the low part of double-double parameters (a
+   * caller evaluating in double may ignore it).
    */
-  residuals(x: Float64Array, r: Float64Array): number;
+  residuals(x: Float64Array, r: Float64Array, xlo: Float64Array): number;
   /** Writes ∂f/∂x (m×n, column-major). */
   jac(x: Float64Array, fjac: Float64Array): void;
 }
 
 /** The polished point. */
 export interface Polished {
+  /** The parameters, rounded to double. */
   x: Float64Array;
+  /** Their low parts: x + xlo is the polished point in double-double. */
+  xlo: Float64Array;
   /** y − f(x) from `residuals`. */
   r: Float64Array;
   /** Σr² from `residuals`. */
@@ -71,8 +77,11 @@ export function polish(
   maxSteps = 100,
 ): Polished {
   const { m, n } = problem;
-  let x = Float64Array.from(x0), r = new Float64Array(m);
-  let noise = problem.residuals(x, r);
+  // The point is kept as double-double (x + xlo): at a solution whose RSS is at
+  // the data's rounding level (Lanczos1), rounding θ to double alone moves
+  // the RSS in its 6th digit.
+  let x = Float64Array.from(x0), xlo = new Float64Array(n), r = new Float64Array(m);
+  let noise = problem.residuals(x, r, xlo);
   let rss = sumSquares(r), steps = 0, prev = Infinity;
   const fjac = new Float64Array(m * n), rt = new Float64Array(m);
   for (let k = 0; k < maxSteps && rss > 0; k++) {
@@ -86,17 +95,21 @@ export function polish(
     let size = 0;
     for (let j = 0; j < n; j++) size = Math.max(size, Math.abs(delta[j]) / (Math.abs(x[j]) || 1));
     if (size === 0 || !(size < prev)) break;
-    const xt = x.map((v, j) => v + delta[j]);
-    const noiseT = problem.residuals(xt, rt);
+    const xt = new Float64Array(n), xtlo = new Float64Array(n);
+    for (let j = 0; j < n; j++) {
+      const [s, e] = twoSum(x[j], delta[j]);
+      [xt[j], xtlo[j]] = fastTwoSum(s, e + xlo[j]);
+    }
+    const noiseT = problem.residuals(xt, rt, xtlo);
     const rssT = sumSquares(rt);
     // The RSS cannot resolve the last digits of weakly determined parameters,
     // so a contracting step is kept unless it raises the RSS beyond rounding.
     if (!(rssT <= rss * (1 + RSS_NOISE) + noise + noiseT)) break;
-    [x, rss, prev, noise] = [xt, rssT, size, noiseT];
+    [x, xlo, rss, prev, noise] = [xt, xtlo, rssT, size, noiseT];
     r = Float64Array.from(rt);
     steps++;
   }
-  return { x, r, rss, steps };
+  return { x, xlo, r, rss, steps };
 }
 
 function sumSquares(r: Float64Array): number {
