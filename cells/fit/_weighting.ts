@@ -94,7 +94,11 @@ function parseAgainst(text: string, table: Table, key: string): Expr {
   try {
     return parseColumnExpression(text, table.columns.map((c) => c.name));
   } catch (e) {
-    if (e instanceof ExprError) throw new CellError(e.message, [key], e.offset);
+    if (e instanceof ExprError) {
+      // The expression parser speaks of derived columns; here it is the weighting option.
+      const message = e.message.replace("a derived column may use", `"${key}" may use`);
+      throw new CellError(message, [key], e.offset);
+    }
     throw e;
   }
 }

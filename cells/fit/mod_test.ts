@@ -103,6 +103,7 @@ Deno.test("fitKind.run() lists at most five left-out rows", () => {
   const { warnings } = fit("line", "y = a + b*x", makeTable({ x: y.map((_, i) => i), y }));
   assert.deepEqual(warnings, [
     '7 rows left out for missing values in "y": rows 2, 3, 4, 5, 6 and 2 more',
+    'AICc of "line" is undefined: it needs n − k − 1 > 0, and n = 4, k = 3',
   ]);
 });
 
@@ -132,17 +133,6 @@ Deno.test("fitKind.run() refuses a text column at its offset", () => {
     t,
     'Cannot fit "line": column "batch" holds text, not numbers: a model uses numeric columns',
     "y = a + b*x + c*".length,
-  );
-});
-
-Deno.test("fitKind.run() refuses a nonlinear model naming the nonlinear parameter", () => {
-  const t = makeTable({ cycle: [1, 2, 3, 4, 5], capacity: [5, 4, 3.5, 3.2, 3] });
-  refuses(
-    "power",
-    "capacity = q0 - a*cycle^b",
-    t,
-    'Model of "power" is nonlinear in "b"; nonlinear fitting arrives with the numerical core',
-    "capacity = q0 - a*cycle^".length,
   );
 });
 
@@ -199,6 +189,7 @@ Deno.test("fitKind.run() gives a null R² with a warning for a constant response
   assert.equal(result.tss, 0);
   assert.deepEqual(warnings, [
     'R² of "flat" is undefined: the response "y" is constant on every row used',
+    'AICc of "flat" is undefined: it needs n − k − 1 > 0, and n = 4, k = 3',
   ]);
   assert.ok(Math.abs(result.parameters[0].estimate - 0.1) < 1e-15);
 });
@@ -216,8 +207,8 @@ Deno.test("fitKind.run() fills std errors, t, covariance and adjusted R² consis
   assert.ok(Math.abs(result.rss - 0.04) < 1e-14);
   assert.ok(Math.abs(b.std_error! - Math.sqrt(0.02 / 5)) < 1e-14);
   assert.ok(Math.abs(b.t! - 2 / Math.sqrt(0.02 / 5)) < 1e-10);
-  assert.ok(Math.abs(result.covariance![1][1] - 0.02 / 5) < 1e-15);
-  assert.ok(Math.abs(result.correlation[0][0] - 1) < 1e-15);
+  assert.ok(Math.abs(result.covariance[1][1]! - 0.02 / 5) < 1e-15);
+  assert.ok(Math.abs(result.correlation[0][0]! - 1) < 1e-15);
   const r2 = 1 - 0.04 / result.tss;
   assert.ok(Math.abs(result.adj_r2! - (1 - (1 - r2) * 3 / 2)) < 1e-14);
   assert.ok(Math.abs(result.ess + result.rss - result.tss) < 1e-12);
@@ -272,9 +263,19 @@ Deno.test("fitKind.parse() validates options and inputs() names the table", () =
     ],
   );
   bad(
-    { on: "t", model: "y = a", weights: "1/x" },
-    'Cannot fit "line" with weights: weighted fitting arrives with the numerical core',
+    { on: "t", model: "y = a", weights: "1/x", known_sigma: "sd" },
+    'Cannot fit "line" with both "weights" and "known_sigma": give relative weights ∝ 1/variance or each row\'s absolute standard deviation, not both',
+    ["known_sigma"],
+  );
+  bad(
+    { on: "t", model: "y = a", weights: [1, 2] },
+    'Option "weights" of fit "line" is "1,2": expected an expression over columns, such as 1/conc^2',
     ["weights"],
+  );
+  bad(
+    { on: "t", model: "y = a", count_variance: "no" },
+    'Option "count_variance" of fit "line" is "no": expected true or false',
+    ["count_variance"],
   );
 });
 
@@ -284,5 +285,6 @@ Deno.test("fitKind.run() warns that start values are unused by a linear model", 
   });
   assert.deepEqual(warnings, [
     'Start values of "line" are not used: the model is linear in its parameters',
+    'AICc of "line" is undefined: it needs n − k − 1 > 0, and n = 3, k = 3',
   ]);
 });
