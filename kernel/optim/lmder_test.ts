@@ -29,8 +29,12 @@ function problem(
 const ssq = (fnorm: number) => fnorm * fnorm;
 
 Deno.test("lmder() minimises Rosenbrock (MGH 1) from (-1.2, 1) to (1, 1)", () => {
-  const p = problem(2, 2, (x, i) => (i === 0 ? 10 * (x[1] - x[0] * x[0]) : 1 - x[0]), (x, i, j) =>
-    i === 0 ? (j === 0 ? -20 * x[0] : 10) : (j === 0 ? -1 : 0));
+  const p = problem(
+    2,
+    2,
+    (x, i) => (i === 0 ? 10 * (x[1] - x[0] * x[0]) : 1 - x[0]),
+    (x, i, j) => i === 0 ? (j === 0 ? -20 * x[0] : 10) : (j === 0 ? -1 : 0),
+  );
   const r = lmder(p, [-1.2, 1]);
   assert.ok(r.converged, r.info);
   // MGH 1981 problem 1: f = 0 at (1, 1).
@@ -77,8 +81,7 @@ Deno.test("lmder() finds Freudenstein–Roth's local minimum (MGH 2) from (0.5, 
       i === 0
         ? -13 + x[0] + ((5 - x[1]) * x[1] - 2) * x[1]
         : -29 + x[0] + ((x[1] + 1) * x[1] - 14) * x[1],
-    (x, i, j) =>
-      j === 0 ? 1 : i === 0 ? (10 - 3 * x[1]) * x[1] - 2 : (3 * x[1] + 2) * x[1] - 14,
+    (x, i, j) => j === 0 ? 1 : i === 0 ? (10 - 3 * x[1]) * x[1] - 2 : (3 * x[1] + 2) * x[1] - 14,
   );
   const r = lmder(p, [0.5, -2]);
   assert.ok(r.converged, r.info);
@@ -91,7 +94,11 @@ Deno.test("lmder() solves Brown's badly scaled function (MGH 4) to (1e6, 2e-6)",
     3,
     2,
     (x, i) => (i === 0 ? x[0] - 1e6 : i === 1 ? x[1] - 2e-6 : x[0] * x[1] - 2),
-    (x, i, j) => (i === 0 ? (j === 0 ? 1 : 0) : i === 1 ? (j === 0 ? 0 : 1) : j === 0 ? x[1] : x[0]),
+    (
+      x,
+      i,
+      j,
+    ) => (i === 0 ? (j === 0 ? 1 : 0) : i === 1 ? (j === 0 ? 0 : 1) : j === 0 ? x[1] : x[0]),
   );
   const r = lmder(p, [1, 1]);
   assert.ok(r.converged, r.info);
@@ -100,7 +107,23 @@ Deno.test("lmder() solves Brown's badly scaled function (MGH 4) to (1e6, 2e-6)",
 });
 
 Deno.test("lmder() reaches Bard's minimum (MGH 8) 8.21487e-3", () => {
-  const y = [0.14, 0.18, 0.22, 0.25, 0.29, 0.32, 0.35, 0.39, 0.37, 0.58, 0.73, 0.96, 1.34, 2.10, 4.39];
+  const y = [
+    0.14,
+    0.18,
+    0.22,
+    0.25,
+    0.29,
+    0.32,
+    0.35,
+    0.39,
+    0.37,
+    0.58,
+    0.73,
+    0.96,
+    1.34,
+    2.10,
+    4.39,
+  ];
   const uvw = (i: number) => {
     const u = i + 1, v = 16 - u, w = Math.min(u, v);
     return [u, v, w];
@@ -120,8 +143,24 @@ Deno.test("lmder() reaches Bard's minimum (MGH 8) 8.21487e-3", () => {
 });
 
 Deno.test("lmder() reaches Meyer's minimum (MGH 10) 87.9458 from (0.02, 4000, 250)", () => {
-  const y = [34780, 28610, 23650, 19630, 16370, 13720, 11540, 9744, 8261, 7030, 6005, 5147, 4427,
-    3820, 3307, 2872];
+  const y = [
+    34780,
+    28610,
+    23650,
+    19630,
+    16370,
+    13720,
+    11540,
+    9744,
+    8261,
+    7030,
+    6005,
+    5147,
+    4427,
+    3820,
+    3307,
+    2872,
+  ];
   const t = (i: number) => 45 + 5 * (i + 1);
   const p = problem(16, 3, (x, i) => x[0] * Math.exp(x[1] / (t(i) + x[2])) - y[i], (x, i, j) => {
     const e = Math.exp(x[1] / (t(i) + x[2]));
@@ -134,8 +173,19 @@ Deno.test("lmder() reaches Meyer's minimum (MGH 10) 87.9458 from (0.02, 4000, 25
 });
 
 Deno.test("lmder() reaches Kowalik–Osborne's minimum (MGH 15) 3.07505e-4", () => {
-  const y = [0.1957, 0.1947, 0.1735, 0.1600, 0.0844, 0.0627, 0.0456, 0.0342, 0.0323, 0.0235,
-    0.0246];
+  const y = [
+    0.1957,
+    0.1947,
+    0.1735,
+    0.1600,
+    0.0844,
+    0.0627,
+    0.0456,
+    0.0342,
+    0.0323,
+    0.0235,
+    0.0246,
+  ];
   const u = [4, 2, 1, 0.5, 0.25, 0.167, 0.125, 0.1, 0.0833, 0.0714, 0.0625];
   const p = problem(11, 4, (x, i) => {
     const d = u[i] * u[i] + u[i] * x[2] + x[3];
@@ -172,16 +222,24 @@ Deno.test("lmder() reports a start where F is not finite", () => {
 });
 
 Deno.test("lmder() stops at maxfev and says so", () => {
-  const p = problem(2, 2, (x, i) => (i === 0 ? 10 * (x[1] - x[0] * x[0]) : 1 - x[0]), (x, i, j) =>
-    i === 0 ? (j === 0 ? -20 * x[0] : 10) : (j === 0 ? -1 : 0));
+  const p = problem(
+    2,
+    2,
+    (x, i) => (i === 0 ? 10 * (x[1] - x[0] * x[0]) : 1 - x[0]),
+    (x, i, j) => i === 0 ? (j === 0 ? -20 * x[0] : 10) : (j === 0 ? -1 : 0),
+  );
   const r = lmder(p, [-1.2, 1], { maxfev: 3 });
   assert.equal(r.info, "maxfev");
   assert.equal(r.converged, false);
 });
 
 Deno.test("lmder() keeps Rosenbrock inside x₁ ≤ 0.5 and ends on the bound at (0.5, 0.25)", () => {
-  const p = problem(2, 2, (x, i) => (i === 0 ? 10 * (x[1] - x[0] * x[0]) : 1 - x[0]), (x, i, j) =>
-    i === 0 ? (j === 0 ? -20 * x[0] : 10) : (j === 0 ? -1 : 0));
+  const p = problem(
+    2,
+    2,
+    (x, i) => (i === 0 ? 10 * (x[1] - x[0] * x[0]) : 1 - x[0]),
+    (x, i, j) => i === 0 ? (j === 0 ? -20 * x[0] : 10) : (j === 0 ? -1 : 0),
+  );
   const r = lmder(p, [-1.2, 1], {
     upper: Float64Array.from([0.5, Infinity]),
   });

@@ -19,12 +19,16 @@ Deno.test("polish() takes linearly converging Gauss–Newton steps to the minimu
 });
 
 Deno.test("polish() keeps a held parameter where it is", () => {
-  const p = polish({
-    m: 2,
-    n: 2,
-    residuals: (x, r) => ((r[0] = 1 - x[0]), (r[1] = 2 - x[1]), 0),
-    jac: (_x, j) => j.set([1, 0, 0, 1]),
-  }, new Float64Array([0, 0]), [false, true]);
+  const p = polish(
+    {
+      m: 2,
+      n: 2,
+      residuals: (x, r) => ((r[0] = 1 - x[0]), (r[1] = 2 - x[1]), 0),
+      jac: (_x, j) => j.set([1, 0, 0, 1]),
+    },
+    new Float64Array([0, 0]),
+    [false, true],
+  );
   assert.deepEqual(Array.from(p.x), [1, 0]);
 });
 
