@@ -34,3 +34,4 @@ export { chiSquared } from "./chi_squared.ts";
 export { type GammaTails, regularizedGamma } from "./incomplete_gamma.ts";
 export { type BetaTails, regularizedBeta } from "./incomplete_beta.ts";
 export { lnGamma } from "./log_gamma.ts";
+export { hatValues, LEVERAGE_ONE_TOLERANCE, type Press, press } from "./leverage.ts";

@@ -1,0 +1,150 @@
+/**
+ * Leverage: the diagonal of the hat matrix H = X(XᵀX)⁻¹Xᵀ, and PRESS.
+ *
+ * Method: Belsley, Kuh & Welsch, *Regression Diagnostics* (1980), §2.1, and
+ * Cook & Weisberg, *Residuals and Influence in Regression* (1982), §2.1: with
+ * the thin QR factorization X·P = Q₁·R, H = Q₁·Q₁ᵀ, so hᵢ = Σₖ Q₁[i, k]².
+ * The factorization is Householder QR with column pivoting
+ * (kernel/linalg `householderQR`); the columns of Q₁ are Q·eₖ (`applyQ`),
+ * never (XᵀX)⁻¹ formed explicitly. Only the first `rank` columns of Q enter,
+ * so an aliased column does not count twice.
+ *
+ * Weighted fits use √W·X (Cook & Weisberg 1982, §2.3 from memory for the
+ * section): hᵢ is then the leverage of row i in the weighted problem, and
+ * Σhᵢ = p still holds.
+ *
+ * Columns are scaled to unit length before factoring: H does not change
+ * under column scaling, and the rank decision no longer depends on units.
+ *
+ * PRESS (Allen 1974, "The relationship between variable selection and data
+ * augmentation and a method for prediction", Technometrics 16, from memory):
+ * the leave-one-out residual of row i is eᵢ/(1 − hᵢ), so
+ * PRESS = Σ(eᵢ/(1 − hᵢ))² without refitting; for a weighted fit eᵢ is the
+ * weighted residual √wᵢ·eᵢ.
+ *
+ * @module
+ */
+import { applyQ, householderQR } from "../linalg/mod.ts";
+
+/** 1 − h below this counts as a leverage of exactly 1 (common practice, no source). */
+export const LEVERAGE_ONE_TOLERANCE = 1e-10;
+
+/**
+ * Diagonal of the hat matrix of a (weighted) design.
+ *
+ * @param design The p design columns (or Jacobian columns of a nonlinear fit at its solution), each n long; not modified.
+ * @param weights wᵢ per row (rows are scaled by √wᵢ), or null for an unweighted fit.
+ * @returns hᵢ per row, each in [0, 1] up to rounding, summing to the rank of the design.
+ * @throws {RangeError} For no columns, columns of unequal length, weights of the wrong length,
+ *   a negative or non-finite weight, or a non-finite design entry.
+ * @example
+ * ```ts
+ * import { hatValues } from "./leverage.ts";
+ * // Straight line through x = 1, 2, 3: h = 1/n + (x − x̄)²/Sxx = 5/6, 1/3, 5/6 (hand computation).
+ * const h = hatValues([new Float64Array([1, 1, 1]), new Float64Array([1, 2, 3])], null);
+ * if (Math.abs(h[0] - 5 / 6) > 1e-14 || Math.abs(h[1] - 1 / 3) > 1e-14) throw new Error(String(h));
+ * ```
+ */
+export function hatValues(
+  design: readonly Float64Array[],
+  weights: Float64Array | null,
+): Float64Array {
+  const n = checkDesign(design, weights);
+  const p = design.length;
+  const a = new Float64Array(n * p);
+  for (let j = 0; j < p; j++) {
+    const c = design[j];
+    for (let i = 0; i < n; i++) a[i + j * n] = weights ? c[i] * Math.sqrt(weights[i]) : c[i];
+    let ss = 0;
+    for (let i = 0; i < n; i++) ss += a[i + j * n] * a[i + j * n];
+    const norm = Math.sqrt(ss);
+    if (norm > 0 && Number.isFinite(norm)) { for (let i = 0; i < n; i++) a[i + j * n] /= norm; }
+  }
+  const h = new Float64Array(n);
+  const f = householderQR(a, n, p);
+  const e = new Float64Array(n);
+  for (let k = 0; k < Math.min(f.rank, n); k++) {
+    e.fill(0);
+    e[k] = 1;
+    const q = applyQ(f, e);
+    for (let i = 0; i < n; i++) h[i] += q[i] * q[i];
+  }
+  return h;
+}
+
+function checkDesign(design: readonly Float64Array[], weights: Float64Array | null): number {
+  if (design.length === 0) {
+    throw new RangeError("Cannot compute hat values: the design has no columns");
+  }
+  const n = design[0].length;
+  design.forEach((c, j) => {
+    if (c.length !== n) {
+      throw new RangeError(
+        `Cannot compute hat values: column ${j} has ${c.length} rows, expected ${n}`,
+      );
+    }
+  });
+  if (weights) {
+    if (weights.length !== n) {
+      throw new RangeError(
+        `Cannot compute hat values: ${weights.length} weights for ${n} rows`,
+      );
+    }
+    weights.forEach((w, i) => {
+      if (!(w >= 0) || !Number.isFinite(w)) {
+        throw new RangeError(
+          `Cannot compute hat values: weight "${w}" in row ${i + 1} is not a finite number ≥ 0`,
+        );
+      }
+    });
+  }
+  return n;
+}
+
+/** PRESS and the leave-one-out root mean square error, or null where a leverage is 1. */
+export interface Press {
+  /** Σ(eᵢ/(1 − hᵢ))²; null when some hᵢ = 1 (that row's leave-one-out prediction does not exist). */
+  press: number | null;
+  /** √(PRESS/n); null with `press`. */
+  looRmse: number | null;
+}
+
+/**
+ * The prediction sum of squares from residuals and hat values.
+ *
+ * @param residuals eᵢ per row (yᵢ − ŷᵢ, unweighted).
+ * @param hat hᵢ per row, from {@link hatValues} with the same weights.
+ * @param weights wᵢ per row for a weighted fit (eᵢ becomes √wᵢ·eᵢ), or null (the default).
+ * @returns PRESS and √(PRESS/n); both null when any 1 − hᵢ < 1e-10.
+ * @throws {RangeError} When the lengths differ or there are no rows.
+ * @example
+ * ```ts
+ * import { press } from "./leverage.ts";
+ * // e = (1, −2, 1), h = (5/6, 1/3, 5/6): PRESS = 36 + 9 + 36 = 81 (hand computation).
+ * const r = press(new Float64Array([1, -2, 1]), new Float64Array([5 / 6, 1 / 3, 5 / 6]));
+ * if (Math.abs(r.press! - 81) > 1e-12 || Math.abs(r.looRmse! - Math.sqrt(27)) > 1e-12) throw new Error();
+ * ```
+ */
+export function press(
+  residuals: Float64Array,
+  hat: Float64Array,
+  weights: Float64Array | null = null,
+): Press {
+  const n = residuals.length;
+  if (n === 0) throw new RangeError("Cannot compute PRESS: there are no rows");
+  if (hat.length !== n || (weights && weights.length !== n)) {
+    throw new RangeError(
+      `Cannot compute PRESS: ${n} residuals, ${hat.length} hat values${
+        weights ? ` and ${weights.length} weights` : ""
+      }`,
+    );
+  }
+  let sum = 0;
+  for (let i = 0; i < n; i++) {
+    const gap = 1 - hat[i];
+    if (gap < LEVERAGE_ONE_TOLERANCE) return { press: null, looRmse: null };
+    const e = weights ? Math.sqrt(weights[i]) * residuals[i] : residuals[i];
+    sum += (e / gap) ** 2;
+  }
+  return { press: sum, looRmse: Math.sqrt(sum / n) };
+}
