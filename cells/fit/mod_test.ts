@@ -125,6 +125,16 @@ Deno.test("fitKind.run() places an unknown column at its offset with a suggestio
   );
 });
 
+// Regression: the overflow error of a nonlinear model was replaced by a guess
+// that the one-letter parameter "a" was a misspelt column "x".
+Deno.test("fitKind.run() keeps a solver's own error for one-letter parameters", () => {
+  const t = makeTable({ x: [1, 2, 3, 4, 5], y: [1, 2, 4, 8, 16] });
+  assert.throws(
+    () => fit("boom", "y = a*exp(1000*b*x)", t, { start: { a: 1, b: 1 } }),
+    (e: unknown) => e instanceof CellError && !/unknown column/.test(e.message),
+  );
+});
+
 Deno.test("fitKind.run() refuses a text column at its offset", () => {
   const t = makeTable({ x: [1, 2, 3], batch: ["a", "b", "c"], y: [1, 2, 4] });
   refuses(

@@ -14,7 +14,7 @@
  *
  * @module
  */
-import { derivative, freeNames, isLinearIn } from "../../kernel/expr/mod.ts";
+import { isLinearIn } from "../../kernel/expr/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
 import { nearest } from "../../kernel/suggest.ts";
 import { quotedList } from "../../kernel/linalg/mod.ts";
@@ -133,12 +133,13 @@ function solveOrExplain(problem: FitProblem, table: Table, linear: boolean): Fit
 function misspeltColumn(problem: FitProblem, table: Table): CellError | undefined {
   const { model } = problem;
   const names = table.columns.map((c) => c.name);
-  const deps = model.parameters.map((q) => freeNames(derivative(model.rhs, q)));
+  // Only names of three or more characters, as for the expression language's
+  // typo warnings: a one- or two-letter parameter is one edit from every short
+  // column, and replacing a real solver error by a guess would mislead.
   for (const p of model.parameters) {
+    if (p.length < 3) continue;
     const near = nearest(p, names, 1);
     if (near === undefined) continue;
-    const columnLike = p.length >= 3 || deps.some((d, j) => model.parameters[j] !== p && d.has(p));
-    if (!columnLike) continue;
     return new CellError(
       `Cannot fit "${problem.name}": unknown column "${p}", taken as a parameter: did you mean "${near}"?`,
       ["model"],
