@@ -131,6 +131,8 @@ export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R
   output: OutputType;
   /** One line on what the kind does (used by DEVELOPERS.md and errors). */
   description: string;
+  /** The body a new cell of this kind starts with in the live workspace (optional). */
+  template?: string;
   /** Options → spec. Throws {@link CellError} for bad options. */
   parse(ctx: ParseContext): Spec;
   /** The cells this one reads. */

@@ -78,6 +78,8 @@ export interface SessionEvent {
   state: CellState;
   fraction?: number;
   note?: string;
+  /** The cell's report, when it settles (current, failed or held). */
+  report?: CellReport;
 }
 
 interface Outcome {
@@ -229,21 +231,19 @@ export class Session {
     };
     const staticError = node.error ?? fileErrors.get(node);
     if (staticError) {
-      this.#emit(node.name, "failed");
-      return { ...base, state: "failed", error: located(staticError) };
+      return this.#settle({ ...base, state: "failed", error: located(staticError) });
     }
     const stateOf = (d: string) => reports.get(plan.graph.byName.get(d)!)?.state;
     const blocked = node.deps.find((d) => stateOf(d) !== "current");
     if (blocked !== undefined || !plan.keys.has(node.name)) {
-      this.#emit(node.name, "held");
       const why = blocked === undefined
         ? "an input cannot run"
         : `input "${blocked}" is ${stateOf(blocked) ?? "not ready"}`;
-      return {
+      return this.#settle({
         ...base,
         state: "held",
         error: { message: `Held: ${why}`, line: node.line, column: 1 },
-      };
+      });
     }
     const key = plan.keys.get(node.name)!;
     let outcome = this.#outcomes.get(key);
@@ -256,8 +256,7 @@ export class Session {
     const d = outcome.done;
     const warnings = [...base.warnings, ...d.warnings.filter((w) => !base.warnings.includes(w))];
     if (d.ok) {
-      this.#emit(node.name, "current");
-      return {
+      return this.#settle({
         ...base,
         state: "current",
         error: null,
@@ -266,15 +265,21 @@ export class Session {
         summaryLine: d.line ?? null,
         ms: d.ms,
         cached,
-      };
+      });
     }
-    this.#emit(node.name, "failed");
     const err = d.error!;
     const message = err.internal
       ? `Internal error in cell "${node.name}": ${err.message}`
       : err.message;
     const pos = node.locate(err.path ?? [], err.offset);
-    return { ...base, state: "failed", error: { message, ...pos }, warnings, ms: d.ms, cached };
+    return this.#settle({
+      ...base,
+      state: "failed",
+      error: { message, ...pos },
+      warnings,
+      ms: d.ms,
+      cached,
+    });
   }
 
   /** Computes a node, first recomputing any input whose output the worker no longer holds. */
@@ -317,6 +322,21 @@ export class Session {
 
   #emit(name: string, state: CellState, fraction?: number, note?: string): void {
     this.#opts.onEvent?.({ name, state, fraction, note });
+  }
+
+  /** Reports a settled cell to the listener and returns its report. */
+  #settle(report: CellReport): CellReport {
+    this.#opts.onEvent?.({ name: report.name, state: report.state, report });
+    return report;
+  }
+
+  /**
+   * Makes a run in progress stop at its next step (what it computed stays
+   * cached), so a caller can await it and start the next run without two
+   * runs computing at once.
+   */
+  supersede(): void {
+    this.#generation++;
   }
 
   /** Stops the compute worker. */
