@@ -298,3 +298,15 @@ Deno.test("fitKind.run() warns that start values are unused by a linear model", 
     'AICc of "line" is undefined: it needs n − k − 1 > 0, and n = 3, k = 3',
   ]);
 });
+
+Deno.test("fitKind.run() warns of nearly collinear terms with the scaled condition number", () => {
+  // A raw cubic on x = 101..120: the powers of x are nearly collinear (common practice, no source).
+  const x = Array.from({ length: 20 }, (_, i) => 101 + i);
+  const y = x.map((v, i) => 2 + 0.5 * v + 0.01 * v * v + (i % 3) * 0.1);
+  const { warnings } = fit("cubic", "y = polynomial(x, 3)", makeTable({ x, y }));
+  const w = warnings.find((m) => m.startsWith('Terms of "cubic" are nearly collinear'));
+  assert.ok(w, warnings.join("\n"));
+  assert.match(w!, /condition number [0-9.e+]+ of the design with unit-length columns \(> 100/);
+  const plain = fit("line", "y = a + b*x", makeTable({ x: [0, 1, 2, 3, 4], y: [1, 3, 2, 5, 4] }));
+  assert.ok(!plain.warnings.some((m) => m.includes("collinear")));
+});

@@ -24,6 +24,7 @@ export {
 export { applyQ, applyQt } from "./apply_qt.ts";
 export { invertR, solveR } from "./solve_r.ts";
 export { singularValues } from "./singular_values.ts";
+export { scaledConditionNumber } from "./scaled_condition.ts";
 export { inColumnSpace } from "./column_space.ts";
 export { describeAliased, quotedList } from "./describe_aliased.ts";
 export {
