@@ -7,6 +7,7 @@
 import { makeRegistry, type Registry } from "../kernel/registry.ts";
 import { tableKind } from "./table/mod.ts";
 import { fitKind } from "./fit/mod.ts";
+import { predictKind } from "./predict/mod.ts";
 
 /** Every kind Plumb knows, by name. */
-export const registry: Registry = makeRegistry([tableKind, fitKind]);
+export const registry: Registry = makeRegistry([tableKind, fitKind, predictKind]);

@@ -1,0 +1,89 @@
+/**
+ * The `predict` cell kind: predictions from a fit cell, with intervals.
+ *
+ * ```predict end-of-life
+ * fit: power
+ * at: { cycle: [500, 1000] }
+ * solve: { capacity: 2000 }
+ * ```
+ *
+ * At each point of `at` (lists paired element by element): the mean response
+ * with its standard error and confidence interval, and the prediction
+ * interval for a new observation (`mean_response.ts`,
+ * `interval_settings.ts`). For fits with one predictor, `solve` gives the x
+ * that yields a response value, with a Fieller interval for straight lines
+ * and an inverted prediction band otherwise (`inverse_prediction.ts`).
+ * Transformed responses are reported back-transformed to the original scale
+ * (`response_scale.ts`). Warnings: extrapolation beyond the fitted range,
+ * points where the model is not finite.
+ *
+ * @example
+ * ```ts
+ * import { predictKind } from "./mod.ts";
+ * if (predictKind.kind !== "predict" || predictKind.output !== "Predictions") throw new Error();
+ * ```
+ *
+ * @module
+ */
+import type { CellKind } from "../types.ts";
+import { parsePredictSpec, type PredictSpec } from "./spec.ts";
+import type { Predictions, PredictResult } from "./result.ts";
+import { runPredict } from "./run.ts";
+import { PredictView } from "./view.tsx";
+import { formatInterval, formatNumber } from "./_format.ts";
+
+export type { PredictSpec } from "./spec.ts";
+export type {
+  Predictions,
+  PredictPointResult,
+  PredictResult,
+  PredictSolveResult,
+} from "./result.ts";
+
+/** The `predict` kind record. */
+export const predictKind: CellKind<PredictSpec, Predictions, PredictResult> = {
+  kind: "predict",
+  body: "yaml",
+  output: "Predictions",
+  description: "predicts from a fit with confidence and prediction intervals, and inverts it",
+  parse: parsePredictSpec,
+  inputs: (spec) => [{ name: spec.fit, accepts: ["Fit"], path: ["fit"] }],
+  run: runPredict,
+  summary: (out) => out.result,
+  line: predictLine,
+  view: PredictView,
+};
+
+/**
+ * One human line: the first point and the first inverse prediction, and counts.
+ *
+ * @param r The result.
+ * @returns The line.
+ * @example
+ * ```ts
+ * import { predictLine } from "./mod.ts";
+ * const line = predictLine({ fit: "line", level: 0.95, at: [], solve: [], response: "y",
+ *   scale: "", se_scale: "", distribution: "t(3)", new_observation: "", mean_method: "" });
+ * if (!line.startsWith("from line")) throw new Error(line);
+ * ```
+ */
+export function predictLine(r: PredictResult): string {
+  const parts = [`from ${r.fit} at ${formatNumber(100 * r.level, 4)}%`];
+  const p = r.at[0];
+  if (p !== undefined) {
+    const x = Object.entries(p.x).map(([k, v]) => `${k} = ${formatNumber(v, 6)}`).join(", ");
+    const more = r.at.length > 1 ? ` (+${r.at.length - 1} points)` : "";
+    parts.push(`${x}: ${formatNumber(p.estimate, 6)}, PI ${formatInterval(p.pi, 4)}${more}`);
+  }
+  const s = r.solve[0];
+  if (s !== undefined) {
+    const [[yk, yv]] = Object.entries(s.y), [[xk, xv]] = Object.entries(s.x);
+    const more = r.solve.length > 1 ? ` (+${r.solve.length - 1})` : "";
+    parts.push(
+      `${yk} = ${formatNumber(yv, 6)} at ${xk} = ${formatNumber(xv, 6)} ${
+        formatInterval(s.ci, 4)
+      }${more}`,
+    );
+  }
+  return parts.join(" · ");
+}

@@ -1,0 +1,76 @@
+/**
+ * The RUN-JSON `result` of a predict cell (RUN-JSON.md, `predict`) and the
+ * `Predictions` output that carries it.
+ *
+ * Our additions to the documented shape (extend, never rename): `response`,
+ * `scale`, `se_scale`, `distribution`, `new_observation`, `mean_method`,
+ * per point `extrapolated` and (transformed responses) `model_scale`, per
+ * inverse prediction `method`, `interval_for` and `extrapolated`.
+ *
+ * @module
+ */
+import type { CellOutput } from "../types.ts";
+
+/** One prediction point. Values that do not exist (the model is not finite there) are null. */
+export interface PredictPointResult {
+  /** The predictor values of the point. */
+  x: Record<string, number>;
+  /** The mean response, on the reporting scale (`scale`). */
+  estimate: number | null;
+  /** Standard error of the mean response, on the model scale (`se_scale`). */
+  se_fit: number | null;
+  /** Interval for the mean response at `level`. */
+  ci: [number, number] | null;
+  /** Interval for a new observation at `level`; null when its variance is unknown. */
+  pi: [number, number] | null;
+  /** Our addition: whether any predictor lies outside the fitted range. */
+  extrapolated: boolean;
+  /** Our addition, transformed responses only: the same values on the model scale. */
+  model_scale?: {
+    estimate: number | null;
+    ci: [number, number] | null;
+    pi: [number, number] | null;
+  };
+}
+
+/** One inverse prediction. */
+export interface PredictSolveResult {
+  /** The response value as written in `solve`. */
+  y: Record<string, number>;
+  /** The predictor value that gives it. */
+  x: Record<string, number>;
+  /** Interval for x (see `interval_for`); null when not a finite interval. */
+  ci: [number, number] | null;
+  /** Our addition: "fieller" (straight lines) or "prediction-band" (other models). */
+  method: "fieller" | "prediction-band";
+  /** Our addition: what the interval is for, in words. */
+  interval_for: string;
+  /** Our addition: whether x lies outside the fitted range. */
+  extrapolated: boolean;
+}
+
+/** The `predict` result object. */
+export interface PredictResult {
+  fit: string;
+  level: number;
+  at: PredictPointResult[];
+  solve: PredictSolveResult[];
+  /** Our addition: the fit's response as written. */
+  response: string;
+  /** Our addition: the scale of estimates and intervals, in words. */
+  scale: string;
+  /** Our addition: the scale of `se_fit`, in words. */
+  se_scale: string;
+  /** Our addition: the reference distribution of the intervals, e.g. "t(18)" or "normal". */
+  distribution: string;
+  /** Our addition: the variance used for a new observation, in words. */
+  new_observation: string;
+  /** Our addition: how se_fit was computed, in words. */
+  mean_method: string;
+}
+
+/** Output of `predict`: the computed predictions (the result is all there is). */
+export interface Predictions extends CellOutput {
+  type: "Predictions";
+  result: PredictResult;
+}

@@ -1,0 +1,227 @@
+/**
+ * The options of a `predict` cell and their normaliser.
+ *
+ * ```predict end-of-life
+ * fit: power                     # the fit cell to predict from (required)
+ * at: { cycle: [500, 1000] }     # values per predictor column, lists paired element by element
+ * solve: { capacity: 2000 }      # inverse prediction: which x gives this response (one predictor)
+ * level: 0.9                     # interval level (default: the document's confidence)
+ * weight: 2                      # relative weight of a new observation (fits with weights; default 1)
+ * sigma: 1.5                     # σ of a new observation (fits with known_sigma; no default)
+ * replicates: 3                  # new observations averaged, for prediction intervals (default 1)
+ * search: [0, 2000]              # x range searched by solve (default: fitted range ± 10 %)
+ * ```
+ *
+ * `at` and `solve` are checked against the fit's columns at run time (the
+ * fit's model is known only then); here only their shape is checked. A
+ * scalar in `at` applies to every point, and so does a list of one value;
+ * longer lists must all have the same length (three values per column give
+ * three points, not a grid).
+ *
+ * @module
+ */
+import { CellError } from "../../kernel/errors.ts";
+import { didYouMean } from "../../kernel/suggest.ts";
+import type { ParseContext } from "../types.ts";
+
+/** A `predict` cell's normalised options (plain JSON: hashed into the cache key). */
+export interface PredictSpec {
+  /** Name of the fit cell. */
+  fit: string;
+  /** Values by column as written, each a list (a scalar becomes a list of one); null without `at`. */
+  at: Record<string, number[]> | null;
+  /** Inverse prediction: the response key as written and its values; null without `solve`. */
+  solve: { response: string; values: number[] } | null;
+  /** Interval level, when given (else the document's confidence). */
+  level?: number;
+  /** Relative weight w₀ of a new observation, when given. */
+  weight?: number;
+  /** Standard deviation σ₀ of a new observation, when given. */
+  sigma?: number;
+  /** Number of new observations averaged, when given. */
+  replicates?: number;
+  /** The x range searched by `solve`, when given. */
+  search?: [number, number];
+}
+
+/** Option keys a `predict` cell understands, with what each is for. */
+export const PREDICT_OPTIONS = {
+  fit: "the fit cell to predict from",
+  at: "values per predictor column; lists of equal length are paired element by element",
+  solve: "inverse prediction: { response: value or list }, for fits with one predictor",
+  level: "interval level in (0, 1); default the document's confidence",
+  weight: "relative weight of a new observation, for fits with weights (default 1)",
+  sigma: "standard deviation of a new observation, for fits with known_sigma",
+  replicates: "number of new observations averaged, for prediction intervals (default 1)",
+  search: "the x range [low, high] that solve searches (default the fitted range ± 10 %)",
+} as const;
+
+/**
+ * Checks and normalises a `predict` cell's options.
+ *
+ * @param ctx The parse context (cell name, YAML options).
+ * @returns The spec.
+ * @throws {CellError} For an unknown option, a missing or bad `fit`, neither
+ *   `at` nor `solve`, a value that is not a finite number, lists of unequal
+ *   length in `at`, a `solve` without exactly one response, or a bad
+ *   `level`, `weight`, `sigma`, `replicates` or `search`.
+ * @example
+ * ```ts
+ * import { parsePredictSpec } from "./spec.ts";
+ * const spec = parsePredictSpec({
+ *   name: "eol", kind: "predict", body: "", warn() {},
+ *   options: { fit: "power", at: { cycle: [500, 1000], temp: 25 } },
+ *   settings: { title: "", confidence: 0.95, seed: 1, criterion: "aicc", maxFileBytes: 1, extra: {} },
+ * });
+ * if (spec.at?.temp.join() !== "25") throw new Error("a scalar is a list of one");
+ * ```
+ */
+export function parsePredictSpec(ctx: ParseContext): PredictSpec {
+  const o = ctx.options;
+  for (const key of Object.keys(o)) {
+    if (!(key in PREDICT_OPTIONS)) {
+      const hint = didYouMean(key, Object.keys(PREDICT_OPTIONS)) ||
+        `: a predict cell takes ${Object.keys(PREDICT_OPTIONS).map((k) => `"${k}"`).join(", ")}`;
+      throw new CellError(`Unknown option "${key}" in predict "${ctx.name}"${hint}`, [key]);
+    }
+  }
+  const at = atValues(ctx, o.at);
+  const solve = solveValues(ctx, o.solve);
+  if (at === null && solve === null) {
+    throw new CellError(
+      `Predict "${ctx.name}" has neither "at" nor "solve": give predictor values, as in at: { x: [1, 2] }, or a response to solve for, as in solve: { y: 10 }`,
+      [],
+    );
+  }
+  const level = optionalNumber(ctx, "level", (v) => v > 0 && v < 1, "a level in (0, 1)");
+  const weight = optionalNumber(ctx, "weight", (v) => v > 0, "a positive weight");
+  const sigma = optionalNumber(ctx, "sigma", (v) => v > 0, "a positive standard deviation");
+  const replicates = optionalNumber(
+    ctx,
+    "replicates",
+    (v) => Number.isInteger(v) && v >= 1,
+    "a whole number of at least 1",
+  );
+  const search = searchRange(ctx, o.search);
+  return {
+    fit: fitName(ctx, o.fit),
+    at,
+    solve,
+    ...(level === undefined ? {} : { level }),
+    ...(weight === undefined ? {} : { weight }),
+    ...(sigma === undefined ? {} : { sigma }),
+    ...(replicates === undefined ? {} : { replicates }),
+    ...(search === undefined ? {} : { search }),
+  };
+}
+
+function fitName(ctx: ParseContext, v: unknown): string {
+  if (v === undefined || v === null) {
+    throw new CellError(
+      `Missing "fit" in predict "${ctx.name}": name the fit cell to predict from, as in fit: line`,
+      [],
+    );
+  }
+  if (typeof v !== "string" || v.trim() === "" || /\s/.test(v.trim())) {
+    throw new CellError(
+      `Option "fit" of predict "${ctx.name}" is "${String(v)}": expected the name of a fit cell`,
+      ["fit"],
+    );
+  }
+  return v.trim();
+}
+
+function isMapping(v: unknown): v is Record<string, unknown> {
+  return typeof v === "object" && v !== null && !Array.isArray(v);
+}
+
+/** A number or a non-empty list of numbers → a list; throws at `path` otherwise. */
+function numberList(ctx: ParseContext, v: unknown, path: (string | number)[]): number[] {
+  const list = Array.isArray(v) ? v : [v];
+  const where = `"${path.join(".")}" of predict "${ctx.name}"`;
+  if (list.length === 0) {
+    throw new CellError(`Option ${where} is an empty list: expected at least one number`, path);
+  }
+  list.forEach((x, i) => {
+    if (typeof x !== "number" || !Number.isFinite(x)) {
+      const at = Array.isArray(v) ? [...path, i] : path;
+      throw new CellError(
+        `Value "${String(x)}" in ${where} is not a finite number`,
+        at,
+      );
+    }
+  });
+  return list as number[];
+}
+
+function atValues(ctx: ParseContext, v: unknown): Record<string, number[]> | null {
+  if (v === undefined || v === null) return null;
+  if (!isMapping(v)) {
+    throw new CellError(
+      `Option "at" of predict "${ctx.name}" is "${
+        String(v)
+      }": expected a mapping of columns to values, as in at: { x: [1, 2, 3] }`,
+      ["at"],
+    );
+  }
+  const out: Record<string, number[]> = {};
+  let length = 1, longest = "";
+  for (const [col, x] of Object.entries(v)) {
+    const list = numberList(ctx, x, ["at", col]);
+    if (list.length > 1 && length > 1 && list.length !== length) {
+      throw new CellError(
+        `Lists in "at" of predict "${ctx.name}" differ in length: "${longest}" has ${length} values, "${col}" has ${list.length}: lists are paired element by element, so give each column the same number of values (or one value for all points)`,
+        ["at", col],
+      );
+    }
+    if (list.length > 1) [length, longest] = [list.length, col];
+    out[col] = list;
+  }
+  return out;
+}
+
+function solveValues(ctx: ParseContext, v: unknown): PredictSpec["solve"] {
+  if (v === undefined || v === null) return null;
+  const keys = isMapping(v) ? Object.keys(v) : [];
+  if (!isMapping(v) || keys.length !== 1) {
+    const shown = isMapping(v) ? `{ ${keys.join(", ")} }` : String(v);
+    throw new CellError(
+      `Option "solve" of predict "${ctx.name}" is "${shown}": expected one response and its value(s), as in solve: { y: 10 }`,
+      ["solve"],
+    );
+  }
+  const response = keys[0];
+  return { response, values: numberList(ctx, v[response], ["solve", response]) };
+}
+
+function optionalNumber(
+  ctx: ParseContext,
+  key: string,
+  ok: (v: number) => boolean,
+  expected: string,
+): number | undefined {
+  const v = ctx.options[key];
+  if (v === undefined || v === null) return undefined;
+  if (typeof v !== "number" || !Number.isFinite(v) || !ok(v)) {
+    throw new CellError(
+      `Option "${key}" of predict "${ctx.name}" is "${String(v)}": expected ${expected}`,
+      [key],
+    );
+  }
+  return v;
+}
+
+function searchRange(ctx: ParseContext, v: unknown): [number, number] | undefined {
+  if (v === undefined || v === null) return undefined;
+  const ok = Array.isArray(v) && v.length === 2 &&
+    v.every((x) => typeof x === "number" && Number.isFinite(x)) && v[0] < v[1];
+  if (!ok) {
+    throw new CellError(
+      `Option "search" of predict "${ctx.name}" is "${
+        Array.isArray(v) ? `[${v.join(", ")}]` : String(v)
+      }": expected [low, high] with low < high`,
+      ["search"],
+    );
+  }
+  return [v[0], v[1]];
+}
