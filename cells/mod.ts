@@ -8,6 +8,7 @@ import { makeRegistry, type Registry } from "../kernel/registry.ts";
 import { tableKind } from "./table/mod.ts";
 import { fitKind } from "./fit/mod.ts";
 import { predictKind } from "./predict/mod.ts";
+import { compareKind } from "./compare/mod.ts";
 
 /** Every kind Plumb knows, by name. */
-export const registry: Registry = makeRegistry([tableKind, fitKind, predictKind]);
+export const registry: Registry = makeRegistry([tableKind, fitKind, predictKind, compareKind]);

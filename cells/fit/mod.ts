@@ -31,6 +31,7 @@ export type { FitSpec } from "./spec.ts";
 export type { Fit } from "./fit.ts";
 export type { FitParameterResult, FitResult } from "./result.ts";
 export type { FitProblem, FitSolution } from "./problem.ts";
+export { refit, refitProblem } from "./refit.ts";
 
 /** The `fit` kind record. */
 export const fitKind: CellKind<FitSpec, Fit, FitResult> = {

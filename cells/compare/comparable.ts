@@ -1,0 +1,123 @@
+/**
+ * Whether fits can be compared at all: the criteria of different data are
+ * not comparable (Burnham & Anderson 2002, *Model Selection and Multimodel
+ * Inference*, 2nd ed., §2.11.3 from memory for the section: every model
+ * must be fitted to the same response values). So the fits must use the
+ * same rows, model the same response column with the same values, be
+ * weighted alike, and count k alike. Each refusal names the two fits and
+ * says what differs.
+ *
+ * @module
+ */
+import { CellError } from "../../kernel/errors.ts";
+import type { Fit } from "../fit/mod.ts";
+import type { OriginalScale } from "./original_scale.ts";
+import { rowList } from "./_rows.ts";
+
+/** A fit as the comparison sees it. */
+export interface Candidate {
+  /** The fit cell's name. */
+  name: string;
+  fit: Fit;
+  /** The response on the scale of its column. */
+  scale: OriginalScale;
+}
+
+/** Relative gap allowed between two fits' response values or weights (common practice, no source). */
+const SAME_VALUE = 1e-9;
+
+const WEIGHTINGS = {
+  none: "unweighted",
+  relative: "relative weights",
+  absolute: "known standard deviations",
+} as const;
+
+/**
+ * Refuses fits that cannot be compared; the first candidate is the reference.
+ *
+ * @param cell The compare cell's name.
+ * @param all The candidates, in the order listed.
+ * @throws {CellError} At `["fits", j]` for the first fit that differs from the
+ *   first one in its rows, response column, response values, weighting,
+ *   weights or k convention.
+ * @example
+ * ```ts
+ * import { checkComparable } from "./comparable.ts";
+ * checkComparable("cmp", []); // nothing to refuse
+ * ```
+ */
+export function checkComparable(cell: string, all: readonly Candidate[]): void {
+  if (all.length === 0) return;
+  const a = all[0];
+  all.slice(1).forEach((b, k) => {
+    const at = ["fits", k + 1];
+    const why = rowsDiffer(a, b) ?? responseDiffers(a, b) ?? weightingDiffers(a, b) ??
+      kDiffers(a, b);
+    if (why !== null) throw new CellError(`Cannot compare "${cell}": ${why}`, at);
+  });
+}
+
+function pair(a: Candidate, b: Candidate): string {
+  return `fits "${a.name}" and "${b.name}"`;
+}
+
+function rowsDiffer(a: Candidate, b: Candidate): string | null {
+  const ra = a.fit.rows, rb = b.fit.rows;
+  if (ra.length === rb.length && ra.every((r, i) => r === rb[i])) return null;
+  const inB = new Set(rb), inA = new Set(ra);
+  const onlyA = Array.from(ra).filter((r) => !inB.has(r));
+  const onlyB = Array.from(rb).filter((r) => !inA.has(r));
+  const parts = [`"${a.name}" uses ${ra.length} rows, "${b.name}" uses ${rb.length}`];
+  if (onlyA.length > 0) parts.push(`only "${a.name}" uses ${rowList(onlyA)}`);
+  if (onlyB.length > 0) parts.push(`only "${b.name}" uses ${rowList(onlyB)}`);
+  if (onlyA.length === 0 && onlyB.length === 0) parts.push("the rows are in a different order");
+  return `${pair(a, b)} are on different rows: ${parts.join("; ")}`;
+}
+
+function responseDiffers(a: Candidate, b: Candidate): string | null {
+  const ca = a.fit.model.responseColumn, cb = b.fit.model.responseColumn;
+  if (ca !== cb) {
+    return `${
+      pair(a, b)
+    } model different responses: "${a.name}" models column "${ca}", "${b.name}" models column "${cb}"`;
+  }
+  const bad = differing(a.scale.values, b.scale.values, a.fit.rows);
+  if (bad.length === 0) return null;
+  return `${
+    pair(a, b)
+  } have different values of response column "${ca}" (fitted on tables "${a.fit.on}" and "${b.fit.on}") in ${
+    rowList(bad)
+  }`;
+}
+
+function weightingDiffers(a: Candidate, b: Candidate): string | null {
+  const wa = a.fit.weighting, wb = b.fit.weighting;
+  if (wa !== wb) {
+    return `${pair(a, b)} are weighted differently: "${a.name}" is ${
+      WEIGHTINGS[wa]
+    }, "${b.name}" is ${WEIGHTINGS[wb]}`;
+  }
+  if (a.fit.weights === null || b.fit.weights === null) return null;
+  const bad = differing(a.fit.weights, b.fit.weights, a.fit.rows);
+  if (bad.length === 0) return null;
+  return `${pair(a, b)} have different weights in ${rowList(bad)}`;
+}
+
+function kDiffers(a: Candidate, b: Candidate): string | null {
+  const ka = a.fit.statistics.kConvention, kb = b.fit.statistics.kConvention;
+  if (ka === kb) return null;
+  return `${
+    pair(a, b)
+  } count parameters differently for the criteria: "${a.name}" uses ${ka}; "${b.name}" uses ${kb}: set count_variance alike`;
+}
+
+/** Source rows where x and y differ by more than SAME_VALUE relative. */
+function differing(x: Float64Array, y: Float64Array, rows: Int32Array): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < x.length; i++) {
+    if (!(Math.abs(x[i] - y[i]) <= SAME_VALUE * Math.max(Math.abs(x[i]), Math.abs(y[i])))) {
+      out.push(rows[i]);
+    }
+  }
+  return out;
+}

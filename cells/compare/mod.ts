@@ -1,0 +1,42 @@
+/**
+ * The `compare` cell kind: ranks fits of the same response on the same rows
+ * by an information criterion or leave-one-out error, with Akaike weights,
+ * nested F tests and a verdict that names its evidence scale.
+ *
+ * ```compare shape
+ * fits: [line, root, power]
+ * by: aicc
+ * ```
+ *
+ * @example
+ * ```ts
+ * import { compareKind } from "./mod.ts";
+ * if (compareKind.kind !== "compare" || compareKind.output !== "Comparison") throw new Error("unexpected");
+ * ```
+ *
+ * @module
+ */
+import type { CellKind } from "../types.ts";
+import { type CompareSpec, parseCompareSpec } from "./spec.ts";
+import type { CompareResult, Comparison } from "./result.ts";
+import { runCompare } from "./run.ts";
+import { compareLine } from "./line.ts";
+import { CompareView } from "./view.tsx";
+
+export type { CompareSpec, Criterion } from "./spec.ts";
+export type { CompareResult, CompareRow, Comparison } from "./result.ts";
+export type { NestedTest } from "./nested_tests.ts";
+
+/** The `compare` kind record. */
+export const compareKind: CellKind<CompareSpec, Comparison, CompareResult> = {
+  kind: "compare",
+  body: "yaml",
+  output: "Comparison",
+  description: "ranks fits by AIC, AICc, BIC or leave-one-out error, with weights and F tests",
+  parse: parseCompareSpec,
+  inputs: (spec) => spec.fits.map((name, i) => ({ name, accepts: ["Fit"], path: ["fits", i] })),
+  run: runCompare,
+  summary: (out) => out.result,
+  line: compareLine,
+  view: CompareView,
+};
