@@ -28,7 +28,8 @@
  * number supersedes a lower one.
  *
  * Changes to this file are made by agreement between the server and the front
- * end, and noted here. Changes: none yet.
+ * end, and noted here. Changes: restore's `at` also takes the offset that
+ * delete now returns (`DeletedResponse.at`), for an exact undo.
  *
  * @module
  */
@@ -138,8 +139,12 @@ export interface DeleteCellRequest {
 export interface RestoreCellRequest {
   /** The removed cell's text, as returned by delete. */
   text: string;
-  /** The cell to insert after, or null for the start of the content. */
-  at: string | null;
+  /**
+   * Where: the offset returned by delete (exact undo; valid while `base` is
+   * the version delete returned), a cell name to insert after, or null for
+   * the end of the document.
+   */
+  at: number | string | null;
   base: string;
 }
 
@@ -148,9 +153,11 @@ export interface SavedResponse {
   version: string;
 }
 
-/** 200 answer of delete: the removed text, for undo. */
+/** 200 answer of delete: the removed text and its offset, for undo. */
 export interface DeletedResponse extends SavedResponse {
   removed: string;
+  /** Offset in the new text where `removed` was taken out. */
+  at: number;
 }
 
 /** 409 answer: the disk moved on since `base`; nothing was written. */
