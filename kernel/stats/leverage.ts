@@ -24,7 +24,7 @@
  *
  * @module
  */
-import { applyQ, householderQR } from "../linalg/mod.ts";
+import { orthonormalBasis } from "./_orthonormal_basis.ts";
 
 /** 1 − h below this counts as a leverage of exactly 1 (common practice, no source). */
 export const LEVERAGE_ONE_TOLERANCE = 1e-10;
@@ -50,23 +50,8 @@ export function hatValues(
   weights: Float64Array | null,
 ): Float64Array {
   const n = checkDesign(design, weights);
-  const p = design.length;
-  const a = new Float64Array(n * p);
-  for (let j = 0; j < p; j++) {
-    const c = design[j];
-    for (let i = 0; i < n; i++) a[i + j * n] = weights ? c[i] * Math.sqrt(weights[i]) : c[i];
-    let ss = 0;
-    for (let i = 0; i < n; i++) ss += a[i + j * n] * a[i + j * n];
-    const norm = Math.sqrt(ss);
-    if (norm > 0 && Number.isFinite(norm)) { for (let i = 0; i < n; i++) a[i + j * n] /= norm; }
-  }
   const h = new Float64Array(n);
-  const f = householderQR(a, n, p);
-  const e = new Float64Array(n);
-  for (let k = 0; k < Math.min(f.rank, n); k++) {
-    e.fill(0);
-    e[k] = 1;
-    const q = applyQ(f, e);
+  for (const q of orthonormalBasis(design, weights)) {
     for (let i = 0; i < n; i++) h[i] += q[i] * q[i];
   }
   return h;

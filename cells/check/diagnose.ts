@@ -1,0 +1,140 @@
+/**
+ * Runs every diagnostic of kernel/stats on one fit and gathers the findings.
+ *
+ * ```
+ *  Fit ─ design (or Jacobian), weights, residuals
+ *   ├─ hatValues ─┬─ studentized (internal, external) ─ Cook's D, DFFITS
+ *   │             ├─ PRESS, robust covariance (option)
+ *   ├─ VIF, condition number, Durbin–Watson, Breusch–Pagan, RESET (on the design)
+ *   ├─ Shapiro–Wilk, Jarque–Bera (on √w·e), runs (signs in x order), lack of fit (replicates)
+ *   └─ findings (findings.ts)
+ * ```
+ *
+ * Weighted fits use √wᵢ-scaled residuals and design throughout; nonlinear
+ * fits use the Jacobian at the solution (Fit.design holds it), so the
+ * leverage and tests are those of the linearised problem.
+ *
+ * @module
+ */
+import {
+  breuschPagan,
+  conditionNumber,
+  cooksDistance,
+  dffits,
+  durbinWatsonTest,
+  hatValues,
+  jarqueBera,
+  lackOfFit,
+  press,
+  ramseyReset,
+  robustCovariance,
+  shapiroWilk,
+  signRuns,
+  studentizedResiduals,
+  varianceInflation,
+} from "../../kernel/stats/mod.ts";
+import type { Fit } from "../fit/mod.ts";
+import type { CheckSpec } from "./spec.ts";
+import type { CheckResult } from "./result.ts";
+import { findingsOf } from "./findings.ts";
+
+/**
+ * All diagnostics of a fit as the RUN-JSON `check` object.
+ *
+ * @param fit The fit to judge.
+ * @param spec The check's options.
+ * @returns The result, findings included.
+ */
+export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
+  const { design, weights, residuals } = fit;
+  const n = residuals.length, p = design.length;
+  const h = hatValues(design, weights);
+  const st = studentizedResiduals(residuals, h, p, weights);
+  const we = weights ? residuals.map((e, i) => e * Math.sqrt(weights[i])) : residuals;
+  const loo = press(residuals, h, weights);
+  const dw = durbinWatsonTest(residuals, design, weights);
+  const base: Omit<CheckResult, "findings"> = {
+    fit: spec.fit,
+    n,
+    p,
+    method: fit.method,
+    weighted: fit.weighted,
+    significance: spec.significance,
+    rows: Array.from(fit.rows),
+    fitted: Array.from(fit.fitted),
+    residuals: Array.from(residuals),
+    leverage: Array.from(h),
+    studentized_internal: st.internal,
+    studentized_external: st.external,
+    cooks_distance: cooksDistance(st.internal, h, p),
+    dffits: dffits(st.external, h),
+    vif: varianceInflation(design, fit.parameters, weights),
+    condition_number: conditionNumber(design, weights),
+    durbin_watson: dw?.statistic ?? null,
+    durbin_watson_test: dw &&
+      { expected: dw.expected, variance: dw.variance, z: dw.z, p_value: dw.p_value },
+    breusch_pagan: breuschPagan(residuals, design, weights, spec.varianceTest),
+    shapiro_wilk: n >= 3 && n <= 5000 && spread(we) ? shapiroWilk(we) : null,
+    jarque_bera: jarqueBera(we),
+    reset: ramseyReset(residuals, fit.fitted, design, weights),
+    runs: runsOf(fit),
+    lack_of_fit: lofOf(fit, p),
+    press: loo.press,
+    loo_rmse: loo.looRmse,
+    robust: spec.robust === null ? null : robustOf(fit, h, spec.robust),
+  };
+  return { ...base, findings: findingsOf(base) };
+}
+
+function spread(x: Float64Array): boolean {
+  let lo = Infinity, hi = -Infinity;
+  for (const v of x) {
+    lo = Math.min(lo, v);
+    hi = Math.max(hi, v);
+  }
+  return hi - lo > 1e-19 * Math.max(1, Math.abs(lo));
+}
+
+/** Signs in order of the one predictor column (ties in row order), else row order. */
+function runsOf(fit: Fit): CheckResult["runs"] {
+  const byX = fit.columns.length === 1;
+  const order = Array.from({ length: fit.residuals.length }, (_, i) => i);
+  if (byX) {
+    const x = fit.columns[0];
+    order.sort((a, b) => x[a] - x[b] || a - b);
+  }
+  const r = signRuns(fit.residuals, order);
+  return r &&
+    { runs: r.runs, expected: r.expected, z: r.z, p_value: r.p_value, order: byX ? "x" : "rows" };
+}
+
+function lofOf(fit: Fit, p: number): CheckResult["lack_of_fit"] {
+  if (fit.columns.length === 0) return null;
+  const t = lackOfFit(fit.columns, fit.y, fit.residuals, p, fit.weights);
+  return t && {
+    f: t.f,
+    df1: t.df1,
+    df2: t.df2,
+    p_value: t.p_value,
+    ss_lack_of_fit: t.ss_lack_of_fit,
+    ss_pure_error: t.ss_pure_error,
+  };
+}
+
+function robustOf(
+  fit: Fit,
+  h: Float64Array,
+  type: "hc0" | "hc1" | "hc2" | "hc3",
+): CheckResult["robust"] {
+  const r = robustCovariance(
+    fit.design,
+    fit.residuals,
+    h,
+    fit.unscaledCovariance,
+    fit.weights,
+    type,
+  );
+  const std_errors: Record<string, number | null> = {};
+  fit.parameters.forEach((name, j) => std_errors[name] = r.stdErrors[j]);
+  return { type, std_errors };
+}

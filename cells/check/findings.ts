@@ -1,0 +1,205 @@
+/**
+ * Findings: plain sentences with the evidence and the threshold used.
+ *
+ * Every threshold below is common practice, no source beyond the textbooks
+ * that popularised it; each message says which rule it used:
+ *
+ * | code                  | rule                                                                |
+ * | --------------------- | ------------------------------------------------------------------- |
+ * | determined-by-one-row | leverage 1 (1 − h < 1e-10)                                          |
+ * | outlier               | externally studentized residual beyond ±3                           |
+ * | influential           | Cook's D > 4/n and > F(0.5; p, n − p), the median of F             |
+ * | high-leverage         | h > 2p/n (Belsley, Kuh & Welsch 1980, §2.1), rows with h = 1 aside  |
+ * | curvature             | RESET p < α, lack-of-fit p < α, or too few sign runs in x order     |
+ * | non-constant-variance | Breusch–Pagan p < α                                                 |
+ * | non-normal            | Shapiro–Wilk p < α (Jarque–Bera when n is outside 3..5000)          |
+ * | autocorrelation       | Durbin–Watson test p < α (normal approximation with exact moments), |
+ * |                       | or too few sign runs in row order (several predictors)              |
+ * | collinearity          | VIF > 10                                                            |
+ *
+ * α is the check's `significance` (default 0.05).
+ *
+ * @module
+ */
+import { fisherF } from "../../kernel/stats/mod.ts";
+import type { CheckResult, Finding } from "./result.ts";
+import { fmt, pText, rowList } from "./_format.ts";
+
+type Base = Omit<CheckResult, "findings">;
+
+/**
+ * The findings of a check, in order of seriousness.
+ *
+ * @param r Every diagnostic but the findings.
+ * @returns One finding per code that applies (its evidence sentences joined).
+ */
+export function findingsOf(r: Base): Finding[] {
+  const out: Finding[] = [];
+  const add = (code: Finding["code"], rows: number[], message: string) => {
+    const f = out.find((x) => x.code === code);
+    if (f) {
+      f.rows = [...new Set([...f.rows, ...rows])].sort((a, b) => a - b);
+      f.message += ` ${message}`;
+    } else out.push({ code, rows, message });
+  };
+  rowFindings(r, add);
+  testFindings(r, add);
+  return out;
+}
+
+type Add = (code: Finding["code"], rows: number[], message: string) => void;
+
+function pick(r: Base, test: (i: number) => boolean): number[] {
+  return r.leverage.map((_, i) => i).filter(test);
+}
+
+function rowFindings(r: Base, add: Add): void {
+  const { n, p } = r;
+  const one = pick(r, (i) => r.studentized_internal[i] === null && 1 - r.leverage[i] < 1e-10);
+  if (one.length) {
+    add(
+      "determined-by-one-row",
+      one.map((i) => r.rows[i]),
+      `${cap(rowList(one.map((i) => r.rows[i])))} ${one.length > 1 ? "have" : "has"} leverage 1: ${
+        one.length > 1 ? "each" : "it"
+      } alone determines a parameter (the fit passes through it exactly), so its studentized residuals, Cook's distance and DFFITS do not exist.`,
+    );
+  }
+  const out = pick(r, (i) => Math.abs(r.studentized_external[i] ?? 0) > 3);
+  if (out.length) {
+    add(
+      "outlier",
+      out.map((i) => r.rows[i]),
+      `${cap(rowList(out.map((i) => r.rows[i])))} ${verb(out)} externally studentized residual${
+        out.length > 1 ? "s" : ""
+      } ${out.map((i) => fmt(r.studentized_external[i])).join(", ")} (beyond ±3, common practice).`,
+    );
+  }
+  if (n > p) {
+    const median = fisherF(p, n - p).quantile(0.5);
+    const cut = Math.max(4 / n, median);
+    const inf = pick(r, (i) => (r.cooks_distance[i] ?? 0) > cut);
+    if (inf.length) {
+      add(
+        "influential",
+        inf.map((i) => r.rows[i]),
+        `${cap(rowList(inf.map((i) => r.rows[i])))} ${verb(inf)} Cook's distance ${
+          inf.map((i) => fmt(r.cooks_distance[i])).join(", ")
+        } (> 4/n = ${fmt(4 / n)} and > the median of F(${p}, ${n - p}) = ${
+          fmt(median)
+        }, common practice).`,
+      );
+    }
+  }
+  const lev = 2 * p / n;
+  const high = lev < 1 ? pick(r, (i) => r.leverage[i] > lev && 1 - r.leverage[i] >= 1e-10) : [];
+  if (high.length) {
+    add(
+      "high-leverage",
+      high.map((i) => r.rows[i]),
+      `${cap(rowList(high.map((i) => r.rows[i])))} ${verb(high)} leverage ${
+        high.map((i) => fmt(r.leverage[i], 2)).join(", ")
+      } (> 2p/n = ${fmt(lev, 2)}, common practice).`,
+    );
+  }
+}
+
+function testFindings(r: Base, add: Add): void {
+  const a = r.significance, at = `(< ${a}, the check's significance level)`;
+  if (r.reset && r.reset.p_value < a) {
+    add(
+      "curvature",
+      [],
+      `Ramsey's RESET finds curvature the model misses: F = ${
+        fmt(r.reset.f)
+      } on ${r.reset.df1} and ${r.reset.df2} df, ${pText(r.reset.p_value)} ${at}.`,
+    );
+  }
+  if (r.lack_of_fit && r.lack_of_fit.p_value < a) {
+    const l = r.lack_of_fit;
+    add(
+      "curvature",
+      [],
+      `The lack-of-fit test against replicate rows finds the model misses the mean: F = ${
+        fmt(l.f)
+      } on ${l.df1} and ${l.df2} df, ${pText(l.p_value)} ${at}.`,
+    );
+  }
+  if (r.runs && r.runs.z < 0 && r.runs.p_value < a) {
+    const where = r.runs.order === "x" ? "in order of the predictor" : "in row order";
+    add(
+      r.runs.order === "x" ? "curvature" : "autocorrelation",
+      [],
+      `Residual signs ${where} form ${r.runs.runs} runs where ${
+        fmt(r.runs.expected)
+      } are expected (runs test, ${pText(r.runs.p_value)} ${at}).`,
+    );
+  }
+  if (r.breusch_pagan && r.breusch_pagan.p_value < a) {
+    const b = r.breusch_pagan;
+    add(
+      "non-constant-variance",
+      [],
+      `The residual variance changes with the predictors: Breusch–Pagan (${b.variant}) statistic ${
+        fmt(b.statistic)
+      } on ${b.df} df, ${pText(b.p_value)} ${at}.`,
+    );
+  }
+  normality(r, add, at);
+  if (r.durbin_watson_test && r.durbin_watson_test.p_value < a) {
+    add(
+      "autocorrelation",
+      [],
+      `Neighbouring residuals in row order are correlated: Durbin–Watson ${
+        fmt(r.durbin_watson)
+      } where ${
+        fmt(r.durbin_watson_test.expected)
+      } is expected without correlation (normal approximation, ${
+        pText(r.durbin_watson_test.p_value)
+      } ${at}).`,
+    );
+  }
+  const vif = Object.entries(r.vif).filter(([, v]) => v === null || v > 10);
+  if (vif.length) {
+    add(
+      "collinearity",
+      [],
+      `The terms of ${
+        vif.map(([k]) => `"${k}"`).join(", ")
+      } are nearly combinations of the others: VIF ${
+        vif.map(([, v]) => v === null ? "infinite" : fmt(v)).join(", ")
+      } (> 10, common practice).`,
+    );
+  }
+}
+
+function normality(r: Base, add: Add, at: string): void {
+  const a = r.significance;
+  if (r.shapiro_wilk) {
+    if (r.shapiro_wilk.p_value < a) {
+      add(
+        "non-normal",
+        [],
+        `The residuals do not look normal: Shapiro–Wilk W = ${fmt(r.shapiro_wilk.w, 4)}, ${
+          pText(r.shapiro_wilk.p_value)
+        } ${at}.`,
+      );
+    }
+  } else if (r.jarque_bera && r.jarque_bera.p_value < a) {
+    add(
+      "non-normal",
+      [],
+      `The residuals do not look normal: Jarque–Bera ${fmt(r.jarque_bera.statistic)}, ${
+        pText(r.jarque_bera.p_value)
+      } ${at}.`,
+    );
+  }
+}
+
+function verb(rows: number[]): string {
+  return rows.length > 1 ? "have" : "has";
+}
+
+function cap(s: string): string {
+  return s[0].toUpperCase() + s.slice(1);
+}

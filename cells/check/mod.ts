@@ -1,0 +1,63 @@
+/**
+ * The `check` cell kind: judges a fit with influence measures, residual
+ * tests and findings in plain sentences.
+ *
+ * ```check judge
+ * fit: line
+ * ```
+ *
+ * @example
+ * ```ts
+ * import { checkKind } from "./mod.ts";
+ * if (checkKind.kind !== "check" || checkKind.output !== "Diagnostics") throw new Error("unexpected");
+ * ```
+ *
+ * @module
+ */
+import { CellError } from "../../kernel/errors.ts";
+import type { CellKind } from "../types.ts";
+import type { Fit } from "../fit/mod.ts";
+import { type CheckSpec, parseCheckSpec } from "./spec.ts";
+import type { CheckResult, Diagnostics } from "./result.ts";
+import { diagnose } from "./diagnose.ts";
+import { CheckView } from "./view.tsx";
+
+export type { CheckSpec } from "./spec.ts";
+export type { CheckResult, Diagnostics, Finding } from "./result.ts";
+
+/** The `check` kind record. */
+export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
+  kind: "check",
+  body: "yaml",
+  output: "Diagnostics",
+  description: "judges a fit: leverage, influence, residual tests and findings",
+  parse: parseCheckSpec,
+  inputs: (spec) => [{ name: spec.fit, accepts: ["Fit"], path: ["fit"] }],
+  run: (spec, ctx) => {
+    const fit = ctx.inputs[spec.fit] as Fit | undefined;
+    if (!fit || fit.type !== "Fit") {
+      throw new CellError(`Cannot check "${spec.fit}": it is not a fit cell`, ["fit"]);
+    }
+    if (fit.residuals.length <= fit.design.length) {
+      throw new CellError(
+        `Cannot check "${spec.fit}": ${fit.residuals.length} rows for ${fit.design.length} parameters leave no residual degrees of freedom`,
+        ["fit"],
+      );
+    }
+    return { type: "Diagnostics", result: diagnose(fit, spec) };
+  },
+  summary: (out) => out.result,
+  line: lineOf,
+  view: CheckView,
+};
+
+function lineOf(r: CheckResult): string {
+  if (r.findings.length === 0) return "no findings";
+  const parts = r.findings.map((f) => {
+    const label = f.code.replaceAll("-", " ");
+    if (f.rows.length === 0) return label;
+    const shown = f.rows.slice(0, 3).join(", ") + (f.rows.length > 3 ? ", …" : "");
+    return `${label} (row${f.rows.length > 1 ? "s" : ""} ${shown})`;
+  });
+  return `${r.findings.length} finding${r.findings.length > 1 ? "s" : ""}: ${parts.join(", ")}`;
+}

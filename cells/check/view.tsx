@@ -1,0 +1,146 @@
+/**
+ * The check cell's view: the findings first, then a compact table of the
+ * tests with their statistic, p-value and the rule that makes a finding.
+ * Plain markup (shared by the live page and the static record). The residual
+ * charts come with the live workspace; the result already carries what they
+ * need (fitted, residuals, studentized residuals, leverage, Cook's distance).
+ *
+ * @module
+ */
+import type { VNode } from "preact";
+import type { ViewProps } from "../types.ts";
+import type { CheckResult } from "./result.ts";
+import { fmt } from "./_format.ts";
+
+interface TestRow {
+  name: string;
+  statistic: string;
+  p: number | null;
+  rule: string;
+}
+
+function testRows(r: CheckResult): TestRow[] {
+  const a = `p < ${r.significance}`;
+  const bp = r.breusch_pagan, lof = r.lack_of_fit;
+  return [
+    {
+      name: "Shapiro–Wilk W",
+      statistic: fmt(r.shapiro_wilk?.w ?? null, 4),
+      p: r.shapiro_wilk?.p_value ?? null,
+      rule: a,
+    },
+    {
+      name: "Jarque–Bera",
+      statistic: fmt(r.jarque_bera?.statistic ?? null),
+      p: r.jarque_bera?.p_value ?? null,
+      rule: "shown only",
+    },
+    {
+      name: `Breusch–Pagan (${bp?.variant ?? "koenker"})`,
+      statistic: fmt(bp?.statistic ?? null),
+      p: bp?.p_value ?? null,
+      rule: a,
+    },
+    {
+      name: "Durbin–Watson",
+      statistic: fmt(r.durbin_watson),
+      p: r.durbin_watson_test?.p_value ?? null,
+      rule: `${a} (normal approx.)`,
+    },
+    {
+      name: `Runs (${r.runs?.order === "x" ? "x order" : "row order"})`,
+      statistic: r.runs ? String(r.runs.runs) : "—",
+      p: r.runs?.p_value ?? null,
+      rule: `too few, ${a}`,
+    },
+    {
+      name: "RESET (ŷ², ŷ³)",
+      statistic: fmt(r.reset?.f ?? null),
+      p: r.reset?.p_value ?? null,
+      rule: a,
+    },
+    {
+      name: "Lack of fit",
+      statistic: fmt(lof?.f ?? null),
+      p: lof?.p_value ?? null,
+      rule: lof ? a : "no replicate rows",
+    },
+  ];
+}
+
+/**
+ * Renders a check result.
+ *
+ * @param props The cell name and its summary.
+ * @returns The block's content.
+ * @example
+ * ```ts
+ * import { renderToString } from "preact-render-to-string";
+ * import { CheckView } from "./view.tsx";
+ * const html = renderToString(CheckView({ name: "judge", result: {
+ *   fit: "line", n: 3, p: 2, method: "linear", weighted: false, significance: 0.05, rows: [], fitted: [],
+ *   residuals: [], leverage: [], studentized_internal: [], studentized_external: [], cooks_distance: [],
+ *   dffits: [], vif: {}, condition_number: 2, durbin_watson: null, durbin_watson_test: null,
+ *   breusch_pagan: null, shapiro_wilk: null, jarque_bera: null, reset: null, runs: null, lack_of_fit: null,
+ *   press: null, loo_rmse: null, robust: null, findings: [],
+ * } }));
+ * if (!html.includes("No findings")) throw new Error(html);
+ * ```
+ */
+export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
+  return (
+    <section class="plumb-check" aria-label={`Check ${name}`}>
+      {r.findings.length === 0
+        ? (
+          <p class="plumb-check-none">
+            No findings for fit <code>{r.fit}</code> (n = {r.n}).
+          </p>
+        )
+        : (
+          <ul class="plumb-check-findings">
+            {r.findings.map((f) => (
+              <li key={f.code} data-code={f.code}>
+                <strong>{f.code.replaceAll("-", " ")}</strong>: {f.message}
+              </li>
+            ))}
+          </ul>
+        )}
+      <table class="plumb-check-tests">
+        <thead>
+          <tr>
+            <th scope="col">Test</th>
+            <th scope="col">Statistic</th>
+            <th scope="col">p</th>
+            <th scope="col">Finding when</th>
+          </tr>
+        </thead>
+        <tbody>
+          {testRows(r).map((t) => (
+            <tr key={t.name}>
+              <th scope="row">{t.name}</th>
+              <td>{t.statistic}</td>
+              <td>{fmt(t.p, 2)}</td>
+              <td>{t.rule}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p class="plumb-check-summary">
+        Condition number {fmt(r.condition_number)} · PRESS {fmt(r.press)} · leave-one-out RMSE{" "}
+        {fmt(r.loo_rmse)}
+        {Object.keys(r.vif).length > 0 &&
+          ` · VIF ${Object.entries(r.vif).map(([k, v]) => `${k} ${fmt(v)}`).join(", ")}`}
+      </p>
+      {r.robust && (
+        <p class="plumb-check-robust">
+          Robust standard errors ({r.robust.type.toUpperCase()}, MacKinnon &amp; White 1985):{" "}
+          {Object.entries(r.robust.std_errors).map(([k, v]) => `${k} ${fmt(v, 4)}`).join(", ")}
+        </p>
+      )}
+      <p class="plumb-check-note">
+        Thresholds are common practice (leverage &gt; 2p/n, |studentized| &gt; 3, Cook's D &gt; 4/n
+        and &gt; F(0.5; p, n−p), VIF &gt; 10); tests at the check's significance level.
+      </p>
+    </section>
+  );
+}

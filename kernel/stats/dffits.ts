@@ -1,0 +1,32 @@
+/**
+ * DFFITS, the scaled change in a row's fitted value when it is left out.
+ *
+ * Method: Belsley, Kuh & Welsch, *Regression Diagnostics* (1980), §2.1,
+ * eq. 2.11 (from memory for the equation number):
+ * DFFITSᵢ = tᵢ·√(hᵢ/(1 − hᵢ)), tᵢ the externally studentized residual.
+ *
+ * @module
+ */
+
+/**
+ * DFFITS per row.
+ *
+ * @param external Externally studentized residuals (null where undefined).
+ * @param hat hᵢ per row.
+ * @returns DFFITSᵢ per row, null where tᵢ is null.
+ * @throws {RangeError} When the lengths differ.
+ * @example
+ * ```ts
+ * import { dffits } from "./dffits.ts";
+ * // t = 3, h = 0.5: 3·√1 = 3 (hand computation).
+ * if (dffits([3], new Float64Array([0.5]))[0] !== 3) throw new Error();
+ * ```
+ */
+export function dffits(external: readonly (number | null)[], hat: Float64Array): (number | null)[] {
+  if (external.length !== hat.length) {
+    throw new RangeError(
+      `Cannot compute DFFITS: ${external.length} residuals, ${hat.length} hat values`,
+    );
+  }
+  return external.map((t, i) => t === null ? null : t * Math.sqrt(hat[i] / (1 - hat[i])));
+}
