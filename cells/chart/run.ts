@@ -1,0 +1,233 @@
+/**
+ * Running a chart cell: table (+ fits) → plot-ready {@link ChartData}.
+ *
+ * ```
+ *  table ─columns x, y─▶ rows with finite x, y (positive on a log axis)
+ *     ├─ rows ≤ bin_above: points           └─ more: 2-D density (BIN_GRID)
+ *  fits ─drawnFits─▶ curves on a grid over the x range ─┬─ band (one fit)
+ *                                                      └─ residual panel
+ * ```
+ *
+ * Everything is computed here, in the worker; the view only draws.
+ *
+ * @module
+ */
+import { CellError } from "../../kernel/errors.ts";
+import { didYouMean } from "../../kernel/suggest.ts";
+import type { CellOutput, NumberColumn, RunContext, Table } from "../types.ts";
+import type { ChartAxis, ChartData, ChartResiduals } from "../../ui/charts/chart_data.ts";
+import { fitColor } from "../../ui/charts/palette.ts";
+import type { ChartSpec } from "./spec.ts";
+import { type DrawnFit, drawnFits } from "./_fit_layers.ts";
+import { bandOn, curveOn, gridOver } from "./_curves.ts";
+import { BIN_GRID, binEdges, binMeans, binPoints } from "./_bins.ts";
+
+/** Points of the grid the curves and the band are evaluated at. */
+export const GRID_POINTS = 161;
+
+/** The `Chart` value: the plot-ready data at full precision (the summary rounds it). */
+export interface ChartOutput extends CellOutput {
+  type: "Chart";
+  data: ChartData;
+}
+
+/**
+ * Computes a chart's points or bins, curves, band and residual panel.
+ *
+ * @param spec The normalised options.
+ * @param ctx Inputs (the table under `spec.on`, the fits), settings, warning sink.
+ * @returns The chart.
+ * @throws {CellError} At the option concerned: no table, an unknown or
+ *   non-numeric column (with a suggestion), no row to draw, a fit that cannot
+ *   be drawn (see `_fit_layers.ts`), a residual panel without fits.
+ */
+export function runChart(spec: ChartSpec, ctx: RunContext): ChartOutput {
+  const table = ctx.inputs[spec.on] as Table | undefined;
+  if (table === undefined || table.type !== "Table") {
+    throw new CellError(`Cannot chart "${ctx.name}": cell "${spec.on}" gives no table`, ["on"]);
+  }
+  const xc = numberColumn(ctx.name, table, spec.on, spec.x, "x");
+  const yc = numberColumn(ctx.name, table, spec.on, spec.y, "y");
+  const fits = drawnFits(spec, ctx);
+  if (spec.residuals && fits.length === 0) {
+    throw new CellError(
+      `Cannot draw residuals in chart "${ctx.name}": name the fits in "fits"`,
+      ["residuals"],
+    );
+  }
+  const { x, y } = plottedRows(spec, ctx, xc.values, yc.values);
+  const xDomain = extent(x);
+  const grid = gridOver(xDomain[0], xDomain[1], GRID_POINTS, spec.logX);
+  const curves = fits.map((d) => ({
+    fit: d.name,
+    color: fitColor(d.name),
+    model: d.fit.model.text,
+    y: finiteOrNull(curveOn(d.fit, grid, d.inverse), spec.logY),
+  }));
+  const band = bandFor(spec, ctx, fits, grid);
+  const binned = x.length > spec.binAbove;
+  const yDomain = extent(
+    [y, ...curves.map((c) => c.y), band?.lo ?? [], band?.hi ?? []].flatMap((a) =>
+      Array.from(a as ArrayLike<number | null>).filter((v): v is number => v !== null)
+    ),
+  );
+  const bins = binned
+    ? binPoints(
+      x,
+      y,
+      binEdges(xDomain[0], xDomain[1], BIN_GRID.nx, spec.logX),
+      binEdges(yDomain[0], yDomain[1], BIN_GRID.ny, spec.logY),
+      spec.logX,
+      spec.logY,
+    )
+    : null;
+  const residuals = spec.residuals ? residualPanel(spec, table, fits, [xc, yc], xDomain) : null;
+  const marks = 1 + curves.length + (band ? 1 : 0) +
+    (residuals ? residuals.series.length + 1 : 0);
+  const data: ChartData = {
+    marks,
+    points: binned ? 0 : x.length,
+    binned,
+    rows: x.length,
+    bins_drawn: bins?.cells.length ?? 0,
+    title: spec.title,
+    x: axis(spec.x, xc.unit, spec.logX, xDomain),
+    y: axis(spec.y, yc.unit, spec.logY, yDomain),
+    data: binned ? null : { x: Array.from(x), y: Array.from(y) },
+    bins,
+    grid: Array.from(grid),
+    curves,
+    band,
+    residuals,
+  };
+  return { type: "Chart", data };
+}
+
+function numberColumn(
+  name: string,
+  table: Table,
+  on: string,
+  column: string,
+  option: "x" | "y",
+): NumberColumn {
+  const c = table.columns.find((c) => c.name === column);
+  if (c === undefined) {
+    const names = table.columns.map((c) => c.name);
+    const hint = didYouMean(column, names) ||
+      `: table "${on}" has ${names.map((n) => `"${n}"`).join(", ")}`;
+    throw new CellError(`Cannot chart "${name}": unknown column "${column}"${hint}`, [option]);
+  }
+  if (c.type !== "number") {
+    throw new CellError(
+      `Cannot chart "${name}": column "${column}" holds text, and the ${option} axis needs numbers`,
+      [option],
+    );
+  }
+  return c;
+}
+
+/** Rows with finite x and y, positive on a log axis; a warning counts those left out for log. */
+function plottedRows(spec: ChartSpec, ctx: RunContext, xs: Float64Array, ys: Float64Array) {
+  const x: number[] = [], y: number[] = [];
+  let nonPositive = 0;
+  for (let i = 0; i < xs.length; i++) {
+    if (!Number.isFinite(xs[i]) || !Number.isFinite(ys[i])) continue;
+    if ((spec.logX && xs[i] <= 0) || (spec.logY && ys[i] <= 0)) {
+      nonPositive++;
+      continue;
+    }
+    x.push(xs[i]);
+    y.push(ys[i]);
+  }
+  if (nonPositive > 0) {
+    ctx.warn(
+      `Chart "${ctx.name}" leaves out ${nonPositive} ${
+        nonPositive === 1 ? "row" : "rows"
+      } with a value ≤ 0 on a log axis`,
+    );
+  }
+  if (x.length === 0) {
+    throw new CellError(
+      `Cannot chart "${ctx.name}": no row of "${spec.on}" has numbers in both "${spec.x}" and "${spec.y}"`,
+      ["x"],
+    );
+  }
+  return { x: Float64Array.from(x), y: Float64Array.from(y) };
+}
+
+function bandFor(spec: ChartSpec, ctx: RunContext, fits: DrawnFit[], grid: Float64Array) {
+  if (spec.band === null) return null;
+  const d = fits.find((f) => f.name === spec.band)!;
+  const { lo, hi, held } = bandOn(d.fit, grid, ctx.settings.confidence, d.inverse);
+  if (held) {
+    ctx.warn(
+      `Band of "${d.name}" in chart "${ctx.name}" leaves out the parameters held at a bound: they have no standard error`,
+    );
+  }
+  return {
+    fit: d.name,
+    color: fitColor(d.name),
+    level: ctx.settings.confidence,
+    lo: finiteOrNull(lo, spec.logY),
+    hi: finiteOrNull(hi, spec.logY),
+  };
+}
+
+function residualPanel(
+  spec: ChartSpec,
+  table: Table,
+  fits: DrawnFit[],
+  [xc, yc]: [NumberColumn, NumberColumn],
+  xDomain: [number, number],
+): ChartResiduals {
+  const binned = fits.some((d) => d.fit.residuals.length > spec.binAbove);
+  const edges = binEdges(xDomain[0], xDomain[1], BIN_GRID.nx, spec.logX);
+  const series = fits.map((d) => {
+    const { x, r } = residualRows(d, xc, table, spec.logX);
+    const s = binned ? binMeans(x, r, edges, spec.logX) : { x, r };
+    return { fit: d.name, color: fitColor(d.name), ...s };
+  });
+  const responses = new Set(fits.map((d) => d.fit.responseText));
+  const label = fits.every((d) => d.plain)
+    ? `residual${yc.unit ? ` (${yc.unit})` : ""}`
+    : responses.size === 1
+    ? `residual of ${[...responses][0]}`
+    : "residual (each fit's own scale)";
+  return { label, binned, series };
+}
+
+/** A fit's x (its predictor, or the table's x on its rows for a constant model) and residuals. */
+function residualRows(d: DrawnFit, xc: NumberColumn, table: Table, logX: boolean) {
+  let xs: ArrayLike<number> = d.fit.columns[0];
+  if (xs === undefined) {
+    const index = new Map(Array.from(table.rows, (row, i) => [row, i]));
+    xs = Array.from(d.fit.rows, (row) => xc.values[index.get(row) ?? -1] ?? NaN);
+  }
+  const x: number[] = [], r: number[] = [];
+  for (let i = 0; i < d.fit.residuals.length; i++) {
+    if (!Number.isFinite(xs[i]) || !Number.isFinite(d.fit.residuals[i])) continue;
+    if (logX && xs[i] <= 0) continue;
+    x.push(xs[i]);
+    r.push(d.fit.residuals[i]);
+  }
+  return { x, r };
+}
+
+function axis(column: string, unit: string | null, log: boolean, domain: [number, number]) {
+  const label = unit ? `${column} (${unit})` : column;
+  return { column, unit, label, log, domain } satisfies ChartAxis;
+}
+
+function extent(values: ArrayLike<number>): [number, number] {
+  let lo = Infinity, hi = -Infinity;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  return [lo, hi];
+}
+
+function finiteOrNull(values: Float64Array, positive: boolean): (number | null)[] {
+  return Array.from(values, (v) => (Number.isFinite(v) && (!positive || v > 0) ? v : null));
+}

@@ -1,0 +1,181 @@
+/**
+ * The options of a `chart` cell and their normaliser.
+ *
+ * ```chart overview
+ * on: cycles               # the table cell whose rows are drawn (required)
+ * x: cycle                 # column on the horizontal axis (required)
+ * y: capacity              # column on the vertical axis (required)
+ * fits: [line, root]       # fit cells drawn as curves over the x range (optional)
+ * band: root               # fit whose confidence band of the mean is drawn (optional)
+ * residuals: true          # a residual panel under the chart (default false)
+ * log: x                   # logarithmic axis: x, y or both (default none)
+ * title: Capacity fade     # a title over the chart (optional)
+ * bin_above: 5000          # more rows than this are drawn binned (default 5000)
+ * ```
+ *
+ * Column names are checked in `run`, against the table (the parse step has
+ * only the options).
+ *
+ * @module
+ */
+import { CellError } from "../../kernel/errors.ts";
+import { didYouMean } from "../../kernel/suggest.ts";
+import type { ParseContext } from "../types.ts";
+
+/** A `chart` cell's normalised options (plain JSON: hashed into the cache key). */
+export interface ChartSpec {
+  on: string;
+  x: string;
+  y: string;
+  /** Fit cells drawn as curves, in the order written. */
+  fits: string[];
+  /** The fit whose band is drawn (its curve is drawn too, after `fits`, when not listed there). */
+  band: string | null;
+  residuals: boolean;
+  logX: boolean;
+  logY: boolean;
+  title: string | null;
+  /** Rows beyond this count are drawn as a 2-D density. */
+  binAbove: number;
+}
+
+/** Rows beyond which points are binned, unless `bin_above` says otherwise (about 5,000: issue 5). */
+export const DEFAULT_BIN_ABOVE = 5000;
+
+/** Option keys a `chart` cell understands, with what each is for. */
+export const CHART_OPTIONS = {
+  on: "the table cell whose rows are drawn",
+  x: "the column on the horizontal axis",
+  y: "the column on the vertical axis",
+  fits: "fit cells drawn as curves over the x range",
+  band: "a fit whose confidence band of the mean is drawn",
+  residuals: "whether a residual panel is drawn under the chart",
+  log: "logarithmic axes: x, y or both",
+  title: "a title over the chart",
+  bin_above: "rows beyond which points are drawn binned as a density",
+} as const;
+
+/**
+ * Checks and normalises a `chart` cell's options.
+ *
+ * @param ctx The parse context (cell name, YAML options).
+ * @returns The spec.
+ * @throws {CellError} For a missing `on`, `x` or `y`, a cell or column name
+ *   that is not a single word, a bad `fits`, `log`, `residuals`, `title` or
+ *   `bin_above`, or an unknown option.
+ * @example
+ * ```ts
+ * import { parseChartSpec } from "./spec.ts";
+ * const spec = parseChartSpec({
+ *   name: "overview", kind: "chart", body: "", warn() {},
+ *   options: { on: "cycles", x: "cycle", y: "capacity", fits: ["line"], band: "root" },
+ *   settings: { title: "", confidence: 0.95, seed: 1, criterion: "aicc", maxFileBytes: 1, extra: {} },
+ * });
+ * if (spec.fits.join() !== "line" || spec.band !== "root") throw new Error(spec.fits.join());
+ * ```
+ */
+export function parseChartSpec(ctx: ParseContext): ChartSpec {
+  const o = ctx.options;
+  for (const key of Object.keys(o)) {
+    if (!(key in CHART_OPTIONS)) {
+      const hint = didYouMean(key, Object.keys(CHART_OPTIONS)) ||
+        `: a chart takes ${Object.keys(CHART_OPTIONS).map((k) => `"${k}"`).join(", ")}`;
+      throw new CellError(`Unknown option "${key}" in chart "${ctx.name}"${hint}`, [key]);
+    }
+  }
+  const fits = fitList(ctx, o.fits);
+  const band = o.band === undefined || o.band === null ? null : word(ctx, "band", o.band, ["band"]);
+  const log = logAxes(ctx, o.log);
+  return {
+    on: required(ctx, "on", "the table cell to draw, as in on: cycles"),
+    x: required(ctx, "x", "the column on the horizontal axis, as in x: cycle"),
+    y: required(ctx, "y", "the column on the vertical axis, as in y: capacity"),
+    fits,
+    band,
+    residuals: flag(ctx, "residuals", o.residuals),
+    logX: log.x,
+    logY: log.y,
+    title: titleText(ctx, o.title),
+    binAbove: binAbove(ctx, o.bin_above),
+  };
+}
+
+function required(ctx: ParseContext, key: "on" | "x" | "y", what: string): string {
+  const v = ctx.options[key];
+  if (v === undefined || v === null) {
+    throw new CellError(`Missing "${key}" in chart "${ctx.name}": name ${what}`, []);
+  }
+  return word(ctx, key, v, [key]);
+}
+
+function word(ctx: ParseContext, key: string, v: unknown, path: (string | number)[]): string {
+  const text = typeof v === "number" ? String(v) : v;
+  if (typeof text !== "string" || text.trim() === "" || /\s/.test(text.trim())) {
+    throw new CellError(
+      `Option "${key}" of chart "${ctx.name}" is "${String(v)}": expected one name`,
+      path,
+    );
+  }
+  return text.trim();
+}
+
+function fitList(ctx: ParseContext, v: unknown): string[] {
+  if (v === undefined || v === null) return [];
+  const list = Array.isArray(v) ? v : [v];
+  const out: string[] = [];
+  list.forEach((item, i) => {
+    const name = word(ctx, "fits", item, Array.isArray(v) ? ["fits", i] : ["fits"]);
+    if (out.includes(name)) {
+      throw new CellError(
+        `Fit "${name}" is listed twice in "fits" of chart "${ctx.name}"`,
+        Array.isArray(v) ? ["fits", i] : ["fits"],
+      );
+    }
+    out.push(name);
+  });
+  return out;
+}
+
+function logAxes(ctx: ParseContext, v: unknown): { x: boolean; y: boolean } {
+  if (v === undefined || v === null || v === "none") return { x: false, y: false };
+  if (v === "x") return { x: true, y: false };
+  if (v === "y") return { x: false, y: true };
+  if (v === "both" || v === "xy") return { x: true, y: true };
+  throw new CellError(
+    `Option "log" of chart "${ctx.name}" is "${String(v)}": expected x, y, both or none`,
+    ["log"],
+  );
+}
+
+function flag(ctx: ParseContext, key: string, v: unknown): boolean {
+  if (v === undefined || v === null) return false;
+  if (typeof v !== "boolean") {
+    throw new CellError(
+      `Option "${key}" of chart "${ctx.name}" is "${String(v)}": expected true or false`,
+      [key],
+    );
+  }
+  return v;
+}
+
+function titleText(ctx: ParseContext, v: unknown): string | null {
+  if (v === undefined || v === null) return null;
+  if (typeof v !== "string" && typeof v !== "number") {
+    throw new CellError(
+      `Option "title" of chart "${ctx.name}" is "${String(v)}": expected a line of text`,
+      ["title"],
+    );
+  }
+  return String(v);
+}
+
+function binAbove(ctx: ParseContext, v: unknown): number {
+  if (v === undefined || v === null) return DEFAULT_BIN_ABOVE;
+  if (typeof v !== "number" || !Number.isInteger(v) || v < 0) {
+    throw new CellError(
+      `Option "bin_above" of chart "${ctx.name}" is "${String(v)}": expected a whole number of rows, 0 or more`,
+      ["bin_above"],
+    );
+  }
+  return v;
+}
