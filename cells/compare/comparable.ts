@@ -28,8 +28,8 @@ const SAME_VALUE = 1e-9;
 
 const WEIGHTINGS = {
   none: "unweighted",
-  relative: "relative weights",
-  absolute: "known standard deviations",
+  relative: "weighted by relative weights",
+  absolute: "weighted by known standard deviations",
 } as const;
 
 /**
