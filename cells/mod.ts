@@ -10,6 +10,14 @@ import { fitKind } from "./fit/mod.ts";
 import { predictKind } from "./predict/mod.ts";
 import { compareKind } from "./compare/mod.ts";
 import { chartKind } from "./chart/mod.ts";
+import { checkKind } from "./check/mod.ts";
 
 /** Every kind Plumb knows, by name. */
-export const registry: Registry = makeRegistry([tableKind, fitKind, predictKind, compareKind, chartKind]);
+export const registry: Registry = makeRegistry([
+  tableKind,
+  fitKind,
+  predictKind,
+  compareKind,
+  checkKind,
+  chartKind,
+]);
