@@ -1,0 +1,202 @@
+/**
+ * The live page: top bar, the document as a report (prose and cell blocks in
+ * order), the rail, and the add-a-cell form. Removing a cell keeps its text
+ * in this page's memory for undo until the page is reloaded.
+ *
+ * @module
+ */
+import type { VNode } from "preact";
+import { useState } from "preact/hooks";
+import type { DocumentMessage } from "../kernel/server/protocol.ts";
+import { deleteCell, newCell, restoreCell, type SaveOutcome } from "./api.ts";
+import { CellBlock } from "./cell_block.tsx";
+import { InlineRef } from "./inline_ref.tsx";
+import { Prose } from "./prose.tsx";
+import { Rail, type Removed } from "./rail.tsx";
+import type { LiveStore } from "./store.ts";
+import { TopBar } from "./top_bar.tsx";
+
+/** Kinds offered when adding a cell; the server gives each its template. */
+export const ADDABLE_KINDS = ["table", "fit", "compare", "check", "predict", "chart"] as const;
+
+function cellNames(doc: DocumentMessage): string[] {
+  return doc.blocks.flatMap((b) => b.type === "cell" ? [b.name] : []);
+}
+
+/**
+ * A free cell name for a kind: the kind itself, then kind-2, kind-3, …
+ *
+ * @param kind The kind.
+ * @param taken Names in use.
+ * @returns A name not in `taken`.
+ * @example
+ * ```ts
+ * import { freeName } from "./app.tsx";
+ * if (freeName("fit", ["fit", "fit-2"]) !== "fit-3") throw new Error("name");
+ * ```
+ */
+export function freeName(kind: string, taken: readonly string[]): string {
+  if (!taken.includes(kind)) return kind;
+  for (let i = 2;; i++) if (!taken.includes(`${kind}-${i}`)) return `${kind}-${i}`;
+}
+
+function AddCell(props: {
+  doc: DocumentMessage;
+  after: string | null;
+  onDone(): void;
+  onError(e: string): void;
+}): VNode {
+  const names = cellNames(props.doc);
+  const [kind, setKind] = useState<string>("fit");
+  const [name, setName] = useState<string>("");
+  const chosen = name.trim() || freeName(kind, names);
+  async function add(e: Event) {
+    e.preventDefault();
+    const out = await newCell({ after: props.after, kind, name: chosen, base: props.doc.version });
+    if (out.ok) props.onDone();
+    else props.onError(failure(out));
+  }
+  return (
+    <form class="pl-add" onSubmit={add} aria-label="Add a cell">
+      <span>Add a cell{props.after ? ` after ${props.after}` : " at the end"}:</span>
+      <label>
+        kind{" "}
+        <select value={kind} onChange={(e) => setKind((e.target as HTMLSelectElement).value)}>
+          {ADDABLE_KINDS.map((k) => <option key={k} value={k}>{k}</option>)}
+        </select>
+      </label>
+      <label>
+        name{" "}
+        <input
+          value={name}
+          placeholder={freeName(kind, names)}
+          onInput={(e) => setName((e.target as HTMLInputElement).value)}
+          size={12}
+        />
+      </label>
+      <button type="submit" class="pl-button">Add</button>
+    </form>
+  );
+}
+
+function failure(out: SaveOutcome<unknown>): string {
+  if (out.ok) return "";
+  return out.conflict !== null
+    ? "The file changed on disk meanwhile; nothing was written. Try again on the new version"
+    : out.error;
+}
+
+/**
+ * The whole page.
+ *
+ * @param props The page's store.
+ * @returns The page.
+ */
+export function App(props: { store: LiveStore }): VNode {
+  const { store } = props;
+  const doc = store.doc.value;
+  const [removed, setRemoved] = useState<Removed[]>([]);
+  const [addAfter, setAddAfter] = useState<string | null | undefined>(undefined);
+  const [error, setError] = useState<string | null>(null);
+  const cells = store.cells();
+
+  if (doc === null) {
+    return (
+      <div class="pl-page">
+        <TopBar doc={null} cells={[]} connection={store.connection.value} />
+        <main class="pl-main">
+          <p class="pl-muted">◌ Waiting for the document…</p>
+        </main>
+      </div>
+    );
+  }
+  const names = cellNames(doc);
+
+  async function remove(name: string) {
+    const i = names.indexOf(name);
+    const block = doc!.blocks.find((b) => b.type === "cell" && b.name === name);
+    const out = await deleteCell({ name, base: doc!.version });
+    if (!out.ok) return setError(failure(out));
+    setRemoved((r) => [
+      ...r,
+      {
+        name,
+        kind: block?.type === "cell" ? block.kind : "",
+        text: out.value.removed,
+        after: i > 0 ? names[i - 1] : null,
+      },
+    ]);
+  }
+
+  async function undo(r: Removed) {
+    const at = r.after !== null && names.includes(r.after) ? r.after : null;
+    const out = await restoreCell({ text: r.text, at, base: store.doc.value!.version });
+    if (!out.ok) return setError(failure(out));
+    setRemoved((list) => list.filter((x) => x !== r));
+  }
+
+  const run = store.lastRun.value;
+  return (
+    <div class="pl-page" data-version={doc.version} data-run={run?.run ?? 0}>
+      <TopBar doc={doc} cells={cells} connection={store.connection.value} />
+      <div class="pl-body">
+        <main class="pl-main">
+          {error !== null && (
+            <p class="pl-error" role="alert">
+              ✕ {error}{" "}
+              <button type="button" class="pl-link" onClick={() => setError(null)}>dismiss</button>
+            </p>
+          )}
+          {run !== null && run.errors.length > 0 && (
+            <ul class="pl-doc-errors" role="alert">
+              {run.errors.map((e) => (
+                <li key={`${e.line}:${e.column}`}>
+                  ✕ {e.message} <span class="pl-where">(line {e.line}, column {e.column})</span>
+                </li>
+              ))}
+            </ul>
+          )}
+          {doc.blocks.map((b) =>
+            b.type === "prose"
+              ? (
+                <Prose
+                  key={`p${b.line}`}
+                  text={b.text}
+                  line={b.line}
+                  refs={(ref, key) => (
+                    <InlineRef
+                      key={key}
+                      ref_={ref}
+                      store={store}
+                      names={names}
+                    />
+                  )}
+                />
+              )
+              : (
+                <div key={`c-${b.name}`}>
+                  <CellBlock
+                    store={store}
+                    block={b}
+                    version={doc.version}
+                    onRemove={remove}
+                    onAddBelow={(n) => setAddAfter(n)}
+                  />
+                  {addAfter === b.name && (
+                    <AddCell
+                      doc={doc}
+                      after={b.name}
+                      onDone={() => setAddAfter(undefined)}
+                      onError={setError}
+                    />
+                  )}
+                </div>
+              )
+          )}
+          <AddCell doc={doc} after={null} onDone={() => {}} onError={setError} />
+        </main>
+        <Rail store={store} doc={doc} removed={removed} onUndo={undo} />
+      </div>
+    </div>
+  );
+}

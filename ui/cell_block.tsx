@@ -1,0 +1,163 @@
+/**
+ * One cell on the page: a thin header (kind, name, state as shape and word,
+ * time taken), a progress bar while computing, the kind's view of its result
+ * (kept, dimmed, while it recomputes), warnings, and for a failed cell the
+ * message with the offending source line marked. Its source opens in place.
+ *
+ * @module
+ */
+import type { VNode } from "preact";
+import { useState } from "preact/hooks";
+import type { LiveBlock } from "../kernel/server/protocol.ts";
+import type { LiveStore } from "./store.ts";
+import { StateMark } from "./state_mark.tsx";
+import { formatMs } from "./format.ts";
+import { viewOf } from "./views.ts";
+import { GenericView } from "./generic_view.tsx";
+import { SourceListing } from "./source_listing.tsx";
+import { Editor } from "./editor.tsx";
+import { now } from "./clock.ts";
+
+type CellBlockData = Extract<LiveBlock, { type: "cell" }>;
+
+/** Props of {@link CellBlock}. */
+export interface CellBlockProps {
+  store: LiveStore;
+  block: CellBlockData;
+  version: string;
+  onRemove(name: string): void;
+  onAddBelow(name: string): void;
+}
+
+function Progress(props: { fraction: number | null; note: string | null }): VNode {
+  const f = props.fraction;
+  return (
+    <div
+      class={f === null ? "pl-progress pl-progress-open" : "pl-progress"}
+      role="progressbar"
+      aria-valuemin={0}
+      aria-valuemax={100}
+      aria-valuenow={f === null ? undefined : Math.round(100 * f)}
+      aria-label={props.note ?? "Computing"}
+    >
+      <span style={f === null ? undefined : { width: `${Math.round(100 * f)}%` }} />
+      {props.note && <em>{props.note}</em>}
+    </div>
+  );
+}
+
+function Result(props: { kind: string; name: string; result: unknown; line: string | null }) {
+  const View = viewOf(props.kind);
+  if (props.result === undefined) return null;
+  if (View === undefined) return <GenericView result={props.result} summaryLine={props.line} />;
+  return <View name={props.name} result={props.result} />;
+}
+
+/**
+ * Renders a cell.
+ *
+ * @param props See {@link CellBlockProps}.
+ * @returns The cell's block.
+ */
+export function CellBlock(props: CellBlockProps): VNode {
+  const { block, store } = props;
+  const cell = store.cell(block.name, block.kind).value;
+  const [showSource, setShowSource] = useState(false);
+  const [editing, setEditing] = useState<{ body: string; base: string } | null>(null);
+  const failed = cell.state === "failed";
+  const busy = cell.state === "computing" || cell.state === "queued";
+  const elapsed = cell.state === "computing"
+    ? (cell.ms ?? 0) + Math.max(0, now.value - cell.since)
+    : cell.ms;
+  return (
+    <section
+      class={`pl-cell pl-cell-${cell.state}`}
+      id={`cell-${block.name}`}
+      data-cell={block.name}
+      data-kind={block.kind}
+      data-state={cell.state}
+      data-run={cell.run}
+      aria-busy={busy}
+    >
+      <header class="pl-cell-head">
+        <span class="pl-cell-kind">{block.kind}</span>
+        <h3 class="pl-cell-name">{block.name}</h3>
+        <StateMark state={cell.state} />
+        {elapsed !== null && cell.state !== "queued" && (
+          <span class="pl-cell-ms" title={cell.cached ? "reused: inputs unchanged" : "time taken"}>
+            {formatMs(elapsed)}
+            {cell.cached ? " · reused" : ""}
+          </span>
+        )}
+        <span class="pl-cell-actions">
+          <button
+            type="button"
+            class="pl-link"
+            aria-expanded={showSource || editing !== null}
+            onClick={() => setShowSource(!showSource)}
+          >
+            source
+          </button>
+          <button
+            type="button"
+            class="pl-link"
+            data-action="edit"
+            onClick={() => setEditing({ body: block.body, base: props.version })}
+          >
+            edit
+          </button>
+          <button type="button" class="pl-link" onClick={() => props.onAddBelow(block.name)}>
+            add below
+          </button>
+          <button type="button" class="pl-link" onClick={() => props.onRemove(block.name)}>
+            remove
+          </button>
+        </span>
+      </header>
+      {cell.state === "computing" && <Progress fraction={cell.fraction} note={cell.note} />}
+      {failed && cell.error && (
+        <p class="pl-error" role="alert">
+          ✕ {cell.error.message}{" "}
+          <span class="pl-where">(line {cell.error.line}, column {cell.error.column})</span>
+        </p>
+      )}
+      {cell.state === "held" && (
+        <p class="pl-note">‖ Held: {cell.error?.message ?? "an input of this cell failed"}</p>
+      )}
+      {editing !== null
+        ? (
+          <Editor
+            name={block.name}
+            body={editing.body}
+            base={editing.base}
+            diskBody={block.body}
+            onClose={() => setEditing(null)}
+          />
+        )
+        : (showSource || failed) && (
+          <SourceListing
+            kind={block.kind}
+            name={block.name}
+            line={block.line}
+            body={block.body}
+            error={failed ? cell.error : null}
+          />
+        )}
+      {cell.warnings.length > 0 && (
+        <ul class="pl-warnings">
+          {cell.warnings.map((w) => <li key={w}>⚠ {w}</li>)}
+        </ul>
+      )}
+      {!failed && (
+        <div class={busy ? "pl-result pl-stale" : "pl-result"}>
+          <Result
+            kind={block.kind}
+            name={block.name}
+            result={cell.result}
+            line={cell.summaryLine}
+          />
+        </div>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,156 @@
+/**
+ * The page's style sheet, as a string the entry point puts in a `<style>`
+ * element (one file to serve, nothing to fetch). Calm neutral ink on paper,
+ * one accent colour (a deep teal), states by shape and word, dense tables
+ * with aligned figures; print drops the rail and the controls and keeps the
+ * report as on screen.
+ *
+ * @module
+ */
+
+/** The style sheet. */
+export const STYLE = `
+:root {
+  --paper: #fbfaf6; --ink: #23221f; --muted: #6b675f; --rule: #dcd8cd; --wash: #f1efe8;
+  --accent: #17645a; --accent-wash: #e3efec;
+  --serif: "Iowan Old Style", "Charter", "Source Serif Pro", Georgia, serif;
+  --sans: system-ui, "Segoe UI", "Helvetica Neue", Arial, sans-serif;
+  --mono: ui-monospace, "SF Mono", "Cascadia Mono", "DejaVu Sans Mono", Menlo, monospace;
+}
+* { box-sizing: border-box; }
+html { background: var(--paper); color: var(--ink); }
+body { margin: 0; font: 15px/1.5 var(--sans); }
+a { color: var(--accent); text-decoration-thickness: 1px; text-underline-offset: 2px; }
+:focus-visible { outline: 2px solid var(--accent); outline-offset: 2px; }
+code, pre, textarea { font-family: var(--mono); font-size: 13px; }
+.pl-sr { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); }
+.pl-muted { color: var(--muted); }
+
+.pl-top { position: sticky; top: 0; z-index: 2; display: flex; flex-wrap: wrap; align-items: baseline;
+  gap: 0 1.25rem; padding: .45rem 1.25rem; background: var(--paper); border-bottom: 1px solid var(--rule); }
+.pl-title { margin: 0; font: 600 15px/1.3 var(--sans); }
+.pl-data, .pl-overall, .pl-conn { margin: 0; font-size: 13px; color: var(--muted); }
+.pl-overall { margin-left: auto; color: var(--ink); }
+
+.pl-body { display: grid; grid-template-columns: minmax(0, 48rem) 17rem; gap: 2.5rem;
+  justify-content: center; padding: 1.25rem 1.25rem 4rem; }
+@media (max-width: 62rem) { .pl-body { grid-template-columns: minmax(0, 1fr); } .pl-rail { order: -1; } }
+.pl-main { min-width: 0; }
+
+.pl-prose { font: 17px/1.6 var(--serif); max-width: 40rem; }
+.pl-prose h1, .pl-prose h2, .pl-prose h3 { font-family: var(--sans); line-height: 1.25; }
+.pl-prose h1 { font-size: 1.55rem; margin: .6rem 0 .8rem; }
+.pl-prose h2 { font-size: 1.2rem; margin: 1.8rem 0 .5rem; }
+.pl-prose h3 { font-size: 1.05rem; margin: 1.4rem 0 .4rem; }
+.pl-prose p { margin: .55rem 0; }
+.pl-prose code { background: var(--wash); padding: 0 .2em; border-radius: 2px; }
+.pl-prose-code { background: var(--wash); padding: .5rem .75rem; overflow-x: auto; }
+.pl-math-display { margin: .6rem 0; overflow-x: auto; }
+.pl-ref { font-family: var(--sans); font-variant-numeric: tabular-nums; border-bottom: 1px dotted var(--accent); }
+.pl-ref-error { border-bottom: 1.5px solid var(--ink); font-weight: 600; font-size: .9em; }
+.pl-ref-wait { color: var(--muted); }
+
+.pl-cell { margin: 1rem 0 1.25rem; border-top: 1px solid var(--rule); border-left: 3px solid transparent;
+  padding: 0 0 .25rem .75rem; }
+.pl-cell-failed { border-left: 3px solid var(--ink); }
+.pl-cell-held { border-left: 3px dashed var(--muted); }
+.pl-cell-head { display: flex; flex-wrap: wrap; align-items: baseline; gap: .6rem; padding: .3rem 0;
+  font-size: 12.5px; color: var(--muted); }
+.pl-cell-kind { text-transform: lowercase; letter-spacing: .04em; font-variant: small-caps; }
+.pl-cell-name { margin: 0; font: 600 14px/1.3 var(--mono); color: var(--ink); }
+.pl-cell-ms { font-variant-numeric: tabular-nums; }
+.pl-cell-actions { margin-left: auto; display: flex; gap: .6rem; }
+.pl-state { display: inline-flex; gap: .3em; align-items: baseline; color: var(--ink); }
+.pl-state-shape { font-size: 11px; }
+.pl-state-current .pl-state-shape { color: var(--accent); }
+.pl-state-failed { font-weight: 700; }
+.pl-state-computing .pl-state-shape { display: inline-block; animation: pl-turn 1.2s linear infinite; }
+@keyframes pl-turn { to { transform: rotate(360deg); } }
+.pl-result { overflow-x: auto; }
+.pl-stale { opacity: .55; transition: opacity .15s; }
+
+.pl-progress { position: relative; height: 3px; background: var(--wash); margin: 0 0 .4rem; overflow: hidden; }
+.pl-progress > span { position: absolute; inset: 0 auto 0 0; background: var(--accent); transition: width .2s; }
+.pl-progress-open > span { width: 30%; animation: pl-slide 1.1s ease-in-out infinite; }
+.pl-progress em { position: absolute; right: 0; top: 4px; font-size: 11px; color: var(--muted); }
+@keyframes pl-slide { from { left: -30%; } to { left: 100%; } }
+@media (prefers-reduced-motion: reduce) { .pl-progress-open > span, .pl-state-computing .pl-state-shape { animation: none; } }
+
+.pl-error { margin: .35rem 0; font-weight: 600; }
+.pl-where { font-weight: 400; color: var(--muted); font-size: 13px; }
+.pl-note { margin: .35rem 0; color: var(--muted); }
+.pl-warnings { margin: .3rem 0; padding: 0; list-style: none; font-size: 13.5px; }
+.pl-doc-errors { list-style: none; padding: .4rem .75rem; border-left: 3px solid var(--ink); }
+
+.pl-src { margin: .25rem 0 .5rem; padding: .4rem 0; background: var(--wash); overflow-x: auto; line-height: 1.45; }
+.pl-src-line { display: block; white-space: pre; }
+.pl-src-no { display: inline-block; width: 3.2rem; padding-right: .6rem; text-align: right; color: var(--muted);
+  user-select: none; }
+.pl-src-error { background: #fff; box-shadow: inset 3px 0 0 var(--ink); }
+.pl-src-error .pl-src-text { text-decoration: underline wavy; text-underline-offset: 3px; }
+.pl-src-error .pl-src-no { color: var(--ink); font-weight: 700; }
+.pl-src-caret { display: block; padding-left: 3.2rem; margin-left: .6rem; font-weight: 700; }
+
+.pl-editor { margin: .25rem 0 .5rem; }
+.pl-editor-text { width: 100%; padding: .5rem .6rem; border: 1px solid var(--rule); background: #fff;
+  color: var(--ink); line-height: 1.45; resize: vertical; tab-size: 2; }
+.pl-editor-bar { display: flex; gap: .5rem; align-items: center; margin: .35rem 0; }
+.pl-hint { font-size: 12px; color: var(--muted); }
+.pl-button { font: 13px var(--sans); padding: .2rem .7rem; border: 1px solid var(--rule); background: #fff;
+  color: var(--ink); border-radius: 3px; cursor: pointer; }
+.pl-button:hover { border-color: var(--muted); }
+.pl-primary { background: var(--accent); border-color: var(--accent); color: #fff; }
+.pl-link { font: inherit; padding: 0; border: 0; background: none; color: var(--accent); cursor: pointer;
+  text-decoration: underline; text-decoration-thickness: 1px; text-underline-offset: 2px; }
+.pl-conflict { margin: .5rem 0; padding: .5rem .75rem; border: 1.5px solid var(--ink); background: #fff; }
+.pl-conflict h4 { margin: 0 0 .3rem; font-size: 14px; }
+.pl-conflict p { margin: 0 0 .4rem; font-size: 13.5px; }
+.pl-conflict-sides { display: grid; grid-template-columns: 1fr 1fr; gap: .75rem; }
+.pl-conflict-sides figure { margin: 0; min-width: 0; }
+.pl-conflict-sides figcaption { font-size: 12px; font-weight: 600; color: var(--muted); }
+.pl-conflict-sides pre { margin: .2rem 0; padding: .4rem .5rem; background: var(--wash); overflow-x: auto; }
+
+.pl-add { display: flex; flex-wrap: wrap; gap: .6rem; align-items: baseline; margin: 1.5rem 0 .5rem;
+  padding-top: .6rem; border-top: 1px dashed var(--rule); font-size: 13px; color: var(--muted); }
+.pl-add select, .pl-add input { font: 13px var(--sans); }
+
+.pl-rail { position: sticky; top: 3rem; align-self: start; max-height: calc(100vh - 4rem); overflow-y: auto;
+  font-size: 13px; }
+.pl-rail-part { margin-bottom: 1.25rem; }
+.pl-rail h2 { margin: 0 0 .35rem; font-size: 11.5px; letter-spacing: .08em; text-transform: uppercase;
+  color: var(--muted); font-weight: 600; }
+.pl-rail ul { margin: 0; padding: 0; list-style: none; }
+.pl-rail li { margin: .15rem 0; }
+.pl-ledger li { line-height: 1.4; }
+.pl-failures { border-left: 3px solid var(--ink); padding-left: .5rem; }
+.pl-failures h2 { color: var(--ink); }
+.pl-outline a { text-decoration: none; color: var(--ink); }
+.pl-outline a:hover { text-decoration: underline; }
+.pl-outline-h { font-weight: 600; margin-top: .45rem !important; }
+.pl-outline-h1 { display: none; }
+.pl-outline-cell { padding-left: .6rem; font-family: var(--mono); font-size: 12px; }
+
+/* Kind views: shared by the live page and the record. */
+.pl-result table { border-collapse: collapse; font-size: 13px; font-variant-numeric: tabular-nums; margin: .35rem 0; }
+.pl-result th, .pl-result td { padding: .15rem .7rem .15rem 0; text-align: right; border-bottom: 1px solid var(--wash); }
+.pl-result thead th { font-weight: 600; color: var(--muted); border-bottom: 1px solid var(--rule); font-size: 12px; }
+.pl-result th:first-child, .pl-result td:first-child { text-align: left; }
+.pl-result p { margin: .3rem 0; }
+.pl-result dl { display: grid; grid-template-columns: max-content 1fr; gap: 0 1rem; margin: .35rem 0;
+  font-size: 13px; font-variant-numeric: tabular-nums; }
+.pl-result dt { color: var(--muted); }
+.pl-result dd { margin: 0; }
+.pl-result h4 { margin: .5rem 0 .2rem; font-size: 13px; }
+.pl-result ul { margin: .2rem 0; padding-left: 1.1rem; }
+.pl-result details summary { cursor: pointer; color: var(--muted); font-size: 12px; }
+
+@media print {
+  html { background: #fff; }
+  .pl-top { position: static; border-bottom: 1px solid #999; }
+  .pl-body { display: block; padding: 0; }
+  .pl-rail, .pl-cell-actions, .pl-add, .pl-editor, .pl-conn, .pl-progress { display: none !important; }
+  .pl-cell { break-inside: avoid-page; }
+  .pl-stale { opacity: 1; }
+  a { color: inherit; }
+}
+`;
