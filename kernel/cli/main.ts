@@ -3,6 +3,7 @@
  *
  * ```
  * plumb run <document.md> [--json]   run every cell headless
+ * plumb serve <document.md>          the live workspace in the browser
  * plumb help                         this text
  * ```
  *
@@ -12,11 +13,14 @@
  * @module
  */
 import { runCommand } from "./run.ts";
+import { serveCommand } from "./serve.ts";
 
 const USAGE = `Plumb: fit models to measurements and judge them
 
 Usage:
   plumb run <document.md> [--json]   run every cell of an analysis document
+  plumb serve <document.md>          open the live workspace: prints a URL to open
+              [--port N] [--host H]  (default: a free port on 127.0.0.1)
   plumb help                         show this text
 
   --json   print the machine-readable result (RUN-JSON) on standard output`;
@@ -34,6 +38,7 @@ export async function main(args: string[]): Promise<number> {
     return command === undefined ? 2 : 0;
   }
   if (command === "run") return await runCommand(rest);
+  if (command === "serve") return await serveCommand(rest);
   console.error(`Unknown command "${command}"\n\n${USAGE}`);
   return 2;
 }

@@ -1,0 +1,196 @@
+/**
+ * `plumb serve <document.md> [--port N] [--host H]`: the live workspace.
+ *
+ * ```
+ *  plumb serve doc.md                (may run, read, reach loopback)
+ *     │ picks a free port, relaunches itself:
+ *     ▼
+ *  deno run --no-prompt --allow-read=<doc folder>,<repo> --allow-write=<doc folder>
+ *           --allow-net=127.0.0.1:<port> --allow-env=LOG_TOKENS,LOG_STREAM
+ *           --unstable-bundle main.ts serve doc.md --port <port> --host <host> --narrowed
+ *     │ bundles ui/main.tsx, binds, prints the URL, runs the document, watches its folder
+ * ```
+ *
+ * Without permission to run Deno the command serves in its own process with
+ * whatever permissions it was given.
+ *
+ * @module
+ */
+import { dirname, join, resolve } from "node:path";
+import { fileURLToPath as fromFileUrl } from "node:url";
+import { registry } from "../../cells/mod.ts";
+import { buildBundle, type Bundle, canBundle } from "../server/bundle.ts";
+import { narrowedFlags } from "../server/permissions.ts";
+import { startServer } from "../server/server.ts";
+
+const REPO = fromFileUrl(new URL("../../", import.meta.url)).replace(/\/$/, "");
+const WORKER = new URL("../../cells/worker.ts", import.meta.url);
+const MAIN = fromFileUrl(new URL("./main.ts", import.meta.url));
+const USAGE = "Usage: plumb serve <document.md> [--port N] [--host H]";
+const LOOPBACK = new Set(["127.0.0.1", "localhost"]);
+
+interface ServeArgs {
+  document: string;
+  port: number | null;
+  host: string;
+  narrowed: boolean;
+}
+
+/**
+ * Reads the arguments of `plumb serve`.
+ *
+ * @param args Arguments after `serve`.
+ * @returns The parsed arguments.
+ * @throws {RangeError} For an unknown option, a bad port or a missing document.
+ * @example
+ * ```ts
+ * import { parseServeArgs } from "./serve.ts";
+ * const a = parseServeArgs(["doc.md", "--port", "8100"]);
+ * if (a.port !== 8100 || a.host !== "127.0.0.1") throw new Error("unexpected");
+ * ```
+ */
+export function parseServeArgs(args: string[]): ServeArgs {
+  const out: ServeArgs = { document: "", port: null, host: "127.0.0.1", narrowed: false };
+  const paths: string[] = [];
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i];
+    if (a === "--port") {
+      const n = Number(args[++i]);
+      if (!Number.isInteger(n) || n < 1 || n > 65535) {
+        throw new RangeError(`Bad port "${args[i]}": a whole number from 1 to 65535`);
+      }
+      out.port = n;
+    } else if (a === "--host") {
+      if (!args[i + 1]) throw new RangeError(`Option "--host" needs an address`);
+      out.host = args[++i];
+    } else if (a === "--narrowed") out.narrowed = true;
+    else if (a.startsWith("-")) throw new RangeError(`Unknown option "${a}"`);
+    else paths.push(a);
+  }
+  if (paths.length !== 1) throw new RangeError(USAGE);
+  out.document = paths[0];
+  return out;
+}
+
+/**
+ * Runs `plumb serve`: relaunches itself with narrowed permissions when it
+ * may, then serves until interrupted.
+ *
+ * @param args Arguments after `serve`.
+ * @returns The exit status (2 for a usage error or an unreadable document).
+ */
+export async function serveCommand(args: string[]): Promise<number> {
+  let a: ServeArgs;
+  try {
+    a = parseServeArgs(args);
+  } catch (err) {
+    console.error((err as Error).message);
+    return 2;
+  }
+  const mayRun = Deno.permissions.querySync({ name: "run" }).state === "granted";
+  if (!a.narrowed && mayRun) return await relaunch(a);
+  return await serveHere(a);
+}
+
+async function relaunch(a: ServeArgs): Promise<number> {
+  try {
+    if (!(await Deno.stat(a.document)).isFile) throw new Error("not a file");
+  } catch (err) {
+    console.error(`Cannot read document "${a.document}": ${(err as Error).message}`);
+    return 2;
+  }
+  const port = a.port ?? freePort(a.host);
+  const docDir = dirname(resolve(a.document));
+  const flags = narrowedFlags(docDir, REPO, a.host, port);
+  const child = new Deno.Command(Deno.execPath(), {
+    args: [
+      "run",
+      `--config=${join(REPO, "deno.json")}`,
+      "--unstable-bundle",
+      ...flags.args,
+      MAIN,
+      "serve",
+      a.document,
+      "--port",
+      String(port),
+      "--host",
+      a.host,
+      "--narrowed",
+    ],
+    stdin: "inherit",
+    stdout: "inherit",
+    stderr: "inherit",
+  }).spawn();
+  const stop = () => {
+    try {
+      child.kill("SIGTERM");
+    } catch { /* already gone */ }
+  };
+  const signals: Deno.Signal[] = Deno.build.os === "windows" ? ["SIGINT"] : ["SIGINT", "SIGTERM"];
+  for (const s of signals) Deno.addSignalListener(s, stop);
+  const status = await child.status;
+  for (const s of signals) Deno.removeSignalListener(s, stop);
+  return status.code;
+}
+
+/** A free port on `host` (asked of the system, then released for the child to bind). */
+function freePort(host: string): number {
+  const l = Deno.listen({ hostname: host, port: 0 });
+  const port = (l.addr as Deno.NetAddr).port;
+  l.close();
+  return port;
+}
+
+async function serveHere(a: ServeArgs): Promise<number> {
+  if (!LOOPBACK.has(a.host)) {
+    console.warn(
+      `Warning: serving on "${a.host}", not only this computer: anyone who can reach it and ` +
+        `learns the URL can read and change the analysis and its folder`,
+    );
+  }
+  const bundle = await frontEnd();
+  const katex = join(REPO, "node_modules", "katex", "dist");
+  let server;
+  try {
+    server = await startServer({
+      document: a.document,
+      registry,
+      workerUrl: WORKER,
+      hostname: a.host,
+      port: a.port ?? 0,
+      bundle,
+      katexDir: await exists(katex) ? katex : null,
+    });
+  } catch (err) {
+    console.error(`Cannot serve "${a.document}": ${(err as Error).message}`);
+    return 2;
+  }
+  console.log(`Plumb is serving ${a.document}\nOpen ${server.url}`);
+  const stopped = Promise.withResolvers<void>();
+  const stop = () => stopped.resolve();
+  Deno.addSignalListener("SIGINT", stop);
+  if (Deno.build.os !== "windows") Deno.addSignalListener("SIGTERM", stop);
+  await stopped.promise;
+  await server.close();
+  return 0;
+}
+
+/** Bundles ui/main.tsx when it exists; null (the plain page) otherwise. */
+async function frontEnd(): Promise<Bundle | null> {
+  const entry = join(REPO, "ui", "main.tsx");
+  if (!(await exists(entry))) return null;
+  if (!canBundle()) {
+    console.warn("The front end is not bundled (run deno with --unstable-bundle): plain page");
+    return null;
+  }
+  return await buildBundle(new URL(`file://${entry}`));
+}
+
+async function exists(path: string): Promise<boolean> {
+  try {
+    await Deno.stat(path);
+    return true;
+  } catch {
+    return false;
+  }
+}

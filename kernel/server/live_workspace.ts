@@ -1,0 +1,257 @@
+/**
+ * One document kept running for the browsers that watch it.
+ *
+ * ```
+ *  watcher / save ─request()─▶ snapshot: document text + SHA-256 of every data file
+ *                                 │ same as the last finished run? ──▶ nothing to do
+ *                                 │ a run is going and this differs? ──▶ supersede it
+ *                                 ▼
+ *                  one run at a time through the Session (cache by content key)
+ *                                 │ onEvent ──▶ {type:"cell"} to every browser
+ *                                 ▼
+ *                           {type:"run", ran, ms}
+ * ```
+ *
+ * Runs never overlap: a newer snapshot makes the running one stop at its next
+ * cell (what it computed stays cached), then runs itself, so each content is
+ * computed once and the browsers end with the newest state.
+ *
+ * @module
+ */
+import { basename, dirname, resolve } from "node:path";
+import type { OptionPath } from "../../cells/types.ts";
+import { parseDocument, readSettings } from "../document/mod.ts";
+import { hashValue, sha256Hex } from "../hash.ts";
+import type { Registry } from "../registry.ts";
+import { Session, type SessionEvent } from "../session/session.ts";
+import { documentMessage, type FileInfo } from "./document_message.ts";
+import type { CellMessage, DocumentMessage, ServerMessage } from "./protocol.ts";
+
+/** Options of a live workspace. */
+export interface LiveOptions {
+  /** The document's path (as given; messages carry it). */
+  path: string;
+  registry: Registry;
+  workerUrl: URL;
+  /** Called with every message, in order. */
+  send: (msg: ServerMessage) => void;
+}
+
+interface Snapshot {
+  source: string;
+  version: string;
+  print: string;
+  files: FileInfo[];
+}
+
+/** A document, its session and the latest state of every cell. */
+export class LiveWorkspace {
+  #opts: LiveOptions;
+  #abs: string;
+  #session: Session;
+  #doc: DocumentMessage | null = null;
+  #kinds = new Map<string, string>();
+  #cells = new Map<string, CellMessage>();
+  #started = new Map<string, number>();
+  #run = 0;
+  #runningPrint: string | null = null;
+  #donePrint: string | null = null;
+  #dirty = false;
+  #loop: Promise<void> | null = null;
+
+  /** @param opts Document path, kinds, worker entry and the message sink. */
+  constructor(opts: LiveOptions) {
+    this.#opts = opts;
+    this.#abs = resolve(opts.path);
+    this.#session = new Session({
+      registry: opts.registry,
+      workerUrl: opts.workerUrl,
+      dir: dirname(this.#abs),
+      onEvent: (e) => this.#onEvent(e),
+    });
+  }
+
+  /** The absolute path of the document. */
+  get documentPath(): string {
+    return this.#abs;
+  }
+
+  /** How many times each cell was computed (for tests and benchmarks). */
+  get runs(): ReadonlyMap<string, number> {
+    return this.#session.runs;
+  }
+
+  /**
+   * The messages that bring a newly connected browser up to date.
+   *
+   * @returns The document message, then the latest message of every cell.
+   */
+  welcome(): ServerMessage[] {
+    return this.#doc ? [this.#doc, ...this.#cells.values()] : [];
+  }
+
+  /**
+   * Asks for a run after a change: forgets the changed files' cached content,
+   * supersedes a running run when the content now differs, and runs when the
+   * content differs from that of the last finished run.
+   *
+   * @param changed Absolute paths reported changed (none: check everything).
+   * @returns When the workspace is idle again.
+   */
+  async request(changed: Iterable<string> = []): Promise<void> {
+    for (const p of changed) this.#session.files.forget(p);
+    this.#dirty = true;
+    if (this.#loop) {
+      if (this.#runningPrint !== null) {
+        const snap = await this.#snapshot();
+        if (snap && snap.print !== this.#runningPrint) this.#session.supersede();
+      }
+      return this.#loop;
+    }
+    this.#loop = (async () => {
+      try {
+        while (this.#dirty) {
+          this.#dirty = false;
+          await this.#once();
+        }
+      } finally {
+        this.#loop = null;
+      }
+    })();
+    return this.#loop;
+  }
+
+  /** @returns A promise settled when no run is going or pending. */
+  idle(): Promise<void> {
+    return this.#loop ?? Promise.resolve();
+  }
+
+  /**
+   * Reads the document as on disk.
+   *
+   * @returns Its text and version (hex SHA-256 of the bytes).
+   * @throws {Deno.errors.NotFound} When the document is gone.
+   */
+  async readDisk(): Promise<{ source: string; version: string }> {
+    const bytes = await Deno.readFile(this.#abs);
+    return { source: new TextDecoder().decode(bytes), version: await sha256Hex(bytes) };
+  }
+
+  async #snapshot(): Promise<Snapshot | null> {
+    let disk;
+    try {
+      disk = await this.readDisk();
+    } catch (err) {
+      if (err instanceof Deno.errors.NotFound) return null; // mid-replace; the next event follows
+      throw err;
+    }
+    const plan = this.#session.plan(disk.source, new Map());
+    const files: FileInfo[] = [];
+    for (const node of plan.graph.nodes) {
+      for (const f of node.error ? [] : node.files) {
+        if (files.some((x) => x.path === f.path)) continue;
+        files.push(await this.#fileInfo(f.path, f.option, plan.settings.maxFileBytes));
+      }
+    }
+    const print = hashValue([disk.version, files.map((f) => [f.path, f.sha256])]);
+    return { ...disk, print, files };
+  }
+
+  async #fileInfo(path: string, option: OptionPath, max: number): Promise<FileInfo> {
+    try {
+      const data = await this.#session.files.read(path, option, max);
+      const abs = this.#session.files.resolvePath(path, option);
+      const info = await Deno.stat(abs);
+      return { path, sha256: data.sha256, bytes: data.bytes, mtime: info.mtime };
+    } catch {
+      return { path, sha256: null, bytes: null, mtime: null };
+    }
+  }
+
+  async #once(): Promise<void> {
+    const snap = await this.#snapshot();
+    if (!snap || snap.print === this.#donePrint) return;
+    if (snap.version !== this.#doc?.version || this.#dataChanged(snap)) {
+      this.#setDocument(snap);
+    }
+    const run = ++this.#run;
+    this.#runningPrint = snap.print;
+    const t0 = performance.now();
+    try {
+      const report = await this.#session.run(snap.source);
+      if (report.superseded) return;
+      this.#donePrint = snap.print;
+      this.#opts.send({
+        type: "run",
+        version: snap.version,
+        run,
+        ran: report.ran,
+        ms: Math.round(performance.now() - t0),
+        errors: report.errors,
+      });
+    } finally {
+      this.#runningPrint = null;
+    }
+  }
+
+  #dataChanged(snap: Snapshot): boolean {
+    const old = this.#doc?.data ?? [];
+    return snap.files.length !== old.length ||
+      snap.files.some((f, i) =>
+        old[i].path !== f.path || old[i].bytes !== (f.bytes?.length ?? 0) ||
+        old[i].changed !== (f.mtime?.toISOString() ?? "")
+      );
+  }
+
+  #setDocument(snap: Snapshot): void {
+    const doc = parseDocument(snap.source);
+    const title = doc.frontMatter
+      ? readSettings(doc).settings.title
+      : basename(this.#opts.path).replace(/\.md$/i, "");
+    this.#doc = documentMessage(this.#opts.path, snap.version, title, doc, snap.files);
+    this.#kinds.clear();
+    for (const b of this.#doc.blocks) if (b.type === "cell") this.#kinds.set(b.name, b.kind);
+    for (const name of [...this.#cells.keys()]) {
+      if (!this.#kinds.has(name)) this.#cells.delete(name);
+    }
+    this.#opts.send(this.#doc);
+  }
+
+  #onEvent(e: SessionEvent): void {
+    const version = this.#doc?.version ?? "";
+    const msg: CellMessage = {
+      type: "cell",
+      version,
+      name: e.name,
+      kind: this.#kinds.get(e.name) ?? "",
+      state: e.state,
+      run: this.#run,
+    };
+    if (e.state === "computing") {
+      if (e.fraction === undefined) this.#started.set(e.name, performance.now());
+      const t = this.#started.get(e.name);
+      if (t !== undefined) msg.ms = Math.round(performance.now() - t);
+      if (e.fraction !== undefined) msg.fraction = e.fraction;
+      if (e.note !== undefined) msg.note = e.note;
+    }
+    const r = e.report;
+    if (r) {
+      msg.ms = r.ms;
+      msg.warnings = r.warnings;
+      msg.cached = r.cached;
+      if (r.error) msg.error = r.error;
+      if (r.state === "current") {
+        msg.result = r.result;
+        if (r.summaryLine !== null) msg.summaryLine = r.summaryLine;
+      }
+      this.#started.delete(e.name);
+    }
+    this.#cells.set(e.name, msg);
+    this.#opts.send(msg);
+  }
+
+  /** Stops the session's worker. */
+  close(): void {
+    this.#session.close();
+  }
+}

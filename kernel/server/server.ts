@@ -1,0 +1,280 @@
+/**
+ * The live server: HTTP and WebSocket on one loopback port.
+ *
+ * ```
+ *  Deno.serve(127.0.0.1:port) ─▶ checkRequest (Host, token cookie, Origin, CSRF)
+ *     GET  /                  HTML shell (or the plain page without a front end)
+ *     GET  /app.<hash>.js|css the bundle, immutable
+ *     GET  /katex/<file>      KaTeX's stylesheet and fonts, from its package
+ *     GET  /live              WebSocket: document, cell and run messages
+ *     POST /api/cell[/new|/delete|/restore]  edits, applied only on the current version
+ *  watchFolder(document's folder) ─▶ LiveWorkspace.request(changed paths)
+ * ```
+ *
+ * @module
+ */
+import { dirname, extname, join, normalize, resolve, sep } from "node:path";
+import type { Registry } from "../registry.ts";
+import { sha256Hex } from "../hash.ts";
+import { writeFileAtomic } from "./atomic_write.ts";
+import type { Bundle } from "./bundle.ts";
+import { deleteCell, type Edited, EditError, newCell, restoreCell, saveCell } from "./edits.ts";
+import { allowedHosts, checkRequest, newToken } from "./guard.ts";
+import { LiveWorkspace } from "./live_workspace.ts";
+import type { ConflictResponse, ServerMessage } from "./protocol.ts";
+import { shellHtml } from "./shell.ts";
+import { watchFolder } from "./watch_folder.ts";
+
+/** Options of {@link startServer}. */
+export interface ServerOptions {
+  /** The analysis document. */
+  document: string;
+  registry: Registry;
+  /** The compute worker's entry module. */
+  workerUrl: URL;
+  /** Address to bind (default 127.0.0.1). */
+  hostname?: string;
+  /** Port (default 0: any free port). */
+  port?: number;
+  /** The built front end; null serves the plain page. */
+  bundle?: Bundle | null;
+  /** Folder of KaTeX's `dist` (stylesheet and fonts), or null. */
+  katexDir?: string | null;
+  /** Quiet time that ends a burst of file events, in ms (default 40). */
+  debounceMs?: number;
+}
+
+/** A running live server. */
+export interface LiveServer {
+  /** The URL to open, token included. */
+  url: string;
+  hostname: string;
+  port: number;
+  token: string;
+  workspace: LiveWorkspace;
+  /** Resolves after the first run of the document. */
+  ready: Promise<void>;
+  /** Stops watching, closes every socket and the worker, and stops listening. */
+  close(): Promise<void>;
+}
+
+const IMMUTABLE = "public, max-age=31536000, immutable";
+const TYPES: Record<string, string> = {
+  ".css": "text/css; charset=utf-8",
+  ".woff2": "font/woff2",
+  ".woff": "font/woff",
+  ".ttf": "font/ttf",
+};
+
+function replacer(_key: string, value: unknown): unknown {
+  if (ArrayBuffer.isView(value)) return Array.from(value as unknown as ArrayLike<number>);
+  return value;
+}
+
+/**
+ * Starts serving a document: binds, runs it once, then watches its folder.
+ *
+ * @param opts The document, kinds, worker entry, address and front end.
+ * @returns The running server.
+ * @throws {Deno.errors.AddrInUse} When the port is taken.
+ * @example
+ * ```ts ignore
+ * import { startServer } from "./server.ts";
+ * import { registry } from "../../cells/mod.ts";
+ * const s = await startServer({ document: "examples/fade/fade.md", registry,
+ *   workerUrl: new URL("../../cells/worker.ts", import.meta.url) });
+ * console.log(s.url);
+ * await s.close();
+ * ```
+ */
+export async function startServer(opts: ServerOptions): Promise<LiveServer> {
+  const hostname = opts.hostname ?? "127.0.0.1";
+  const token = newToken();
+  const sockets = new Set<WebSocket>();
+  const send = (msg: ServerMessage) => {
+    const text = JSON.stringify(msg, replacer);
+    for (const ws of sockets) if (ws.readyState === WebSocket.OPEN) ws.send(text);
+  };
+  const workspace = new LiveWorkspace({
+    path: opts.document,
+    registry: opts.registry,
+    workerUrl: opts.workerUrl,
+    send,
+  });
+  await workspace.readDisk(); // fail early on a missing document
+  const ctx = { token, hosts: new Set<string>() };
+  const editor = new Editor(workspace, opts.registry);
+  const server = Deno.serve({ hostname, port: opts.port ?? 0, onListen: () => {} }, (req) => {
+    const refused = checkRequest(req, ctx);
+    if (refused) return refused;
+    return route(req, { bundle: opts.bundle ?? null, token, katex: opts.katexDir ?? null }, {
+      sockets,
+      workspace,
+      editor,
+    });
+  });
+  const port = server.addr.port;
+  for (const h of allowedHosts(hostname, port)) ctx.hosts.add(h);
+  const ready = workspace.request();
+  const watch = watchFolder(dirname(workspace.documentPath), (paths) => {
+    void workspace.request(paths);
+  }, opts.debounceMs);
+  return {
+    url: `http://${hostname}:${port}/?token=${token}`,
+    hostname,
+    port,
+    token,
+    workspace,
+    ready,
+    async close() {
+      watch.close();
+      for (const ws of sockets) ws.close();
+      await server.shutdown();
+      await workspace.idle().catch(() => {});
+      workspace.close();
+    },
+  };
+}
+
+interface Static {
+  bundle: Bundle | null;
+  token: string;
+  katex: string | null;
+}
+
+interface Live {
+  sockets: Set<WebSocket>;
+  workspace: LiveWorkspace;
+  editor: Editor;
+}
+
+async function route(req: Request, st: Static, live: Live): Promise<Response> {
+  const { pathname } = new URL(req.url);
+  if (req.method === "POST" && pathname.startsWith("/api/cell")) {
+    return await live.editor.handle(pathname, req);
+  }
+  if (req.method !== "GET" && req.method !== "HEAD") {
+    return Response.json({ error: `Method ${req.method} not allowed` }, { status: 405 });
+  }
+  if (pathname === "/live") return openLive(req, live);
+  if (pathname === "/") {
+    const nonce = newToken();
+    return new Response(shellHtml(st.bundle, st.token, nonce), {
+      headers: {
+        "content-type": "text/html; charset=utf-8",
+        "cache-control": "no-store",
+        "content-security-policy": `default-src 'self'; script-src 'self' 'nonce-${nonce}'; ` +
+          `style-src 'self' 'unsafe-inline'; img-src 'self' data:; font-src 'self' data:; ` +
+          `connect-src 'self'; frame-ancestors 'none'`,
+        "x-content-type-options": "nosniff",
+      },
+    });
+  }
+  const b = st.bundle;
+  if (b && pathname === `/app.${b.hash}.js`) {
+    return new Response(b.js, {
+      headers: { "content-type": "text/javascript; charset=utf-8", "cache-control": IMMUTABLE },
+    });
+  }
+  if (b?.css && pathname === `/app.${b.hash}.css`) {
+    return new Response(b.css, {
+      headers: { "content-type": "text/css; charset=utf-8", "cache-control": IMMUTABLE },
+    });
+  }
+  if (st.katex && pathname.startsWith("/katex/")) return await katexFile(st.katex, pathname);
+  return new Response("Not found\n", { status: 404 });
+}
+
+async function katexFile(dir: string, pathname: string): Promise<Response> {
+  const root = resolve(dir);
+  const file = normalize(join(root, decodeURIComponent(pathname.slice("/katex/".length))));
+  const type = TYPES[extname(file)];
+  if (!file.startsWith(root + sep) || !type) return new Response("Not found\n", { status: 404 });
+  try {
+    return new Response(await Deno.readFile(file), {
+      headers: { "content-type": type, "cache-control": "public, max-age=86400" },
+    });
+  } catch {
+    return new Response("Not found\n", { status: 404 });
+  }
+}
+
+function openLive(req: Request, live: Live): Response {
+  if (req.headers.get("upgrade")?.toLowerCase() !== "websocket") {
+    return new Response("Expected a WebSocket upgrade\n", { status: 426 });
+  }
+  const { socket, response } = Deno.upgradeWebSocket(req);
+  socket.onopen = () => {
+    live.sockets.add(socket);
+    for (const msg of live.workspace.welcome()) socket.send(JSON.stringify(msg, replacer));
+  };
+  socket.onclose = () => live.sockets.delete(socket);
+  socket.onerror = () => live.sockets.delete(socket);
+  return response;
+}
+
+/** Applies edits one at a time, each only on the version it was based on. */
+class Editor {
+  #lock: Promise<unknown> = Promise.resolve();
+
+  constructor(readonly workspace: LiveWorkspace, readonly registry: Registry) {}
+
+  handle(pathname: string, req: Request): Promise<Response> {
+    const next = this.#lock.then(() => this.#apply(pathname, req));
+    this.#lock = next.catch(() => {});
+    return next;
+  }
+
+  async #apply(pathname: string, req: Request): Promise<Response> {
+    const edit = EDITS[pathname];
+    if (!edit) return Response.json({ error: `No such endpoint "${pathname}"` }, { status: 404 });
+    let body: Record<string, unknown>;
+    try {
+      body = await req.json();
+      if (typeof body !== "object" || body === null || Array.isArray(body)) throw new TypeError();
+    } catch {
+      return Response.json({ error: "The request body must be a JSON object" }, { status: 400 });
+    }
+    if (typeof body.base !== "string") {
+      return Response.json({ error: `"base" must be the document version` }, { status: 400 });
+    }
+    const disk = await this.workspace.readDisk();
+    if (disk.version !== body.base) {
+      const yours = typeof body.body === "string"
+        ? body.body
+        : typeof body.text === "string"
+        ? body.text
+        : "";
+      const conflict: ConflictResponse = {
+        conflict: true,
+        disk: disk.source,
+        diskVersion: disk.version,
+        yours,
+      };
+      return Response.json(conflict, { status: 409 });
+    }
+    let edited: Edited;
+    try {
+      edited = edit(disk.source, body, this.registry);
+    } catch (err) {
+      if (err instanceof EditError) {
+        return Response.json({ error: err.message }, { status: err.status });
+      }
+      throw err;
+    }
+    await writeFileAtomic(this.workspace.documentPath, edited.source);
+    const version = await sha256Hex(new TextEncoder().encode(edited.source));
+    void this.workspace.request([this.workspace.documentPath]);
+    const extra = edited.removed === undefined ? {} : { removed: edited.removed, at: edited.at };
+    return Response.json({ version, ...extra });
+  }
+}
+
+type Edit = (source: string, body: Record<string, unknown>, registry: Registry) => Edited;
+
+const EDITS: Record<string, Edit> = {
+  "/api/cell": (s, b) => saveCell(s, b.name, b.body),
+  "/api/cell/new": (s, b, r) => newCell(s, b, r),
+  "/api/cell/delete": (s, b) => deleteCell(s, b.name),
+  "/api/cell/restore": (s, b) => restoreCell(s, b.text, b.at),
+};
