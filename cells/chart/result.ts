@@ -36,7 +36,9 @@ export function summarizeChart(out: ChartOutput): ChartData {
  */
 export function roundDeep(v: unknown): unknown {
   if (typeof v === "number") {
-    return Number.isFinite(v) ? (Number.isInteger(v) ? v : Number(v.toPrecision(RESULT_DIGITS))) : null;
+    return Number.isFinite(v)
+      ? (Number.isInteger(v) ? v : Number(v.toPrecision(RESULT_DIGITS)))
+      : null;
   }
   if (Array.isArray(v)) return v.map(roundDeep);
   if (v !== null && typeof v === "object") {

@@ -173,7 +173,9 @@ function binAbove(ctx: ParseContext, v: unknown): number {
   if (v === undefined || v === null) return DEFAULT_BIN_ABOVE;
   if (typeof v !== "number" || !Number.isInteger(v) || v < 0) {
     throw new CellError(
-      `Option "bin_above" of chart "${ctx.name}" is "${String(v)}": expected a whole number of rows, 0 or more`,
+      `Option "bin_above" of chart "${ctx.name}" is "${
+        String(v)
+      }": expected a whole number of rows, 0 or more`,
       ["bin_above"],
     );
   }

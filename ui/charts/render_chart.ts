@@ -93,7 +93,7 @@ function mainMarks(data: ChartData): Plot.Markish[] {
       y2: (c: number[]) => b.y[c[1] + 1],
       fill: (c: number[]) => c[2],
       inset: 0,
-      ariaLabel: "binned rows",
+      ariaDescription: "binned rows",
     }));
   } else if (data.data) {
     const d = data.data;
@@ -103,7 +103,7 @@ function mainMarks(data: ChartData): Plot.Markish[] {
       r: 2.2,
       fill: INK,
       fillOpacity: 0.7,
-      ariaLabel: "rows",
+      ariaDescription: "rows",
     }));
   }
   const g = data.grid;
@@ -115,7 +115,7 @@ function mainMarks(data: ChartData): Plot.Markish[] {
       y2: band.hi,
       fill: band.color,
       fillOpacity: 0.16,
-      ariaLabel: `band ${band.fit}`,
+      ariaDescription: `band ${band.fit}`,
     }));
   }
   for (const c of data.curves) {
@@ -124,7 +124,7 @@ function mainMarks(data: ChartData): Plot.Markish[] {
       y: c.y,
       stroke: c.color,
       strokeWidth: 1.8,
-      ariaLabel: `curve ${c.fit}`,
+      ariaDescription: `curve ${c.fit}`,
     }));
     const last = c.y.findLastIndex((v) => v !== null);
     if (last >= 0) {
@@ -135,7 +135,7 @@ function mainMarks(data: ChartData): Plot.Markish[] {
         fill: c.color,
         textAnchor: "start",
         dx: 5,
-        ariaLabel: `label ${c.fit}`,
+        ariaDescription: `label ${c.fit}`,
       }));
     }
   }
@@ -144,18 +144,20 @@ function mainMarks(data: ChartData): Plot.Markish[] {
 
 function residualMarks(data: ChartData): Plot.Markish[] {
   const r = data.residuals!;
-  const marks: Plot.Markish[] = [Plot.ruleY([0], { stroke: INK, ariaLabel: "zero residual" })];
+  const marks: Plot.Markish[] = [
+    Plot.ruleY([0], { stroke: INK, ariaDescription: "zero residual" }),
+  ];
   for (const s of r.series) {
     marks.push(
       r.binned
-        ? Plot.line(s.x, { x: s.x, y: s.r, stroke: s.color, ariaLabel: `residuals ${s.fit}` })
+        ? Plot.line(s.x, { x: s.x, y: s.r, stroke: s.color, ariaDescription: `residuals ${s.fit}` })
         : Plot.dot(s.x, {
           x: s.x,
           y: s.r,
           r: 1.8,
           fill: s.color,
           fillOpacity: 0.75,
-          ariaLabel: `residuals ${s.fit}`,
+          ariaDescription: `residuals ${s.fit}`,
         }),
     );
   }
@@ -166,11 +168,15 @@ function note(data: ChartData): string | null {
   const parts: string[] = [];
   if (data.binned && data.bins) {
     parts.push(
-      `${data.rows.toLocaleString("en-US")} rows drawn as density: darker cells hold more rows (up to ${data.bins.max})`,
+      `${
+        data.rows.toLocaleString("en-US")
+      } rows drawn as density: darker cells hold more rows (up to ${data.bins.max})`,
     );
   }
   if (data.band) {
-    parts.push(`band: ${Math.round(data.band.level * 1000) / 10}% interval of the mean of ${data.band.fit}`);
+    parts.push(
+      `band: ${Math.round(data.band.level * 1000) / 10}% interval of the mean of ${data.band.fit}`,
+    );
   }
   if (data.residuals?.binned) parts.push("residuals: mean per x cell");
   return parts.length ? parts.join(" · ") : null;

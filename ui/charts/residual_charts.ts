@@ -1,0 +1,202 @@
+/**
+ * The four standard residual charts of a `check` cell, drawn from the
+ * RUN-JSON `check` result fields, in the shared chart style:
+ *
+ * 1. residuals against fitted values, with the zero line;
+ * 2. normal quantile plot of the internally studentized residuals against
+ *    standard normal quantiles at Blom's plotting positions
+ *    (i − 3/8)/(n + 1/4) (Blom 1958, *Statistical Estimates and Transformed
+ *    Beta-Variables*; from memory), with the 1:1 line;
+ * 3. scale–location: √|studentized residual| against fitted values;
+ * 4. leverage against studentized residual, with contours of Cook's
+ *    distance D at 0.5 and 1: D = r²·h / (p(1 − h)) (Cook 1977,
+ *    *Technometrics* 19, 15–18), so r = ±√(D·p·(1 − h)/h); p = Σhᵢ, the
+ *    trace of the hat matrix (common practice, no source).
+ *
+ * More than {@link DENSE_ROWS} rows are drawn as 2-D counts (Plot's bin
+ * transform) rather than one dot per row. Null entries (undefined values,
+ * e.g. at leverage 1) are left out.
+ *
+ * @module
+ */
+import * as Plot from "@observablehq/plot";
+import { standardNormal } from "../../kernel/stats/mod.ts";
+import { fitColor, INK } from "./palette.ts";
+import { stackPanels } from "./_svg.ts";
+
+/** The `check` result fields these charts read (RUN-JSON `check`). */
+export interface CheckChartInput {
+  /** The fit's name: its colour and the charts' titles. */
+  fit: string;
+  fitted: (number | null)[];
+  residuals: (number | null)[];
+  studentized_internal: (number | null)[];
+  leverage: (number | null)[];
+  cooks_distance: (number | null)[];
+}
+
+/** Rows above which the residual charts draw counts instead of dots. */
+export const DENSE_ROWS = 5000;
+
+const SIZE = { width: 320, height: 260 } as const;
+
+type Pair = [number, number];
+
+function pairs(a: (number | null)[], b: (number | null)[]): Pair[] {
+  const out: Pair[] = [];
+  for (let i = 0; i < Math.min(a.length, b.length); i++) {
+    const x = a[i], y = b[i];
+    if (x !== null && y !== null && Number.isFinite(x) && Number.isFinite(y)) out.push([x, y]);
+  }
+  return out;
+}
+
+function scatter(p: Pair[], color: string): Plot.Markish {
+  if (p.length > DENSE_ROWS) {
+    return Plot.rect(
+      p,
+      Plot.bin({ fill: "count" }, { x: (d: Pair) => d[0], y: (d: Pair) => d[1], thresholds: 40 }),
+    );
+  }
+  return Plot.dot(p, { x: (d: Pair) => d[0], y: (d: Pair) => d[1], r: 2, fill: color });
+}
+
+function panel(
+  document: Document,
+  title: string,
+  x: string,
+  y: string,
+  marks: Plot.Markish[],
+  extra: Record<string, unknown> = {},
+  note: string | null = null,
+): string {
+  const svg = Plot.plot({
+    document,
+    className: "plumb-plot",
+    ...SIZE,
+    marginLeft: 52,
+    x: { label: x, nice: true },
+    y: { label: y, grid: true, nice: true },
+    color: { range: ["#d9d9d9", "#262626"] },
+    marks,
+    ...extra,
+  });
+  return stackPanels(document, [svg], SIZE.width, { title, note, label: title });
+}
+
+/**
+ * Residuals against fitted values, with the zero line.
+ *
+ * @param r The check result fields.
+ * @param document The DOM document (the browser's, or linkedom's).
+ * @returns SVG markup.
+ */
+export function residualsVsFittedSvg(r: CheckChartInput, document: Document): string {
+  return panel(document, `Residuals against fitted, ${r.fit}`, "fitted", "residual", [
+    Plot.ruleY([0], { stroke: INK, ariaDescription: "zero residual" }),
+    scatter(pairs(r.fitted, r.residuals), fitColor(r.fit)),
+  ]);
+}
+
+/**
+ * Normal quantile plot of the studentized residuals, with the 1:1 line.
+ *
+ * @param r The check result fields.
+ * @param document The DOM document.
+ * @returns SVG markup.
+ */
+export function normalQuantileSvg(r: CheckChartInput, document: Document): string {
+  const s = r.studentized_internal.filter((v): v is number => v !== null && Number.isFinite(v))
+    .sort((a, b) => a - b);
+  const n = s.length;
+  const q: Pair[] = s.map((v, i) => [standardNormal.quantile((i + 1 - 0.375) / (n + 0.25)), v]);
+  const ends = q.length ? [Math.min(q[0][0], q[0][1]), Math.max(q[n - 1][0], q[n - 1][1])] : [0, 1];
+  return panel(document, `Normal quantiles, ${r.fit}`, "normal quantile", "studentized residual", [
+    Plot.line([[ends[0], ends[0]], [ends[1], ends[1]]], {
+      stroke: INK,
+      strokeDasharray: "4,3",
+      ariaDescription: "1:1 line",
+    }),
+    scatter(q, fitColor(r.fit)),
+  ]);
+}
+
+/**
+ * Scale–location: √|studentized residual| against fitted values.
+ *
+ * @param r The check result fields.
+ * @param document The DOM document.
+ * @returns SVG markup.
+ */
+export function scaleLocationSvg(r: CheckChartInput, document: Document): string {
+  const p = pairs(r.fitted, r.studentized_internal).map((
+    [f, s],
+  ): Pair => [f, Math.sqrt(Math.abs(s))]);
+  return panel(document, `Scale–location, ${r.fit}`, "fitted", "√|studentized residual|", [
+    Plot.ruleY([0], { stroke: INK, strokeOpacity: 0.4 }),
+    scatter(p, fitColor(r.fit)),
+  ]);
+}
+
+/**
+ * Studentized residual against leverage, with Cook's distance contours at 0.5 and 1.
+ *
+ * @param r The check result fields.
+ * @param document The DOM document.
+ * @returns SVG markup.
+ */
+export function leverageSvg(r: CheckChartInput, document: Document): string {
+  const pts = pairs(r.leverage, r.studentized_internal);
+  const p = r.leverage.reduce<number>((a, h) => a + (h ?? 0), 0);
+  const hMax = Math.min(0.999, Math.max(0.05, ...pts.map((d) => d[0])) * 1.05);
+  const contours: Plot.Markish[] = [];
+  for (const d of [0.5, 1]) {
+    for (const sign of [1, -1]) {
+      const line = Array.from({ length: 60 }, (_, i): Pair => {
+        const h = (hMax * (i + 1)) / 60;
+        return [h, sign * Math.sqrt((d * p * (1 - h)) / h)];
+      });
+      contours.push(Plot.line(line, {
+        x: (v: Pair) => v[0],
+        y: (v: Pair) => v[1],
+        stroke: INK,
+        strokeDasharray: d === 1 ? "6,3" : "2,3",
+        ariaDescription: `Cook's distance ${d}`,
+      }));
+    }
+  }
+  const rMax = Math.max(3, ...pts.map((d) => Math.abs(d[1]))) * 1.1;
+  return panel(
+    document,
+    `Leverage, ${r.fit}`,
+    "leverage",
+    "studentized residual",
+    [
+      Plot.ruleY([0], { stroke: INK, strokeOpacity: 0.4 }),
+      ...contours,
+      scatter(pts, fitColor(r.fit)),
+    ],
+    {
+      x: { label: "leverage", domain: [0, hMax] },
+      y: { label: "studentized residual", grid: true, domain: [-rMax, rMax] },
+      clip: true,
+    },
+    "dashed: Cook's distance 0.5 (short dashes) and 1 (long)",
+  );
+}
+
+/**
+ * All four residual charts, in the standard order.
+ *
+ * @param r The check result fields.
+ * @param document The DOM document.
+ * @returns Four SVG strings: residuals vs fitted, normal quantiles, scale–location, leverage.
+ */
+export function checkChartsSvg(r: CheckChartInput, document: Document): string[] {
+  return [
+    residualsVsFittedSvg(r, document),
+    normalQuantileSvg(r, document),
+    scaleLocationSvg(r, document),
+    leverageSvg(r, document),
+  ];
+}
