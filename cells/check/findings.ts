@@ -13,7 +13,8 @@
  * | curvature             | RESET p < α, lack-of-fit p < α, or too few sign runs in x order     |
  * | non-constant-variance | Breusch–Pagan p < α                                                 |
  * | non-normal            | Shapiro–Wilk p < α (Jarque–Bera when n is outside 3..5000)          |
- * | autocorrelation       | Durbin–Watson test p < α (normal approximation with exact moments), |
+ * | autocorrelation       | Durbin–Watson p < α against positive correlation (normal approx.,   |
+ * |                       | exact moments),                                                     |
  * |                       | or too few sign runs in row order (several predictors)              |
  * | collinearity          | VIF > 10                                                            |
  *
@@ -150,11 +151,11 @@ function testFindings(r: Base, add: Add): void {
     add(
       "autocorrelation",
       [],
-      `Neighbouring residuals in row order are correlated: Durbin–Watson ${
+      `Neighbouring residuals in row order are positively correlated: Durbin–Watson ${
         fmt(r.durbin_watson)
       } where ${
         fmt(r.durbin_watson_test.expected)
-      } is expected without correlation (normal approximation, ${
+      } is expected without correlation (one-sided, normal approximation, ${
         pText(r.durbin_watson_test.p_value)
       } ${at}).`,
     );

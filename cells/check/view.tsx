@@ -45,7 +45,7 @@ function testRows(r: CheckResult): TestRow[] {
       name: "Durbin–Watson",
       statistic: fmt(r.durbin_watson),
       p: r.durbin_watson_test?.p_value ?? null,
-      rule: `${a} (normal approx.)`,
+      rule: `${a}, one-sided (normal approx.)`,
     },
     {
       name: `Runs (${r.runs?.order === "x" ? "x order" : "row order"})`,
