@@ -73,10 +73,11 @@ export function CellBlock(props: CellBlockProps): VNode {
     <section
       class={`pl-cell pl-cell-${cell.state}`}
       id={`cell-${block.name}`}
-      data-cell={block.name}
+      data-block={block.name}
       data-kind={block.kind}
       data-state={cell.state}
       data-run={cell.run}
+      data-computed={cell.computedRun}
       aria-busy={busy}
     >
       <header class="pl-cell-head">

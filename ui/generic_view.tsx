@@ -33,7 +33,7 @@ export function GenericView(props: { result: unknown; summaryLine: string | null
         <dl class="pl-generic-fields">
           {fields.map(([k, v]) => [
             <dt key={`t${k}`}>{k}</dt>,
-            <dd key={`d${k}`}>{typeof v === "number" ? formatValue(v, 6) : String(v)}</dd>,
+            <dd key={`d${k}`}>{typeof v === "number" ? formatValue(v, null) : String(v)}</dd>,
           ])}
         </dl>
       )}

@@ -1,6 +1,6 @@
 /**
  * The live page's entry point (bundled by the server with esbuild): puts the
- * style sheet in the page, mounts the app on `#plumb` (or the body) and
+ * style sheet in the page, mounts the app on `#app` (or the body) and
  * connects to `/live`.
  *
  * @module
@@ -15,9 +15,14 @@ import { STYLE } from "./style.ts";
 const style = document.createElement("style");
 style.textContent = STYLE;
 document.head.appendChild(style);
+// No icon to fetch (the browser would otherwise ask the server for /favicon.ico).
+const icon = document.createElement("link");
+icon.rel = "icon";
+icon.href = "data:,";
+document.head.appendChild(icon);
 
 const store = new LiveStore();
-const root = document.getElementById("plumb") ?? document.body;
+const root = document.getElementById("app") ?? document.body;
 render(<App store={store} />, root);
 startClock();
 connectLive(store);

@@ -41,6 +41,8 @@ export interface LiveCell {
   warnings: string[];
   /** The run of the last applied message (0 before any). */
   run: number;
+  /** The run that last computed the result shown (not reused from the cache); 0 before any. */
+  computedRun: number;
   cached: boolean;
   /** Local clock (ms) when the cell entered its state, for a ticking elapsed time. */
   since: number;
@@ -62,6 +64,7 @@ function blank(name: string, kind: string, now: number): LiveCell {
     error: null,
     warnings: [],
     run: 0,
+    computedRun: 0,
     cached: false,
     since: now,
   };
@@ -180,6 +183,7 @@ export class LiveStore {
       error: msg.error ?? null,
       warnings: msg.warnings ?? (msg.state === "current" ? [] : old.warnings),
       run,
+      computedRun: msg.state === "current" && !msg.cached ? run : old.computedRun,
       cached: msg.cached ?? false,
       since: old.state === msg.state ? old.since : now,
     };

@@ -131,6 +131,7 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-outline-cell { padding-left: .6rem; font-family: var(--mono); font-size: 12px; }
 
 /* Kind views: shared by the live page and the record. */
+.plumb-sha { margin-left: .75em; color: var(--muted); font-size: 12px; }
 .pl-result table { border-collapse: collapse; font-size: 13px; font-variant-numeric: tabular-nums; margin: .35rem 0; }
 .pl-result th, .pl-result td { padding: .15rem .7rem .15rem 0; text-align: right; border-bottom: 1px solid var(--wash); }
 .pl-result thead th { font-weight: 600; color: var(--muted); border-bottom: 1px solid var(--rule); font-size: 12px; }
