@@ -12,6 +12,10 @@ import type { ComponentType } from "preact";
 import type { ViewProps } from "../cells/types.ts";
 import { TableView } from "../cells/table/view.tsx";
 import { FitView } from "../cells/fit/view.tsx";
+import { CompareView } from "../cells/compare/view.tsx";
+import { CheckView } from "../cells/check/view.tsx";
+import { PredictView } from "../cells/predict/view.tsx";
+import { ChartView } from "../cells/chart/view.tsx";
 
 // deno-lint-ignore no-explicit-any
 type AnyView = ComponentType<ViewProps<any>>;
@@ -20,6 +24,10 @@ type AnyView = ComponentType<ViewProps<any>>;
 export const VIEWS: Readonly<Record<string, AnyView>> = {
   table: TableView,
   fit: FitView,
+  compare: CompareView,
+  check: CheckView,
+  predict: PredictView,
+  chart: ChartView,
 };
 
 /**
