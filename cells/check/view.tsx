@@ -1,9 +1,10 @@
 /**
  * The check cell's view: the findings first, then a compact table of the
  * tests with their statistic, p-value and the rule that makes a finding.
- * Plain markup (shared by the live page and the static record). The residual
- * charts come with the live workspace; the result already carries what they
- * need (fitted, residuals, studentized residuals, leverage, Cook's distance).
+ * Plain markup (shared by the live page and the static record), with the
+ * four standard residual charts drawn by ui/charts from the result alone
+ * (residuals vs fitted, normal quantiles, scale–location, leverage with
+ * Cook's distance contours).
  *
  * @module
  */
@@ -11,6 +12,7 @@ import type { VNode } from "preact";
 import type { ViewProps } from "../types.ts";
 import type { CheckResult } from "./result.ts";
 import { fmt } from "./_format.ts";
+import { chartDocument, checkChartsSvg, SvgFigure } from "../../ui/charts/mod.ts";
 
 interface TestRow {
   name: string;
@@ -105,6 +107,10 @@ export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
             ))}
           </ul>
         )}
+      <div class="plumb-check-charts">
+        {r.fitted.length > 0 &&
+          checkChartsSvg(r, chartDocument()).map((svg, i) => <SvgFigure key={i} svg={svg} />)}
+      </div>
       <table class="plumb-check-tests">
         <thead>
           <tr>
