@@ -6,7 +6,8 @@
  * @module
  */
 import type { VNode } from "preact";
-import { useState } from "preact/hooks";
+import { memo } from "preact/compat";
+import { useCallback, useRef, useState } from "preact/hooks";
 import type { DocumentMessage } from "../kernel/server/protocol.ts";
 import { deleteCell, newCell, restoreCell, type SaveOutcome } from "./api.ts";
 import { CellBlock } from "./cell_block.tsx";
@@ -79,6 +80,27 @@ function AddCell(props: {
   );
 }
 
+interface LiveProseProps {
+  text: string;
+  line: number;
+  store: LiveStore;
+  names: string[];
+}
+
+/** A prose block with live inline values; re-rendered only when its text or the cell names change. */
+const LiveProse = memo(
+  (p: LiveProseProps) => (
+    <Prose
+      text={p.text}
+      line={p.line}
+      refs={(ref, key) => <InlineRef key={key} ref_={ref} store={p.store} names={p.names} />}
+    />
+  ),
+  (a: LiveProseProps, b: LiveProseProps) =>
+    a.text === b.text && a.line === b.line && a.store === b.store &&
+    a.names.join("\n") === b.names.join("\n"),
+);
+
 function failure(out: SaveOutcome<unknown>): string {
   if (out.ok) return "";
   return out.conflict !== null
@@ -98,12 +120,14 @@ export function App(props: { store: LiveStore }): VNode {
   const [removed, setRemoved] = useState<Removed[]>([]);
   const [addAfter, setAddAfter] = useState<string | null | undefined>(undefined);
   const [error, setError] = useState<string | null>(null);
-  const cells = store.cells();
+  const actions = useRef({ remove: (_: string) => {}, addBelow: (_: string) => {} });
+  const onRemove = useCallback((n: string) => actions.current.remove(n), []);
+  const onAddBelow = useCallback((n: string) => actions.current.addBelow(n), []);
 
   if (doc === null) {
     return (
       <div class="pl-page">
-        <TopBar doc={null} cells={[]} connection={store.connection.value} />
+        <TopBar doc={null} store={store} />
         <main class="pl-main">
           <p class="pl-muted">◌ Waiting for the document…</p>
         </main>
@@ -135,10 +159,11 @@ export function App(props: { store: LiveStore }): VNode {
     setRemoved((list) => list.filter((x) => x !== r));
   }
 
+  actions.current = { remove, addBelow: (n) => setAddAfter(n) };
   const run = store.lastRun.value;
   return (
     <div class="pl-page" data-version={doc.version} data-run={run?.run ?? 0}>
-      <TopBar doc={doc} cells={cells} connection={store.connection.value} />
+      <TopBar doc={doc} store={store} />
       <div class="pl-body">
         <main class="pl-main">
           {error !== null && (
@@ -159,18 +184,12 @@ export function App(props: { store: LiveStore }): VNode {
           {doc.blocks.map((b) =>
             b.type === "prose"
               ? (
-                <Prose
+                <LiveProse
                   key={`p${b.line}`}
                   text={b.text}
                   line={b.line}
-                  refs={(ref, key) => (
-                    <InlineRef
-                      key={key}
-                      ref_={ref}
-                      store={store}
-                      names={names}
-                    />
-                  )}
+                  store={store}
+                  names={names}
                 />
               )
               : (
@@ -179,8 +198,8 @@ export function App(props: { store: LiveStore }): VNode {
                     store={store}
                     block={b}
                     version={doc.version}
-                    onRemove={remove}
-                    onAddBelow={(n) => setAddAfter(n)}
+                    onRemove={onRemove}
+                    onAddBelow={onAddBelow}
                   />
                   {addAfter === b.name && (
                     <AddCell

@@ -7,6 +7,7 @@
  * @module
  */
 import type { VNode } from "preact";
+import { memo } from "preact/compat";
 import { useState } from "preact/hooks";
 import type { LiveBlock } from "../kernel/server/protocol.ts";
 import type { LiveStore } from "./store.ts";
@@ -46,20 +47,43 @@ function Progress(props: { fraction: number | null; note: string | null }): VNod
   );
 }
 
-function Result(props: { kind: string; name: string; result: unknown; line: string | null }) {
+interface ResultProps {
+  kind: string;
+  name: string;
+  result: unknown;
+  line: string | null;
+}
+
+/** Redrawn only for a new result (a chart of 10,000 points is not redrawn for a state word). */
+const Result = memo(
+  ResultOf,
+  (a: ResultProps, b: ResultProps) =>
+    a.result === b.result && a.kind === b.kind && a.name === b.name && a.line === b.line,
+);
+
+function ResultOf(props: ResultProps) {
   const View = viewOf(props.kind);
   if (props.result === undefined) return null;
   if (View === undefined) return <GenericView result={props.result} summaryLine={props.line} />;
   return <View name={props.name} result={props.result} />;
 }
 
+function same(a: CellBlockProps, b: CellBlockProps): boolean {
+  return a.store === b.store && a.version === b.version && a.onRemove === b.onRemove &&
+    a.onAddBelow === b.onAddBelow && a.block.name === b.block.name &&
+    a.block.kind === b.block.kind && a.block.line === b.block.line && a.block.body === b.block.body;
+}
+
 /**
- * Renders a cell.
+ * Renders a cell; re-renders only when its own cell signal changes or its
+ * block in the document does (not for every message about other cells).
  *
  * @param props See {@link CellBlockProps}.
  * @returns The cell's block.
  */
-export function CellBlock(props: CellBlockProps): VNode {
+export const CellBlock = memo(CellBlockOf, same);
+
+function CellBlockOf(props: CellBlockProps): VNode {
   const { block, store } = props;
   const cell = store.cell(block.name, block.kind).value;
   const [showSource, setShowSource] = useState(false);

@@ -10,7 +10,7 @@ import type { DocumentMessage, LiveDataFile } from "../kernel/server/protocol.ts
 import { baseName, formatAge } from "./format.ts";
 import { now } from "./clock.ts";
 import { StateMark } from "./state_mark.tsx";
-import { type Connection, type LiveCell, overall } from "./store.ts";
+import { type LiveCell, type LiveStore, overall } from "./store.ts";
 
 /**
  * One line on a data file.
@@ -54,12 +54,12 @@ function overallLabel(
  * @param props The document, its cells and the connection.
  * @returns The bar.
  */
-export function TopBar(
-  props: { doc: DocumentMessage | null; cells: LiveCell[]; connection: Connection },
-): VNode {
+export function TopBar(props: { doc: DocumentMessage | null; store: LiveStore }): VNode {
+  const cells = props.store.cells();
+  const connection = props.store.connection.value;
   const at = Math.floor(now.value / 10_000) * 10_000;
   const data = props.doc?.data ?? [];
-  const { state, label } = overallLabel(props.cells);
+  const { state, label } = overallLabel(cells);
   return (
     <header class="pl-top">
       <h1 class="pl-title">{props.doc?.title ?? "Plumb"}</h1>
@@ -70,9 +70,9 @@ export function TopBar(
       <p class="pl-overall" data-overall={state}>
         <StateMark state={state} label={label} />
       </p>
-      {props.connection !== "open" && (
+      {connection !== "open" && (
         <p class="pl-conn" role="status">
-          {props.connection === "connecting" ? "◌ connecting…" : "✕ disconnected: retrying"}
+          {connection === "connecting" ? "◌ connecting…" : "✕ disconnected: retrying"}
         </p>
       )}
     </header>

@@ -10,6 +10,8 @@
  * - `schedule_chain_200`: time to decide what reruns after a one-cell edit
  *   of a 200-cell chain document (parse, check, key every cell, diff with
  *   the cache); target under 20 ms.
+ * - `update_latency`: in Chromium, data file write → the page showing every
+ *   cell's new result, 10,000 rows (test/e2e/latency_bench.ts); p50/p95 ms.
  * - read off the micro-benchmarks: a 1,000,000 × 10 linear fit on the fast
  *   double path, a 10,000 × 10 fit on the double-double path, and nonlinear
  *   fits per second for y = a·exp(−b·x) + c with n = 100.
@@ -20,6 +22,7 @@ import { makeNumericCsv, readDelimited } from "../../kernel/csv/mod.ts";
 import { Session } from "../../kernel/session/session.ts";
 import { fakeRegistry } from "../../kernel/session/testdata/fake_kinds.ts";
 import { VERSION } from "../../kernel/version.ts";
+import { updateLatency } from "../e2e/latency_bench.ts";
 
 const root = new URL("../../", import.meta.url);
 
@@ -127,6 +130,7 @@ const report = {
   figures: {
     csv_ingest: csvIngest(),
     schedule_chain_200: await scheduleChain(),
+    update_latency: await updateLatency(),
     ...fromBenches(benches),
   },
   benches,

@@ -185,7 +185,9 @@ export async function openBrowser(): Promise<Session> {
   await cdp.send("Network.enable");
   cdp.on("Network.webSocketFrameReceived", (e) => {
     try {
-      messages.push(JSON.parse(e.response.payloadData));
+      const m = JSON.parse(e.response.payloadData);
+      (m as { receivedAt?: number }).receivedAt = Date.now();
+      messages.push(m);
     } catch { /* not ours */ }
   });
   return {
