@@ -15,7 +15,6 @@
  * @module
  */
 import type { Model } from "../../kernel/expr/mod.ts";
-import type { NumberColumn } from "../types.ts";
 
 /** What a solver is given. */
 export interface FitProblem {
@@ -35,7 +34,7 @@ export interface FitProblem {
   start: Readonly<Record<string, number>>;
   /**
    * Decimal corrections of `columns` and of the untransformed response
-   * column (`lo` of {@link NumberColumn}, on the rows used), for residuals
+   * column (`lo` of `NumberColumn` in cells/types.ts, on the rows used), for residuals
    * in double-double; absent or null where the table kept none.
    */
   lo?: {
