@@ -11,9 +11,11 @@
  *
  * Two precisions: the double factorization always runs (it decides rank,
  * aliasing, the pivot order, the intercept and the condition number); when
- * n·p² ≤ 2e7 (`_precise_linear.ts`, chosen by kernel/linalg/qr_bench.ts) the
- * problem is then solved again in double-double from the data as printed,
- * and those estimates, residuals, RSS, TSS and covariance are returned.
+ * n·p² ≤ 1e4, or n·p² ≤ 2e7 with a scaled condition number above 1e4
+ * (`usePrecise` in `_precise_linear.ts`, costs from kernel/linalg/qr_bench.ts),
+ * the problem is then solved again in double-double from the data as
+ * printed, and those estimates, residuals, RSS, TSS and covariance are
+ * returned.
  *
  * ```
  *  capacity = q0 - a*sqrt(cycle)      X = [ 1 | -sqrt(cycle) ],  offset = 0
@@ -84,9 +86,11 @@ export function solveLinear(problem: FitProblem): FitSolution {
     );
   }
   const hasIntercept = inColumnSpace(ls.qr, root ?? new Float64Array(n).fill(1));
-  warnCollinear(problem, scaledConditionNumber(ls.qr));
-  // Small and medium problems are solved again in double-double from the data as printed.
-  const precise = usePrecise(n, params.length)
+  const kappa = scaledConditionNumber(ls.qr);
+  warnCollinear(problem, kappa);
+  // Small problems, and ill-conditioned medium ones, are solved again in
+  // double-double from the data as printed (the rule: _precise_linear.ts).
+  const precise = usePrecise(n, params.length, kappa)
     ? solvePrecise(problem, terms, ls.qr.perm, root, hasIntercept)
     : null;
   if (precise !== null) {
