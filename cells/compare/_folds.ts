@@ -9,6 +9,7 @@
  *
  * @module
  */
+import { mulberry32 } from "../../kernel/random.ts";
 
 /**
  * Fold number of each row.
@@ -36,16 +37,4 @@ export function assignFolds(n: number, k: number, seed: number): Int32Array {
   const fold = new Int32Array(n);
   order.forEach((row, pos) => (fold[row] = pos % k));
   return fold;
-}
-
-/** Mulberry32: uniform doubles in [0, 1). */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }

@@ -10,7 +10,7 @@
 import type { VNode } from "preact";
 import type { ViewProps } from "../types.ts";
 import type { CompareResult, CompareRow } from "./result.ts";
-import { formatNumber, formatP } from "./_format.ts";
+import { formatNumber, formatP } from "../format.ts";
 
 /**
  * Renders a compare result.

@@ -25,7 +25,7 @@ import type { Fit } from "./fit.ts";
 import { type FitResult, summarizeFit } from "./result.ts";
 import { runFit } from "./run.ts";
 import { FitView } from "./view.tsx";
-import { formatNumber, formatR2 } from "./_format.ts";
+import { formatNumber, formatR2 } from "../format.ts";
 
 export type { FitSpec } from "./spec.ts";
 export type { Fit } from "./fit.ts";

@@ -10,7 +10,7 @@
 import type { VNode } from "preact";
 import type { ViewProps } from "../types.ts";
 import type { FitResult } from "./result.ts";
-import { formatNumber, formatR2 } from "./_format.ts";
+import { formatNumber, formatR2 } from "../format.ts";
 
 /**
  * Renders a fit result.

@@ -30,7 +30,7 @@ import { parsePredictSpec, type PredictSpec } from "./spec.ts";
 import type { Predictions, PredictResult } from "./result.ts";
 import { runPredict } from "./run.ts";
 import { PredictView } from "./view.tsx";
-import { formatInterval, formatNumber } from "./_format.ts";
+import { formatInterval, formatNumber } from "../format.ts";
 
 export type { PredictSpec } from "./spec.ts";
 export type {

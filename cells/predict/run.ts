@@ -25,7 +25,7 @@ import { type IntervalSettings, intervalSettings } from "./interval_settings.ts"
 import { type ResponseScale, responseScale } from "./response_scale.ts";
 import { type InverseContext, inversePrediction } from "./inverse_prediction.ts";
 import { type Points, pointsOf, quoted } from "./_points.ts";
-import { formatNumber } from "./_format.ts";
+import { formatNumber } from "../format.ts";
 
 /** Share of the fitted x range added on each side for the root search of `solve`. */
 export const ROOT_MARGIN = 0.1;

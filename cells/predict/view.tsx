@@ -10,7 +10,7 @@
 import type { VNode } from "preact";
 import type { ViewProps } from "../types.ts";
 import type { PredictResult } from "./result.ts";
-import { formatInterval, formatNumber } from "./_format.ts";
+import { formatInterval, formatNumber } from "../format.ts";
 
 /**
  * Renders a predict result.

@@ -1,3 +1,4 @@
+import { mulberry32 } from "../random.ts";
 import assert from "node:assert/strict";
 import { DecimalParser, parseDecimal } from "./decimal_parser.ts";
 
@@ -43,17 +44,7 @@ function agreesTo(text: string, hi: number, lo: number, bits: number): boolean {
   return abs(errNum) * (1n << BigInt(bits)) <= abs(scaleNum);
 }
 
-/** mulberry32 (common practice, no source). */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const rng = mulberry32;
 
 function randomDecimal(r: () => number): string {
   const digits = 1 + Math.floor(r() * (r() < 0.7 ? 15 : 30));

@@ -11,18 +11,7 @@
  *
  * @module
  */
-
-/** mulberry32: a small, fast 32-bit PRNG; returns integers in [0, 2^32). */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return (t ^ (t >>> 14)) >>> 0;
-  };
-}
+import { mulberry32Uint as mulberry32 } from "../random.ts";
 
 class ByteWriter {
   buf: Uint8Array;

@@ -1,7 +1,7 @@
 import assert from "node:assert/strict";
 import { ddLeastSquares, ddSumOfSquares, type DDVector } from "./dd_least_squares.ts";
 import { leastSquares } from "./least_squares.ts";
-import { seededRandom } from "./_random.ts";
+import { seededRandom } from "../random.ts";
 
 /** A seeded problem with an intercept: y = X·β + noise, lo parts ~2^-54 relative. */
 function problem(m: number, p: number, seed: number) {

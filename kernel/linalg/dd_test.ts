@@ -1,6 +1,6 @@
 import assert from "node:assert/strict";
 import { type DD, ddAdd, ddDiv, ddMul, ddSqrt, split, twoProduct, twoSum } from "./dd.ts";
-import { seededRandom } from "./_random.ts";
+import { seededRandom } from "../random.ts";
 
 // ---------------------------------------------------------------------------
 // Exact dyadic rationals m·2^e (every double is one) for reference values.

@@ -1,7 +1,7 @@
 import assert from "node:assert/strict";
 import { householderQR, type QRFactorization } from "./householder_qr.ts";
 import { applyQ, applyQt } from "./apply_qt.ts";
-import { seededRandom } from "./_random.ts";
+import { seededRandom } from "../random.ts";
 
 /** Explicit m×m Q, column-major, by applying Q to the unit vectors. */
 function formQ(f: QRFactorization): Float64Array {

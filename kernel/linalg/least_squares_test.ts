@@ -2,7 +2,7 @@ import assert from "node:assert/strict";
 import { leastSquares, type LeastSquaresResult } from "./least_squares.ts";
 import { describeAliased } from "./describe_aliased.ts";
 import { digits, loadStrd } from "./_strd.ts";
-import { seededRandom } from "./_random.ts";
+import { seededRandom } from "../random.ts";
 
 // ---------------------------------------------------------------------------
 // Exact rational arithmetic for reference answers (test only).

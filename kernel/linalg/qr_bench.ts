@@ -10,7 +10,7 @@
 import { leastSquares } from "./least_squares.ts";
 import { householderQR } from "./householder_qr.ts";
 import { ddLeastSquares } from "./dd_least_squares.ts";
-import { seededRandom } from "./_random.ts";
+import { seededRandom } from "../random.ts";
 
 function problem(m: number, p: number, seed: number) {
   const rnd = seededRandom(seed);

@@ -1,21 +1,18 @@
 /**
- * A small seeded generator for the multi-start search: mulberry32 (Tommy
- * Ettinger's 32-bit generator, public domain; from memory). Not for
- * statistics that need long periods; enough for a few thousand draws.
+ * Seeded sampling for the multi-start search: the project's generator
+ * (kernel/random.ts) and a Latin hypercube.
  *
  * @module
  */
+import { mulberry32 as base } from "../random.ts";
 
-/** Returns a function giving uniform numbers in [0, 1) from `seed`. */
+/**
+ * Uniform numbers in [0, 1) from `seed`: the project's generator
+ * (kernel/random.ts), with the seed mixed by the golden-ratio constant so
+ * the multi-start stream differs from other streams of the same seed.
+ */
 export function mulberry32(seed: number): () => number {
-  let a = (Math.floor(seed) ^ 0x9e3779b9) >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  return base(Math.floor(seed) ^ 0x9e3779b9);
 }
 
 /**
