@@ -140,3 +140,28 @@ export function lre(x: number, c: number, cap = 15): number {
   const e = c === 0 ? Math.abs(x) : Math.abs(x - c) / Math.abs(c);
   return Math.max(0, Math.min(cap, -Math.log10(e)));
 }
+
+/** The part of a StRD manifest entry that locates its data lines. */
+export interface StrdData {
+  name: string;
+  data: { first_line: number; columns: string[]; n_rows: number };
+}
+
+/**
+ * A StRD set's data lines (NIST .dat text) as CSV, each number string copied
+ * exactly as printed, so a table sees the data as printed.
+ *
+ * @param set The set's manifest entry.
+ * @param text The .dat file's text.
+ * @returns CSV with the manifest's column names as header.
+ * @throws {Error} When the row count differs from the manifest's.
+ */
+export function strdCsv(set: StrdData, text: string): string {
+  const rows = text.split("\n").slice(set.data.first_line - 1)
+    .map((l) => l.trim()).filter((l) => l !== "")
+    .map((l) => l.split(/\s+/).join(","));
+  if (rows.length !== set.data.n_rows) {
+    throw new Error(`${set.name}: ${rows.length} data rows, the manifest says ${set.data.n_rows}`);
+  }
+  return [set.data.columns.join(","), ...rows].join("\n") + "\n";
+}

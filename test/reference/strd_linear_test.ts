@@ -19,6 +19,7 @@ import {
   readReferenceText,
   referenceAvailable,
   runDocument,
+  strdCsv as csvOf,
 } from "./_reference.ts";
 
 interface ManifestSet {
@@ -41,15 +42,6 @@ function modelOf(set: ManifestSet): string {
   if (set.name === "Longley") return "y = linear(x1, x2, x3, x4, x5, x6)";
   if (p === 2) return "y = B0 + B1*x";
   return `y = polynomial(x, ${p - 1})`;
-}
-
-/** The set's data lines as CSV, each number string as printed. */
-function csvOf(set: ManifestSet, text: string): string {
-  const rows = text.split("\n").slice(set.data.first_line - 1)
-    .map((l) => l.trim()).filter((l) => l !== "")
-    .map((l) => l.split(/\s+/).join(","));
-  assert.equal(rows.length, set.data.n_rows, `${set.name}: row count`);
-  return [set.data.columns.join(","), ...rows].join("\n") + "\n";
 }
 
 Deno.test("NIST StRD linear sets: every certified value to 12 digits through plumb run", async () => {

@@ -20,6 +20,7 @@ import {
   readReferenceText,
   referenceAvailable,
   runDocument,
+  strdCsv as csvOf,
 } from "./_reference.ts";
 
 interface ManifestSet {
@@ -62,15 +63,6 @@ const MODELS: Record<string, string> = {
   ENSO: "y = b1 + b2*cos(2*pi*x/12) + b3*sin(2*pi*x/12) + b5*cos(2*pi*x/b4) + " +
     "b6*sin(2*pi*x/b4) + b8*cos(2*pi*x/b7) + b9*sin(2*pi*x/b7)",
 };
-
-/** The set's data lines as CSV, each number string as printed. */
-function csvOf(set: ManifestSet, text: string): string {
-  const rows = text.split("\n").slice(set.data.first_line - 1)
-    .map((l) => l.trim()).filter((l) => l !== "")
-    .map((l) => l.split(/\s+/).join(","));
-  assert.equal(rows.length, set.data.n_rows, `${set.name}: row count`);
-  return [set.data.columns.join(","), ...rows].join("\n") + "\n";
-}
 
 /** One document: a table and a fit per set, from NIST's start 1 or 2. */
 function documentFor(sets: ManifestSet[], start: 1 | 2): string {
