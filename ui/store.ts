@@ -130,6 +130,11 @@ export class LiveStore {
    * s.apply({ type: "cell", version: "v1", name: "t", kind: "table", state: "current",
    *   result: { rows_used: 3 }, run: 1 });
    * if (s.cell("t").value.state !== "current") throw new Error("not applied");
+   * // reused from the cache: no result in the message, the one shown stays
+   * const shown = s.cell("t").value.result;
+   * s.apply({ type: "cell", version: "v1", name: "t", kind: "table", state: "current",
+   *   cached: true, run: 2 });
+   * if (s.cell("t").value.result !== shown) throw new Error("result dropped");
    * ```
    */
   apply(msg: ServerMessage): boolean {
@@ -178,7 +183,8 @@ export class LiveStore {
       ms: msg.ms ?? null,
       fraction: msg.fraction ?? null,
       note: msg.note ?? null,
-      result: msg.state === "current" ? msg.result : old.result,
+      // A current message without a result: the same result as before (reused from the cache).
+      result: msg.state === "current" && msg.result !== undefined ? msg.result : old.result,
       summaryLine: msg.state === "current" ? msg.summaryLine ?? null : old.summaryLine,
       error: msg.error ?? null,
       warnings: msg.warnings ?? (msg.state === "current" ? [] : old.warnings),

@@ -25,6 +25,7 @@ import { hashValue, sha256Hex } from "../hash.ts";
 import type { Registry } from "../registry.ts";
 import { Session, type SessionEvent } from "../session/session.ts";
 import { documentMessage, type FileInfo } from "./document_message.ts";
+import { liveResult, referencedFields } from "./live_result.ts";
 import type { CellMessage, DocumentMessage, ServerMessage } from "./protocol.ts";
 
 /** Options of a live workspace. */
@@ -52,6 +53,10 @@ export class LiveWorkspace {
   #doc: DocumentMessage | null = null;
   #kinds = new Map<string, string>();
   #cells = new Map<string, CellMessage>();
+  /** Per cell, the fields inline values name (kept in the page's results). */
+  #wanted = new Map<string, Set<string>>();
+  /** Per cell, the page's copy of its last result (same object while the result is the same). */
+  #live = new Map<string, { full: unknown; wanted: string; result: unknown; omitted: string[] }>();
   #started = new Map<string, number>();
   #run = 0;
   #runningPrint: string | null = null;
@@ -209,10 +214,14 @@ export class LiveWorkspace {
       ? readSettings(doc).settings.title
       : basename(this.#opts.path).replace(/\.md$/i, "");
     this.#doc = documentMessage(this.#opts.path, snap.version, title, doc, snap.files);
+    this.#wanted = referencedFields(doc);
     this.#kinds.clear();
     for (const b of this.#doc.blocks) if (b.type === "cell") this.#kinds.set(b.name, b.kind);
     for (const name of [...this.#cells.keys()]) {
-      if (!this.#kinds.has(name)) this.#cells.delete(name);
+      if (!this.#kinds.has(name)) {
+        this.#cells.delete(name);
+        this.#live.delete(name);
+      }
     }
     this.#opts.send(this.#doc);
   }
@@ -241,13 +250,25 @@ export class LiveWorkspace {
       msg.cached = r.cached;
       if (r.error) msg.error = r.error;
       if (r.state === "current") {
-        msg.result = r.result;
+        const page = this.#pageResult(e.name, msg.kind, r.result);
+        msg.result = page.result;
+        if (page.omitted.length > 0) msg.omitted = page.omitted;
         if (r.summaryLine !== null) msg.summaryLine = r.summaryLine;
       }
       this.#started.delete(e.name);
     }
     this.#cells.set(e.name, msg);
     this.#opts.send(msg);
+  }
+
+  /** The page's copy of a result, the same object as last time when nothing changed. */
+  #pageResult(name: string, kind: string, full: unknown): { result: unknown; omitted: string[] } {
+    const wanted = [...(this.#wanted.get(name) ?? [])].sort().join("\n");
+    const last = this.#live.get(name);
+    if (last !== undefined && last.full === full && last.wanted === wanted) return last;
+    const live = liveResult(kind, full, this.#wanted.get(name));
+    this.#live.set(name, { full, wanted, ...live });
+    return live;
   }
 
   /** Stops the session's worker. */

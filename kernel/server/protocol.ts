@@ -29,7 +29,11 @@
  *
  * Changes to this file are made by agreement between the server and the front
  * end, and noted here. Changes: restore's `at` also takes the offset that
- * delete now returns (`DeletedResponse.at`), for an exact undo.
+ * delete now returns (`DeletedResponse.at`), for an exact undo. A current
+ * `cell` message leaves out `result` when this connection was already sent
+ * that same result (reused from the cache): the page keeps the one it has.
+ * Results leave out the per-row fields no view reads (ui/page_fields.ts),
+ * named in `omitted`, unless an inline value of the document names them.
  *
  * @module
  */
@@ -85,8 +89,13 @@ export interface CellMessage {
   /** Progress from 0 to 1 of long work. */
   fraction?: number;
   note?: string;
-  /** The kind's summary (RUN-JSON `result`). */
+  /**
+   * The kind's summary (RUN-JSON `result`) less the fields in `omitted`;
+   * absent on a current message when this connection already has it.
+   */
   result?: unknown;
+  /** Fields of the complete result left out of `result` (per-row arrays no view reads). */
+  omitted?: string[];
   summaryLine?: string;
   error?: LivePosition;
   warnings?: string[];

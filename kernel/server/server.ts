@@ -21,7 +21,8 @@ import type { Bundle } from "./bundle.ts";
 import { deleteCell, type Edited, EditError, newCell, restoreCell, saveCell } from "./edits.ts";
 import { allowedHosts, checkRequest, newToken } from "./guard.ts";
 import { LiveWorkspace } from "./live_workspace.ts";
-import type { ConflictResponse, ServerMessage } from "./protocol.ts";
+import { LiveChannel } from "./live_channel.ts";
+import type { ConflictResponse } from "./protocol.ts";
 import { shellHtml } from "./shell.ts";
 import { watchFolder } from "./watch_folder.ts";
 
@@ -66,11 +67,6 @@ const TYPES: Record<string, string> = {
   ".ttf": "font/ttf",
 };
 
-function replacer(_key: string, value: unknown): unknown {
-  if (ArrayBuffer.isView(value)) return Array.from(value as unknown as ArrayLike<number>);
-  return value;
-}
-
 /**
  * Starts serving a document: binds, runs it once, then watches its folder.
  *
@@ -90,16 +86,12 @@ function replacer(_key: string, value: unknown): unknown {
 export async function startServer(opts: ServerOptions): Promise<LiveServer> {
   const hostname = opts.hostname ?? "127.0.0.1";
   const token = newToken();
-  const sockets = new Set<WebSocket>();
-  const send = (msg: ServerMessage) => {
-    const text = JSON.stringify(msg, replacer);
-    for (const ws of sockets) if (ws.readyState === WebSocket.OPEN) ws.send(text);
-  };
+  const sockets = new LiveChannel();
   const workspace = new LiveWorkspace({
     path: opts.document,
     registry: opts.registry,
     workerUrl: opts.workerUrl,
-    send,
+    send: (msg) => sockets.broadcast(msg),
   });
   await workspace.readDisk(); // fail early on a missing document
   const ctx = { token, hosts: new Set<string>() };
@@ -128,7 +120,7 @@ export async function startServer(opts: ServerOptions): Promise<LiveServer> {
     ready,
     async close() {
       watch.close();
-      for (const ws of sockets) ws.close();
+      sockets.closeAll();
       await server.shutdown();
       await workspace.idle().catch(() => {});
       workspace.close();
@@ -143,7 +135,7 @@ interface Static {
 }
 
 interface Live {
-  sockets: Set<WebSocket>;
+  sockets: LiveChannel;
   workspace: LiveWorkspace;
   editor: Editor;
 }
@@ -204,12 +196,9 @@ function openLive(req: Request, live: Live): Response {
     return new Response("Expected a WebSocket upgrade\n", { status: 426 });
   }
   const { socket, response } = Deno.upgradeWebSocket(req);
-  socket.onopen = () => {
-    live.sockets.add(socket);
-    for (const msg of live.workspace.welcome()) socket.send(JSON.stringify(msg, replacer));
-  };
-  socket.onclose = () => live.sockets.delete(socket);
-  socket.onerror = () => live.sockets.delete(socket);
+  socket.onopen = () => live.sockets.open(socket, live.workspace.welcome());
+  socket.onclose = () => live.sockets.close(socket);
+  socket.onerror = () => live.sockets.close(socket);
   return response;
 }
 

@@ -1,0 +1,89 @@
+/**
+ * A cell's result as the live channel carries it: the kind's summary less the
+ * per-row fields that no view on the page reads (ui/page_fields.ts), unless
+ * an inline value of the document names them.
+ *
+ * ```
+ *  summary (RUN-JSON result, complete) ──liveResult──▶ { result: shallow copy
+ *                                                         without the omitted fields,
+ *                                                         omitted: their names }
+ * ```
+ *
+ * Why: on a 10,000-row table the complete results of six fits and a check
+ * are about 4 MB of JSON per run, 90 ms to write on the server and as much
+ * to read in the page, for arrays that nothing shows. RUN-JSON keeps every
+ * field; this is only the page's copy.
+ *
+ * @module
+ */
+import { findInlineRefs, type ParsedDocument } from "../document/mod.ts";
+import { pageOmits } from "../../ui/page_fields.ts";
+
+/** A result ready for the page. */
+export interface LiveResult {
+  result: unknown;
+  /** Fields left out (present in the complete result), in the kind's list order. */
+  omitted: string[];
+}
+
+/**
+ * The page's copy of a result.
+ *
+ * @param kind The cell's kind.
+ * @param result The complete result (the kind's summary); not changed.
+ * @param wanted Top-level fields of this cell that inline values name (kept).
+ * @returns The result without the fields the page does without, and their names.
+ * @example
+ * ```ts
+ * import { liveResult } from "./live_result.ts";
+ * const full = { r2: 0.99, residuals: [0.1, -0.1], fitted: [1, 2], rows: [1, 2] };
+ * const live = liveResult("fit", full, new Set(["fitted"]));
+ * if ("residuals" in (live.result as object) || !("fitted" in (live.result as object))) {
+ *   throw new Error("omits");
+ * }
+ * if (live.omitted.join() !== "residuals,rows" || !("residuals" in full)) throw new Error("names");
+ * ```
+ */
+export function liveResult(
+  kind: string,
+  result: unknown,
+  wanted: ReadonlySet<string> = new Set(),
+): LiveResult {
+  if (result === null || typeof result !== "object" || Array.isArray(result)) {
+    return { result, omitted: [] };
+  }
+  const omit = pageOmits(kind).filter((f) => Object.hasOwn(result, f) && !wanted.has(f));
+  if (omit.length === 0) return { result, omitted: [] };
+  const copy: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(result)) if (!omit.includes(k)) copy[k] = v;
+  return { result: copy, omitted: omit };
+}
+
+/**
+ * The top-level result fields that the document's inline values name, per cell.
+ *
+ * @param doc The parsed document.
+ * @returns Cell name → field names (`@(root.residuals[3])` names `residuals` of `root`).
+ * @example
+ * ```ts
+ * import { parseDocument } from "../document/mod.ts";
+ * import { referencedFields } from "./live_result.ts";
+ * const doc = parseDocument("Residual @(root.residuals[3], 3) and @(root.r2).\n");
+ * const f = referencedFields(doc).get("root");
+ * if (!f?.has("residuals") || !f.has("r2")) throw new Error("fields");
+ * ```
+ */
+export function referencedFields(doc: ParsedDocument): Map<string, Set<string>> {
+  const out = new Map<string, Set<string>>();
+  for (const block of doc.blocks) {
+    if (block.type !== "prose") continue;
+    for (const ref of findInlineRefs(block).refs) {
+      const first = ref.path[0];
+      if (typeof first !== "string") continue;
+      let set = out.get(ref.cell);
+      if (set === undefined) out.set(ref.cell, set = new Set());
+      set.add(first);
+    }
+  }
+  return out;
+}
