@@ -13,8 +13,10 @@
  *    *Technometrics* 19, 15–18), so r = ±√(D·p·(1 − h)/h); p = Σhᵢ, the
  *    trace of the hat matrix (common practice, no source).
  *
- * More than {@link DENSE_ROWS} rows are drawn as 2-D counts (Plot's bin
- * transform) rather than one dot per row. Null entries (undefined values,
+ * More than {@link DENSE_ROWS} rows are drawn as 2-D counts on a grid of
+ * equal cells (`_density.ts`) rather than one dot per row; the quantile
+ * plot then finds each row's column from the normal CDF at the column edges
+ * (the plotting positions are increasing), without a quantile per row. Null entries (undefined values,
  * e.g. at leverage 1) are left out.
  *
  * @module
@@ -23,6 +25,17 @@ import * as Plot from "@observablehq/plot";
 import { standardNormal } from "../../kernel/stats/mod.ts";
 import { fitColor, INK } from "./palette.ts";
 import { stackPanels } from "./_svg.ts";
+import {
+  cellEdges,
+  cellOf,
+  countCells,
+  density,
+  DENSITY_GRID,
+  densityDomains,
+  densityRect,
+  max,
+} from "./_density.ts";
+import type { ChartBins } from "./chart_data.ts";
 
 /** The `check` result fields these charts read (RUN-JSON `check`). */
 export interface CheckChartInput {
@@ -51,14 +64,22 @@ function pairs(a: (number | null)[], b: (number | null)[]): Pair[] {
   return out;
 }
 
-function scatter(p: Pair[], color: string): Plot.Markish {
-  if (p.length > DENSE_ROWS) {
-    return Plot.rect(
-      p,
-      Plot.bin({ fill: "count" }, { x: (d: Pair) => d[0], y: (d: Pair) => d[1], thresholds: 40 }),
-    );
-  }
-  return Plot.dot(p, { x: (d: Pair) => d[0], y: (d: Pair) => d[1], r: 2, fill: color });
+/** The points' mark, and for a density the extents the chart's scales must cover. */
+interface Scatter {
+  mark: Plot.Markish;
+  domains: { x: [number, number]; y: [number, number] } | null;
+}
+
+function scatter(p: Pair[], color: string): Scatter {
+  if (p.length > DENSE_ROWS) return dense(density(p.map((d) => d[0]), p.map((d) => d[1])));
+  return {
+    mark: Plot.dot(p, { x: (d: Pair) => d[0], y: (d: Pair) => d[1], r: 2, fill: color }),
+    domains: null,
+  };
+}
+
+function dense(b: ChartBins): Scatter {
+  return { mark: densityRect(b), domains: densityDomains(b) };
 }
 
 function panel(
@@ -67,18 +88,20 @@ function panel(
   x: string,
   y: string,
   marks: Plot.Markish[],
+  points: Scatter,
   extra: Record<string, unknown> = {},
   note: string | null = null,
 ): string {
+  const d = points.domains;
   const svg = Plot.plot({
     document,
     className: "plumb-plot",
     ...SIZE,
     marginLeft: 52,
-    x: { label: x, nice: true },
-    y: { label: y, grid: true, nice: true },
+    x: { label: x, nice: true, ...(d ? { domain: d.x } : {}) },
+    y: { label: y, grid: true, nice: true, ...(d ? { domain: d.y } : {}) },
     color: { range: ["#d9d9d9", "#262626"] },
-    marks,
+    marks: [...marks, points.mark],
     ...extra,
   });
   return stackPanels(document, [svg], SIZE.width, { title, note, label: title });
@@ -94,8 +117,7 @@ function panel(
 export function residualsVsFittedSvg(r: CheckChartInput, document: Document): string {
   return panel(document, `Residuals against fitted, ${r.fit}`, "fitted", "residual", [
     Plot.ruleY([0], { stroke: INK, ariaDescription: "zero residual" }),
-    scatter(pairs(r.fitted, r.residuals), fitColor(r.fit)),
-  ]);
+  ], scatter(pairs(r.fitted, r.residuals), fitColor(r.fit)));
 }
 
 /**
@@ -109,16 +131,41 @@ export function normalQuantileSvg(r: CheckChartInput, document: Document): strin
   const s = r.studentized_internal.filter((v): v is number => v !== null && Number.isFinite(v))
     .sort((a, b) => a - b);
   const n = s.length;
-  const q: Pair[] = s.map((v, i) => [standardNormal.quantile((i + 1 - 0.375) / (n + 0.25)), v]);
-  const ends = q.length ? [Math.min(q[0][0], q[0][1]), Math.max(q[n - 1][0], q[n - 1][1])] : [0, 1];
+  const position = (i: number) => (i + 1 - 0.375) / (n + 0.25);
+  const ends = n
+    ? [standardNormal.quantile(position(0)), standardNormal.quantile(position(n - 1))]
+    : [];
+  const line = n ? [Math.min(ends[0], s[0]), Math.max(ends[1], s[n - 1])] : [0, 1];
+  const points = n > DENSE_ROWS
+    ? quantileDensity(s, ends[0], ends[1], position)
+    : scatter(s.map((v, i): Pair => [standardNormal.quantile(position(i)), v]), fitColor(r.fit));
   return panel(document, `Normal quantiles, ${r.fit}`, "normal quantile", "studentized residual", [
-    Plot.line([[ends[0], ends[0]], [ends[1], ends[1]]], {
+    Plot.line([[line[0], line[0]], [line[1], line[1]]], {
       stroke: INK,
       strokeDasharray: "4,3",
       ariaDescription: "1:1 line",
     }),
-    scatter(q, fitColor(r.fit)),
-  ]);
+  ], points);
+}
+
+/** Counts of the sorted values against their normal quantiles, columns found by the CDF. */
+function quantileDensity(
+  sorted: number[],
+  q0: number,
+  q1: number,
+  position: (i: number) => number,
+): Scatter {
+  const xEdges = cellEdges(q0, q1, DENSITY_GRID.nx);
+  const yEdges = cellEdges(sorted[0], sorted[sorted.length - 1], DENSITY_GRID.ny);
+  const pEdges = xEdges.map((e) => standardNormal.cdf(e));
+  const xc = new Int32Array(sorted.length), yc = new Int32Array(sorted.length);
+  let k = 0;
+  for (let i = 0; i < sorted.length; i++) {
+    while (k < DENSITY_GRID.nx - 1 && position(i) >= pEdges[k + 1]) k++;
+    xc[i] = k;
+    yc[i] = cellOf(sorted[i], yEdges);
+  }
+  return dense(countCells(xc, yc, xEdges, yEdges));
 }
 
 /**
@@ -134,8 +181,7 @@ export function scaleLocationSvg(r: CheckChartInput, document: Document): string
   ): Pair => [f, Math.sqrt(Math.abs(s))]);
   return panel(document, `Scale–location, ${r.fit}`, "fitted", "√|studentized residual|", [
     Plot.ruleY([0], { stroke: INK, strokeOpacity: 0.4 }),
-    scatter(p, fitColor(r.fit)),
-  ]);
+  ], scatter(p, fitColor(r.fit)));
 }
 
 /**
@@ -148,7 +194,7 @@ export function scaleLocationSvg(r: CheckChartInput, document: Document): string
 export function leverageSvg(r: CheckChartInput, document: Document): string {
   const pts = pairs(r.leverage, r.studentized_internal);
   const p = r.leverage.reduce<number>((a, h) => a + (h ?? 0), 0);
-  const hMax = Math.min(0.999, Math.max(0.05, ...pts.map((d) => d[0])) * 1.05);
+  const hMax = Math.min(0.999, Math.max(0.05, max(pts.map((d) => d[0]))) * 1.05);
   const contours: Plot.Markish[] = [];
   for (const d of [0.5, 1]) {
     for (const sign of [1, -1]) {
@@ -165,7 +211,7 @@ export function leverageSvg(r: CheckChartInput, document: Document): string {
       }));
     }
   }
-  const rMax = Math.max(3, ...pts.map((d) => Math.abs(d[1]))) * 1.1;
+  const rMax = Math.max(3, max(pts.map((d) => Math.abs(d[1])))) * 1.1;
   return panel(
     document,
     `Leverage, ${r.fit}`,
@@ -174,8 +220,8 @@ export function leverageSvg(r: CheckChartInput, document: Document): string {
     [
       Plot.ruleY([0], { stroke: INK, strokeOpacity: 0.4 }),
       ...contours,
-      scatter(pts, fitColor(r.fit)),
     ],
+    scatter(pts, fitColor(r.fit)),
     {
       x: { label: "leverage", domain: [0, hMax] },
       y: { label: "studentized residual", grid: true, domain: [-rMax, rMax] },
