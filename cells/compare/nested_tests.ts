@@ -16,7 +16,7 @@
  *
  * @module
  */
-import { householderQR, inColumnSpace } from "../../kernel/linalg/mod.ts";
+import { householderQR, inColumnSpace, type QRFactorization } from "../../kernel/linalg/mod.ts";
 import { fisherF } from "../../kernel/stats/mod.ts";
 import type { Candidate } from "./comparable.ts";
 
@@ -49,30 +49,50 @@ export const NESTING_TOLERANCE = 1e-8;
  */
 export function nestedTests(all: readonly Candidate[]): NestedTest[] {
   const out: NestedTest[] = [];
+  // One factorization per larger fit, shared by every smaller one tested against it.
+  const factors = new Map<Candidate, QRFactorization>();
   for (const s of all) {
     for (const l of all) {
-      if (s === l || !isNestedIn(s, l)) continue;
+      if (s === l || !isNestedIn(s, l, factors)) continue;
       out.push(fTest(s, l));
     }
   }
   return out;
 }
 
-/** Whether the mean space of `s` lies inside that of `l` with fewer parameters. */
-export function isNestedIn(s: Candidate, l: Candidate): boolean {
+/**
+ * Whether the mean space of `s` lies inside that of `l` with fewer parameters.
+ *
+ * @param s The smaller candidate.
+ * @param l The larger candidate.
+ * @param factors A cache of the larger fits' factorizations (optional).
+ * @returns True when nested.
+ */
+export function isNestedIn(
+  s: Candidate,
+  l: Candidate,
+  factors: Map<Candidate, QRFactorization> = new Map(),
+): boolean {
   const fs = s.fit, fl = l.fit;
   if (fs.method !== "linear" || fl.method !== "linear") return false;
   if (fs.parameters.length >= fl.parameters.length) return false;
   if (!sameValues(fs.y, fl.y)) return false;
-  const n = fl.y.length, p = fl.design.length;
-  const a = new Float64Array(n * p);
-  fl.design.forEach((c, j) => a.set(unit(c), j * n));
-  const qr = householderQR(a, n, p);
+  const n = fl.y.length;
+  let qr = factors.get(l);
+  if (qr === undefined) factors.set(l, qr = unitDesignQR(fl.design, n));
   const within = (v: Float64Array) => inColumnSpace(qr, v, NESTING_TOLERANCE);
   if (!fs.design.every(within)) return false;
   const gap = new Float64Array(n);
   for (let i = 0; i < n; i++) gap[i] = (fs.offset?.[i] ?? 0) - (fl.offset?.[i] ?? 0);
   return within(gap);
+}
+
+/** Householder QR of a design with unit-length columns. */
+function unitDesignQR(design: readonly Float64Array[], n: number): QRFactorization {
+  const p = design.length;
+  const a = new Float64Array(n * p);
+  design.forEach((c, j) => a.set(unit(c), j * n));
+  return householderQR(a, n, p);
 }
 
 function fTest(s: Candidate, l: Candidate): NestedTest {
