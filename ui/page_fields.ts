@@ -11,8 +11,15 @@
  * Keep this list in step with the views: a view that starts reading one of
  * these fields must take it off the list.
  *
+ * A check large enough that all four residual charts are densities (more
+ * than 5,000 rows) goes further ({@link pageExtras}): its charts are counted
+ * once on the server (`checkDensity`, ui/charts) and the page gets the
+ * counted cells (`density`, about 40 kB) instead of the five per-row arrays
+ * the charts read (about 800 kB).
+ *
  * @module
  */
+import { type CheckChartInput, checkDensity } from "./charts/residual_charts.ts";
 
 /** Per kind, the result fields that no view on the page reads. */
 export const PAGE_OMITS: Readonly<Record<string, readonly string[]>> = {
@@ -38,4 +45,32 @@ export const PAGE_OMITS: Readonly<Record<string, readonly string[]>> = {
  */
 export function pageOmits(kind: string): readonly string[] {
   return Object.hasOwn(PAGE_OMITS, kind) ? PAGE_OMITS[kind] : [];
+}
+
+/** The per-row arrays a check's residual charts read, replaced by `density` on the page. */
+const CHART_ARRAYS = ["fitted", "residuals", "studentized_internal", "leverage", "cooks_distance"];
+
+/**
+ * Fields the page's copy of a result gains, and the fields they stand in for.
+ *
+ * @param kind The cell's kind.
+ * @param result The complete result.
+ * @returns `add` (new fields) and `omit` (fields now left out), or null for none.
+ * @example
+ * ```ts
+ * import { pageExtras } from "./page_fields.ts";
+ * if (pageExtras("fit", {}) !== null) throw new Error("fits gain nothing");
+ * ```
+ */
+export function pageExtras(
+  kind: string,
+  result: unknown,
+): { add: Record<string, unknown>; omit: string[] } | null {
+  if (kind !== "check" || result === null || typeof result !== "object") return null;
+  const r = result as CheckChartInput;
+  if (!CHART_ARRAYS.every((f) => Array.isArray((r as unknown as Record<string, unknown>)[f]))) {
+    return null;
+  }
+  const density = checkDensity(r);
+  return density === null ? null : { add: { density }, omit: CHART_ARRAYS };
 }

@@ -12,7 +12,12 @@ import type { VNode } from "preact";
 import type { ViewProps } from "../types.ts";
 import type { CheckResult } from "./result.ts";
 import { fmt } from "./_format.ts";
-import { chartDocument, checkChartsSvg, SvgFigure } from "../../ui/charts/mod.ts";
+import {
+  chartDocument,
+  type CheckChartInput,
+  checkChartsSvg,
+  SvgFigure,
+} from "../../ui/charts/mod.ts";
 
 interface TestRow {
   name: string;
@@ -90,6 +95,8 @@ function testRows(r: CheckResult): TestRow[] {
  * ```
  */
 export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
+  // The live page's copy of a large check has its charts counted (`density`) instead of the arrays.
+  const charts = r as CheckResult & CheckChartInput;
   return (
     <section class="plumb-check" aria-label={`Check ${name}`}>
       {r.findings.length === 0
@@ -108,8 +115,8 @@ export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
           </ul>
         )}
       <div class="plumb-check-charts">
-        {r.fitted.length > 0 &&
-          checkChartsSvg(r, chartDocument()).map((svg, i) => <SvgFigure key={i} svg={svg} />)}
+        {(charts.density !== undefined || (r.fitted?.length ?? 0) > 0) &&
+          checkChartsSvg(charts, chartDocument()).map((svg, i) => <SvgFigure key={i} svg={svg} />)}
       </div>
       <table class="plumb-check-tests">
         <thead>

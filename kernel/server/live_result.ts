@@ -1,7 +1,8 @@
 /**
  * A cell's result as the live channel carries it: the kind's summary less the
  * per-row fields that no view on the page reads (ui/page_fields.ts), unless
- * an inline value of the document names them.
+ * an inline value of the document names them; a large check's charts come
+ * counted (`density`) instead of as five per-row arrays.
  *
  * ```
  *  summary (RUN-JSON result, complete) ──liveResult──▶ { result: shallow copy
@@ -17,7 +18,7 @@
  * @module
  */
 import { findInlineRefs, type ParsedDocument } from "../document/mod.ts";
-import { pageOmits } from "../../ui/page_fields.ts";
+import { pageExtras, pageOmits } from "../../ui/page_fields.ts";
 
 /** A result ready for the page. */
 export interface LiveResult {
@@ -52,10 +53,13 @@ export function liveResult(
   if (result === null || typeof result !== "object" || Array.isArray(result)) {
     return { result, omitted: [] };
   }
-  const omit = pageOmits(kind).filter((f) => Object.hasOwn(result, f) && !wanted.has(f));
-  if (omit.length === 0) return { result, omitted: [] };
+  const extra = pageExtras(kind, result);
+  const omit = [...pageOmits(kind), ...(extra?.omit ?? [])]
+    .filter((f, i, all) => all.indexOf(f) === i && Object.hasOwn(result, f) && !wanted.has(f));
+  if (omit.length === 0 && extra === null) return { result, omitted: [] };
   const copy: Record<string, unknown> = {};
   for (const [k, v] of Object.entries(result)) if (!omit.includes(k)) copy[k] = v;
+  Object.assign(copy, extra?.add ?? {});
   return { result: copy, omitted: omit };
 }
 

@@ -39,6 +39,8 @@ export { ChartFigure, type ChartFigureProps, SvgFigure } from "./chart_figure.ts
 export {
   type CheckChartInput,
   checkChartsSvg,
+  type CheckDensity,
+  checkDensity,
   DENSE_ROWS,
   leverageSvg,
   normalQuantileSvg,

@@ -46,6 +46,26 @@ export interface CheckChartInput {
   studentized_internal: (number | null)[];
   leverage: (number | null)[];
   cooks_distance: (number | null)[];
+  /**
+   * The four charts already counted ({@link checkDensity}): the live page's
+   * copy of a large check carries this instead of the per-row arrays.
+   */
+  density?: CheckDensity;
+}
+
+/** The four residual charts of a large check, counted into cells. */
+export interface CheckDensity {
+  residuals: ChartBins;
+  quantiles: ChartBins;
+  scale: ChartBins;
+  leverage: ChartBins;
+  /** Ends of the quantile plot's 1:1 line. */
+  line: [number, number];
+  /** Σhᵢ, the trace of the hat matrix (p), for Cook's distance contours. */
+  trace: number;
+  /** Largest leverage and largest |studentized residual| drawn. */
+  hMax: number;
+  rMax: number;
 }
 
 /** Rows above which the residual charts draw counts instead of dots. */
@@ -115,9 +135,16 @@ function panel(
  * @returns SVG markup.
  */
 export function residualsVsFittedSvg(r: CheckChartInput, document: Document): string {
-  return panel(document, `Residuals against fitted, ${r.fit}`, "fitted", "residual", [
-    Plot.ruleY([0], { stroke: INK, ariaDescription: "zero residual" }),
-  ], scatter(pairs(r.fitted, r.residuals), fitColor(r.fit)));
+  return panel(
+    document,
+    `Residuals against fitted, ${r.fit}`,
+    "fitted",
+    "residual",
+    [
+      Plot.ruleY([0], { stroke: INK, ariaDescription: "zero residual" }),
+    ],
+    r.density ? dense(r.density.residuals) : scatter(pairs(r.fitted, r.residuals), fitColor(r.fit)),
+  );
 }
 
 /**
@@ -128,17 +155,13 @@ export function residualsVsFittedSvg(r: CheckChartInput, document: Document): st
  * @returns SVG markup.
  */
 export function normalQuantileSvg(r: CheckChartInput, document: Document): string {
-  const s = r.studentized_internal.filter((v): v is number => v !== null && Number.isFinite(v))
-    .sort((a, b) => a - b);
-  const n = s.length;
-  const position = (i: number) => (i + 1 - 0.375) / (n + 0.25);
-  const ends = n
-    ? [standardNormal.quantile(position(0)), standardNormal.quantile(position(n - 1))]
-    : [];
-  const line = n ? [Math.min(ends[0], s[0]), Math.max(ends[1], s[n - 1])] : [0, 1];
-  const points = n > DENSE_ROWS
-    ? quantileDensity(s, ends[0], ends[1], position)
-    : scatter(s.map((v, i): Pair => [standardNormal.quantile(position(i)), v]), fitColor(r.fit));
+  const q = r.density ? null : quantileParts(r);
+  const line = r.density?.line ?? q!.line;
+  const points = r.density
+    ? dense(r.density.quantiles)
+    : q!.bins
+    ? dense(q!.bins)
+    : scatter(q!.pairs(), fitColor(r.fit));
   return panel(document, `Normal quantiles, ${r.fit}`, "normal quantile", "studentized residual", [
     Plot.line([[line[0], line[0]], [line[1], line[1]]], {
       stroke: INK,
@@ -148,13 +171,32 @@ export function normalQuantileSvg(r: CheckChartInput, document: Document): strin
   ], points);
 }
 
+/** The quantile plot's 1:1 line, and its counted cells above DENSE_ROWS (else its points). */
+function quantileParts(r: CheckChartInput) {
+  const s = r.studentized_internal.filter((v): v is number => v !== null && Number.isFinite(v))
+    .sort((a, b) => a - b);
+  const n = s.length;
+  const position = (i: number) => (i + 1 - 0.375) / (n + 0.25);
+  const ends = n
+    ? [standardNormal.quantile(position(0)), standardNormal.quantile(position(n - 1))]
+    : [];
+  const line: [number, number] = n
+    ? [Math.min(ends[0], s[0]), Math.max(ends[1], s[n - 1])]
+    : [0, 1];
+  return {
+    line,
+    bins: n > DENSE_ROWS ? quantileDensity(s, ends[0], ends[1], position) : null,
+    pairs: () => s.map((v, i): Pair => [standardNormal.quantile(position(i)), v]),
+  };
+}
+
 /** Counts of the sorted values against their normal quantiles, columns found by the CDF. */
 function quantileDensity(
   sorted: number[],
   q0: number,
   q1: number,
   position: (i: number) => number,
-): Scatter {
+): ChartBins {
   const xEdges = cellEdges(q0, q1, DENSITY_GRID.nx);
   const yEdges = cellEdges(sorted[0], sorted[sorted.length - 1], DENSITY_GRID.ny);
   const pEdges = xEdges.map((e) => standardNormal.cdf(e));
@@ -165,7 +207,7 @@ function quantileDensity(
     xc[i] = k;
     yc[i] = cellOf(sorted[i], yEdges);
   }
-  return dense(countCells(xc, yc, xEdges, yEdges));
+  return countCells(xc, yc, xEdges, yEdges);
 }
 
 /**
@@ -176,12 +218,14 @@ function quantileDensity(
  * @returns SVG markup.
  */
 export function scaleLocationSvg(r: CheckChartInput, document: Document): string {
-  const p = pairs(r.fitted, r.studentized_internal).map((
-    [f, s],
-  ): Pair => [f, Math.sqrt(Math.abs(s))]);
+  const points = r.density ? dense(r.density.scale) : scatter(scalePairs(r), fitColor(r.fit));
   return panel(document, `Scale–location, ${r.fit}`, "fitted", "√|studentized residual|", [
     Plot.ruleY([0], { stroke: INK, strokeOpacity: 0.4 }),
-  ], scatter(p, fitColor(r.fit)));
+  ], points);
+}
+
+function scalePairs(r: CheckChartInput): Pair[] {
+  return pairs(r.fitted, r.studentized_internal).map(([f, s]): Pair => [f, Math.sqrt(Math.abs(s))]);
 }
 
 /**
@@ -192,9 +236,10 @@ export function scaleLocationSvg(r: CheckChartInput, document: Document): string
  * @returns SVG markup.
  */
 export function leverageSvg(r: CheckChartInput, document: Document): string {
-  const pts = pairs(r.leverage, r.studentized_internal);
-  const p = r.leverage.reduce<number>((a, h) => a + (h ?? 0), 0);
-  const hMax = Math.min(0.999, Math.max(0.05, max(pts.map((d) => d[0]))) * 1.05);
+  const d0 = r.density;
+  const pts = d0 ? [] : pairs(r.leverage, r.studentized_internal);
+  const p = d0?.trace ?? r.leverage.reduce<number>((a, h) => a + (h ?? 0), 0);
+  const hMax = Math.min(0.999, Math.max(0.05, d0?.hMax ?? max(pts.map((d) => d[0]))) * 1.05);
   const contours: Plot.Markish[] = [];
   for (const d of [0.5, 1]) {
     for (const sign of [1, -1]) {
@@ -211,7 +256,7 @@ export function leverageSvg(r: CheckChartInput, document: Document): string {
       }));
     }
   }
-  const rMax = Math.max(3, max(pts.map((d) => Math.abs(d[1])))) * 1.1;
+  const rMax = Math.max(3, d0?.rMax ?? max(pts.map((d) => Math.abs(d[1])))) * 1.1;
   return panel(
     document,
     `Leverage, ${r.fit}`,
@@ -221,7 +266,7 @@ export function leverageSvg(r: CheckChartInput, document: Document): string {
       Plot.ruleY([0], { stroke: INK, strokeOpacity: 0.4 }),
       ...contours,
     ],
-    scatter(pts, fitColor(r.fit)),
+    d0 ? dense(d0.leverage) : scatter(pts, fitColor(r.fit)),
     {
       x: { label: "leverage", domain: [0, hMax] },
       y: { label: "studentized residual", grid: true, domain: [-rMax, rMax] },
@@ -245,4 +290,41 @@ export function checkChartsSvg(r: CheckChartInput, document: Document): string[]
     scaleLocationSvg(r, document),
     leverageSvg(r, document),
   ];
+}
+
+/**
+ * Counts the four charts' points once, for a check large enough that every
+ * chart is drawn as a density (each with more than {@link DENSE_ROWS} points).
+ * The server sends this to the page instead of five arrays of n values.
+ *
+ * @param r The check result fields.
+ * @returns The counted charts, or null when some chart would draw dots.
+ * @example
+ * ```ts
+ * import { checkDensity } from "./residual_charts.ts";
+ * const few = { fit: "f", fitted: [1, 2], residuals: [0, 0], studentized_internal: [0, 0],
+ *   leverage: [0.5, 0.5], cooks_distance: [0, 0] };
+ * if (checkDensity(few) !== null) throw new Error("two rows draw dots");
+ * ```
+ */
+export function checkDensity(r: CheckChartInput): CheckDensity | null {
+  const fitted = pairs(r.fitted, r.residuals);
+  const scale = scalePairs(r);
+  const lev = pairs(r.leverage, r.studentized_internal);
+  const q = quantileParts(r);
+  if (fitted.length <= DENSE_ROWS || scale.length <= DENSE_ROWS || lev.length <= DENSE_ROWS) {
+    return null;
+  }
+  if (q.bins === null) return null;
+  const count = (p: Pair[]) => density(p.map((d) => d[0]), p.map((d) => d[1]));
+  return {
+    residuals: count(fitted),
+    quantiles: q.bins,
+    scale: count(scale),
+    leverage: count(lev),
+    line: q.line,
+    trace: r.leverage.reduce<number>((a, h) => a + (h ?? 0), 0),
+    hMax: max(lev.map((d) => d[0])),
+    rMax: max(lev.map((d) => Math.abs(d[1]))),
+  };
 }

@@ -1,5 +1,5 @@
 import { equal, ok } from "node:assert/strict";
-import { checkChartsSvg } from "./residual_charts.ts";
+import { checkChartsSvg, checkDensity } from "./residual_charts.ts";
 import { chartDocument } from "./svg_document.ts";
 import { assertSvgSnapshot } from "./_snapshot.ts";
 
@@ -39,4 +39,26 @@ Deno.test("checkChartsSvg() skips null values (leverage 1)", () => {
   d.studentized_internal[3] = null as unknown as number;
   const svgs = checkChartsSvg(d, chartDocument());
   ok(svgs.every((s) => s.startsWith("<svg")));
+});
+
+Deno.test("checkChartsSvg() draws the same charts from checkDensity() as from the per-row arrays", () => {
+  const d = seeded(6000);
+  const density = checkDensity(d);
+  ok(density !== null);
+  const counted = {
+    fit: d.fit,
+    fitted: [],
+    residuals: [],
+    studentized_internal: [],
+    leverage: [],
+    cooks_distance: [],
+    density,
+  };
+  const doc = chartDocument();
+  const a = checkChartsSvg(d, doc), b = checkChartsSvg(counted, doc);
+  // Plot numbers its clip paths with a running counter; the drawing is otherwise the same.
+  const ids = (svg: string) => svg.replaceAll(/plot-clip-\d+/g, "plot-clip");
+  for (let i = 0; i < 4; i++) equal(ids(b[i]), ids(a[i]));
+  ok(a[0].includes("rows counted into cells"));
+  equal(checkDensity(seeded(40)), null);
 });
