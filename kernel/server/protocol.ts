@@ -33,7 +33,9 @@
  * `cell` message leaves out `result` when this connection was already sent
  * that same result (reused from the cache): the page keeps the one it has.
  * Results leave out the per-row fields no view reads (ui/page_fields.ts),
- * named in `omitted`, unless an inline value of the document names them.
+ * named in `omitted`, unless an inline value of the document names them; a
+ * large check's result carries its residual charts counted (`density`)
+ * instead of the five per-row arrays they read.
  *
  * @module
  */
