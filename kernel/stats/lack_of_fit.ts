@@ -50,9 +50,12 @@ export function lackOfFit(
   weights: Float64Array | null,
 ): LackOfFit | null {
   const n = y.length;
-  const groups = new Map<string, number[]>();
+  // One predictor: the number itself is the key (Map's SameValueZero groups exactly as String()
+  // does: 0 with −0, NaN with NaN), without building a string per row.
+  const groups = new Map<number | string, number[]>();
+  const one = columns.length === 1 ? columns[0] : null;
   for (let i = 0; i < n; i++) {
-    const key = columns.map((c) => String(c[i])).join("\u0000");
+    const key = one ? one[i] : columns.map((c) => String(c[i])).join("\u0000");
     const g = groups.get(key);
     if (g) g.push(i);
     else groups.set(key, [i]);
