@@ -57,10 +57,10 @@ function pressRmse(c: Candidate): LooResult {
   const { fit, scale } = c;
   const hat = hatValues(fit.design, fit.weights);
   const base = { method: "press" as const, folds: null };
-  const one = Array.from(hat).flatMap((
-    h,
-    i,
-  ) => (1 - h < LEVERAGE_ONE_TOLERANCE ? [fit.rows[i]] : []));
+  const one: number[] = [];
+  for (let i = 0; i < hat.length; i++) {
+    if (1 - hat[i] < LEVERAGE_ONE_TOLERANCE) one.push(fit.rows[i]);
+  }
   if (one.length > 0) {
     return {
       ...base,
