@@ -16,6 +16,9 @@ export const REFERENCE_DIR = new URL("../../../shared/reference/", import.meta.u
 
 const MAIN = new URL("../../kernel/cli/main.ts", import.meta.url).pathname;
 
+/** Suites that already said they skip: one line each. */
+const announced = new Set<string>();
+
 /**
  * Whether the reference data are present. When absent, prints one line and
  * returns false, or throws when PLUMB_REQUIRE_REFERENCE=1.
@@ -33,7 +36,8 @@ export function referenceAvailable(suite: string): boolean {
     if (Deno.env.get("PLUMB_REQUIRE_REFERENCE") === "1") {
       throw new Error(`${msg} and PLUMB_REQUIRE_REFERENCE=1: suite "${suite}" cannot run`);
     }
-    console.log(`skipping ${suite}: ${msg}`);
+    if (!announced.has(suite)) console.log(`skipping ${suite}: ${msg}`);
+    announced.add(suite);
     return false;
   }
 }
