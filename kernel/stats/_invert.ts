@@ -11,6 +11,7 @@
  *
  * @module
  */
+import { checkProbability, type Distribution } from "./distribution.ts";
 
 /** What the inverter needs of one tail. */
 export interface Tail {
@@ -74,4 +75,49 @@ function bracket(g: (u: number) => number, u0: number): [number, number] {
     step *= 2;
   }
   throw new RangeError(`No quantile bracket found from ${u0}`);
+}
+
+/** The parts of a distribution on (0, ∞) from which quantiles are found. */
+export interface PositiveParts {
+  cdf(x: number): number;
+  upper(x: number): number;
+  density(x: number): number;
+  /** A starting point for the x whose upper-tail probability is `q`. */
+  guess(q: number): number;
+}
+
+/**
+ * A distribution on (0, ∞) with quantiles by {@link invertTail}: each
+ * quantile inverts the smaller tail, so probabilities near 0 and near 1 keep
+ * their relative accuracy (shared by χ² and F).
+ *
+ * @param d Tails, density and a starting guess.
+ * @returns The distribution.
+ */
+export function positiveDistribution(d: PositiveParts): Distribution {
+  const { cdf, upper, density } = d;
+  const solve = (q: number, useUpper: boolean) =>
+    invertTail({
+      tail: useUpper ? upper : cdf,
+      slope: useUpper ? (x) => -density(x) : density,
+      positive: true,
+      guess: d.guess(useUpper ? q : 1 - q),
+    }, q);
+  return {
+    cdf,
+    upper,
+    density,
+    quantile: (p) => {
+      checkProbability(p, "Probability");
+      if (p === 0) return 0;
+      if (p === 1) return Infinity;
+      return p <= 0.5 ? solve(p, false) : solve(1 - p, true);
+    },
+    upperQuantile: (q) => {
+      checkProbability(q, "Upper-tail probability");
+      if (q === 0) return Infinity;
+      if (q === 1) return 0;
+      return q <= 0.5 ? solve(q, true) : solve(1 - q, false);
+    },
+  };
 }

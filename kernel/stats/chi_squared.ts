@@ -10,8 +10,8 @@
  * @module
  */
 import { logGammaFront, regularizedGamma } from "./incomplete_gamma.ts";
-import { checkDf, checkProbability, type Distribution } from "./distribution.ts";
-import { invertTail } from "./_invert.ts";
+import { checkDf, type Distribution } from "./distribution.ts";
+import { positiveDistribution } from "./_invert.ts";
 import { standardNormal } from "./normal.ts";
 
 /**
@@ -49,28 +49,5 @@ export function chiSquared(k: number): Distribution {
     const x = k * Math.pow(1 - c + z * Math.sqrt(c), 3);
     return x > 0 ? x : Math.max(k * 1e-3, 1e-300);
   };
-  const solve = (q: number, useUpper: boolean) =>
-    invertTail({
-      tail: useUpper ? upper : cdf,
-      slope: useUpper ? (x) => -density(x) : density,
-      positive: true,
-      guess: guess(useUpper ? q : 1 - q),
-    }, q);
-  return {
-    cdf,
-    upper,
-    density,
-    quantile: (p) => {
-      checkProbability(p, "Probability");
-      if (p === 0) return 0;
-      if (p === 1) return Infinity;
-      return p <= 0.5 ? solve(p, false) : solve(1 - p, true);
-    },
-    upperQuantile: (q) => {
-      checkProbability(q, "Upper-tail probability");
-      if (q === 0) return Infinity;
-      if (q === 1) return 0;
-      return q <= 0.5 ? solve(q, true) : solve(1 - q, false);
-    },
-  };
+  return positiveDistribution({ cdf, upper, density, guess: guess });
 }

@@ -11,8 +11,8 @@
  * @module
  */
 import { logBetaFront, regularizedBeta } from "./incomplete_beta.ts";
-import { checkDf, checkProbability, type Distribution } from "./distribution.ts";
-import { invertTail } from "./_invert.ts";
+import { checkDf, type Distribution } from "./distribution.ts";
+import { positiveDistribution } from "./_invert.ts";
 
 /**
  * The F distribution.
@@ -59,28 +59,5 @@ export function fisherF(d1: number, d2: number): Distribution {
     const [x, y] = split(f);
     return Math.exp(logBetaFront(y, x, d1 / 2, d2 / 2)) / f;
   };
-  const solve = (q: number, useUpper: boolean) =>
-    invertTail({
-      tail: useUpper ? upper : cdf,
-      slope: useUpper ? (f) => -density(f) : density,
-      positive: true,
-      guess: 1,
-    }, q);
-  return {
-    cdf,
-    upper,
-    density,
-    quantile: (p) => {
-      checkProbability(p, "Probability");
-      if (p === 0) return 0;
-      if (p === 1) return Infinity;
-      return p <= 0.5 ? solve(p, false) : solve(1 - p, true);
-    },
-    upperQuantile: (q) => {
-      checkProbability(q, "Upper-tail probability");
-      if (q === 0) return Infinity;
-      if (q === 1) return 0;
-      return q <= 0.5 ? solve(q, true) : solve(1 - q, false);
-    },
-  };
+  return positiveDistribution({ cdf, upper, density, guess: () => 1 });
 }
