@@ -6,6 +6,7 @@
  * @module
  */
 import type { ChartBins } from "../../ui/charts/chart_data.ts";
+import { countCells } from "../../ui/charts/count_cells.ts";
 
 /** Columns × rows of the density grid: about 4 px × 5 px cells on a 640 × 400 chart. */
 export const BIN_GRID = { nx: 80, ny: 50 } as const;
@@ -64,21 +65,12 @@ export function binPoints(
   logX: boolean,
   logY: boolean,
 ): ChartBins {
-  const nx = xEdges.length - 1, ny = yEdges.length - 1;
-  const counts = new Int32Array(nx * ny);
+  const xCell = new Int32Array(x.length), yCell = new Int32Array(x.length);
   for (let i = 0; i < x.length; i++) {
-    counts[cellIndex(x[i], xEdges, logX) + nx * cellIndex(y[i], yEdges, logY)]++;
+    xCell[i] = cellIndex(x[i], xEdges, logX);
+    yCell[i] = cellIndex(y[i], yEdges, logY);
   }
-  const cells: [number, number, number][] = [];
-  let max = 0;
-  for (let j = 0; j < ny; j++) {
-    for (let i = 0; i < nx; i++) {
-      const c = counts[i + nx * j];
-      if (c > 0) cells.push([i, j, c]);
-      if (c > max) max = c;
-    }
-  }
-  return { x: xEdges, y: yEdges, cells, max };
+  return countCells(xCell, yCell, xEdges, yEdges);
 }
 
 /**

@@ -11,6 +11,7 @@
  */
 import * as Plot from "@observablehq/plot";
 import type { ChartBins } from "./chart_data.ts";
+import { countCells } from "./count_cells.ts";
 
 /** Cells across and down a residual chart (about 7 px × 6 px on 320 × 260). */
 export const DENSITY_GRID = { nx: 40, ny: 32 } as const;
@@ -39,42 +40,6 @@ export function cellOf(v: number, edges: readonly number[]): number {
   const n = edges.length - 1;
   const t = (v - edges[0]) / (edges[n] - edges[0]);
   return Math.min(n - 1, Math.max(0, Math.floor(t * n)));
-}
-
-/**
- * Counts points into cells given each point's column and row.
- *
- * @param xCell Column of each point.
- * @param yCell Row of each point (same length).
- * @param xEdges Column edges.
- * @param yEdges Row edges.
- * @returns The non-empty cells and the largest count.
- * @example
- * ```ts
- * import { countCells } from "./_density.ts";
- * const b = countCells([0, 0, 1], [0, 0, 1], [0, 1, 2], [0, 1, 2]);
- * if (JSON.stringify(b.cells) !== "[[0,0,2],[1,1,1]]" || b.max !== 2) throw new Error("counts");
- * ```
- */
-export function countCells(
-  xCell: ArrayLike<number>,
-  yCell: ArrayLike<number>,
-  xEdges: number[],
-  yEdges: number[],
-): ChartBins {
-  const nx = xEdges.length - 1, ny = yEdges.length - 1;
-  const counts = new Int32Array(nx * ny);
-  for (let i = 0; i < xCell.length; i++) counts[xCell[i] + nx * yCell[i]]++;
-  const cells: [number, number, number][] = [];
-  let max = 0;
-  for (let j = 0; j < ny; j++) {
-    for (let i = 0; i < nx; i++) {
-      const c = counts[i + nx * j];
-      if (c > 0) cells.push([i, j, c]);
-      if (c > max) max = c;
-    }
-  }
-  return { x: xEdges, y: yEdges, cells, max };
 }
 
 /**
