@@ -28,13 +28,13 @@ import { stackPanels } from "./_svg.ts";
 import {
   cellEdges,
   cellOf,
-  countCells,
   density,
   DENSITY_GRID,
   densityDomains,
   densityRect,
   max,
 } from "./_density.ts";
+import { countCells } from "./count_cells.ts";
 import type { ChartBins } from "./chart_data.ts";
 
 /** The `check` result fields these charts read (RUN-JSON `check`). */
