@@ -1,13 +1,49 @@
 /**
- * The page's WebSocket to `/live`: parses each message and hands it to the
- * store in arrival order; reconnects with a growing pause (0.25 s doubling
+ * The page's WebSocket to `/live`: parses each message and queues it; the
+ * queue is applied to the store in arrival order once per animation frame,
+ * in one signal batch, so a burst of messages (a run's queued, computing and
+ * current states) costs one render, not one per message. Reconnects with a growing pause (0.25 s doubling
  * to 4 s) when the connection drops, since the server sends the whole
  * document again on connect.
  *
  * @module
  */
 import type { ServerMessage } from "../kernel/server/protocol.ts";
+import { batch } from "@preact/signals";
 import type { LiveStore } from "./store.ts";
+
+/** Longest wait for a frame (a hidden tab gets none): then the queue is applied anyway. */
+const FRAME_FALLBACK_MS = 50;
+
+/**
+ * A queue of messages applied together once per frame.
+ *
+ * @param store The page's store.
+ * @returns `push`, which queues one message and asks for a frame.
+ */
+function frameQueue(store: LiveStore): { push(msg: ServerMessage): void } {
+  let queue: ServerMessage[] = [];
+  let frame: number | null = null;
+  let timer: ReturnType<typeof setTimeout> | null = null;
+  const flush = () => {
+    if (frame !== null) cancelAnimationFrame(frame);
+    if (timer !== null) clearTimeout(timer);
+    frame = timer = null;
+    const msgs = queue;
+    queue = [];
+    batch(() => {
+      for (const m of msgs) store.apply(m);
+    });
+  };
+  return {
+    push(msg) {
+      queue.push(msg);
+      if (frame !== null) return;
+      frame = requestAnimationFrame(flush);
+      timer = setTimeout(flush, FRAME_FALLBACK_MS);
+    },
+  };
+}
 
 /**
  * Connects the store to the server.
@@ -22,6 +58,7 @@ export function connectLive(store: LiveStore, url?: string): () => void {
   let pause = 250;
   let closed = false;
   let ws: WebSocket | null = null;
+  const queue = frameQueue(store);
   const open = () => {
     store.connection.value = "connecting";
     ws = new WebSocket(target);
@@ -37,7 +74,7 @@ export function connectLive(store: LiveStore, url?: string): () => void {
         console.warn("Plumb: a live message was not JSON");
         return;
       }
-      store.apply(msg);
+      queue.push(msg);
     };
     ws.onclose = () => {
       if (closed) return;

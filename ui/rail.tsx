@@ -7,6 +7,7 @@
  * @module
  */
 import type { VNode } from "preact";
+import { memo } from "preact/compat";
 import type { DocumentMessage } from "../kernel/server/protocol.ts";
 import { formatValue } from "./inline_value.ts";
 import { headingsOf } from "./markdown.ts";
@@ -92,36 +93,52 @@ function Ledger(props: { cells: LiveCell[] }): VNode {
   );
 }
 
-function Outline(props: { doc: DocumentMessage; store: LiveStore }): VNode {
-  const items: VNode[] = [];
-  for (const b of props.doc.blocks) {
-    if (b.type === "prose") {
-      for (const hd of headingsOf(b.text, b.line)) {
-        items.push(
-          <li key={hd.id} class={`pl-outline-h pl-outline-h${hd.level}`}>
-            <a href={`#${hd.id}`}>{hd.text}</a>
-          </li>,
-        );
-      }
-    } else {
-      const c = props.store.cell(b.name, b.kind).value;
-      items.push(
-        <li key={`c-${b.name}`} class="pl-outline-cell" data-outline={b.name}>
-          <StateMark state={c.state} word={false} />{" "}
-          <a href={`#cell-${b.name}`}>
-            <span class="pl-muted">{b.kind}</span> {b.name}
-          </a>
-        </li>,
-      );
-    }
-  }
+/** One cell in the outline: reads only its own cell's signal. */
+function OutlineCell(props: { name: string; kind: string; store: LiveStore }): VNode {
+  const c = props.store.cell(props.name, props.kind).value;
   return (
-    <nav class="pl-rail-part" aria-label="Outline">
-      <h2>Outline</h2>
-      <ul class="pl-outline">{items}</ul>
-    </nav>
+    <li class="pl-outline-cell" data-outline={props.name}>
+      <StateMark state={c.state} word={false} />{" "}
+      <a href={`#cell-${props.name}`}>
+        <span class="pl-muted">{props.kind}</span> {props.name}
+      </a>
+    </li>
   );
 }
+
+interface OutlineProps {
+  blocks: DocumentMessage["blocks"];
+  store: LiveStore;
+}
+
+/** Redrawn only for new blocks (the headings are not re-parsed for a cell's state). */
+const Outline = memo(
+  (props: OutlineProps): VNode => {
+    const items: VNode[] = [];
+    for (const b of props.blocks) {
+      if (b.type === "prose") {
+        for (const hd of headingsOf(b.text, b.line)) {
+          items.push(
+            <li key={hd.id} class={`pl-outline-h pl-outline-h${hd.level}`}>
+              <a href={`#${hd.id}`}>{hd.text}</a>
+            </li>,
+          );
+        }
+      } else {
+        items.push(
+          <OutlineCell key={`c-${b.name}`} name={b.name} kind={b.kind} store={props.store} />,
+        );
+      }
+    }
+    return (
+      <nav class="pl-rail-part" aria-label="Outline">
+        <h2>Outline</h2>
+        <ul class="pl-outline">{items}</ul>
+      </nav>
+    );
+  },
+  (a: OutlineProps, b: OutlineProps) => a.blocks === b.blocks && a.store === b.store,
+);
 
 function Failures(props: { cells: LiveCell[] }): VNode | null {
   const bad = props.cells.filter((c) => c.state === "failed");
@@ -175,7 +192,7 @@ export function Rail(props: {
     <aside class="pl-rail">
       <Ledger cells={cells} />
       <Failures cells={cells} />
-      <Outline doc={props.doc} store={props.store} />
+      <Outline blocks={props.doc.blocks} store={props.store} />
       <RemovedList removed={props.removed} onUndo={props.onUndo} />
     </aside>
   );

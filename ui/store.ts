@@ -164,7 +164,11 @@ export class LiveStore {
         if (s.value.kind !== b.kind) s.value = { ...blank(b.name, b.kind, this.#clock()) };
       }
       for (const name of [...this.#cells.keys()]) if (!names.has(name)) this.#cells.delete(name);
-      this.doc.value = msg;
+      // Data-only change (same text): keep the blocks array, so prose and blocks are not redrawn.
+      const old = this.doc.value;
+      this.doc.value = old !== null && old.source === msg.source && old.path === msg.path
+        ? { ...msg, blocks: old.blocks }
+        : msg;
     });
     return true;
   }

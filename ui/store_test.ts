@@ -1,0 +1,31 @@
+/**
+ * LiveStore: a `document` message for a data-only change (same text) keeps
+ * the blocks array, so prose and the outline are not redrawn.
+ *
+ * @module
+ */
+import { equal, notEqual } from "node:assert/strict";
+import type { DocumentMessage } from "../kernel/server/protocol.ts";
+import { LiveStore } from "./store.ts";
+
+const doc = (source: string, rows: number): DocumentMessage => ({
+  type: "document",
+  version: source === "a" ? "v1" : "v2",
+  path: "a.md",
+  title: "A",
+  source,
+  blocks: [{ type: "prose", line: 1, text: source }],
+  data: [{ path: "d.csv", rows, bytes: 9, changed: "2026-01-01T00:00:00Z" }],
+});
+
+Deno.test("LiveStore.apply keeps the blocks of a document whose text is unchanged", () => {
+  const s = new LiveStore(() => 0);
+  s.apply(doc("a", 3));
+  const blocks = s.doc.value!.blocks;
+  s.apply(doc("a", 4));
+  equal(s.doc.value!.blocks, blocks);
+  equal(s.doc.value!.data[0].rows, 4);
+  s.apply(doc("b", 4));
+  notEqual(s.doc.value!.blocks, blocks);
+  equal(s.doc.value!.version, "v2");
+});
