@@ -3,8 +3,8 @@
  *
  * ```
  *  Fit ─ design (or Jacobian), weights, residuals
- *   ├─ hatValues ─┬─ studentized (internal, external) ─ Cook's D, DFFITS
- *   │             ├─ PRESS, robust covariance (option)
+ *   ├─ fitLeverage (once per fit) ─┬─ studentized (internal, external) ─ Cook's D, DFFITS
+ *   │                              ├─ PRESS, robust covariance (option)
  *   ├─ VIF, condition number, Durbin–Watson, Breusch–Pagan, RESET (on the design)
  *   ├─ Shapiro–Wilk, Jarque–Bera (on √w·e), runs (signs in x order), lack of fit (replicates)
  *   └─ findings (findings.ts)
@@ -22,7 +22,6 @@ import {
   cooksDistance,
   dffits,
   durbinWatsonTest,
-  hatValues,
   jarqueBera,
   lackOfFit,
   press,
@@ -33,7 +32,7 @@ import {
   studentizedResiduals,
   varianceInflation,
 } from "../../kernel/stats/mod.ts";
-import type { Fit } from "../fit/mod.ts";
+import { type Fit, fitLeverage } from "../fit/mod.ts";
 import type { CheckSpec } from "./spec.ts";
 import type { CheckResult } from "./result.ts";
 import { findingsOf } from "./findings.ts";
@@ -48,7 +47,7 @@ import { findingsOf } from "./findings.ts";
 export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
   const { design, weights, residuals } = fit;
   const n = residuals.length, p = design.length;
-  const h = hatValues(design, weights);
+  const h = fitLeverage(fit);
   const st = studentizedResiduals(residuals, h, p, weights);
   const we = weights ? residuals.map((e, i) => e * Math.sqrt(weights[i])) : residuals;
   const loo = press(residuals, h, weights);

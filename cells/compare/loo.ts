@@ -2,7 +2,7 @@
  * Out-of-sample error of a fit: leave-one-out RMSE.
  *
  * - Linear fits: PRESS without refitting (Allen 1974, Technometrics 16;
- *   kernel/stats `hatValues`, `press`): the leave-one-out residual of row i
+ *   kernel/stats `hatValues` through cells/fit `fitLeverage`, once per fit, and `press`): the leave-one-out residual of row i
  *   is eᵢ/(1 − hᵢ), with weighted hat values for a weighted fit and the
  *   residual scaled by √wᵢ.
  * - Nonlinear fits: k-fold cross-validation (Hastie, Tibshirani & Friedman,
@@ -22,8 +22,8 @@
  */
 import { compile } from "../../kernel/expr/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
-import { hatValues, LEVERAGE_ONE_TOLERANCE, press } from "../../kernel/stats/leverage.ts";
-import { refit } from "../fit/mod.ts";
+import { LEVERAGE_ONE_TOLERANCE, press } from "../../kernel/stats/leverage.ts";
+import { fitLeverage, refit } from "../fit/mod.ts";
 import type { Candidate } from "./comparable.ts";
 import { assignFolds } from "./_folds.ts";
 import { rowList } from "./_rows.ts";
@@ -55,7 +55,7 @@ export function looRmse(c: Candidate, folds: number, seed: number): LooResult {
 
 function pressRmse(c: Candidate): LooResult {
   const { fit, scale } = c;
-  const hat = hatValues(fit.design, fit.weights);
+  const hat = fitLeverage(fit);
   const base = { method: "press" as const, folds: null };
   const one: number[] = [];
   for (let i = 0; i < hat.length; i++) {
