@@ -4,6 +4,7 @@
  *
  * @module
  */
+import { DEFAULT_SETTINGS } from "../../kernel/document/mod.ts";
 import type { CellOutput, DocSettings, RunContext } from "../types.ts";
 import { tableKind } from "../table/mod.ts";
 import { fitKind } from "../fit/mod.ts";
@@ -11,14 +12,7 @@ import { chartKind } from "./mod.ts";
 import type { ChartOutput } from "./run.ts";
 
 /** The kernel's default document settings. */
-export const SETTINGS: DocSettings = {
-  title: "test",
-  confidence: 0.95,
-  seed: 1,
-  criterion: "aicc",
-  maxFileBytes: 512 * 2 ** 20,
-  extra: {},
-};
+export const SETTINGS: DocSettings = { ...DEFAULT_SETTINGS, title: "test", extra: {} };
 
 function ctx(name: string, inputs: Record<string, CellOutput>, warnings: string[]): RunContext {
   return {

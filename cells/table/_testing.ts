@@ -3,17 +3,11 @@
  *
  * @module
  */
+import { DEFAULT_SETTINGS } from "../../kernel/document/mod.ts";
 import type { DocSettings, FileData, ParseContext, RunContext } from "../types.ts";
 
 /** Default document settings (the kernel's defaults). */
-export const SETTINGS: DocSettings = {
-  title: "test",
-  confidence: 0.95,
-  seed: 1,
-  criterion: "aicc",
-  maxFileBytes: 512 * 2 ** 20,
-  extra: {},
-};
+export const SETTINGS: DocSettings = { ...DEFAULT_SETTINGS, title: "test", extra: {} };
 
 /**
  * A parse context for `options`, collecting warnings.

@@ -44,5 +44,5 @@ export { replaceCellBody } from "./replace_cell_body.ts";
 export { type InsertAt, insertCell } from "./insert_cell.ts";
 export { removeCell } from "./remove_cell.ts";
 export { type CellOptions, parseOptions } from "./parse_options.ts";
-export { readSettings, type SettingsResult } from "./read_settings.ts";
+export { DEFAULT_SETTINGS, readSettings, type SettingsResult } from "./read_settings.ts";
 export { findInlineRefs, type InlineRef } from "./inline_refs.ts";

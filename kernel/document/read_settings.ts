@@ -81,6 +81,16 @@ const CHECKS: Record<string, [keyof DocSettings, Check]> = {
   }],
 };
 
+/** The settings of a document without front matter (each key's default). */
+export const DEFAULT_SETTINGS: Readonly<DocSettings> = Object.freeze({
+  title: "Untitled analysis",
+  confidence: 0.95,
+  seed: 1,
+  criterion: "aicc",
+  maxFileBytes: 512 * 2 ** 20,
+  extra: {},
+});
+
 /**
  * Reads a document's settings from its front matter. Problems are returned
  * (never thrown) at the offending value's line and column; a bad value keeps
@@ -99,14 +109,7 @@ const CHECKS: Record<string, [keyof DocSettings, Check]> = {
  * ```
  */
 export function readSettings(doc: ParsedDocument): SettingsResult {
-  const settings: DocSettings = {
-    title: "Untitled analysis",
-    confidence: 0.95,
-    seed: 1,
-    criterion: "aicc",
-    maxFileBytes: 512 * 2 ** 20,
-    extra: {},
-  };
+  const settings: DocSettings = { ...DEFAULT_SETTINGS, extra: {} };
   const fm = doc.frontMatter;
   if (fm === null) return { settings, errors: [] };
   const region = parseYamlRegion(doc, fm.bodyStart, fm.bodyEnd, {
