@@ -9,17 +9,11 @@
  *
  * @module
  */
-import type { DocSettings, FileData } from "../../cells/types.ts";
-import type { DoneMessage, FromWorker, ToWorker } from "./protocol.ts";
+import type { FileData } from "../../cells/types.ts";
+import type { DoneMessage, FromWorker, RunRequest, ToWorker } from "./protocol.ts";
 
-/** One cell to run. */
-export interface WorkerJob {
-  key: string;
-  kind: string;
-  name: string;
-  spec: unknown;
-  settings: DocSettings;
-  inputs: Record<string, string>;
+/** One cell to run: the run request without its wire fields, with file contents instead of digests. */
+export interface WorkerJob extends Omit<RunRequest, "op" | "id" | "files"> {
   files: Record<string, FileData>;
   onProgress?: (fraction: number, note?: string) => void;
 }
