@@ -6,6 +6,7 @@
  * @module
  */
 import { serveComputeWorker } from "../kernel/worker/compute_worker.ts";
+import { liveResult } from "../kernel/server/live_result.ts";
 import { registry } from "./mod.ts";
 
-serveComputeWorker(registry);
+serveComputeWorker(registry, { pageShaper: liveResult });

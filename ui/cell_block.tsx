@@ -33,17 +33,19 @@ export interface CellBlockProps {
 function Progress(props: { fraction: number | null; note: string | null }): VNode {
   const f = props.fraction;
   return (
-    <div
-      class={f === null ? "pl-progress pl-progress-open" : "pl-progress"}
-      role="progressbar"
-      aria-valuemin={0}
-      aria-valuemax={100}
-      aria-valuenow={f === null ? undefined : Math.round(100 * f)}
-      aria-label={props.note ?? "Computing"}
-    >
-      <span style={f === null ? undefined : { width: `${Math.round(100 * f)}%` }} />
-      {props.note && <em>{props.note}</em>}
-    </div>
+    <>
+      {props.note && <em class="pl-progress-note">{props.note}</em>}
+      <div
+        class={f === null ? "pl-progress pl-progress-open" : "pl-progress"}
+        role="progressbar"
+        aria-valuemin={0}
+        aria-valuemax={100}
+        aria-valuenow={f === null ? undefined : Math.round(100 * f)}
+        aria-label={props.note ?? "Computing"}
+      >
+        <span style={f === null ? undefined : { width: `${Math.round(100 * f)}%` }} />
+      </div>
+    </>
   );
 }
 
@@ -138,8 +140,8 @@ function CellBlockOf(props: CellBlockProps): VNode {
             remove
           </button>
         </span>
+        {cell.state === "computing" && <Progress fraction={cell.fraction} note={cell.note} />}
       </header>
-      {cell.state === "computing" && <Progress fraction={cell.fraction} note={cell.note} />}
       {failed && cell.error && (
         <p class="pl-error" role="alert">
           ✕ {cell.error.message}{" "}

@@ -50,12 +50,13 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-ref-error { border-bottom: 1.5px solid var(--ink); font-weight: 600; font-size: .9em; }
 .pl-ref-wait { color: var(--muted); }
 
+/* Blocks off screen skip style, layout and paint until scrolled near (their last size is kept). */
 .pl-cell { margin: 1rem 0 1.25rem; border-top: 1px solid var(--rule); border-left: 3px solid transparent;
-  padding: 0 0 .25rem .75rem; }
+  padding: 0 0 .25rem .75rem; content-visibility: auto; contain-intrinsic-size: auto 360px; }
 .pl-cell-failed { border-left: 3px solid var(--ink); }
 .pl-cell-held { border-left: 3px dashed var(--muted); }
 .pl-cell-head { display: flex; flex-wrap: wrap; align-items: baseline; gap: .6rem; padding: .3rem 0;
-  font-size: 12.5px; color: var(--muted); }
+  font-size: 12.5px; color: var(--muted); position: relative; }
 .pl-cell-kind { text-transform: lowercase; letter-spacing: .04em; font-variant: small-caps; }
 .pl-cell-name { margin: 0; font: 600 14px/1.3 var(--mono); color: var(--ink); }
 .pl-cell-ms { font-variant-numeric: tabular-nums; }
@@ -64,15 +65,23 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-state-shape { font-size: 11px; }
 .pl-state-current .pl-state-shape { color: var(--accent); }
 .pl-state-failed { font-weight: 700; }
-.pl-state-computing .pl-state-shape { display: inline-block; animation: pl-turn 1.2s linear infinite; }
+.pl-state-computing .pl-state-shape { display: inline-block; animation: pl-turn 1.2s linear .3s infinite; }
 @keyframes pl-turn { to { transform: rotate(360deg); } }
 .pl-result { overflow-x: auto; }
-.pl-stale { opacity: .55; transition: opacity .15s; }
+/*
+ * Busy signs wait .3 s: work that ends sooner (most updates) shows the state
+ * word alone, with no dimming, sliding or turning that would flicker and make
+ * the page redraw; the dimming is undone at once when the result arrives.
+ */
+.pl-stale { opacity: .55; transition: opacity .15s .3s; }
 
-.pl-progress { position: relative; height: 3px; background: var(--wash); margin: 0 0 .4rem; overflow: hidden; }
+/* Over the header's bottom rule, so showing it moves nothing on the page. */
+.pl-progress { position: absolute; left: 0; right: 0; bottom: -2px; height: 3px; background: var(--wash);
+  overflow: hidden; animation: pl-show 0s .3s backwards; }
 .pl-progress > span { position: absolute; inset: 0 auto 0 0; background: var(--accent); transition: width .2s; }
-.pl-progress-open > span { width: 30%; animation: pl-slide 1.1s ease-in-out infinite; }
-.pl-progress em { position: absolute; right: 0; top: 4px; font-size: 11px; color: var(--muted); }
+.pl-progress-open > span { width: 30%; animation: pl-slide 1.1s ease-in-out .3s infinite; }
+.pl-progress-note { font-size: 11px; font-style: normal; color: var(--muted); }
+@keyframes pl-show { from { visibility: hidden; } to { visibility: hidden; } }
 @keyframes pl-slide { from { left: -30%; } to { left: 100%; } }
 @media (prefers-reduced-motion: reduce) { .pl-progress-open > span, .pl-state-computing .pl-state-shape { animation: none; } }
 
@@ -150,7 +159,7 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
   .pl-top { position: static; border-bottom: 1px solid #999; }
   .pl-body { display: block; padding: 0; }
   .pl-rail, .pl-cell-actions, .pl-add, .pl-editor, .pl-conn, .pl-progress { display: none !important; }
-  .pl-cell { break-inside: avoid-page; }
+  .pl-cell { break-inside: avoid-page; content-visibility: visible; }
   .pl-stale { opacity: 1; }
   a { color: inherit; }
 }

@@ -12,6 +12,7 @@
  *
  * @module
  */
+import { plainArray } from "../../kernel/arrays.ts";
 import { CellError } from "../../kernel/errors.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
 import type { CellOutput, NumberColumn, RunContext, Table } from "../types.ts";
@@ -66,11 +67,7 @@ export function runChart(spec: ChartSpec, ctx: RunContext): ChartOutput {
   }));
   const band = bandFor(spec, ctx, fits, grid);
   const binned = x.length > spec.binAbove;
-  const yDomain = extent(
-    [y, ...curves.map((c) => c.y), band?.lo ?? [], band?.hi ?? []].flatMap((a) =>
-      Array.from(a as ArrayLike<number | null>).filter((v): v is number => v !== null)
-    ),
-  );
+  const yDomain = extentOfAll([y, ...curves.map((c) => c.y), band?.lo ?? [], band?.hi ?? []]);
   const bins = binned
     ? binPoints(
       x,
@@ -93,9 +90,9 @@ export function runChart(spec: ChartSpec, ctx: RunContext): ChartOutput {
     title: spec.title,
     x: axis(spec.x, xc.unit, spec.logX, xDomain),
     y: axis(spec.y, yc.unit, spec.logY, yDomain),
-    data: binned ? null : { x: Array.from(x), y: Array.from(y) },
+    data: binned ? null : { x: plainArray(x), y: plainArray(y) },
     bins,
-    grid: Array.from(grid),
+    grid: plainArray(grid),
     curves,
     band,
     residuals,
@@ -228,6 +225,25 @@ function extent(values: ArrayLike<number>): [number, number] {
   return [lo, hi];
 }
 
+/** The smallest and largest value over several arrays, nulls skipped. */
+function extentOfAll(arrays: ArrayLike<number | null>[]): [number, number] {
+  let lo = Infinity, hi = -Infinity;
+  for (const a of arrays) {
+    for (let i = 0; i < a.length; i++) {
+      const v = a[i];
+      if (v === null) continue;
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
+  }
+  return [lo, hi];
+}
+
 function finiteOrNull(values: Float64Array, positive: boolean): (number | null)[] {
-  return Array.from(values, (v) => (Number.isFinite(v) && (!positive || v > 0) ? v : null));
+  const out = new Array<number | null>(values.length);
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    out[i] = Number.isFinite(v) && (!positive || v > 0) ? v : null;
+  }
+  return out;
 }

@@ -32,10 +32,11 @@ import {
   studentizedResiduals,
   varianceInflation,
 } from "../../kernel/stats/mod.ts";
-import { type Fit, fitLeverage } from "../fit/mod.ts";
+import { type Fit, fitBasis, fitLeverage } from "../fit/mod.ts";
 import type { CheckSpec } from "./spec.ts";
 import type { CheckResult } from "./result.ts";
 import { findingsOf } from "./findings.ts";
+import { plainArray } from "../../kernel/arrays.ts";
 
 /**
  * All diagnostics of a fit as the RUN-JSON `check` object.
@@ -51,7 +52,7 @@ export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
   const st = studentizedResiduals(residuals, h, p, weights);
   const we = weights ? residuals.map((e, i) => e * Math.sqrt(weights[i])) : residuals;
   const loo = press(residuals, h, weights);
-  const dw = durbinWatsonTest(residuals, design, weights);
+  const dw = durbinWatsonTest(residuals, design, weights, fitBasis(fit));
   const base: Omit<CheckResult, "findings"> = {
     fit: spec.fit,
     n,
@@ -59,10 +60,10 @@ export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
     method: fit.method,
     weighted: fit.weighted,
     significance: spec.significance,
-    rows: Array.from(fit.rows),
-    fitted: Array.from(fit.fitted),
-    residuals: Array.from(residuals),
-    leverage: Array.from(h),
+    rows: plainArray(fit.rows),
+    fitted: plainArray(fit.fitted),
+    residuals: plainArray(residuals),
+    leverage: plainArray(h),
     studentized_internal: st.internal,
     studentized_external: st.external,
     cooks_distance: cooksDistance(st.internal, h, p),

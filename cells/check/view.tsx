@@ -13,11 +13,16 @@ import type { ViewProps } from "../types.ts";
 import type { CheckResult } from "./result.ts";
 import { fmt } from "./_format.ts";
 import {
-  chartDocument,
   type CheckChartInput,
-  checkChartsSvg,
-  SvgFigure,
+  DrawnFigure,
+  leverageChart,
+  normalQuantiles,
+  residualsVsFitted,
+  scaleLocation,
 } from "../../ui/charts/mod.ts";
+
+/** The four residual charts, in the standard order. */
+const CHARTS = [residualsVsFitted, normalQuantiles, scaleLocation, leverageChart];
 
 interface TestRow {
   name: string;
@@ -116,7 +121,7 @@ export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
         )}
       <div class="plumb-check-charts">
         {(charts.density !== undefined || (r.fitted?.length ?? 0) > 0) &&
-          checkChartsSvg(charts, chartDocument()).map((svg, i) => <SvgFigure key={i} svg={svg} />)}
+          CHARTS.map((chart, i) => <DrawnFigure key={i} draw={(d) => chart(charts, d)} data={r} />)}
       </div>
       <table class="plumb-check-tests">
         <thead>

@@ -4,10 +4,11 @@
  * Nesting is decided numerically, not by names: fit S (mean space
  * offset_S + span X_S) lies inside fit L when every column of X_S and the
  * offset difference offset_S − offset_L lie in span X_L (column-space
- * inclusion via the pivoted Householder QR of X_L, kernel/linalg
- * `inColumnSpace`; Golub & Van Loan, *Matrix Computations*, 4th ed.,
- * §5.4.1). Weights do not change the inclusion (√W is invertible) and enter
- * through the weighted RSS.
+ * inclusion by projection onto an orthonormal basis of span √W·X_L from its
+ * pivoted Householder QR; Golub & Van Loan, *Matrix Computations*, 4th ed.,
+ * §5.2 and §5.4.1). With positive weights √W does not change the inclusion;
+ * rows of weight 0 do not count, as in the fits themselves. Weights enter the
+ * test through the weighted RSS.
  *
  * Test (Draper & Smith, *Applied Regression Analysis*, 3rd ed., §6.1 from
  * memory for the section): F = ((RSS_S − RSS_L)/(p_L − p_S)) / (RSS_L/(n − p_L))
@@ -16,8 +17,8 @@
  *
  * @module
  */
-import { householderQR, inColumnSpace, type QRFactorization } from "../../kernel/linalg/mod.ts";
 import { fisherF } from "../../kernel/stats/mod.ts";
+import { fitBasis } from "../fit/mod.ts";
 import type { Candidate } from "./comparable.ts";
 
 /** One nested comparison (RUN-JSON `nested_tests`; `ss_extra` is our addition). */
@@ -49,11 +50,9 @@ export const NESTING_TOLERANCE = 1e-8;
  */
 export function nestedTests(all: readonly Candidate[]): NestedTest[] {
   const out: NestedTest[] = [];
-  // One factorization per larger fit, shared by every smaller one tested against it.
-  const factors = new Map<Candidate, QRFactorization>();
   for (const s of all) {
     for (const l of all) {
-      if (s === l || !isNestedIn(s, l, factors)) continue;
+      if (s === l || !isNestedIn(s, l)) continue;
       out.push(fTest(s, l));
     }
   }
@@ -63,36 +62,59 @@ export function nestedTests(all: readonly Candidate[]): NestedTest[] {
 /**
  * Whether the mean space of `s` lies inside that of `l` with fewer parameters.
  *
+ * The larger fit's column space is that of its (√w-scaled) design, through
+ * the orthonormal basis the fit keeps for its leverage (`fitBasis`: one
+ * pivoted QR per fit, shared with PRESS and check); a smaller fit's columns
+ * and the difference of the offsets are scaled by the same √w (compare
+ * accepts only fits with the same weights) and lie inside when what is left
+ * after projecting onto the basis is at most {@link NESTING_TOLERANCE} of
+ * their length.
+ *
  * @param s The smaller candidate.
  * @param l The larger candidate.
- * @param factors A cache of the larger fits' factorizations (optional).
  * @returns True when nested.
  */
-export function isNestedIn(
-  s: Candidate,
-  l: Candidate,
-  factors: Map<Candidate, QRFactorization> = new Map(),
-): boolean {
+export function isNestedIn(s: Candidate, l: Candidate): boolean {
   const fs = s.fit, fl = l.fit;
   if (fs.method !== "linear" || fl.method !== "linear") return false;
   if (fs.parameters.length >= fl.parameters.length) return false;
   if (!sameValues(fs.y, fl.y)) return false;
   const n = fl.y.length;
-  let qr = factors.get(l);
-  if (qr === undefined) factors.set(l, qr = unitDesignQR(fl.design, n));
-  const within = (v: Float64Array) => inColumnSpace(qr, v, NESTING_TOLERANCE);
+  const basis = fitBasis(fl);
+  const w = fl.weights;
+  const within = (v: Float64Array) => inSpan(basis, w ? scaled(v, w) : v, NESTING_TOLERANCE);
   if (!fs.design.every(within)) return false;
   const gap = new Float64Array(n);
   for (let i = 0; i < n; i++) gap[i] = (fs.offset?.[i] ?? 0) - (fl.offset?.[i] ?? 0);
   return within(gap);
 }
 
-/** Householder QR of a design with unit-length columns. */
-function unitDesignQR(design: readonly Float64Array[], n: number): QRFactorization {
-  const p = design.length;
-  const a = new Float64Array(n * p);
-  design.forEach((c, j) => a.set(unit(c), j * n));
-  return householderQR(a, n, p);
+/** √wᵢ·vᵢ. */
+function scaled(v: Float64Array, w: Float64Array): Float64Array {
+  const out = new Float64Array(v.length);
+  for (let i = 0; i < v.length; i++) out[i] = v[i] * Math.sqrt(w[i]);
+  return out;
+}
+
+/**
+ * Whether ‖v − Q₁Q₁ᵀv‖ ≤ tol·‖v‖ for orthonormal columns Q₁ (true for v = 0):
+ * the part of v outside their span, projected out column by column
+ * (modified Gram–Schmidt against an orthonormal set; Golub & Van Loan,
+ * *Matrix Computations*, 4th ed., §5.2.8).
+ */
+function inSpan(basis: readonly Float64Array[], v: Float64Array, tol: number): boolean {
+  const n = v.length;
+  const r = Float64Array.from(v);
+  let all = 0;
+  for (let i = 0; i < n; i++) all += v[i] * v[i];
+  for (const q of basis) {
+    let d = 0;
+    for (let i = 0; i < n; i++) d += q[i] * r[i];
+    for (let i = 0; i < n; i++) r[i] -= d * q[i];
+  }
+  let out = 0;
+  for (let i = 0; i < n; i++) out += r[i] * r[i];
+  return Math.sqrt(out) <= tol * Math.sqrt(all);
 }
 
 function fTest(s: Candidate, l: Candidate): NestedTest {
@@ -111,13 +133,6 @@ function fTest(s: Candidate, l: Candidate): NestedTest {
     p_value: finite && df2 > 0 ? fisherF(df1, df2).upper(f) : null,
     ss_extra: ssExtra,
   };
-}
-
-function unit(c: Float64Array): Float64Array {
-  let ss = 0;
-  for (const v of c) ss += v * v;
-  const norm = Math.sqrt(ss);
-  return norm > 0 && Number.isFinite(norm) ? c.map((v) => v / norm) : c;
 }
 
 function sameValues(x: Float64Array, y: Float64Array): boolean {

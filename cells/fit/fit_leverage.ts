@@ -11,10 +11,31 @@
  *
  * @module
  */
-import { hatValues } from "../../kernel/stats/leverage.ts";
+import { checkDesign, hatValuesOf } from "../../kernel/stats/leverage.ts";
+import { orthonormalBasis } from "../../kernel/stats/_orthonormal_basis.ts";
 import type { Fit } from "./fit.ts";
 
 const remembered = new WeakMap<object, Float64Array>();
+const bases = new WeakMap<object, Float64Array[]>();
+
+/**
+ * An orthonormal basis Q₁ of a fit's (√w-scaled) design column space,
+ * remembered per fit object: its leverage, the Durbin–Watson moments and
+ * compare's nesting checks all project onto it (one pivoted Householder QR
+ * per fit instead of one for each). The arrays are shared: do not modify.
+ *
+ * @param fit The fit output.
+ * @returns As kernel/stats `orthonormalBasis(fit.design, fit.weights)`.
+ */
+export function fitBasis(fit: Pick<Fit, "design" | "weights">): Float64Array[] {
+  let q = bases.get(fit);
+  if (q === undefined) {
+    checkDesign(fit.design, fit.weights);
+    q = orthonormalBasis(fit.design, fit.weights);
+    bases.set(fit, q);
+  }
+  return q;
+}
 
 /**
  * The hat values hᵢ of a fit's (weighted) design, remembered per fit object.
@@ -35,7 +56,8 @@ const remembered = new WeakMap<object, Float64Array>();
 export function fitLeverage(fit: Pick<Fit, "design" | "weights">): Float64Array {
   let h = remembered.get(fit);
   if (h === undefined) {
-    h = hatValues(fit.design, fit.weights);
+    const q = fitBasis(fit);
+    h = hatValuesOf(q, fit.design[0].length);
     remembered.set(fit, h);
   }
   return h;

@@ -14,6 +14,7 @@
  */
 import type { Fit } from "./fit.ts";
 import type { Weighting } from "./_weighting.ts";
+import { plainArray } from "../../kernel/arrays.ts";
 
 /** One parameter row. */
 export interface FitParameterResult {
@@ -145,9 +146,9 @@ export function summarizeFit(fit: Fit): FitResult {
     weighting: st.weighting,
     weighting_statement: WEIGHTING_STATEMENTS[st.weighting],
     condition_number: num(fit.conditionNumber),
-    fitted: Array.from(fit.fitted),
-    residuals: Array.from(fit.residuals),
-    rows: Array.from(fit.rows),
+    fitted: plainArray(fit.fitted),
+    residuals: plainArray(fit.residuals),
+    rows: plainArray(fit.rows),
     converged: fit.converged,
     iterations: fit.iterations,
     rank_deficient: null,

@@ -13,11 +13,13 @@
  * Why: on a 10,000-row table the complete results of six fits and a check
  * are about 4 MB of JSON per run, 90 ms to write on the server and as much
  * to read in the page, for arrays that nothing shows. RUN-JSON keeps every
- * field; this is only the page's copy.
+ * field; this is only the page's copy. The compute worker makes it
+ * (cells/worker.ts passes this function to serveComputeWorker) for a
+ * Session started with `page: true`, so the complete summary never crosses
+ * to the server's thread at all.
  *
  * @module
  */
-import { findInlineRefs, type ParsedDocument } from "../document/mod.ts";
 import { pageExtras, pageOmits } from "../../ui/page_fields.ts";
 
 /** A result ready for the page. */
@@ -61,33 +63,4 @@ export function liveResult(
   for (const [k, v] of Object.entries(result)) if (!omit.includes(k)) copy[k] = v;
   Object.assign(copy, extra?.add ?? {});
   return { result: copy, omitted: omit };
-}
-
-/**
- * The top-level result fields that the document's inline values name, per cell.
- *
- * @param doc The parsed document.
- * @returns Cell name → field names (`@(root.residuals[3])` names `residuals` of `root`).
- * @example
- * ```ts
- * import { parseDocument } from "../document/mod.ts";
- * import { referencedFields } from "./live_result.ts";
- * const doc = parseDocument("Residual @(root.residuals[3], 3) and @(root.r2).\n");
- * const f = referencedFields(doc).get("root");
- * if (!f?.has("residuals") || !f.has("r2")) throw new Error("fields");
- * ```
- */
-export function referencedFields(doc: ParsedDocument): Map<string, Set<string>> {
-  const out = new Map<string, Set<string>>();
-  for (const block of doc.blocks) {
-    if (block.type !== "prose") continue;
-    for (const ref of findInlineRefs(block).refs) {
-      const first = ref.path[0];
-      if (typeof first !== "string") continue;
-      let set = out.get(ref.cell);
-      if (set === undefined) out.set(ref.cell, set = new Set());
-      set.add(first);
-    }
-  }
-  return out;
 }

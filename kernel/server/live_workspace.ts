@@ -16,6 +16,12 @@
  * cell (what it computed stays cached), then runs itself, so each content is
  * computed once and the browsers end with the newest state.
  *
+ * Busy states (queued, computing) are held back for {@link BUSY_GRACE_MS}
+ * from the start of a run: a cell that settles sooner goes straight from its
+ * old result to the new one, with no queued–computing flicker and no page
+ * redraws for it (most updates settle every cell within that time); after
+ * it, busy states and progress go out as they happen.
+ *
  * @module
  */
 import { basename, dirname, resolve } from "node:path";
@@ -25,7 +31,6 @@ import { hashValue, sha256Hex } from "../hash.ts";
 import type { Registry } from "../registry.ts";
 import { Session, type SessionEvent } from "../session/session.ts";
 import { documentMessage, type FileInfo } from "./document_message.ts";
-import { liveResult, referencedFields } from "./live_result.ts";
 import type { CellMessage, DocumentMessage, ServerMessage } from "./protocol.ts";
 
 /** Options of a live workspace. */
@@ -36,7 +41,16 @@ export interface LiveOptions {
   workerUrl: URL;
   /** Called with every message, in order. */
   send: (msg: ServerMessage) => void;
+  /** How long busy states are held back from the start of a run (default {@link BUSY_GRACE_MS}). */
+  busyGraceMs?: number;
 }
+
+/**
+ * How long a run's busy states are held back (ms): about the shortest wait a
+ * reader notices, and longer than most updates take to settle (common
+ * practice for progress indicators, no source).
+ */
+export const BUSY_GRACE_MS = 200;
 
 interface Snapshot {
   source: string;
@@ -53,11 +67,11 @@ export class LiveWorkspace {
   #doc: DocumentMessage | null = null;
   #kinds = new Map<string, string>();
   #cells = new Map<string, CellMessage>();
-  /** Per cell, the fields inline values name (kept in the page's results). */
-  #wanted = new Map<string, Set<string>>();
-  /** Per cell, the page's copy of its last result (same object while the result is the same). */
-  #live = new Map<string, { full: unknown; wanted: string; result: unknown; omitted: string[] }>();
   #started = new Map<string, number>();
+  /** Busy messages held back during this run's grace period, by cell (the latest only). */
+  #held = new Map<string, CellMessage>();
+  #graceTimer: ReturnType<typeof setTimeout> | null = null;
+  #graceOver = true;
   #run = 0;
   #runningPrint: string | null = null;
   #donePrint: string | null = null;
@@ -72,6 +86,7 @@ export class LiveWorkspace {
       registry: opts.registry,
       workerUrl: opts.workerUrl,
       dir: dirname(this.#abs),
+      page: true,
       onEvent: (e) => this.#onEvent(e),
     });
   }
@@ -182,9 +197,11 @@ export class LiveWorkspace {
     const run = ++this.#run;
     this.#runningPrint = snap.print;
     const t0 = performance.now();
+    this.#startGrace();
     try {
       const report = await this.#session.run(snap.source);
       if (report.superseded) return;
+      this.#endGrace();
       this.#donePrint = snap.print;
       this.#opts.send({
         type: "run",
@@ -197,6 +214,28 @@ export class LiveWorkspace {
     } finally {
       this.#runningPrint = null;
     }
+  }
+
+  /** Starts a run's grace period (busy states of a superseded run still held stay held). */
+  #startGrace(): void {
+    if (this.#graceTimer !== null) clearTimeout(this.#graceTimer);
+    const grace = this.#opts.busyGraceMs ?? BUSY_GRACE_MS;
+    this.#graceOver = grace <= 0;
+    if (this.#graceOver) return;
+    this.#graceTimer = setTimeout(() => {
+      this.#graceTimer = null;
+      this.#endGrace();
+    }, grace);
+  }
+
+  /** Ends the grace period: busy states still held are sent now, and later ones at once. */
+  #endGrace(): void {
+    if (this.#graceTimer !== null) clearTimeout(this.#graceTimer);
+    this.#graceTimer = null;
+    this.#graceOver = true;
+    const held = [...this.#held.values()];
+    this.#held.clear();
+    for (const m of held) this.#opts.send(m);
   }
 
   #dataChanged(snap: Snapshot): boolean {
@@ -214,13 +253,11 @@ export class LiveWorkspace {
       ? readSettings(doc).settings.title
       : basename(this.#opts.path).replace(/\.md$/i, "");
     this.#doc = documentMessage(this.#opts.path, snap.version, title, doc, snap.files);
-    this.#wanted = referencedFields(doc);
     this.#kinds.clear();
     for (const b of this.#doc.blocks) if (b.type === "cell") this.#kinds.set(b.name, b.kind);
     for (const name of [...this.#cells.keys()]) {
       if (!this.#kinds.has(name)) {
         this.#cells.delete(name);
-        this.#live.delete(name);
       }
     }
     this.#opts.send(this.#doc);
@@ -250,29 +287,24 @@ export class LiveWorkspace {
       msg.cached = r.cached;
       if (r.error) msg.error = r.error;
       if (r.state === "current") {
-        const page = this.#pageResult(e.name, msg.kind, r.result);
-        msg.result = page.result;
-        if (page.omitted.length > 0) msg.omitted = page.omitted;
+        msg.result = r.result;
+        if (r.omitted) msg.omitted = r.omitted;
         if (r.summaryLine !== null) msg.summaryLine = r.summaryLine;
       }
       this.#started.delete(e.name);
     }
     this.#cells.set(e.name, msg);
+    if (r === undefined && !this.#graceOver) {
+      this.#held.set(e.name, msg);
+      return;
+    }
+    this.#held.delete(e.name);
     this.#opts.send(msg);
-  }
-
-  /** The page's copy of a result, the same object as last time when nothing changed. */
-  #pageResult(name: string, kind: string, full: unknown): { result: unknown; omitted: string[] } {
-    const wanted = [...(this.#wanted.get(name) ?? [])].sort().join("\n");
-    const last = this.#live.get(name);
-    if (last !== undefined && last.full === full && last.wanted === wanted) return last;
-    const live = liveResult(kind, full, this.#wanted.get(name));
-    this.#live.set(name, { full, wanted, ...live });
-    return live;
   }
 
   /** Stops the session's worker. */
   close(): void {
+    if (this.#graceTimer !== null) clearTimeout(this.#graceTimer);
     this.#session.close();
   }
 }

@@ -38,3 +38,32 @@ export function checkInlineRefs(doc: ParsedDocument, graph: Graph): LocatedError
   }
   return errors;
 }
+
+/**
+ * The top-level result fields that the document's inline values name, per cell.
+ *
+ * @param doc The parsed document.
+ * @returns Cell name → field names (`@(root.residuals[3])` names `residuals` of `root`).
+ * @example
+ * ```ts
+ * import { parseDocument } from "../document/mod.ts";
+ * import { referencedFields } from "./inline_refs.ts";
+ * const doc = parseDocument("Residual @(root.residuals[3], 3) and @(root.r2).\n");
+ * const f = referencedFields(doc).get("root");
+ * if (!f?.has("residuals") || !f.has("r2")) throw new Error("fields");
+ * ```
+ */
+export function referencedFields(doc: ParsedDocument): Map<string, Set<string>> {
+  const out = new Map<string, Set<string>>();
+  for (const block of doc.blocks) {
+    if (block.type !== "prose") continue;
+    for (const ref of findInlineRefs(block).refs) {
+      const first = ref.path[0];
+      if (typeof first !== "string") continue;
+      let set = out.get(ref.cell);
+      if (set === undefined) out.set(ref.cell, set = new Set());
+      set.add(first);
+    }
+  }
+  return out;
+}

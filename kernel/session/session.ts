@@ -26,7 +26,7 @@ import { OptionsCache } from "../graph/options_cache.ts";
 import { ComputeWorker } from "../worker/client.ts";
 import type { DoneMessage } from "../worker/protocol.ts";
 import { FileStore } from "./files.ts";
-import { checkInlineRefs } from "./inline_refs.ts";
+import { checkInlineRefs, referencedFields } from "./inline_refs.ts";
 
 /** The states of a cell, in our own words. */
 export type CellState = "current" | "queued" | "computing" | "failed" | "held";
@@ -47,6 +47,8 @@ export interface CellReport {
   ms: number;
   /** True when this run reused a cached result. */
   cached: boolean;
+  /** With `page: true`: the fields of the complete result left out of `result`. */
+  omitted?: string[];
 }
 
 /** The outcome of a run. */
@@ -84,6 +86,8 @@ export interface SessionEvent {
 
 interface Outcome {
   done: DoneMessage;
+  /** The fields kept beyond the page's copy (sorted, joined), or null for a complete summary. */
+  shape: string | null;
 }
 
 /** Options of a session. */
@@ -94,6 +98,13 @@ export interface SessionOptions {
   /** The document's folder, where data files are looked up. */
   dir: string;
   onEvent?: (e: SessionEvent) => void;
+  /**
+   * Results as the live page reads them (kernel/server/live_result.ts: no
+   * per-row arrays that no view shows, except fields the document's inline
+   * values name), made in the worker. Default false: complete results
+   * (RUN-JSON).
+   */
+  page?: boolean;
 }
 
 const located = (e: LocatedError) => ({
@@ -110,6 +121,8 @@ export class Session {
   #outcomes = new Map<string, Outcome>();
   #optionsCache = new OptionsCache();
   #generation = 0;
+  /** With `page`: per cell, the fields its inline values name (this run's document). */
+  #keep = new Map<string, Set<string>>();
   /** How many times each cell was computed over the session's life. */
   readonly runs = new Map<string, number>();
 
@@ -172,6 +185,7 @@ export class Session {
     const prep = this.#prepare(source);
     const { fileData, fileErrors } = await this.#readFiles(prep.graph, prep.settings);
     const plan = this.#keyed(prep, new Map([...fileData].map(([p, f]) => [p, f.sha256])));
+    if (this.#opts.page) this.#keep = referencedFields(plan.doc);
     const reports = new Map<CellNode, CellReport>();
     const ran: string[] = [];
     for (const node of plan.graph.nodes) {
@@ -246,11 +260,16 @@ export class Session {
       });
     }
     const key = plan.keys.get(node.name)!;
+    const page = this.#pageFields(node.name);
+    const shape = page?.join("\n") ?? null;
     let outcome = this.#outcomes.get(key);
+    if (outcome && outcome.done.ok && outcome.shape !== shape) {
+      outcome = await this.#reshape(node, key, outcome, page, shape);
+    }
     const cached = outcome !== undefined;
     if (!outcome) {
       const done = await this.#compute(node, plan, fileData, ran);
-      outcome = { done };
+      outcome = { done, shape };
       if (!isTransient(done)) this.#outcomes.set(key, outcome);
     }
     const d = outcome.done;
@@ -265,6 +284,7 @@ export class Session {
         summaryLine: d.line ?? null,
         ms: d.ms,
         cached,
+        ...(d.omitted && d.omitted.length > 0 ? { omitted: d.omitted } : {}),
       });
     }
     const err = d.error!;
@@ -280,6 +300,31 @@ export class Session {
       ms: d.ms,
       cached,
     });
+  }
+
+  /** With `page`: the fields kept beyond the page's copy for a cell (sorted); else undefined. */
+  #pageFields(name: string): string[] | undefined {
+    return this.#opts.page ? [...(this.#keep.get(name) ?? [])].sort() : undefined;
+  }
+
+  /**
+   * A cached outcome summarised again in the shape now wanted (an inline value
+   * started or stopped naming one of its fields), without recomputing;
+   * undefined when the worker no longer holds the output (then it recomputes).
+   */
+  async #reshape(
+    node: CellNode,
+    key: string,
+    outcome: Outcome,
+    page: string[] | undefined,
+    shape: string | null,
+  ): Promise<Outcome | undefined> {
+    if (!this.#worker.has(key)) return undefined;
+    const d = await this.#worker.summarize({ key, kind: node.kind, spec: node.spec, page });
+    if (!d.ok) return undefined;
+    const again = { done: { ...d, warnings: outcome.done.warnings, ms: outcome.done.ms }, shape };
+    this.#outcomes.set(key, again);
+    return again;
   }
 
   /** Computes a node, first recomputing any input whose output the worker no longer holds. */
@@ -309,6 +354,7 @@ export class Session {
       settings: plan.settings,
       inputs: Object.fromEntries(node.deps.map((d) => [d, plan.keys.get(d)!])),
       files,
+      page: this.#pageFields(node.name),
       onProgress: (fraction, note) => this.#emit(node.name, "computing", fraction, note),
     });
   }

@@ -83,6 +83,8 @@ function dot(a: Float64Array, b: Float64Array): number {
  * @param residuals eᵢ in row order (unweighted).
  * @param design The model's design (or Jacobian) columns.
  * @param weights wᵢ per row, or null.
+ * @param basis An orthonormal basis of the (√w-scaled) design's column space
+ *   when the caller has one (`orthonormalBasis(design, weights)`); else made here.
  * @returns The test, or null when d does not exist or n − p < 1.
  * @example
  * ```ts
@@ -97,12 +99,13 @@ export function durbinWatsonTest(
   residuals: Float64Array,
   design: readonly Float64Array[],
   weights: Float64Array | null,
+  basis?: readonly Float64Array[],
 ): DurbinWatsonTest | null {
   const n = residuals.length;
   const e = weights ? residuals.map((v, i) => v * Math.sqrt(weights[i])) : residuals;
   const d = durbinWatson(e);
   if (d === null) return null;
-  const basis = orthonormalBasis(design, weights);
+  basis ??= orthonormalBasis(design, weights);
   const m = n - basis.length;
   if (m < 1) return null;
   const aq = basis.map(applyDifference);

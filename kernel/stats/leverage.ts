@@ -50,14 +50,42 @@ export function hatValues(
   weights: Float64Array | null,
 ): Float64Array {
   const n = checkDesign(design, weights);
+  return hatValuesOf(orthonormalBasis(design, weights), n);
+}
+
+/**
+ * The hat values from an orthonormal basis Q₁ of the (√w-scaled) design's
+ * column space: hᵢ = Σₖ Q₁[i, k]² (as {@link hatValues}, for a caller that
+ * keeps the basis, such as one fit's leverage, Durbin–Watson and nesting
+ * checks sharing it).
+ *
+ * @param basis Orthonormal columns (from `orthonormalBasis`).
+ * @param n Rows.
+ * @returns hᵢ per row.
+ * @example
+ * ```ts
+ * import { hatValuesOf } from "./leverage.ts";
+ * const h = hatValuesOf([new Float64Array([0.6, 0.8])], 2);
+ * if (Math.abs(h[0] - 0.36) > 1e-15 || Math.abs(h[1] - 0.64) > 1e-15) throw new Error("h");
+ * ```
+ */
+export function hatValuesOf(basis: readonly Float64Array[], n: number): Float64Array {
   const h = new Float64Array(n);
-  for (const q of orthonormalBasis(design, weights)) {
+  for (const q of basis) {
     for (let i = 0; i < n; i++) h[i] += q[i] * q[i];
   }
   return h;
 }
 
-function checkDesign(design: readonly Float64Array[], weights: Float64Array | null): number {
+/**
+ * Checks a design and weights as {@link hatValues} does.
+ *
+ * @param design Columns.
+ * @param weights wᵢ per row, or null.
+ * @returns The number of rows.
+ * @throws {RangeError} For no columns, unequal columns, or a weight not finite and ≥ 0.
+ */
+export function checkDesign(design: readonly Float64Array[], weights: Float64Array | null): number {
   if (design.length === 0) {
     throw new RangeError("Cannot compute hat values: the design has no columns");
   }

@@ -10,7 +10,7 @@
  * @module
  */
 import type { FileData } from "../../cells/types.ts";
-import type { DoneMessage, FromWorker, RunRequest, ToWorker } from "./protocol.ts";
+import type { DoneMessage, FromWorker, RunRequest, SummaryRequest, ToWorker } from "./protocol.ts";
 
 /** One cell to run: the run request without its wire fields, with file contents instead of digests. */
 export interface WorkerJob extends Omit<RunRequest, "op" | "id" | "files"> {
@@ -138,7 +138,23 @@ export class ComputeWorker {
         settings: job.settings,
         inputs: job.inputs,
         files,
+        ...(job.page === undefined ? {} : { page: job.page }),
       });
+    });
+  }
+
+  /**
+   * Summarises an output the worker holds again, in another shape; nothing is
+   * recomputed. Resolves with an error reply when the output is not held.
+   *
+   * @param req The output's key, its kind and spec, and the shape.
+   * @returns The reply, with the summary.
+   */
+  summarize(req: Omit<SummaryRequest, "op" | "id">): Promise<DoneMessage> {
+    const id = this.#nextId++;
+    return new Promise((resolve) => {
+      this.#pending.set(id, { resolve, key: req.key });
+      this.#post({ op: "summary", id, ...req });
     });
   }
 

@@ -10,7 +10,27 @@
 import type { CellOutput, FileData } from "../../cells/types.ts";
 import { CellError } from "../errors.ts";
 import type { Registry } from "../registry.ts";
-import type { DoneMessage, FromWorker, RunRequest, ToWorker, WireError } from "./protocol.ts";
+import type {
+  DoneMessage,
+  FromWorker,
+  RunRequest,
+  SummaryRequest,
+  ToWorker,
+  WireError,
+} from "./protocol.ts";
+
+/** How the worker makes the page's copy of a summary (kernel/server/live_result.ts). */
+export type PageShaper = (
+  kind: string,
+  summary: unknown,
+  keep: ReadonlySet<string>,
+) => { result: unknown; omitted: string[] };
+
+/** Options of {@link serveComputeWorker}. */
+export interface ComputeWorkerOptions {
+  /** Makes page copies for requests with `page`; without it they get the complete summary. */
+  pageShaper?: PageShaper;
+}
 
 function toWire(err: unknown): WireError {
   if (err instanceof CellError) {
@@ -27,8 +47,9 @@ function toWire(err: unknown): WireError {
  * Serves run requests on `self` until the worker is terminated.
  *
  * @param registry The cell kinds this worker can run.
+ * @param opts How page copies are made.
  */
-export function serveComputeWorker(registry: Registry): void {
+export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOptions = {}): void {
   const outputs = new Map<string, CellOutput>();
   const files = new Map<string, FileData>();
   const post = (m: FromWorker) => self.postMessage(m);
@@ -74,10 +95,36 @@ export function serveComputeWorker(registry: Registry): void {
         progress: (fraction, note) => post({ op: "progress", id: req.id, fraction, note }),
       });
       outputs.set(req.key, out);
-      const summary = kind.summary(out, req.spec);
-      return done({ ok: true, summary, line: kind.line(summary) });
+      return done(summarise(req, out));
     } catch (err) {
       return done({ error: toWire(err) });
+    }
+  }
+
+  /** The summary part of a reply: complete, or the page's copy when asked. */
+  function summarise(req: RunRequest | SummaryRequest, out: CellOutput): Partial<DoneMessage> {
+    const kind = registry.get(req.kind)!;
+    const summary = kind.summary(out, req.spec);
+    const line = kind.line(summary);
+    if (req.page === undefined || opts.pageShaper === undefined) {
+      return { ok: true, summary, line };
+    }
+    const page = opts.pageShaper(req.kind, summary, new Set(req.page));
+    return { ok: true, summary: page.result, omitted: page.omitted, line };
+  }
+
+  function resummarise(req: SummaryRequest): DoneMessage {
+    const t0 = performance.now();
+    const out = outputs.get(req.key);
+    const base = { op: "done" as const, id: req.id, ok: false, warnings: [] };
+    if (!out || !registry.has(req.kind)) {
+      const error = { message: `Output "${req.key}" is not held`, internal: true };
+      return { ...base, error, ms: performance.now() - t0 };
+    }
+    try {
+      return { ...base, ...summarise(req, out), ms: performance.now() - t0 };
+    } catch (err) {
+      return { ...base, error: toWire(err), ms: performance.now() - t0 };
     }
   }
 
@@ -94,6 +141,8 @@ export function serveComputeWorker(registry: Registry): void {
         for (const k of outputs.keys()) if (!keep.has(k)) outputs.delete(k);
         const keepFiles = new Set(msg.shas);
         for (const s of files.keys()) if (!keepFiles.has(s)) files.delete(s);
+      } else if (msg.op === "summary") {
+        post(resummarise(msg));
       } else {
         post(await run(msg));
       }

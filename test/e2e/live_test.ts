@@ -126,10 +126,16 @@ Deno.test({
         const ref = await page.$eval("[data-ref]", (e) => e.textContent);
         ok(/^0\.\d{4}$/.test(ref ?? ""), `inline R² shown with 4 digits: ${ref}`);
         Deno.mkdirSync(ARTIFACTS, { recursive: true });
+        // Blocks off screen skip rendering (content-visibility: auto): a viewport as tall
+        // as the page brings every block on screen for the picture.
+        const height = await page.evaluate(() => document.documentElement.scrollHeight);
+        await page.setViewport({ width: 1280, height });
+        await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => r(null))));
         await page.screenshot({
           path: new URL("live-demo.png", ARTIFACTS).pathname,
           fullPage: true,
         });
+        await page.setViewport({ width: 1280, height: 900 });
         deepEqual(b!.errors, []);
       });
 
@@ -137,6 +143,9 @@ Deno.test({
         "new rows on disk: affected cells update within 2 s, others do not rerun",
         async () => {
           const before = await runsBy(page, [...AFFECTED, "side", "side-fit"]);
+          const chartOf = () =>
+            page.$eval('[data-block="fade-overview"] svg.plumb-chart', (e) => e.outerHTML);
+          const chartBefore = await chartOf();
           const from = b!.messages.length;
           const csv = `${s.dir}/data/batch7.csv`;
           const rows = "605,2260.4,25.0\n610,2259.1,25.1\n615,2257.9,24.9\n";
@@ -145,6 +154,9 @@ Deno.test({
           await updated(page, AFFECTED, before);
           const ms = performance.now() - t0;
           ok(ms < 2000, `updated in ${ms} ms`);
+          // The charts are drawn again from the new results (by the page, into its own DOM).
+          ok((await chartOf()) !== chartBefore, "the overview chart was redrawn");
+          equal(await page.$$eval(".plumb-check svg.plumb-chart", (e) => e.length), 4);
           const runs = await waitFor("the run message", () => {
             const r = runsAfter(b!, from);
             return r.some((m) => m.ran.includes("cycles")) ? r : undefined;

@@ -19,20 +19,22 @@ export interface Heading {
 }
 
 /**
- * Stacks panels under an optional title and note into one SVG string.
+ * Stacks panels under an optional title and note into one SVG element (its
+ * `outerHTML` is the markup the static record inlines; the live page inserts
+ * the element itself, with no markup round trip).
  *
  * @param document The DOM document the panels were made with.
  * @param panels Plot's roots, top to bottom.
  * @param width Width of every panel, px.
  * @param heading Title, note and accessible name.
- * @returns The SVG markup, with `xmlns` so it also stands alone as a file.
+ * @returns The SVG element, with `xmlns` so its markup also stands alone as a file.
  */
 export function stackPanels(
   document: Document,
   panels: Panel[],
   width: number,
   heading: Heading,
-): string {
+): SVGSVGElement {
   const root = document.createElementNS(SVG_NS, "svg");
   let y = 0;
   const line = (text: string, size: number, weight: string) => {
@@ -61,5 +63,5 @@ export function stackPanels(
   root.setAttribute("role", "img");
   root.setAttribute("aria-label", heading.label);
   root.setAttribute("class", "plumb-chart");
-  return root.outerHTML;
+  return root;
 }

@@ -33,17 +33,18 @@ export type {
   ChartResidualSeries,
 } from "./chart_data.ts";
 export { FIT_PALETTE, fitColor, fnv1a, INK } from "./palette.ts";
-export { CHART_SIZE, renderChartSvg } from "./render_chart.ts";
+export { CHART_SIZE, renderChart, renderChartSvg } from "./render_chart.ts";
 export { chartDocument } from "./svg_document.ts";
-export { ChartFigure, type ChartFigureProps, SvgFigure } from "./chart_figure.tsx";
+export { ChartFigure, type ChartFigureProps, DrawnFigure, SvgFigure } from "./chart_figure.tsx";
 export {
   type CheckChartInput,
+  checkCharts,
   checkChartsSvg,
   type CheckDensity,
   checkDensity,
   DENSE_ROWS,
-  leverageSvg,
-  normalQuantileSvg,
-  residualsVsFittedSvg,
-  scaleLocationSvg,
+  leverageChart,
+  normalQuantiles,
+  residualsVsFitted,
+  scaleLocation,
 } from "./residual_charts.ts";

@@ -21,7 +21,7 @@ export const CHART_SIZE = { width: 640, height: 360, residualHeight: 170 } as co
 const MARGIN_LEFT = 64;
 
 /**
- * Renders a chart's data to an SVG string.
+ * Renders a chart's data to SVG markup ({@link renderChart}'s `outerHTML`).
  *
  * @param data The chart cell's result.
  * @param document The DOM document to build with (the browser's, or linkedom's).
@@ -42,6 +42,17 @@ const MARGIN_LEFT = 64;
  * ```
  */
 export function renderChartSvg(data: ChartData, document: Document): string {
+  return renderChart(data, document).outerHTML;
+}
+
+/**
+ * Renders a chart's data to an SVG element of `document`.
+ *
+ * @param data The chart cell's result.
+ * @param document The DOM document to build with (the browser's, or linkedom's).
+ * @returns The `<svg>` element (not attached).
+ */
+export function renderChart(data: ChartData, document: Document): SVGSVGElement {
   const marginRight = 12 + 6.5 * Math.max(0, ...data.curves.map((c) => c.fit.length));
   const margins = { marginLeft: MARGIN_LEFT, marginRight, marginTop: 20, marginBottom: 40 };
   const x = {

@@ -111,7 +111,7 @@ function panel(
   points: Scatter,
   extra: Record<string, unknown> = {},
   note: string | null = null,
-): string {
+): SVGSVGElement {
   const d = points.domains;
   const svg = Plot.plot({
     document,
@@ -132,9 +132,9 @@ function panel(
  *
  * @param r The check result fields.
  * @param document The DOM document (the browser's, or linkedom's).
- * @returns SVG markup.
+ * @returns The `<svg>` element (not attached).
  */
-export function residualsVsFittedSvg(r: CheckChartInput, document: Document): string {
+export function residualsVsFitted(r: CheckChartInput, document: Document): SVGSVGElement {
   return panel(
     document,
     `Residuals against fitted, ${r.fit}`,
@@ -152,9 +152,9 @@ export function residualsVsFittedSvg(r: CheckChartInput, document: Document): st
  *
  * @param r The check result fields.
  * @param document The DOM document.
- * @returns SVG markup.
+ * @returns The `<svg>` element (not attached).
  */
-export function normalQuantileSvg(r: CheckChartInput, document: Document): string {
+export function normalQuantiles(r: CheckChartInput, document: Document): SVGSVGElement {
   const q = r.density ? null : quantileParts(r);
   const line = r.density?.line ?? q!.line;
   const points = r.density
@@ -192,7 +192,7 @@ function quantileParts(r: CheckChartInput) {
 
 /** Counts of the sorted values against their normal quantiles, columns found by the CDF. */
 function quantileDensity(
-  sorted: number[],
+  sorted: ArrayLike<number>,
   q0: number,
   q1: number,
   position: (i: number) => number,
@@ -215,9 +215,9 @@ function quantileDensity(
  *
  * @param r The check result fields.
  * @param document The DOM document.
- * @returns SVG markup.
+ * @returns The `<svg>` element (not attached).
  */
-export function scaleLocationSvg(r: CheckChartInput, document: Document): string {
+export function scaleLocation(r: CheckChartInput, document: Document): SVGSVGElement {
   const points = r.density ? dense(r.density.scale) : scatter(scalePairs(r), fitColor(r.fit));
   return panel(document, `Scale–location, ${r.fit}`, "fitted", "√|studentized residual|", [
     Plot.ruleY([0], { stroke: INK, strokeOpacity: 0.4 }),
@@ -233,9 +233,9 @@ function scalePairs(r: CheckChartInput): Pair[] {
  *
  * @param r The check result fields.
  * @param document The DOM document.
- * @returns SVG markup.
+ * @returns The `<svg>` element (not attached).
  */
-export function leverageSvg(r: CheckChartInput, document: Document): string {
+export function leverageChart(r: CheckChartInput, document: Document): SVGSVGElement {
   const d0 = r.density;
   const pts = d0 ? [] : pairs(r.leverage, r.studentized_internal);
   const p = d0?.trace ?? r.leverage.reduce<number>((a, h) => a + (h ?? 0), 0);
@@ -277,18 +277,29 @@ export function leverageSvg(r: CheckChartInput, document: Document): string {
 }
 
 /**
- * All four residual charts, in the standard order.
+ * All four residual charts as markup, in the standard order.
  *
  * @param r The check result fields.
  * @param document The DOM document.
  * @returns Four SVG strings: residuals vs fitted, normal quantiles, scale–location, leverage.
  */
 export function checkChartsSvg(r: CheckChartInput, document: Document): string[] {
+  return checkCharts(r, document).map((e) => e.outerHTML);
+}
+
+/**
+ * All four residual charts as elements of `document`, in the standard order.
+ *
+ * @param r The check result fields.
+ * @param document The DOM document.
+ * @returns Four `<svg>` elements: residuals vs fitted, normal quantiles, scale–location, leverage.
+ */
+export function checkCharts(r: CheckChartInput, document: Document): SVGSVGElement[] {
   return [
-    residualsVsFittedSvg(r, document),
-    normalQuantileSvg(r, document),
-    scaleLocationSvg(r, document),
-    leverageSvg(r, document),
+    residualsVsFitted(r, document),
+    normalQuantiles(r, document),
+    scaleLocation(r, document),
+    leverageChart(r, document),
   ];
 }
 
@@ -308,23 +319,58 @@ export function checkChartsSvg(r: CheckChartInput, document: Document): string[]
  * ```
  */
 export function checkDensity(r: CheckChartInput): CheckDensity | null {
-  const fitted = pairs(r.fitted, r.residuals);
-  const scale = scalePairs(r);
-  const lev = pairs(r.leverage, r.studentized_internal);
-  const q = quantileParts(r);
-  if (fitted.length <= DENSE_ROWS || scale.length <= DENSE_ROWS || lev.length <= DENSE_ROWS) {
-    return null;
+  // Typed arrays and plain loops throughout: this runs in the compute worker
+  // on every update of a large check (10,000 rows: about 2 ms, against 11 ms
+  // with pairs of arrays and a comparator sort).
+  const fitted = finitePairs(r.fitted, r.residuals);
+  const scale = finitePairs(r.fitted, r.studentized_internal, (s) => Math.sqrt(Math.abs(s)));
+  const lev = finitePairs(r.leverage, r.studentized_internal);
+  if (fitted.n <= DENSE_ROWS || scale.n <= DENSE_ROWS || lev.n <= DENSE_ROWS) return null;
+  const s = finiteSorted(r.studentized_internal);
+  const n = s.length;
+  if (n <= DENSE_ROWS) return null;
+  const position = (i: number) => (i + 1 - 0.375) / (n + 0.25);
+  const q0 = standardNormal.quantile(position(0)), q1 = standardNormal.quantile(position(n - 1));
+  let trace = 0, hMax = -Infinity, rMax = -Infinity;
+  for (const h of r.leverage) trace += h ?? 0;
+  for (let i = 0; i < lev.n; i++) {
+    if (lev.x[i] > hMax) hMax = lev.x[i];
+    if (Math.abs(lev.y[i]) > rMax) rMax = Math.abs(lev.y[i]);
   }
-  if (q.bins === null) return null;
-  const count = (p: Pair[]) => density(p.map((d) => d[0]), p.map((d) => d[1]));
   return {
-    residuals: count(fitted),
-    quantiles: q.bins,
-    scale: count(scale),
-    leverage: count(lev),
-    line: q.line,
-    trace: r.leverage.reduce<number>((a, h) => a + (h ?? 0), 0),
-    hMax: max(lev.map((d) => d[0])),
-    rMax: max(lev.map((d) => Math.abs(d[1]))),
+    residuals: density(fitted.x, fitted.y),
+    quantiles: quantileDensity(s, q0, q1, position),
+    scale: density(scale.x, scale.y),
+    leverage: density(lev.x, lev.y),
+    line: [Math.min(q0, s[0]), Math.max(q1, s[n - 1])],
+    trace,
+    hMax,
+    rMax,
   };
+}
+
+/** The rows where both values are finite, as two typed arrays (y through `f` when given). */
+function finitePairs(
+  a: (number | null)[],
+  b: (number | null)[],
+  f?: (v: number) => number,
+): { x: Float64Array; y: Float64Array; n: number } {
+  const m = Math.min(a.length, b.length);
+  const x = new Float64Array(m), y = new Float64Array(m);
+  let n = 0;
+  for (let i = 0; i < m; i++) {
+    const u = a[i], v = b[i];
+    if (u === null || v === null || !Number.isFinite(u) || !Number.isFinite(v)) continue;
+    x[n] = u;
+    y[n++] = f ? f(v) : v;
+  }
+  return { x: x.subarray(0, n), y: y.subarray(0, n), n };
+}
+
+/** The finite values, sorted ascending (a typed array sorts numerically without a comparator). */
+function finiteSorted(a: (number | null)[]): Float64Array {
+  const out = new Float64Array(a.length);
+  let n = 0;
+  for (const v of a) if (v !== null && Number.isFinite(v)) out[n++] = v;
+  return out.subarray(0, n).sort();
 }
