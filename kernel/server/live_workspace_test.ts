@@ -7,10 +7,11 @@ import type { ServerMessage } from "./protocol.ts";
 const WORKER = new URL("../session/testdata/fake_worker.ts", import.meta.url);
 const fence = (info: string, body: string) => "```" + info + "\n" + body + "\n```\n";
 
+/** The cell states sent for a run of `doc`, after a warm-up run (workers started) of another document. */
 async function statesSent(doc: string, busyGraceMs?: number): Promise<string[]> {
   const dir = await Deno.makeTempDir({ prefix: "plumb-live-" });
   const path = join(dir, "doc.md");
-  await Deno.writeTextFile(path, doc);
+  await Deno.writeTextFile(path, fence("num warm", "value: 0"));
   const sent: ServerMessage[] = [];
   const ws = new LiveWorkspace({
     path,
@@ -21,6 +22,9 @@ async function statesSent(doc: string, busyGraceMs?: number): Promise<string[]> 
   });
   try {
     await ws.request();
+    sent.length = 0;
+    await Deno.writeTextFile(path, doc);
+    await ws.request([path]);
   } finally {
     ws.close();
     await Deno.remove(dir, { recursive: true });

@@ -23,7 +23,8 @@ import { hashValue } from "../hash.ts";
 import type { Registry } from "../registry.ts";
 import { buildGraph, type CellNode, type Graph, locateError } from "../graph/build.ts";
 import { OptionsCache } from "../graph/options_cache.ts";
-import { ComputeWorker } from "../worker/client.ts";
+import type { ComputeWorker } from "../worker/client.ts";
+import { WorkerPool } from "../worker/pool.ts";
 import type { DoneMessage } from "../worker/protocol.ts";
 import { FileStore } from "./files.ts";
 import { checkInlineRefs, referencedFields } from "./inline_refs.ts";
@@ -105,6 +106,8 @@ export interface SessionOptions {
    * (RUN-JSON).
    */
   page?: boolean;
+  /** Compute workers (default: two on two or more cores, else one). */
+  workers?: number;
 }
 
 const located = (e: LocatedError) => ({
@@ -116,7 +119,7 @@ const located = (e: LocatedError) => ({
 /** Runs one document reactively; keep it alive between edits to reuse results. */
 export class Session {
   #opts: SessionOptions;
-  #worker: ComputeWorker;
+  #pool: WorkerPool;
   #files: FileStore;
   #outcomes = new Map<string, Outcome>();
   #optionsCache = new OptionsCache();
@@ -129,7 +132,7 @@ export class Session {
   /** @param opts Registry, worker entry and the document's folder. */
   constructor(opts: SessionOptions) {
     this.#opts = opts;
-    this.#worker = new ComputeWorker(opts.workerUrl);
+    this.#pool = new WorkerPool(opts.workerUrl, opts.workers);
     this.#files = new FileStore(opts.dir);
   }
 
@@ -191,11 +194,44 @@ export class Session {
     for (const node of plan.graph.nodes) {
       if (!node.error && plan.keys.has(node.name)) this.#emit(node.name, "queued");
     }
-    for (const node of plan.graph.order) {
-      if (generation !== this.#generation) {
-        return { settings: plan.settings, cells: [], errors: [], ran, superseded: true };
+    // Every cell whose inputs have settled starts at once; those that compute
+    // wait for a worker (WorkerPool), taken in this order.
+    const remaining = [...plan.graph.order];
+    const going = new Set<Promise<void>>();
+    const settled = (node: CellNode) =>
+      node.error !== null || node.deps.every((d) => {
+        const dep = plan.graph.byName.get(d);
+        return dep === undefined || reports.has(dep);
+      });
+    let superseded = false;
+    while (remaining.length > 0 || going.size > 0) {
+      superseded ||= generation !== this.#generation;
+      if (!superseded) {
+        for (let i = 0; i < remaining.length;) {
+          const node = remaining[i];
+          if (!settled(node)) {
+            i++;
+            continue;
+          }
+          remaining.splice(i, 1);
+          const done: Promise<void> = this.#runNode(node, plan, reports, fileData, fileErrors, ran)
+            .then((r) => void reports.set(node, r))
+            .finally(() => going.delete(done));
+          going.add(done);
+        }
       }
-      reports.set(node, await this.#runNode(node, plan, reports, fileData, fileErrors, ran));
+      if (going.size > 0) await Promise.race(going);
+      else if (superseded) break;
+      else {
+        // Only cells waiting on each other are left (a cycle): report them one by one.
+        for (const node of remaining) {
+          reports.set(node, await this.#runNode(node, plan, reports, fileData, fileErrors, ran));
+        }
+        remaining.length = 0;
+      }
+    }
+    if (superseded) {
+      return { settings: plan.settings, cells: [], errors: [], ran, superseded: true };
     }
     this.#forgetUnused(plan, fileData);
     const cells = plan.graph.nodes.map((n) => reports.get(n)!);
@@ -319,16 +355,36 @@ export class Session {
     page: string[] | undefined,
     shape: string | null,
   ): Promise<Outcome | undefined> {
-    if (!this.#worker.has(key)) return undefined;
-    const d = await this.#worker.summarize({ key, kind: node.kind, spec: node.spec, page });
+    const holder = this.#pool.holderOf(key);
+    if (holder === undefined) return undefined;
+    const d = await holder.summarize({ key, kind: node.kind, spec: node.spec, page });
     if (!d.ok) return undefined;
     const again = { done: { ...d, warnings: outcome.done.warnings, ms: outcome.done.ms }, shape };
     this.#outcomes.set(key, again);
     return again;
   }
 
-  /** Computes a node, first recomputing any input whose output the worker no longer holds. */
+  /** Computes a node on a worker of the pool (the one holding most of its inputs, when free). */
   async #compute(
+    node: CellNode,
+    plan: Plan,
+    fileData: Map<string, FileData>,
+    ran: string[],
+  ): Promise<DoneMessage> {
+    const worker = await this.#pool.acquire(node.deps.map((d) => plan.keys.get(d)!));
+    try {
+      return await this.#computeOn(worker, node, plan, fileData, ran);
+    } finally {
+      this.#pool.release(worker);
+    }
+  }
+
+  /**
+   * Computes a node on one worker: an input this worker lacks is copied from
+   * the worker that holds it, or, when none does, computed again here first.
+   */
+  async #computeOn(
+    worker: ComputeWorker,
     node: CellNode,
     plan: Plan,
     fileData: Map<string, FileData>,
@@ -336,17 +392,21 @@ export class Session {
   ): Promise<DoneMessage> {
     for (const dep of node.deps) {
       const depKey = plan.keys.get(dep)!;
-      if (!this.#worker.has(depKey)) {
-        const redo = await this.#compute(plan.graph.byName.get(dep)!, plan, fileData, ran);
-        if (!redo.ok) return redo;
+      if (worker.has(depKey)) continue;
+      const out = await this.#pool.holderOf(depKey, worker)?.exportOutput(depKey);
+      if (out) {
+        worker.importOutput(depKey, out);
+        continue;
       }
+      const redo = await this.#computeOn(worker, plan.graph.byName.get(dep)!, plan, fileData, ran);
+      if (!redo.ok) return redo;
     }
     const files: Record<string, FileData> = {};
     for (const f of node.files) files[f.path] = fileData.get(f.path)!;
     this.#emit(node.name, "computing");
     ran.push(node.name);
     this.runs.set(node.name, (this.runs.get(node.name) ?? 0) + 1);
-    return await this.#worker.run({
+    return await worker.run({
       key: plan.keys.get(node.name)!,
       kind: node.kind,
       name: node.name,
@@ -363,7 +423,7 @@ export class Session {
   #forgetUnused(plan: Plan, fileData: Map<string, FileData>): void {
     const live = new Set(plan.keys.values());
     for (const k of this.#outcomes.keys()) if (!live.has(k)) this.#outcomes.delete(k);
-    this.#worker.retain(live, [...fileData.values()].map((f) => f.sha256));
+    this.#pool.retain(live, [...fileData.values()].map((f) => f.sha256));
   }
 
   #emit(name: string, state: CellState, fraction?: number, note?: string): void {
@@ -385,9 +445,9 @@ export class Session {
     this.#generation++;
   }
 
-  /** Stops the compute worker. */
+  /** Stops the compute workers. */
   close(): void {
-    this.#worker.close();
+    this.#pool.close();
   }
 }
 

@@ -185,3 +185,33 @@ Deno.test("Session.run() locates a kind's parse error at the option", async () =
     deepEqual([stateOf(r, "a").error!.line, stateOf(r, "a").error!.column], [5, 8]);
   });
 });
+
+Deno.test("Session.run() computes independent cells on two workers at once and copies an input across", async () => {
+  const dir = await Deno.makeTempDir({ prefix: "plumb-session-" });
+  const events: string[] = [];
+  const s = new Session({
+    registry: fakeRegistry,
+    workerUrl: WORKER,
+    dir,
+    workers: 2,
+    onEvent: (e) => events.push(`${e.name}:${e.state}`),
+  });
+  try {
+    // a and b busy-wait 200 ms each; c reads both, so one of them is copied to c's worker.
+    const doc = cell("spin", "a", "ms: 200\ntag: 3") + cell("spin", "b", "ms: 200\ntag: 4") +
+      cell("sum", "c", "of: [a, b]");
+    const r = await s.run(doc);
+    equal((stateOf(r, "c").result as { value: number }).value, 7);
+    // Both were computing before either settled: they ran at the same time.
+    const settledFirst = Math.min(events.indexOf("a:current"), events.indexOf("b:current"));
+    ok(
+      events.indexOf("a:computing") < settledFirst && events.indexOf("b:computing") < settledFirst,
+    );
+    // Copied, not computed again, for c.
+    deepEqual([s.runs.get("a"), s.runs.get("b"), s.runs.get("c")], [1, 1, 1]);
+    deepEqual(r.ran, ["a", "b", "c"]);
+  } finally {
+    s.close();
+    await Deno.remove(dir, { recursive: true });
+  }
+});

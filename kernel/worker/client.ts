@@ -10,6 +10,7 @@
  * @module
  */
 import type { FileData } from "../../cells/types.ts";
+import type { CellOutput } from "../../cells/types.ts";
 import type { DoneMessage, FromWorker, RunRequest, SummaryRequest, ToWorker } from "./protocol.ts";
 
 /** One cell to run: the run request without its wire fields, with file contents instead of digests. */
@@ -30,6 +31,8 @@ export class ComputeWorker {
   #worker!: Worker;
   #nextId = 1;
   #pending = new Map<number, Pending>();
+  /** Exports waiting for their output. */
+  #exports = new Map<number, (output: CellOutput | null) => void>();
   /** Output keys the worker holds. */
   #outputs = new Set<string>();
   /** File SHA-256s the worker holds. */
@@ -67,6 +70,8 @@ export class ComputeWorker {
     } catch { /* already gone */ }
     const pending = [...this.#pending.entries()];
     this.#pending.clear();
+    for (const give of this.#exports.values()) give(null);
+    this.#exports.clear();
     this.#start();
     for (const [id, p] of pending) {
       p.resolve({
@@ -85,6 +90,12 @@ export class ComputeWorker {
   }
 
   #receive(m: FromWorker): void {
+    if (m.op === "output") {
+      const give = this.#exports.get(m.id);
+      this.#exports.delete(m.id);
+      give?.(m.output === undefined ? null : m.output as CellOutput);
+      return;
+    }
     const p = this.#pending.get(m.id);
     if (!p) return;
     if (m.op === "progress") {
@@ -159,6 +170,34 @@ export class ComputeWorker {
   }
 
   /**
+   * A copy of an output the worker holds (for another worker that needs it).
+   * Answered between runs: at most one running cell's time later.
+   *
+   * @param key The output's cache key.
+   * @returns The output (a structured clone), or null when the worker does not hold it.
+   */
+  exportOutput(key: string): Promise<CellOutput | null> {
+    if (!this.#outputs.has(key)) return Promise.resolve(null);
+    const id = this.#nextId++;
+    return new Promise((resolve) => {
+      this.#exports.set(id, resolve);
+      this.#post({ op: "export", id, key });
+    });
+  }
+
+  /**
+   * Gives the worker an output computed elsewhere, stored under its key
+   * before any later run reads it.
+   *
+   * @param key The output's cache key.
+   * @param output The output.
+   */
+  importOutput(key: string, output: CellOutput): void {
+    this.#post({ op: "import", key, output });
+    this.#outputs.add(key);
+  }
+
+  /**
    * Lets the worker drop every output and file not listed.
    *
    * @param keys Output keys still needed.
@@ -185,5 +224,7 @@ export class ComputeWorker {
       });
     }
     this.#pending.clear();
+    for (const give of this.#exports.values()) give(null);
+    this.#exports.clear();
   }
 }

@@ -130,9 +130,22 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
 
   // Messages are handled one at a time, in arrival order: a run may read the
   // output of the run just before it, and a retain must not overtake a run.
+  // An export is answered at once (between runs, since runs are synchronous): another
+  // worker may be waiting on it, and nothing queued here changes a stored output.
   let queue = Promise.resolve();
   self.onmessage = (e: MessageEvent<ToWorker>) => {
     const msg = e.data;
+    if (msg.op === "export") {
+      const output = outputs.get(msg.key);
+      self.postMessage(
+        output === undefined ? { op: "output", id: msg.id } : {
+          op: "output",
+          id: msg.id,
+          output,
+        } satisfies FromWorker,
+      );
+      return;
+    }
     queue = queue.then(async () => {
       if (msg.op === "file") {
         files.set(msg.sha256, { path: msg.path, bytes: msg.bytes, sha256: msg.sha256 });
@@ -141,6 +154,8 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
         for (const k of outputs.keys()) if (!keep.has(k)) outputs.delete(k);
         const keepFiles = new Set(msg.shas);
         for (const s of files.keys()) if (!keepFiles.has(s)) files.delete(s);
+      } else if (msg.op === "import") {
+        outputs.set(msg.key, msg.output as CellOutput);
       } else if (msg.op === "summary") {
         post(resummarise(msg));
       } else {

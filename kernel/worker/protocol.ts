@@ -9,10 +9,16 @@
  *   │ ◀── progress {id, fraction, note}
  *   │ ◀── done {id, ok, summary | error, warnings, ms}
  *   │ retain {keys, shas}  (drop every other output and file)        ──▶
+ *   │ export {id, key} ──▶ ◀── output {id, output | absent}  (answered between runs)
+ *   │ import {key, output}  (an output another worker computed)       ──▶
  * ```
  *
- * Outputs never leave the worker: a cell's output is stored under its cache
- * key and later runs name their inputs by key. Only summaries (plain JSON)
+ * Outputs stay in the worker that computed them: a cell's output is stored
+ * under its cache key and later runs name their inputs by key. With several
+ * workers (kernel/worker/pool.ts) a cell may run on a worker that lacks an
+ * input; the kernel then copies that output over (export, then import: a
+ * structured clone, 0.5–2 ms for a 10,000-row fit) instead of computing it
+ * again. Only summaries (plain JSON)
  * come back: complete (RUN-JSON) by default, or, with `page`, the live
  * page's copy (no per-row arrays the page does not read), which keeps the
  * reply of a 10,000-row fit at about 2 kB instead of 430 kB (copying that
@@ -69,7 +75,27 @@ export interface RetainMessage {
   shas: string[];
 }
 
-export type ToWorker = RunRequest | SummaryRequest | FileMessage | RetainMessage;
+/** Send back the output stored under a key (not queued behind runs). */
+export interface ExportRequest {
+  op: "export";
+  id: number;
+  key: string;
+}
+
+/** Store an output computed by another worker under its key. */
+export interface ImportMessage {
+  op: "import";
+  key: string;
+  output: unknown;
+}
+
+export type ToWorker =
+  | RunRequest
+  | SummaryRequest
+  | FileMessage
+  | RetainMessage
+  | ExportRequest
+  | ImportMessage;
 
 /** A failure as thrown by cell code, still unlocated. */
 export interface WireError {
@@ -103,4 +129,11 @@ export interface ProgressMessage {
   note?: string;
 }
 
-export type FromWorker = DoneMessage | ProgressMessage;
+/** The answer to an export: the output, or absent when the worker does not hold it. */
+export interface OutputMessage {
+  op: "output";
+  id: number;
+  output?: unknown;
+}
+
+export type FromWorker = DoneMessage | ProgressMessage | OutputMessage;

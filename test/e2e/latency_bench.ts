@@ -13,8 +13,10 @@
  *
  * The page's moment is taken inside the page (a MutationObserver noting
  * `Date.now()` when every block is current with a result computed by a newer
- * run than before), the write's moment in Deno just before the write; both
- * read the same system clock.
+ * run than before, after the charts are drawn: they are drawn before the
+ * block's new state is committed), the write's moment in Deno just before
+ * the write; both read the same system clock. The bench waits on one promise
+ * in the page rather than polling it, so measuring adds no load.
  *
  * @module
  */
@@ -71,6 +73,14 @@ const DOC = [
   fence("chart line-residuals", "on: cells\nx: cycle\ny: capacity\nfits: [line]\nresiduals: true"),
 ].join("\n");
 
+function withTimeout<T>(p: Promise<T>, ms: number): Promise<T> {
+  let timer: ReturnType<typeof setTimeout> | undefined;
+  const late = new Promise<never>((_, reject) => {
+    timer = setTimeout(() => reject(new Error(`The page did not update within ${ms} ms`)), ms);
+  });
+  return Promise.race([p, late]).finally(() => clearTimeout(timer));
+}
+
 function quantile(sorted: number[], q: number): number {
   const i = (sorted.length - 1) * q;
   const lo = Math.floor(i), hi = Math.ceil(i);
@@ -83,9 +93,13 @@ export interface UpdateLatency {
   cells: number;
   kinds: string[];
   repetitions: number;
+  /** Write to the page's next painted frame showing every new result (the figure the targets judge). */
   p50_ms: number;
   p95_ms: number;
   max_ms: number;
+  /** Write to the DOM holding every new result (before that frame's layout and paint). */
+  dom_p50_ms: number;
+  dom_p95_ms: number;
   /** The server's own time for the run (its `run` message), for telling compute from page. */
   server_run_p50_ms: number | null;
   target_p50_ms: number;
@@ -113,6 +127,7 @@ export async function updateLatency(reps = 20): Promise<UpdateLatency | null> {
   });
   const b = await openBrowser();
   const times: number[] = [];
+  const domTimes: number[] = [];
   const serverMs: number[] = [];
   try {
     const { page } = b;
@@ -128,23 +143,36 @@ export async function updateLatency(reps = 20): Promise<UpdateLatency | null> {
     const csv = `${served.dir}/data/series.csv`;
     for (let i = 0; i < reps + 3; i++) {
       await page.evaluate(() => {
-        const w = globalThis as unknown as { seenAt: number | null; observer?: MutationObserver };
+        const w = globalThis as unknown as {
+          seen: Promise<{ dom: number; painted: number }>;
+          observer?: MutationObserver;
+        };
         const before = new Map(
           [...document.querySelectorAll("[data-block]")].map((
             e,
           ) => [e, Number(e.getAttribute("data-computed"))]),
         );
-        w.seenAt = null;
         w.observer?.disconnect();
+        // Charts off screen may wait to be drawn (data-pending); none on screen may.
+        const onScreen = (e: Element) => {
+          const r = e.getBoundingClientRect();
+          return r.bottom > 0 && r.top < innerHeight;
+        };
         const done = () =>
           [...before].every(([e, run]) =>
             e.isConnected && e.getAttribute("data-state") === "current" &&
             Number(e.getAttribute("data-computed")) > run
-          );
-        w.observer = new MutationObserver(() => {
-          if (w.seenAt === null && done()) w.seenAt = Date.now();
+          ) && ![...document.querySelectorAll("[data-pending]")].some(onScreen);
+        w.seen = new Promise((resolve) => {
+          w.observer = new MutationObserver(() => {
+            if (!done()) return;
+            w.observer?.disconnect();
+            const dom = Date.now();
+            // The frame that shows it: its callbacks run before its paint, the task after it.
+            requestAnimationFrame(() => setTimeout(() => resolve({ dom, painted: Date.now() })));
+          });
+          w.observer.observe(document.body, { subtree: true, attributes: true, childList: true });
         });
-        w.observer.observe(document.body, { subtree: true, attributes: true, childList: true });
       });
       const t0 = Date.now();
       await Deno.writeTextFile(
@@ -154,15 +182,16 @@ export async function updateLatency(reps = 20): Promise<UpdateLatency | null> {
           append: true,
         },
       );
-      await page.waitForFunction(
-        () => (globalThis as unknown as { seenAt: number | null }).seenAt !== null,
-        {
-          timeout: 10_000,
-          polling: 10,
-        },
+      // One call that returns when the page saw it (no polling that would load the page).
+      const { dom, painted } = await withTimeout(
+        page.evaluate(() =>
+          (globalThis as unknown as { seen: Promise<{ dom: number; painted: number }> }).seen
+        ),
+        10_000,
       );
-      const seen = await page.evaluate(() => (globalThis as unknown as { seenAt: number }).seenAt);
+      const seen = painted;
       if (Deno.env.get("PLUMB_BENCH_TRACE")) {
+        console.log(`dom ${dom - t0} painted ${painted - t0}`);
         const after = b.messages.filter((m) => (m as { receivedAt?: number }).receivedAt! >= t0);
         const at = (m: unknown) => (m as { receivedAt: number }).receivedAt - t0;
         console.log(
@@ -176,6 +205,7 @@ export async function updateLatency(reps = 20): Promise<UpdateLatency | null> {
       }
       if (i >= 3) {
         times.push(seen - t0);
+        domTimes.push(dom - t0);
         const run = b.messages.findLast((m) => m.type === "run");
         if (run?.type === "run") serverMs.push(run.ms);
       }
@@ -185,6 +215,7 @@ export async function updateLatency(reps = 20): Promise<UpdateLatency | null> {
     await served.close();
   }
   times.sort((x, y) => x - y);
+  domTimes.sort((x, y) => x - y);
   serverMs.sort((x, y) => x - y);
   return {
     rows: 10_000,
@@ -194,6 +225,8 @@ export async function updateLatency(reps = 20): Promise<UpdateLatency | null> {
     p50_ms: quantile(times, 0.5),
     p95_ms: quantile(times, 0.95),
     max_ms: times[times.length - 1],
+    dom_p50_ms: quantile(domTimes, 0.5),
+    dom_p95_ms: quantile(domTimes, 0.95),
     server_run_p50_ms: serverMs.length ? quantile(serverMs, 0.5) : null,
     target_p50_ms: 100,
     target_p95_ms: 250,
