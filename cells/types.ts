@@ -141,8 +141,13 @@ export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R
   files?(spec: Spec): FileRef[];
   /** Pure computation. Throws {@link CellError} for bad data. */
   run(spec: Spec, ctx: RunContext): Out | Promise<Out>;
-  /** The RUN-JSON `result` object (plain JSON). */
-  summary(out: Out, spec: Spec): R;
+  /**
+   * The RUN-JSON `result` object (plain JSON). `leaveOut`, when given, names
+   * top-level fields the caller drops (the live page's copy leaves out
+   * per-row arrays no view reads, ui/page_fields.ts): a kind may skip
+   * building them.
+   */
+  summary(out: Out, spec: Spec, leaveOut?: ReadonlySet<string>): R;
   /** One human line for the CLI summary. */
   line(result: R): string;
   /** The Preact view, shared by the live page and the static record. */

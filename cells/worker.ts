@@ -7,6 +7,10 @@
  */
 import { serveComputeWorker } from "../kernel/worker/compute_worker.ts";
 import { liveResult } from "../kernel/server/live_result.ts";
+import { pageOmits } from "../ui/page_fields.ts";
 import { registry } from "./mod.ts";
 
-serveComputeWorker(registry, { pageShaper: liveResult });
+serveComputeWorker(registry, {
+  pageShaper: liveResult,
+  pageLeavesOut: (kind, keep) => new Set(pageOmits(kind).filter((f) => !keep.has(f))),
+});

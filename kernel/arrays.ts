@@ -62,3 +62,46 @@ export function gatherInt(values: ArrayLike<number>, at: ArrayLike<number>): Int
   for (let k = 0; k < at.length; k++) out[k] = values[at[k]];
   return out;
 }
+
+/**
+ * The value with every typed array in it turned into a plain array (JSON
+ * writes a typed array as an object of indexes). Returns `v` itself, not a
+ * copy, when it holds none: only a scan, no allocation.
+ *
+ * @param v Plain data (objects, arrays, numbers, strings, booleans, null), possibly with typed arrays.
+ * @returns Plain data.
+ * @example
+ * ```ts
+ * import { plainDeep } from "./arrays.ts";
+ * const a = { x: [1, 2] };
+ * if (plainDeep(a) !== a) throw new Error("no copy needed");
+ * const b = plainDeep({ y: new Float64Array([3]) }) as { y: number[] };
+ * if (!Array.isArray(b.y)) throw new Error("converted");
+ * ```
+ */
+export function plainDeep(v: unknown): unknown {
+  return hasTyped(v) ? convert(v) : v;
+}
+
+function hasTyped(v: unknown): boolean {
+  if (v === null || typeof v !== "object") return false;
+  if (ArrayBuffer.isView(v)) return true;
+  if (Array.isArray(v)) {
+    for (let i = 0; i < v.length; i++) {
+      const x = v[i];
+      if (x !== null && typeof x === "object" && hasTyped(x)) return true;
+    }
+    return false;
+  }
+  for (const k in v) if (hasTyped((v as Record<string, unknown>)[k])) return true;
+  return false;
+}
+
+function convert(v: unknown): unknown {
+  if (v === null || typeof v !== "object") return v;
+  if (ArrayBuffer.isView(v)) return plainArray(v as unknown as ArrayLike<number>);
+  if (Array.isArray(v)) return v.map(convert);
+  const out: Record<string, unknown> = {};
+  for (const k in v) out[k] = convert((v as Record<string, unknown>)[k]);
+  return out;
+}

@@ -162,7 +162,12 @@ export function App(props: { store: LiveStore }): VNode {
   actions.current = { remove, addBelow: (n) => setAddAfter(n) };
   const run = store.lastRun.value;
   return (
-    <div class="pl-page" data-version={doc.version} data-run={run?.run ?? 0}>
+    <div
+      class="pl-page"
+      data-version={doc.version}
+      data-run={run?.run ?? 0}
+      data-run-ms={run?.ms ?? ""}
+    >
       <TopBar doc={doc} store={store} />
       <div class="pl-body">
         <main class="pl-main">

@@ -98,10 +98,15 @@ function spread(x: Float64Array): boolean {
 /** Signs in order of the one predictor column (ties in row order), else row order. */
 function runsOf(fit: Fit): CheckResult["runs"] {
   const byX = fit.columns.length === 1;
-  const order = Array.from({ length: fit.residuals.length }, (_, i) => i);
+  const n = fit.residuals.length;
+  const order = new Array<number>(n);
+  for (let i = 0; i < n; i++) order[i] = i;
   if (byX) {
     const x = fit.columns[0];
-    order.sort((a, b) => x[a] - x[b] || a - b);
+    // Rows already in x order (a series read in time order) need no sort.
+    let sorted = true;
+    for (let i = 1; i < n && sorted; i++) sorted = x[i - 1] <= x[i];
+    if (!sorted) order.sort((a, b) => x[a] - x[b] || a - b);
   }
   const r = signRuns(fit.residuals, order);
   return r &&

@@ -51,7 +51,32 @@ export function findingsOf(r: Base): Finding[] {
 type Add = (code: Finding["code"], rows: number[], message: string) => void;
 
 function pick(r: Base, test: (i: number) => boolean): number[] {
-  return r.leverage.map((_, i) => i).filter(test);
+  const out: number[] = [];
+  for (let i = 0; i < r.leverage.length; i++) if (test(i)) out.push(i);
+  return out;
+}
+
+/** Rows a sentence names with their values; the finding's `rows` keep every one. */
+const NAMED_ROWS = 8;
+
+/**
+ * The sentence of a finding about many rows (more than {@link NAMED_ROWS}):
+ * how many, the rule, then the largest few with their values, largest first.
+ * A 10,000-row fit can flag hundreds of rows by a rule of thumb; listing them
+ * all in prose helps nobody.
+ */
+function manyRows(
+  r: Base,
+  idx: number[],
+  size: (i: number) => number,
+  show: (i: number) => string,
+  what: string,
+  rule: string,
+): string {
+  const top = [...idx].sort((a, b) => size(b) - size(a) || a - b).slice(0, NAMED_ROWS);
+  return `${idx.length} rows have ${what} ${rule}; the ${NAMED_ROWS} largest: ${
+    top.map((i) => `row ${r.rows[i]} (${show(i)})`).join(", ")
+  }.`;
 }
 
 function rowFindings(r: Base, add: Add): void {
@@ -71,9 +96,20 @@ function rowFindings(r: Base, add: Add): void {
     add(
       "outlier",
       out.map((i) => r.rows[i]),
-      `${cap(rowList(out.map((i) => r.rows[i])))} ${verb(out)} externally studentized residual${
-        out.length > 1 ? "s" : ""
-      } ${out.map((i) => fmt(r.studentized_external[i])).join(", ")} (beyond ±3, common practice).`,
+      out.length > NAMED_ROWS
+        ? manyRows(
+          r,
+          out,
+          (i) => Math.abs(r.studentized_external[i] ?? 0),
+          (i) => fmt(r.studentized_external[i]),
+          "externally studentized residuals",
+          "beyond ±3 (common practice)",
+        )
+        : `${cap(rowList(out.map((i) => r.rows[i])))} ${verb(out)} externally studentized residual${
+          out.length > 1 ? "s" : ""
+        } ${
+          out.map((i) => fmt(r.studentized_external[i])).join(", ")
+        } (beyond ±3, common practice).`,
     );
   }
   if (n > p) {
@@ -81,14 +117,26 @@ function rowFindings(r: Base, add: Add): void {
     const cut = Math.max(4 / n, median);
     const inf = pick(r, (i) => (r.cooks_distance[i] ?? 0) > cut);
     if (inf.length) {
+      const rule = `above 4/n = ${fmt(4 / n)} and the median of F(${p}, ${n - p}) = ${
+        fmt(median)
+      } (common practice)`;
       add(
         "influential",
         inf.map((i) => r.rows[i]),
-        `${cap(rowList(inf.map((i) => r.rows[i])))} ${verb(inf)} Cook's distance ${
-          inf.map((i) => fmt(r.cooks_distance[i])).join(", ")
-        } (> 4/n = ${fmt(4 / n)} and > the median of F(${p}, ${n - p}) = ${
-          fmt(median)
-        }, common practice).`,
+        inf.length > NAMED_ROWS
+          ? manyRows(
+            r,
+            inf,
+            (i) => r.cooks_distance[i] ?? 0,
+            (i) => fmt(r.cooks_distance[i]),
+            "Cook's distance",
+            rule,
+          )
+          : `${cap(rowList(inf.map((i) => r.rows[i])))} ${verb(inf)} Cook's distance ${
+            inf.map((i) => fmt(r.cooks_distance[i])).join(", ")
+          } (> 4/n = ${fmt(4 / n)} and > the median of F(${p}, ${n - p}) = ${
+            fmt(median)
+          }, common practice).`,
       );
     }
   }
@@ -98,9 +146,18 @@ function rowFindings(r: Base, add: Add): void {
     add(
       "high-leverage",
       high.map((i) => r.rows[i]),
-      `${cap(rowList(high.map((i) => r.rows[i])))} ${verb(high)} leverage ${
-        high.map((i) => fmt(r.leverage[i], 2)).join(", ")
-      } (> 2p/n = ${fmt(lev, 2)}, common practice).`,
+      high.length > NAMED_ROWS
+        ? manyRows(
+          r,
+          high,
+          (i) => r.leverage[i],
+          (i) => fmt(r.leverage[i], 2),
+          "leverage",
+          `above 2p/n = ${fmt(lev, 2)} (common practice)`,
+        )
+        : `${cap(rowList(high.map((i) => r.rows[i])))} ${verb(high)} leverage ${
+          high.map((i) => fmt(r.leverage[i], 2)).join(", ")
+        } (> 2p/n = ${fmt(lev, 2)}, common practice).`,
     );
   }
 }

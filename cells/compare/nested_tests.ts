@@ -68,7 +68,10 @@ export function nestedTests(all: readonly Candidate[]): NestedTest[] {
  * and the difference of the offsets are scaled by the same √w (compare
  * accepts only fits with the same weights) and lie inside when what is left
  * after projecting onto the basis is at most {@link NESTING_TOLERANCE} of
- * their length.
+ * their length. A column the larger design holds exactly (or negated), and a
+ * zero offset difference, lie inside without a projection: polynomial and
+ * other shared terms are computed by the same code from the same data, so
+ * most nested pairs are told by comparing values.
  *
  * @param s The smaller candidate.
  * @param l The larger candidate.
@@ -80,15 +83,36 @@ export function isNestedIn(s: Candidate, l: Candidate): boolean {
   if (fs.parameters.length >= fl.parameters.length) return false;
   if (!sameValues(fs.y, fl.y)) return false;
   const n = fl.y.length;
-  const basis = fitBasis(fl);
   const w = fl.weights;
-  const within = (v: Float64Array) => inSpan(basis, w ? scaled(v, w) : v, NESTING_TOLERANCE);
+  let basis: Float64Array[] | null = null;
+  const within = (v: Float64Array) => {
+    // A column the larger design has as it is (or negated) lies in its span: no projection.
+    if (fl.design.some((u) => sameOrNegated(u, v)) || isZero(v)) return true;
+    basis ??= fitBasis(fl);
+    return inSpan(basis, w ? scaled(v, w) : v, NESTING_TOLERANCE);
+  };
   // Last columns first: they are the ones a larger model most often lacks, so a pair that
   // is not nested is usually told by the first test.
   if (![...fs.design].reverse().every(within)) return false;
   const gap = new Float64Array(n);
   for (let i = 0; i < n; i++) gap[i] = (fs.offset?.[i] ?? 0) - (fl.offset?.[i] ?? 0);
   return within(gap);
+}
+
+/** Whether v equals u or −u value for value (stops at the first difference). */
+function sameOrNegated(u: Float64Array, v: Float64Array): boolean {
+  if (u.length !== v.length) return false;
+  let same = true, negated = true;
+  for (let i = 0; i < u.length && (same || negated); i++) {
+    same &&= u[i] === v[i];
+    negated &&= u[i] === -v[i];
+  }
+  return same || negated;
+}
+
+function isZero(v: Float64Array): boolean {
+  for (let i = 0; i < v.length; i++) if (v[i] !== 0) return false;
+  return true;
 }
 
 /** √wᵢ·vᵢ. */

@@ -43,7 +43,7 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
   parse: parseFitSpec,
   inputs: (spec) => [{ name: spec.on, accepts: ["Table"], path: ["on"] }],
   run: runFit,
-  summary: (out) => summarizeFit(out),
+  summary: (out, _spec, leaveOut) => summarizeFit(out, leaveOut),
   line: (r) => `${r.model} · n ${r.n} · R² ${formatR2(r.r2)} · σ ${formatNumber(r.sigma, 3)}`,
   view: FitView,
 };

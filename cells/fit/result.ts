@@ -101,11 +101,19 @@ function square(a: Float64Array, p: number): (number | null)[][] {
  * Builds the RUN-JSON result of a fit.
  *
  * @param fit The fit cell's output.
+ * @param leaveOut Per-row fields (`fitted`, `residuals`, `rows`) not to build:
+ *   the live page's copy drops them (3 × n values a fit).
  * @returns Plain JSON (non-finite numbers become null).
  */
-export function summarizeFit(fit: Fit): FitResult {
+export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResult {
   const st = fit.statistics;
   const p = fit.parameters.length;
+  // A page copy lacks the fields left out; RUN-JSON (no leaveOut) has them all.
+  const perRow = {
+    ...(leaveOut?.has("fitted") ? {} : { fitted: plainArray(fit.fitted) }),
+    ...(leaveOut?.has("residuals") ? {} : { residuals: plainArray(fit.residuals) }),
+    ...(leaveOut?.has("rows") ? {} : { rows: plainArray(fit.rows) }),
+  } as Pick<FitResult, "fitted" | "residuals" | "rows">;
   return {
     method: fit.method,
     model: fit.model.text,
@@ -146,9 +154,7 @@ export function summarizeFit(fit: Fit): FitResult {
     weighting: st.weighting,
     weighting_statement: WEIGHTING_STATEMENTS[st.weighting],
     condition_number: num(fit.conditionNumber),
-    fitted: plainArray(fit.fitted),
-    residuals: plainArray(fit.residuals),
-    rows: plainArray(fit.rows),
+    ...perRow,
     converged: fit.converged,
     iterations: fit.iterations,
     rank_deficient: null,

@@ -4,6 +4,7 @@
  *
  * @module
  */
+import { gather as gatherValues } from "../../kernel/arrays.ts";
 import { CellError } from "../../kernel/errors.ts";
 import type { DelimitedColumn } from "../../kernel/csv/mod.ts";
 import type { Column } from "../types.ts";
@@ -71,8 +72,8 @@ export function gather(
 ): Column {
   const all = idx.length === total;
   if (c.type === "number") {
-    const values = all ? c.values : Float64Array.from(idx, (i) => c.values[i]);
-    const lo = c.lo === null ? null : all ? c.lo : Float64Array.from(idx, (i) => c.lo![i]);
+    const values = all ? c.values : gatherValues(c.values, idx);
+    const lo = c.lo === null ? null : all ? c.lo : gatherValues(c.lo, idx);
     return {
       name: c.name,
       type: "number",

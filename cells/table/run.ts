@@ -17,6 +17,7 @@ import { ExprError } from "../../kernel/expr/mod.ts";
 import type { Column, NumberColumn, RunContext, Table } from "../types.ts";
 import { addDerived, checkUnits } from "./_derive.ts";
 import { readSource } from "./_read_source.ts";
+import { gatherInt } from "../../kernel/arrays.ts";
 import { gather, indexesOf, keptAfterExclusions } from "./_select.ts";
 import { evaluateWhere } from "./_where.ts";
 import type { TableSpec } from "./spec.ts";
@@ -28,7 +29,11 @@ export interface TableOutput extends Table {
 }
 
 function applyWhere(spec: TableSpec, columns: Column[], rows: Int32Array): Int32Array {
-  if (spec.where === null) return Int32Array.from(rows.keys());
+  if (spec.where === null) {
+    const all = new Int32Array(rows.length);
+    for (let i = 0; i < all.length; i++) all[i] = i;
+    return all;
+  }
   const numeric = columns.filter((c): c is NumberColumn => c.type === "number");
   const text = columns.filter((c) => c.type === "text").map((c) => c.name);
   try {
@@ -64,13 +69,14 @@ export function runTable(spec: TableSpec, ctx: RunContext): TableOutput {
   const columns = data.columns.map((c) =>
     gather(c, kept, data.rowCount, spec.units[c.name] ?? null)
   );
-  const source = Int32Array.from(kept, (i) => i + 1);
+  const source = new Int32Array(kept.length);
+  for (let k = 0; k < kept.length; k++) source[k] = kept[k] + 1;
   addDerived(spec.derive, columns, source, spec.units, ctx.warn);
   const pass = applyWhere(spec, columns, source);
   const final = pass.length === source.length
     ? columns
     : columns.map((c) => gather(c, pass, source.length, c.unit));
-  const rows = pass.length === source.length ? source : Int32Array.from(pass, (i) => source[i]);
+  const rows = pass.length === source.length ? source : gatherInt(source, pass);
   if (spec.where !== null && rows.length === 0 && source.length > 0) {
     ctx.warn(`Filter "${spec.where}" keeps no rows`);
   }

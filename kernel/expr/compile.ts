@@ -5,6 +5,7 @@
  */
 import type { Expr } from "./expr.ts";
 import { generate } from "./_codegen.ts";
+import { cachedFunction } from "./_kernel_cache.ts";
 import { resolver, sorted, type Used } from "./_resolve.ts";
 
 /**
@@ -63,7 +64,7 @@ export function compile(e: Expr, columns: readonly string[], params: readonly st
     "}",
     "return out;",
   ].join("\n");
-  const kernel = new Function("cols", "params", "n", "out", src) as Compiled;
+  const kernel = cachedFunction(["cols", "params", "n", "out"], src) as Compiled;
   const nc = columns.length, np = params.length;
   return (cols, values, n, out) => {
     if (cols.length !== nc) throw new RangeError(`Expected ${nc} columns, got ${cols.length}`);

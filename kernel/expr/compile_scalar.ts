@@ -6,6 +6,7 @@
 import type { Expr } from "./expr.ts";
 import { generate } from "./_codegen.ts";
 import { resolver, sorted, type Used } from "./_resolve.ts";
+import { cachedFunction } from "./_kernel_cache.ts";
 
 /**
  * Compiles `e` into a function of one value per name, `values[k]` being the
@@ -36,5 +37,5 @@ export function compileScalar(
     ...g.body,
     `return ${g.result};`,
   ].join("\n");
-  return new Function("values", src) as (values: ArrayLike<number>) => number;
+  return cachedFunction(["values"], src) as (values: ArrayLike<number>) => number;
 }

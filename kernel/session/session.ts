@@ -85,6 +85,16 @@ export interface SessionEvent {
   report?: CellReport;
 }
 
+/** How a run hands a cell to the workers. */
+interface Dispatch {
+  /** Told when the cell is given a worker. */
+  started: (node: CellNode, w: ComputeWorker) => void;
+  /** Sent ahead into a worker's queue, before its inputs' answers (`settled`) came back. */
+  early?: { worker: ComputeWorker; settled: Promise<unknown> } | null;
+  /** False once the run was superseded: its cells then settle without telling the listener. */
+  live: () => boolean;
+}
+
 interface Outcome {
   done: DoneMessage;
   /** The fields kept beyond the page's copy (sorted, joined), or null for a complete summary. */
@@ -195,37 +205,81 @@ export class Session {
       if (!node.error && plan.keys.has(node.name)) this.#emit(node.name, "queued");
     }
     // Every cell whose inputs have settled starts at once; those that compute
-    // wait for a worker (WorkerPool), taken in this order.
+    // wait for a worker (WorkerPool), taken in this order. A cell that will
+    // compute and whose unsettled inputs are all being computed on one worker
+    // is sent to that worker's queue at once (QUEUE_DEPTH): the worker goes
+    // from cell to cell without waiting for this thread between them.
     const remaining = [...plan.graph.order];
     const going = new Set<Promise<void>>();
+    const finished = new Map<CellNode, Promise<CellReport>>();
+    const computingOn = new Map<CellNode, ComputeWorker>();
+    let wake = () => {};
+    const started = (node: CellNode, w: ComputeWorker) => {
+      computingOn.set(node, w);
+      wake();
+    };
+    const depsOf = (node: CellNode) => node.deps.flatMap((d) => plan.graph.byName.get(d) ?? []);
     const settled = (node: CellNode) =>
-      node.error !== null || node.deps.every((d) => {
-        const dep = plan.graph.byName.get(d);
-        return dep === undefined || reports.has(dep);
+      node.error !== null || depsOf(node).every((dep) => reports.has(dep));
+    const queueTarget = (node: CellNode): ComputeWorker | null => {
+      if (!this.#willCompute(node, plan, fileErrors)) return null;
+      let target: ComputeWorker | null = null;
+      for (const dep of depsOf(node)) {
+        if (reports.has(dep)) continue;
+        const on = computingOn.get(dep);
+        if (on === undefined || (target !== null && target !== on)) return null;
+        target = on;
+      }
+      return target !== null && this.#pool.queueOn(target) ? target : null;
+    };
+    const launch = (node: CellNode, early: ComputeWorker | null) => {
+      const inputs = early === null
+        ? null
+        : { worker: early, settled: Promise.all(depsOf(node).map((d) => finished.get(d))) };
+      const report = this.#runNode(node, plan, reports, fileData, fileErrors, ran, {
+        started,
+        early: inputs,
+        live,
+      }).then((r) => {
+        reports.set(node, r);
+        computingOn.delete(node);
+        return r;
       });
+      finished.set(node, report);
+      const done: Promise<void> = report.then(() => {}).finally(() => going.delete(done));
+      going.add(done);
+    };
+    const live = () => generation === this.#generation;
     let superseded = false;
     while (remaining.length > 0 || going.size > 0) {
       superseded ||= generation !== this.#generation;
-      if (!superseded) {
+      if (superseded) {
+        // Runs of this run not yet started in a worker are dropped (answered as cancelled).
+        const keys = new Set([...computingOn.keys()].map((n) => plan.keys.get(n.name)!));
+        for (const w of this.#pool.workers) w.cancelQueued(keys);
+      } else {
         for (let i = 0; i < remaining.length;) {
           const node = remaining[i];
-          if (!settled(node)) {
+          const early = settled(node) ? null : queueTarget(node);
+          if (!settled(node) && early === null) {
             i++;
             continue;
           }
           remaining.splice(i, 1);
-          const done: Promise<void> = this.#runNode(node, plan, reports, fileData, fileErrors, ran)
-            .then((r) => void reports.set(node, r))
-            .finally(() => going.delete(done));
-          going.add(done);
+          launch(node, early);
         }
       }
-      if (going.size > 0) await Promise.race(going);
-      else if (superseded) break;
+      if (going.size > 0) {
+        const woken = new Promise<void>((r) => wake = r);
+        await Promise.race([...going, woken]);
+      } else if (superseded) break;
       else {
         // Only cells waiting on each other are left (a cycle): report them one by one.
         for (const node of remaining) {
-          reports.set(node, await this.#runNode(node, plan, reports, fileData, fileErrors, ran));
+          reports.set(
+            node,
+            await this.#runNode(node, plan, reports, fileData, fileErrors, ran, { started, live }),
+          );
         }
         remaining.length = 0;
       }
@@ -268,6 +322,7 @@ export class Session {
     fileData: Map<string, FileData>,
     fileErrors: Map<CellNode, LocatedError>,
     ran: string[],
+    how: Dispatch,
   ): Promise<CellReport> {
     const base = {
       name: node.name,
@@ -279,9 +334,29 @@ export class Session {
       ms: 0,
       cached: false,
     };
+    const settle = (r: CellReport) => how.live() ? this.#settle(r) : r;
     const staticError = node.error ?? fileErrors.get(node);
     if (staticError) {
-      return this.#settle({ ...base, state: "failed", error: located(staticError) });
+      return settle({ ...base, state: "failed", error: located(staticError) });
+    }
+    // Sent to the worker ahead of its inputs' answers: wait for them, then judge as below.
+    let ahead: Promise<DoneMessage> | null = null;
+    if (how.early) {
+      const runsBefore = ran.length;
+      ahead = this.#compute(node, plan, fileData, ran, how, how.early.worker);
+      await how.early.settled;
+      const inputsCurrent = node.deps.every((d) =>
+        reports.get(plan.graph.byName.get(d)!)?.state === "current"
+      );
+      // Its turn in the worker comes now that its inputs are answered.
+      if (inputsCurrent && how.live()) this.#emit(node.name, "computing");
+      if (!inputsCurrent) {
+        await ahead; // it found an input missing; not this cell's outcome, so not kept
+        const at = ran.indexOf(node.name, runsBefore);
+        if (at >= 0) ran.splice(at, 1);
+        this.runs.set(node.name, (this.runs.get(node.name) ?? 1) - 1);
+        ahead = null;
+      }
     }
     const stateOf = (d: string) => reports.get(plan.graph.byName.get(d)!)?.state;
     const blocked = node.deps.find((d) => stateOf(d) !== "current");
@@ -289,7 +364,7 @@ export class Session {
       const why = blocked === undefined
         ? "an input cannot run"
         : `input "${blocked}" is ${stateOf(blocked) ?? "not ready"}`;
-      return this.#settle({
+      return settle({
         ...base,
         state: "held",
         error: { message: `Held: ${why}`, line: node.line, column: 1 },
@@ -302,16 +377,17 @@ export class Session {
     if (outcome && outcome.done.ok && outcome.shape !== shape) {
       outcome = await this.#reshape(node, key, outcome, page, shape);
     }
+    if (ahead) outcome = undefined;
     const cached = outcome !== undefined;
     if (!outcome) {
-      const done = await this.#compute(node, plan, fileData, ran);
+      const done = await (ahead ?? this.#compute(node, plan, fileData, ran, how));
       outcome = { done, shape };
       if (!isTransient(done)) this.#outcomes.set(key, outcome);
     }
     const d = outcome.done;
     const warnings = [...base.warnings, ...d.warnings.filter((w) => !base.warnings.includes(w))];
     if (d.ok) {
-      return this.#settle({
+      return settle({
         ...base,
         state: "current",
         error: null,
@@ -328,7 +404,7 @@ export class Session {
       ? `Internal error in cell "${node.name}": ${err.message}`
       : err.message;
     const pos = node.locate(err.path ?? [], err.offset);
-    return this.#settle({
+    return settle({
       ...base,
       state: "failed",
       error: { message, ...pos },
@@ -336,6 +412,13 @@ export class Session {
       ms: d.ms,
       cached,
     });
+  }
+
+  /** Whether a cell will compute in this run (it can run and has no kept outcome). */
+  #willCompute(node: CellNode, plan: Plan, fileErrors: Map<CellNode, LocatedError>): boolean {
+    const key = plan.keys.get(node.name);
+    return node.error === null && !fileErrors.has(node) && key !== undefined &&
+      !this.#outcomes.has(key);
   }
 
   /** With `page`: the fields kept beyond the page's copy for a cell (sorted); else undefined. */
@@ -364,16 +447,24 @@ export class Session {
     return again;
   }
 
-  /** Computes a node on a worker of the pool (the one holding most of its inputs, when free). */
+  /**
+   * Computes a node on a worker of the pool: the one holding most of its
+   * inputs, when idle, or `queued`, a worker whose queue it already has a
+   * place in (WorkerPool.queueOn).
+   */
   async #compute(
     node: CellNode,
     plan: Plan,
     fileData: Map<string, FileData>,
     ran: string[],
+    how: Dispatch,
+    queued?: ComputeWorker,
   ): Promise<DoneMessage> {
-    const worker = await this.#pool.acquire(node.deps.map((d) => plan.keys.get(d)!));
+    const worker = queued ?? await this.#pool.acquire(node.deps.map((d) => plan.keys.get(d)!));
+    how.started(node, worker);
     try {
-      return await this.#computeOn(worker, node, plan, fileData, ran);
+      const announce = queued === undefined ? how.live : () => false;
+      return await this.#computeOn(worker, node, plan, fileData, ran, how.live, announce);
     } finally {
       this.#pool.release(worker);
     }
@@ -389,21 +480,24 @@ export class Session {
     plan: Plan,
     fileData: Map<string, FileData>,
     ran: string[],
+    live: () => boolean,
+    announce: () => boolean = live,
   ): Promise<DoneMessage> {
     for (const dep of node.deps) {
       const depKey = plan.keys.get(dep)!;
-      if (worker.has(depKey)) continue;
+      if (worker.willHave(depKey)) continue;
       const out = await this.#pool.holderOf(depKey, worker)?.exportOutput(depKey);
       if (out) {
         worker.importOutput(depKey, out);
         continue;
       }
-      const redo = await this.#computeOn(worker, plan.graph.byName.get(dep)!, plan, fileData, ran);
+      const dnode = plan.graph.byName.get(dep)!;
+      const redo = await this.#computeOn(worker, dnode, plan, fileData, ran, live);
       if (!redo.ok) return redo;
     }
     const files: Record<string, FileData> = {};
     for (const f of node.files) files[f.path] = fileData.get(f.path)!;
-    this.#emit(node.name, "computing");
+    if (announce()) this.#emit(node.name, "computing");
     ran.push(node.name);
     this.runs.set(node.name, (this.runs.get(node.name) ?? 0) + 1);
     return await worker.run({
@@ -415,7 +509,7 @@ export class Session {
       inputs: Object.fromEntries(node.deps.map((d) => [d, plan.keys.get(d)!])),
       files,
       page: this.#pageFields(node.name),
-      onProgress: (fraction, note) => this.#emit(node.name, "computing", fraction, note),
+      onProgress: (fraction, note) => live() && this.#emit(node.name, "computing", fraction, note),
     });
   }
 

@@ -50,6 +50,7 @@ export function lackOfFit(
   weights: Float64Array | null,
 ): LackOfFit | null {
   const n = y.length;
+  if (columns.length === 1 && strictlyIncreasing(columns[0])) return null; // no replicates
   // One predictor: the number itself is the key (Map's SameValueZero groups exactly as String()
   // does: 0 with −0, NaN with NaN), without building a string per row.
   const groups = new Map<number | string, number[]>();
@@ -86,4 +87,10 @@ export function lackOfFit(
     ss_pure_error: ssPe,
     levels: m,
   };
+}
+
+/** Whether every value is larger than the one before (then no two rows share a value). */
+function strictlyIncreasing(x: Float64Array): boolean {
+  for (let i = 1; i < x.length; i++) if (!(x[i - 1] < x[i])) return false;
+  return true;
 }

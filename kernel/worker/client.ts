@@ -23,6 +23,8 @@ interface Pending {
   resolve: (m: DoneMessage) => void;
   onProgress?: (fraction: number, note?: string) => void;
   key: string;
+  /** A run (not a summary request). */
+  run?: boolean;
 }
 
 /** A compute worker with no permissions. */
@@ -89,6 +91,30 @@ export class ComputeWorker {
     }
   }
 
+  /**
+   * Whether the worker holds, or will hold once the runs already sent to it
+   * finish, the output under `key` (a run sent later may name it as an input).
+   *
+   * @param key A cache key.
+   * @returns True when held or being computed here.
+   */
+  willHave(key: string): boolean {
+    if (this.#outputs.has(key)) return true;
+    for (const p of this.#pending.values()) if (p.key === key && p.run) return true;
+    return false;
+  }
+
+  /**
+   * Cancels the runs of these keys that the worker has not started: they are
+   * answered as cancelled (transient, so not cached). A started run finishes.
+   *
+   * @param keys Cache keys.
+   */
+  cancelQueued(keys: ReadonlySet<string>): void {
+    const ids = [...this.#pending].filter(([, p]) => p.run && keys.has(p.key)).map(([id]) => id);
+    if (ids.length > 0) this.#post({ op: "cancel", ids });
+  }
+
   #receive(m: FromWorker): void {
     if (m.op === "output") {
       const give = this.#exports.get(m.id);
@@ -138,7 +164,7 @@ export class ComputeWorker {
     }
     const id = this.#nextId++;
     return new Promise((resolve) => {
-      this.#pending.set(id, { resolve, onProgress: job.onProgress, key: job.key });
+      this.#pending.set(id, { resolve, onProgress: job.onProgress, key: job.key, run: true });
       this.#post({
         op: "run",
         id,

@@ -8,6 +8,7 @@
  * @module
  */
 import type { CellOutput, FileData } from "../../cells/types.ts";
+import { plainDeep } from "../arrays.ts";
 import { CellError } from "../errors.ts";
 import type { Registry } from "../registry.ts";
 import type {
@@ -26,10 +27,21 @@ export type PageShaper = (
   keep: ReadonlySet<string>,
 ) => { result: unknown; omitted: string[] };
 
+/** Progress of a run is first sent this long after it started (ms). */
+const PROGRESS_AFTER_MS = 100;
+/** Then at most this often (ms): each message costs both threads about 0.4 ms (measured). */
+const PROGRESS_EVERY_MS = 50;
+
 /** Options of {@link serveComputeWorker}. */
 export interface ComputeWorkerOptions {
   /** Makes page copies for requests with `page`; without it they get the complete summary. */
   pageShaper?: PageShaper;
+  /**
+   * The fields a kind's page copy drops, besides those kept (ui/page_fields.ts
+   * `pageOmits`): passed to the kind's `summary` as `leaveOut`, so it need
+   * not build them.
+   */
+  pageLeavesOut?: (kind: string, keep: ReadonlySet<string>) => ReadonlySet<string>;
 }
 
 function toWire(err: unknown): WireError {
@@ -56,6 +68,7 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
 
   async function run(req: RunRequest): Promise<DoneMessage> {
     const t0 = performance.now();
+    let lastProgress = -Infinity;
     const warnings: string[] = [];
     const done = (rest: Partial<DoneMessage>): DoneMessage => ({
       op: "done",
@@ -92,7 +105,14 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
         warn: (m) => {
           if (!warnings.includes(m)) warnings.push(m);
         },
-        progress: (fraction, note) => post({ op: "progress", id: req.id, fraction, note }),
+        progress: (fraction, note) => {
+          // Work that ends within the server's grace for busy states shows no progress
+          // (kernel/server/live_workspace.ts): send none for it, then at most every 50 ms.
+          const now = performance.now();
+          if (now - t0 < PROGRESS_AFTER_MS || now - lastProgress < PROGRESS_EVERY_MS) return;
+          lastProgress = now;
+          post({ op: "progress", id: req.id, fraction, note });
+        },
       });
       outputs.set(req.key, out);
       return done(summarise(req, out));
@@ -104,13 +124,17 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
   /** The summary part of a reply: complete, or the page's copy when asked. */
   function summarise(req: RunRequest | SummaryRequest, out: CellOutput): Partial<DoneMessage> {
     const kind = registry.get(req.kind)!;
-    const summary = kind.summary(out, req.spec);
-    const line = kind.line(summary);
     if (req.page === undefined || opts.pageShaper === undefined) {
-      return { ok: true, summary, line };
+      const summary = kind.summary(out, req.spec);
+      return { ok: true, summary, line: kind.line(summary) };
     }
-    const page = opts.pageShaper(req.kind, summary, new Set(req.page));
-    return { ok: true, summary: page.result, omitted: page.omitted, line };
+    const keep = new Set(req.page);
+    const leave = opts.pageLeavesOut?.(req.kind, keep);
+    const summary = kind.summary(out, req.spec, leave);
+    const page = opts.pageShaper(req.kind, summary, keep);
+    const omitted = [...new Set([...(leave ?? []), ...page.omitted])];
+    // Plain JSON from here on: the server writes it to the page without a replacer.
+    return { ok: true, summary: plainDeep(page.result), omitted, line: kind.line(summary) };
   }
 
   function resummarise(req: SummaryRequest): DoneMessage {
@@ -133,8 +157,13 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
   // An export is answered at once (between runs, since runs are synchronous): another
   // worker may be waiting on it, and nothing queued here changes a stored output.
   let queue = Promise.resolve();
+  const cancelled = new Set<number>();
   self.onmessage = (e: MessageEvent<ToWorker>) => {
     const msg = e.data;
+    if (msg.op === "cancel") {
+      for (const id of msg.ids) cancelled.add(id);
+      return;
+    }
     if (msg.op === "export") {
       const output = outputs.get(msg.key);
       self.postMessage(
@@ -158,6 +187,15 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
         outputs.set(msg.key, msg.output as CellOutput);
       } else if (msg.op === "summary") {
         post(resummarise(msg));
+      } else if (cancelled.delete(msg.id)) {
+        post({
+          op: "done",
+          id: msg.id,
+          ok: false,
+          warnings: [],
+          ms: 0,
+          error: { message: "Cancelled: a newer run took over", internal: false, transient: true },
+        });
       } else {
         post(await run(msg));
       }

@@ -33,11 +33,20 @@ export function defaultWorkers(): number {
   return cores >= 4 ? 2 : 1;
 }
 
+/**
+ * Runs a worker may have waiting behind the one it computes: enough that it
+ * goes from one cell to the next without waiting for the kernel's answer
+ * (about a millisecond a cell, measured), few enough that other workers get
+ * the independent cells.
+ */
+export const QUEUE_DEPTH = 2;
+
 /** Compute workers handed out one cell at a time. */
 export class WorkerPool {
   /** The workers, in start order. */
   readonly workers: readonly ComputeWorker[];
-  #free: ComputeWorker[];
+  /** Runs sent to each worker and not yet answered. */
+  #load = new Map<ComputeWorker, number>();
   #waiting: { inputs: readonly string[]; take: (w: ComputeWorker) => void }[] = [];
 
   /**
@@ -49,36 +58,58 @@ export class WorkerPool {
       { length: Math.max(1, Math.floor(size)) },
       () => new ComputeWorker(url),
     );
-    this.#free = [...this.workers];
+    for (const w of this.workers) this.#load.set(w, 0);
   }
 
   /**
-   * Waits for a free worker; when several are free, takes the one that holds
+   * Waits for an idle worker; when several are idle, takes the one that holds
    * the most of `inputs` (then the first started).
    *
    * @param inputs Cache keys of the outputs the cell reads.
    * @returns The worker, to be given back with {@link release}.
    */
   acquire(inputs: readonly string[]): Promise<ComputeWorker> {
-    if (this.#free.length === 0) {
+    const idle = this.workers.filter((w) => this.#load.get(w) === 0);
+    if (idle.length === 0) {
       return new Promise((take) => this.#waiting.push({ inputs, take }));
     }
     const held = (w: ComputeWorker) => inputs.filter((k) => w.has(k)).length;
-    let best = this.#free[0];
-    for (const w of this.#free) if (held(w) > held(best)) best = w;
-    this.#free.splice(this.#free.indexOf(best), 1);
+    let best = idle[0];
+    for (const w of idle) if (held(w) > held(best)) best = w;
+    this.#load.set(best, 1);
     return Promise.resolve(best);
   }
 
   /**
-   * Gives a worker back: to the cell that has waited longest, else to the free list.
+   * Takes a place in a busy worker's queue, for a cell whose inputs are being
+   * computed there (it runs right after them, with no round trip between).
    *
-   * @param w A worker from {@link acquire}.
+   * @param w The worker computing the inputs.
+   * @returns True when `w` had fewer than {@link QUEUE_DEPTH} runs waiting; then
+   *   give it back with {@link release} like an acquired one.
+   */
+  queueOn(w: ComputeWorker): boolean {
+    const load = this.#load.get(w) ?? Infinity;
+    if (load >= 1 + QUEUE_DEPTH) return false;
+    this.#load.set(w, load + 1);
+    return true;
+  }
+
+  /**
+   * Gives a place back: once a worker is idle, to the cell that has waited
+   * longest for one.
+   *
+   * @param w A worker from {@link acquire} or {@link queueOn}.
    */
   release(w: ComputeWorker): void {
+    const load = Math.max(0, (this.#load.get(w) ?? 1) - 1);
+    this.#load.set(w, load);
+    if (load > 0) return;
     const next = this.#waiting.shift();
-    if (next) next.take(w);
-    else this.#free.push(w);
+    if (next) {
+      this.#load.set(w, 1);
+      next.take(w);
+    }
   }
 
   /**

@@ -11,7 +11,13 @@
  *   │ retain {keys, shas}  (drop every other output and file)        ──▶
  *   │ export {id, key} ──▶ ◀── output {id, output | absent}  (answered between runs)
  *   │ import {key, output}  (an output another worker computed)       ──▶
+ *   │ cancel {ids}  (runs not yet started: answered as cancelled)      ──▶
  * ```
+ *
+ * Runs are answered in the order they were sent, so the kernel may send a
+ * cell's run before the runs of its inputs have finished: the worker runs
+ * it after them (a failed input leaves it without that input, and the
+ * kernel reports the cell held).
  *
  * Outputs stay in the worker that computed them: a cell's output is stored
  * under its cache key and later runs name their inputs by key. With several
@@ -89,7 +95,14 @@ export interface ImportMessage {
   output: unknown;
 }
 
+/** Answer these runs, if not yet started, as cancelled (transient) instead of running them. */
+export interface CancelMessage {
+  op: "cancel";
+  ids: number[];
+}
+
 export type ToWorker =
+  | CancelMessage
   | RunRequest
   | SummaryRequest
   | FileMessage

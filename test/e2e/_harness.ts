@@ -164,9 +164,12 @@ export interface Session {
  * Launches Chromium and opens a page that records console errors and the
  * live channel's frames.
  *
+ * @param opts `tap: false` leaves the live channel's frames unrecorded
+ *   (`messages` stays empty): the DevTools protocol then sends nothing per
+ *   frame, for measurements that should not carry that load.
  * @returns The session.
  */
-export async function openBrowser(): Promise<Session> {
+export async function openBrowser(opts: { tap?: boolean } = {}): Promise<Session> {
   const profile = await Deno.makeTempDir({ prefix: "plumb-chromium-" });
   const browser = await puppeteer.launch({
     executablePath: CHROMIUM,
@@ -181,15 +184,17 @@ export async function openBrowser(): Promise<Session> {
     if (m.type() === "error") errors.push(`console: ${m.text()}`);
   });
   page.on("pageerror", (e) => errors.push(`page: ${String(e)}`));
-  const cdp = await page.createCDPSession();
-  await cdp.send("Network.enable");
-  cdp.on("Network.webSocketFrameReceived", (e) => {
-    try {
-      const m = JSON.parse(e.response.payloadData);
-      (m as { receivedAt?: number }).receivedAt = Date.now();
-      messages.push(m);
-    } catch { /* not ours */ }
-  });
+  if (opts.tap ?? true) {
+    const cdp = await page.createCDPSession();
+    await cdp.send("Network.enable");
+    cdp.on("Network.webSocketFrameReceived", (e) => {
+      try {
+        const m = JSON.parse(e.response.payloadData);
+        (m as { receivedAt?: number }).receivedAt = Date.now();
+        messages.push(m);
+      } catch { /* not ours */ }
+    });
+  }
   return {
     browser,
     page,

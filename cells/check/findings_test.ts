@@ -1,0 +1,61 @@
+import { deepEqual, equal, match } from "node:assert/strict";
+import { findingsOf } from "./findings.ts";
+
+/** A check result with every test absent, for the per-row findings (invented values). */
+function base(leverage: number[], external: number[]) {
+  const n = leverage.length;
+  return {
+    fit: "f",
+    n,
+    p: 2,
+    method: "linear" as const,
+    weighted: false,
+    significance: 0.05,
+    rows: leverage.map((_, i) => i + 1),
+    fitted: leverage.map(() => 0),
+    residuals: leverage.map(() => 0),
+    leverage,
+    studentized_internal: external,
+    studentized_external: external,
+    cooks_distance: leverage.map(() => 0),
+    dffits: leverage.map(() => 0),
+    vif: {},
+    condition_number: 1,
+    durbin_watson: null,
+    durbin_watson_test: null,
+    breusch_pagan: null,
+    shapiro_wilk: null,
+    jarque_bera: null,
+    reset: null,
+    runs: null,
+    lack_of_fit: null,
+    press: null,
+    loo_rmse: null,
+    robust: null,
+  };
+}
+
+Deno.test("findingsOf() names a few flagged rows with their values", () => {
+  const ext = Array.from({ length: 100 }, (_, i) => (i === 16 ? 4.2 : i === 40 ? -3.5 : 0.1));
+  const f = findingsOf(base(Array(100).fill(0.02), ext));
+  deepEqual(f.map((x) => x.code), ["outlier"]);
+  deepEqual(f[0].rows, [17, 41]);
+  equal(
+    f[0].message,
+    "Rows 17 and 41 have externally studentized residuals 4.2, -3.5 (beyond ±3, common practice).",
+  );
+});
+
+Deno.test("findingsOf() summarises many flagged rows: the count, the rule and the 8 largest", () => {
+  // 2p/n = 0.04 for p = 2, n = 100; rows 1–20 lie above it (leverage 0.06 down to 0.0505).
+  const lev = Array.from({ length: 100 }, (_, i) => (i < 20 ? 0.06 - i * 0.0005 : 0.01));
+  const f = findingsOf(base(lev, Array(100).fill(0)));
+  equal(f.length, 1);
+  equal(f[0].code, "high-leverage");
+  equal(f[0].rows.length, 20, "the finding keeps every row");
+  match(
+    f[0].message,
+    /^20 rows have leverage above 2p\/n = 0\.04 \(common practice\); the 8 largest: /,
+  );
+  match(f[0].message, /row 1 \(0\.06\), row 2 \(0\.059\), .*row 8 \(0\.056\)\.$/);
+});
