@@ -8,7 +8,7 @@
  */
 import type { VNode } from "preact";
 import { memo } from "preact/compat";
-import { useState } from "preact/hooks";
+import { useEffect, useRef, useState } from "preact/hooks";
 import type { LiveBlock } from "../kernel/server/protocol.ts";
 import type { LiveStore } from "./store.ts";
 import { StateMark } from "./state_mark.tsx";
@@ -70,6 +70,30 @@ function ResultOf(props: ResultProps) {
   return <View name={props.name} result={props.result} />;
 }
 
+/**
+ * Whether the browser renders a block's contents: false while the block is
+ * far off screen and skipped (`content-visibility: auto`, ui/style.ts), as
+ * the browser reports with `contentvisibilityautostatechange` (about half a
+ * screen before the block scrolls into view). True until told otherwise, and
+ * where the browser does not report it.
+ */
+function useRendered(ref: { current: Element | null }): boolean {
+  const [rendered, setRendered] = useState(true);
+  useEffect(() => {
+    const el = ref.current;
+    if (el === null) return;
+    const on = (e: Event) => setRendered(!(e as Event & { skipped: boolean }).skipped);
+    el.addEventListener("contentvisibilityautostatechange", on);
+    const print = () => setRendered(true);
+    globalThis.addEventListener?.("beforeprint", print);
+    return () => {
+      el.removeEventListener("contentvisibilityautostatechange", on);
+      globalThis.removeEventListener?.("beforeprint", print);
+    };
+  }, []);
+  return rendered;
+}
+
 function same(a: CellBlockProps, b: CellBlockProps): boolean {
   return a.store === b.store && a.version === b.version && a.onRemove === b.onRemove &&
     a.onAddBelow === b.onAddBelow && a.block.name === b.block.name &&
@@ -88,6 +112,16 @@ export const CellBlock = memo(CellBlockOf, same);
 function CellBlockOf(props: CellBlockProps): VNode {
   const { block, store } = props;
   const cell = store.cell(block.name, block.kind).value;
+  const section = useRef<HTMLElement>(null);
+  const rendered = useRendered(section);
+  // A block the browser is not rendering keeps showing the result it had and
+  // draws the newest when it comes near the screen (data-pending meanwhile):
+  // an update of a long analysis redraws what a reader can see, not all of it.
+  const shown = useRef({ result: cell.result, line: cell.summaryLine });
+  if (rendered || shown.current.result === undefined) {
+    shown.current = { result: cell.result, line: cell.summaryLine };
+  }
+  const pending = shown.current.result !== cell.result;
   const [showSource, setShowSource] = useState(false);
   const [editing, setEditing] = useState<{ body: string; base: string } | null>(null);
   const failed = cell.state === "failed";
@@ -97,6 +131,7 @@ function CellBlockOf(props: CellBlockProps): VNode {
     : cell.ms;
   return (
     <section
+      ref={section}
       class={`pl-cell pl-cell-${cell.state}`}
       id={`cell-${block.name}`}
       data-block={block.name}
@@ -176,12 +211,12 @@ function CellBlockOf(props: CellBlockProps): VNode {
         </ul>
       )}
       {!failed && (
-        <div class={busy ? "pl-result pl-stale" : "pl-result"}>
+        <div class={busy ? "pl-result pl-stale" : "pl-result"} data-pending={pending || undefined}>
           <Result
             kind={block.kind}
             name={block.name}
-            result={cell.result}
-            line={cell.summaryLine}
+            result={shown.current.result}
+            line={shown.current.line}
           />
         </div>
       )}

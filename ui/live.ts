@@ -2,7 +2,10 @@
  * The page's WebSocket to `/live`: parses each message and queues it; the
  * queue is applied to the store in arrival order once per animation frame,
  * in one signal batch, so a burst of messages (a run's queued, computing and
- * current states) costs one render, not one per message. Reconnects with a growing pause (0.25 s doubling
+ * current states) costs one render, not one per message. A `run` message
+ * ends a run's burst (the server sends a short run's cells together, then
+ * it): the queue is applied at once, so the page's work is done before the
+ * next frame rather than after it. Reconnects with a growing pause (0.25 s doubling
  * to 4 s) when the connection drops, since the server sends the whole
  * document again on connect.
  *
@@ -38,6 +41,7 @@ function frameQueue(store: LiveStore): { push(msg: ServerMessage): void } {
   return {
     push(msg) {
       queue.push(msg);
+      if (msg.type === "run") return flush();
       if (frame !== null) return;
       frame = requestAnimationFrame(flush);
       timer = setTimeout(flush, FRAME_FALLBACK_MS);

@@ -30,7 +30,7 @@ export interface FolderWatch {
  * @param dir The folder.
  * @param onChange Called with the absolute paths changed in one burst; not
  *   called again until its promise settles (changes meanwhile are collected).
- * @param debounceMs Quiet time that ends a burst (default 8 ms: an editor's save, temporary
+ * @param debounceMs Quiet time that ends a burst (default 5 ms: an editor's save, temporary
  *   file, write and rename, and a logger's appended block land within a millisecond or
  *   two here; the file event itself arrives about 1 ms after the write (measured on
  *   this machine kind); runs never overlap and equal content is never recomputed, so a
@@ -47,7 +47,7 @@ export interface FolderWatch {
 export function watchFolder(
   dir: string,
   onChange: (paths: Set<string>) => void | Promise<void>,
-  debounceMs = 8,
+  debounceMs = 5,
 ): FolderWatch {
   const watcher = Deno.watchFs(resolve(dir), { recursive: true });
   let pending = new Set<string>();
