@@ -33,15 +33,17 @@ export function buildProblem(
     numericColumn(name, model, table, c)
   );
   const keep = rowsWithoutMissing(used, table, warn);
-  const n = keep.length;
-  // Plain loops: a typed array's `from` with a mapping function is many times slower.
+  const n = keep === null ? table.rows.length : keep.length;
+  // Plain loops: a typed array's `from` with a mapping function is many times slower;
+  // with every row kept, a copy of the whole array.
   const pick = (v: Float64Array) => {
+    if (keep === null) return v.slice(0, n);
     const out = new Float64Array(n);
     for (let k = 0; k < n; k++) out[k] = v[keep[k]];
     return out;
   };
-  const rows = new Int32Array(n);
-  for (let k = 0; k < n; k++) rows[k] = table.rows[keep[k]];
+  const rows = keep === null ? table.rows.slice(0, n) : new Int32Array(n);
+  if (keep !== null) { for (let k = 0; k < n; k++) rows[k] = table.rows[keep[k]]; }
   const y = compile(model.response, [model.responseColumn], [])([pick(used[0].values)], [], n);
   const bad = notFinite(y, rows);
   if (bad.length > 0) {
@@ -99,12 +101,16 @@ function numericColumn(name: string, model: Model, table: Table, col: string): N
   return c;
 }
 
-/** Indexes of rows with every used column present; warns about the others. */
+/**
+ * Indexes of rows with every used column present (null: all of them, when no
+ * used column has a missing value); warns about the others.
+ */
 function rowsWithoutMissing(
   used: NumberColumn[],
   table: Table,
   warn: (m: string) => void,
-): number[] {
+): number[] | null {
+  if (used.every((c) => !hasNaN(c.values))) return null;
   const keep: number[] = [], left: number[] = [];
   const culprits = new Set<string>();
   const m = table.rows.length;
@@ -130,6 +136,11 @@ function rowsWithoutMissing(
     );
   }
   return keep;
+}
+
+function hasNaN(v: Float64Array): boolean {
+  for (let i = 0; i < v.length; i++) if (v[i] !== v[i]) return true;
+  return false;
 }
 
 /** Source row numbers where `v` is NaN or infinite. */

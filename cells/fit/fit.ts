@@ -4,6 +4,7 @@
  *
  * @module
  */
+import type { QRFactorization } from "../../kernel/linalg/mod.ts";
 import type { Model } from "../../kernel/expr/mod.ts";
 import type { CellOutput } from "../types.ts";
 import type { FitStatistics } from "./_statistics.ts";
@@ -41,6 +42,8 @@ export interface Fit extends CellOutput {
   rows: Int32Array;
   /** Design (linear) or Jacobian (nonlinear) columns, one per parameter. */
   design: Float64Array[];
+  /** Linear fits: the full-rank QR of the (√w-scaled) design the solver factored (FitSolution). */
+  designQR?: QRFactorization;
   /** The parameter-free part of a linear model per row, or null. */
   offset: Float64Array | null;
   /** Whether a constant is in the span of the design (R² centred). */

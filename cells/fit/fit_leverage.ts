@@ -13,6 +13,7 @@
  */
 import { checkDesign, hatValuesOf } from "../../kernel/stats/leverage.ts";
 import { orthonormalBasis } from "../../kernel/stats/_orthonormal_basis.ts";
+import { applyQ, type QRFactorization } from "../../kernel/linalg/mod.ts";
 import type { Fit } from "./fit.ts";
 
 const remembered = new WeakMap<object, Float64Array>();
@@ -22,16 +23,21 @@ const bases = new WeakMap<object, Float64Array[]>();
  * An orthonormal basis Q₁ of a fit's (√w-scaled) design column space,
  * remembered per fit object: its leverage, the Durbin–Watson moments and
  * compare's nesting checks all project onto it (one pivoted Householder QR
- * per fit instead of one for each). The arrays are shared: do not modify.
+ * per fit instead of one for each; for a linear fit, the QR its solver made,
+ * `designQR`: column scaling does not change the span). The arrays are
+ * shared: do not modify.
  *
  * @param fit The fit output.
  * @returns As kernel/stats `orthonormalBasis(fit.design, fit.weights)`.
  */
-export function fitBasis(fit: Pick<Fit, "design" | "weights">): Float64Array[] {
+export function fitBasis(fit: Pick<Fit, "design" | "weights" | "designQR">): Float64Array[] {
   let q = bases.get(fit);
   if (q === undefined) {
     checkDesign(fit.design, fit.weights);
-    q = orthonormalBasis(fit.design, fit.weights);
+    const f = fit.designQR;
+    q = f !== undefined && f.rank === fit.design.length && f.m === fit.design[0].length
+      ? basisOf(f)
+      : orthonormalBasis(fit.design, fit.weights);
     bases.set(fit, q);
   }
   return q;
@@ -53,7 +59,7 @@ export function fitBasis(fit: Pick<Fit, "design" | "weights">): Float64Array[] {
  * if (Math.abs(h[1] - 1 / 3) > 1e-14 || fitLeverage(fit) !== h) throw new Error(String(h));
  * ```
  */
-export function fitLeverage(fit: Pick<Fit, "design" | "weights">): Float64Array {
+export function fitLeverage(fit: Pick<Fit, "design" | "weights" | "designQR">): Float64Array {
   let h = remembered.get(fit);
   if (h === undefined) {
     const q = fitBasis(fit);
@@ -61,4 +67,16 @@ export function fitLeverage(fit: Pick<Fit, "design" | "weights">): Float64Array 
     remembered.set(fit, h);
   }
   return h;
+}
+
+/** The first `rank` columns of Q, Q·eₖ (Golub & Van Loan, *Matrix Computations*, 4th ed., §5.2). */
+function basisOf(f: QRFactorization): Float64Array[] {
+  const e = new Float64Array(f.m);
+  const out: Float64Array[] = [];
+  for (let k = 0; k < f.rank; k++) {
+    e.fill(0);
+    e[k] = 1;
+    out.push(applyQ(f, e));
+  }
+  return out;
 }

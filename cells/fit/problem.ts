@@ -14,6 +14,7 @@
  *
  * @module
  */
+import type { QRFactorization } from "../../kernel/linalg/mod.ts";
 import type { Model } from "../../kernel/expr/mod.ts";
 
 /** What a solver is given. */
@@ -89,6 +90,12 @@ export interface FitSolution {
   iterations: number;
   /** The design columns (linear) or Jacobian columns at the solution, one per parameter. */
   design: Float64Array[];
+  /**
+   * Linear fits: the pivoted Householder QR of the (√w-scaled,
+   * column-equilibrated) design the solver factored, of full rank; its Q
+   * spans the design's column space (fit_leverage.ts `fitBasis` uses it).
+   */
+  designQR?: QRFactorization;
   /** The part of the model free of parameters, evaluated per row (linear only; null when zero). */
   offset: Float64Array | null;
   /**

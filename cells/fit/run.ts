@@ -103,6 +103,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
     residuals: solution.residuals,
     rows: problem.rows,
     design: solution.design,
+    ...(solution.designQR ? { designQR: solution.designQR } : {}),
     offset: solution.offset,
     hasIntercept: solution.hasIntercept,
     conditionNumber: solution.conditionNumber,

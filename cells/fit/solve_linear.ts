@@ -102,6 +102,7 @@ export function solveLinear(problem: FitProblem): FitSolution {
       converged: true,
       iterations: 1,
       design,
+      designQR: ls.qr,
       offset,
     };
   }
@@ -119,6 +120,7 @@ export function solveLinear(problem: FitProblem): FitSolution {
     converged: true,
     iterations: 1,
     design,
+    designQR: ls.qr,
     offset,
   };
 }

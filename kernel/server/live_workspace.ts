@@ -16,8 +16,9 @@
  * cell (what it computed stays cached), then runs itself, so each content is
  * computed once and the browsers end with the newest state.
  *
- * A run's cell messages are held back for {@link BUSY_GRACE_MS} from its
- * start, a cell's later message replacing its earlier one, and sent together
+ * A run's messages (the document's, when its text or data changed, then the
+ * cells') are held back for {@link BUSY_GRACE_MS} from its start, a cell's
+ * later message replacing its earlier one, and sent together
  * when the run ends or the grace is over, whichever comes first; after it
  * they go out as they happen. So a short run (most updates) takes the page
  * from one consistent state to the next in one redraw, with no
@@ -77,6 +78,8 @@ export class LiveWorkspace {
   #started = new Map<string, number>();
   /** Cell messages held back during this run's grace period, in order, the latest per cell. */
   #held = new Map<string, CellMessage>();
+  /** The document message held back with them (the latest). */
+  #heldDoc: DocumentMessage | null = null;
   #graceTimer: ReturnType<typeof setTimeout> | null = null;
   #graceOver = true;
   #run = 0;
@@ -198,13 +201,13 @@ export class LiveWorkspace {
   async #once(): Promise<void> {
     const snap = await this.#snapshot();
     if (!snap || snap.print === this.#donePrint) return;
+    const t0 = performance.now();
+    this.#startGrace();
     if (snap.version !== this.#doc?.version || this.#dataChanged(snap)) {
       this.#setDocument(snap);
     }
     const run = ++this.#run;
     this.#runningPrint = snap.print;
-    const t0 = performance.now();
-    this.#startGrace();
     try {
       const report = await this.#session.run(snap.source);
       if (report.superseded) return;
@@ -240,9 +243,13 @@ export class LiveWorkspace {
     if (this.#graceTimer !== null) clearTimeout(this.#graceTimer);
     this.#graceTimer = null;
     this.#graceOver = true;
+    const doc = this.#heldDoc;
     const held = [...this.#held.values()];
+    this.#heldDoc = null;
     this.#held.clear();
-    for (const m of held) this.#opts.send(m);
+    if (doc) this.#opts.send(doc);
+    const version = this.#doc?.version;
+    for (const m of held) if (m.version === version) this.#opts.send(m);
   }
 
   #dataChanged(snap: Snapshot): boolean {
@@ -267,7 +274,8 @@ export class LiveWorkspace {
         this.#cells.delete(name);
       }
     }
-    this.#opts.send(this.#doc);
+    if (this.#graceOver) this.#opts.send(this.#doc);
+    else this.#heldDoc = this.#doc; // sent first when the grace ends, before the cells' messages
   }
 
   #onEvent(e: SessionEvent): void {
