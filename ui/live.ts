@@ -71,14 +71,15 @@ export function connectLive(store: LiveStore, url?: string): () => void {
       store.connection.value = "open";
     };
     ws.onmessage = (e) => {
-      let msg: ServerMessage;
+      let msg: ServerMessage | ServerMessage[];
       try {
         msg = JSON.parse(String(e.data));
       } catch {
         console.warn("Plumb: a live message was not JSON");
         return;
       }
-      queue.push(msg);
+      // A frame holds one message, or a run's burst as an array in order.
+      for (const m of Array.isArray(msg) ? msg : [msg]) queue.push(m);
     };
     ws.onclose = () => {
       if (closed) return;

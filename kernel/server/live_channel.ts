@@ -91,9 +91,39 @@ export class LiveChannel {
     }
   }
 
+  /**
+   * Sends messages to every open socket in one frame (a JSON array, in
+   * order), each cached result only to the sockets that have not seen it:
+   * the page reads a run's burst in one go and redraws once.
+   *
+   * @param msgs The messages, in order.
+   */
+  broadcastMany(msgs: readonly ServerMessage[]): void {
+    if (msgs.length === 0) return;
+    const full = msgs.map((m) => encodeMessage(m));
+    for (const ws of this.#sent.keys()) {
+      if (ws.readyState !== WebSocket.OPEN) continue;
+      const texts = msgs.map((msg, i) => {
+        const seen = msg.type === "cell" && msg.result !== undefined &&
+          this.#sent.get(ws)!.get(msg.name)?.result === msg.result;
+        if (seen) return encodeMessage(light(msg as CellMessage));
+        this.#remember(ws, msg);
+        return full[i];
+      });
+      ws.send(`[${texts.join(",")}]`);
+    }
+  }
+
   #sendTo(ws: WebSocket, msg: ServerMessage, text: string): void {
+    if (ws.readyState !== WebSocket.OPEN || !this.#sent.has(ws)) return;
+    this.#remember(ws, msg);
+    ws.send(text);
+  }
+
+  /** Notes what a socket is being sent: the results it holds, the cells a document keeps. */
+  #remember(ws: WebSocket, msg: ServerMessage): void {
     const sent = this.#sent.get(ws);
-    if (sent === undefined || ws.readyState !== WebSocket.OPEN) return;
+    if (sent === undefined) return;
     if (msg.type === "document") {
       const kinds = new Map<string, string>();
       for (const b of msg.blocks) if (b.type === "cell") kinds.set(b.name, b.kind);
@@ -101,7 +131,6 @@ export class LiveChannel {
     } else if (msg.type === "cell" && msg.result !== undefined) {
       sent.set(msg.name, { kind: msg.kind, result: msg.result });
     }
-    ws.send(text);
   }
 
   /** Closes every socket. */

@@ -47,6 +47,8 @@ export interface LiveOptions {
   workerUrl: URL;
   /** Called with every message, in order. */
   send: (msg: ServerMessage) => void;
+  /** Called with several messages to deliver together, in order (default: `send` each). */
+  sendMany?: (msgs: ServerMessage[]) => void;
   /** How long cell messages are held back from the start of a run (default {@link BUSY_GRACE_MS}). */
   busyGraceMs?: number;
 }
@@ -211,9 +213,8 @@ export class LiveWorkspace {
     try {
       const report = await this.#session.run(snap.source);
       if (report.superseded) return;
-      this.#endGrace();
       this.#donePrint = snap.print;
-      this.#opts.send({
+      this.#endGrace({
         type: "run",
         version: snap.version,
         run,
@@ -238,8 +239,11 @@ export class LiveWorkspace {
     }, grace);
   }
 
-  /** Ends the grace period: messages still held are sent now, and later ones at once. */
-  #endGrace(): void {
+  /**
+   * Ends the grace period: messages still held are sent now, together, with
+   * the run's own message when the run ended; later ones go out at once.
+   */
+  #endGrace(last?: ServerMessage): void {
     if (this.#graceTimer !== null) clearTimeout(this.#graceTimer);
     this.#graceTimer = null;
     this.#graceOver = true;
@@ -247,9 +251,15 @@ export class LiveWorkspace {
     const held = [...this.#held.values()];
     this.#heldDoc = null;
     this.#held.clear();
-    if (doc) this.#opts.send(doc);
     const version = this.#doc?.version;
-    for (const m of held) if (m.version === version) this.#opts.send(m);
+    const out: ServerMessage[] = [
+      ...(doc ? [doc] : []),
+      ...held.filter((m) => m.version === version),
+    ];
+    if (last) out.push(last);
+    if (out.length === 1) this.#opts.send(out[0]);
+    else if (this.#opts.sendMany) this.#opts.sendMany(out);
+    else for (const m of out) this.#opts.send(m);
   }
 
   #dataChanged(snap: Snapshot): boolean {

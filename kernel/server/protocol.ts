@@ -22,6 +22,9 @@
  * (403 otherwise). The page finds the token for the header in
  * `<meta name="plumb-token">` of the shell.
  *
+ * A WebSocket frame carries one message, or several as a JSON array in
+ * order (the messages of a short run, sent together when it ends).
+ *
  * A `version` is the lower-case hex SHA-256 of the document text on disk.
  * Messages arrive in order; a browser applies a `cell` message only when its
  * `version` equals that of the last `document` message, and a higher `run`

@@ -92,6 +92,7 @@ export async function startServer(opts: ServerOptions): Promise<LiveServer> {
     registry: opts.registry,
     workerUrl: opts.workerUrl,
     send: (msg) => sockets.broadcast(msg),
+    sendMany: (msgs) => sockets.broadcastMany(msgs),
   });
   await workspace.readDisk(); // fail early on a missing document
   const ctx = { token, hosts: new Set<string>() };

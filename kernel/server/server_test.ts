@@ -109,7 +109,8 @@ async function openLive(ctx: Ctx) {
     headers: { origin: ctx.origin, cookie: ctx.cookie },
   } as unknown as string[]);
   const closed = new Promise<void>((r) => ws.onclose = () => r());
-  ws.onmessage = (e) => messages.push(JSON.parse(e.data));
+  // A frame holds one message or an array of them (a run's burst).
+  ws.onmessage = (e) => messages.push(...[JSON.parse(e.data)].flat());
   await new Promise<void>((r, j) => {
     ws.onopen = () => r();
     ws.onerror = () => j(new Error("WebSocket failed"));

@@ -189,9 +189,11 @@ export async function openBrowser(opts: { tap?: boolean } = {}): Promise<Session
     await cdp.send("Network.enable");
     cdp.on("Network.webSocketFrameReceived", (e) => {
       try {
-        const m = JSON.parse(e.response.payloadData);
-        (m as { receivedAt?: number }).receivedAt = Date.now();
-        messages.push(m);
+        // A frame holds one message or an array of them (a run's burst).
+        for (const m of [JSON.parse(e.response.payloadData)].flat()) {
+          (m as { receivedAt?: number }).receivedAt = Date.now();
+          messages.push(m);
+        }
       } catch { /* not ours */ }
     });
   }
