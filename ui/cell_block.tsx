@@ -8,7 +8,7 @@
  */
 import type { VNode } from "preact";
 import { memo } from "preact/compat";
-import { useEffect, useRef, useState } from "preact/hooks";
+import { useLayoutEffect, useRef, useState } from "preact/hooks";
 import type { LiveBlock } from "../kernel/server/protocol.ts";
 import type { LiveStore } from "./store.ts";
 import { StateMark } from "./state_mark.tsx";
@@ -79,13 +79,26 @@ function ResultOf(props: ResultProps) {
  */
 function useRendered(ref: { current: Element | null }): boolean {
   const [rendered, setRendered] = useState(true);
-  useEffect(() => {
+  // Before paint: the browser decides which blocks it skips in its first
+  // rendering update, and says so only on a change afterwards.
+  useLayoutEffect(() => {
     const el = ref.current;
     if (el === null) return;
     const on = (e: Event) => setRendered(!(e as Event & { skipped: boolean }).skipped);
     el.addEventListener("contentvisibilityautostatechange", on);
     const print = () => setRendered(true);
     globalThis.addEventListener?.("beforeprint", print);
+    // Already skipped (a descendant of a skipped block is not visible to checkVisibility).
+    const probe = el.firstElementChild as
+      | Element & {
+        checkVisibility?: (o: object) => boolean;
+      }
+      | null;
+    requestAnimationFrame(() => {
+      if (probe?.checkVisibility && !probe.checkVisibility({ contentVisibilityAuto: true })) {
+        setRendered(false);
+      }
+    });
     return () => {
       el.removeEventListener("contentvisibilityautostatechange", on);
       globalThis.removeEventListener?.("beforeprint", print);
