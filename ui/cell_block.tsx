@@ -94,7 +94,7 @@ function useRendered(ref: { current: Element | null }): boolean {
         checkVisibility?: (o: object) => boolean;
       }
       | null;
-    requestAnimationFrame(() => {
+    globalThis.requestAnimationFrame?.(() => {
       if (probe?.checkVisibility && !probe.checkVisibility({ contentVisibilityAuto: true })) {
         setRendered(false);
       }
