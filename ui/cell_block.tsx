@@ -70,41 +70,49 @@ function ResultOf(props: ResultProps) {
   return <View name={props.name} result={props.result} />;
 }
 
+/** How far beyond the screen a block still shows its newest result: half a screen. */
+const NEAR = "50% 0px";
+
+/** One observer for every block: the callbacks of the blocks it watches. */
+let near: IntersectionObserver | null = null;
+const watchers = new Map<Element, (inView: boolean) => void>();
+
+function nearObserver(): IntersectionObserver | null {
+  if (near === null && typeof globalThis.IntersectionObserver === "function") {
+    near = new IntersectionObserver((entries) => {
+      for (const e of entries) watchers.get(e.target)?.(e.isIntersecting);
+    }, { rootMargin: NEAR });
+  }
+  return near;
+}
+
 /**
- * Whether the browser renders a block's contents: false while the block is
- * far off screen and skipped (`content-visibility: auto`, ui/style.ts), as
- * the browser reports with `contentvisibilityautostatechange` (about half a
- * screen before the block scrolls into view). True until told otherwise, and
- * where the browser does not report it.
+ * Whether a block is on or near the screen (within half a screen of it), so
+ * that it shows its newest result. True until the browser says otherwise,
+ * where it cannot say (no IntersectionObserver), and while printing.
+ *
+ * The browser itself skips rendering blocks further off (`content-visibility:
+ * auto`, ui/style.ts; Chrome's margin is larger, about one and a half
+ * screens), but that alone saves layout and paint, not the page's own work
+ * of redrawing a result nobody can see.
  */
-function useRendered(ref: { current: Element | null }): boolean {
-  const [rendered, setRendered] = useState(true);
-  // Before paint: the browser decides which blocks it skips in its first
-  // rendering update, and says so only on a change afterwards.
+function useNear(ref: { current: Element | null }): boolean {
+  const [inView, setInView] = useState(true);
   useLayoutEffect(() => {
     const el = ref.current;
-    if (el === null) return;
-    const on = (e: Event) => setRendered(!(e as Event & { skipped: boolean }).skipped);
-    el.addEventListener("contentvisibilityautostatechange", on);
-    const print = () => setRendered(true);
+    const io = nearObserver();
+    if (el === null || io === null) return;
+    watchers.set(el, setInView);
+    io.observe(el);
+    const print = () => setInView(true);
     globalThis.addEventListener?.("beforeprint", print);
-    // Already skipped (a descendant of a skipped block is not visible to checkVisibility).
-    const probe = el.firstElementChild as
-      | Element & {
-        checkVisibility?: (o: object) => boolean;
-      }
-      | null;
-    globalThis.requestAnimationFrame?.(() => {
-      if (probe?.checkVisibility && !probe.checkVisibility({ contentVisibilityAuto: true })) {
-        setRendered(false);
-      }
-    });
     return () => {
-      el.removeEventListener("contentvisibilityautostatechange", on);
+      io.unobserve(el);
+      watchers.delete(el);
       globalThis.removeEventListener?.("beforeprint", print);
     };
   }, []);
-  return rendered;
+  return inView;
 }
 
 function same(a: CellBlockProps, b: CellBlockProps): boolean {
@@ -126,7 +134,7 @@ function CellBlockOf(props: CellBlockProps): VNode {
   const { block, store } = props;
   const cell = store.cell(block.name, block.kind).value;
   const section = useRef<HTMLElement>(null);
-  const rendered = useRendered(section);
+  const rendered = useNear(section);
   // A block the browser is not rendering keeps showing the result it had and
   // draws the newest when it comes near the screen (data-pending meanwhile):
   // an update of a long analysis redraws what a reader can see, not all of it.
