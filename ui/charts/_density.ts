@@ -104,13 +104,13 @@ export function densityRect(b: ChartBins): Plot.Markish {
     const x = scales.x!, y = scales.y!;
     const paths: string[][] = Array.from({ length: DENSITY_SHADES }, () => []);
     const at = (v: number) => Math.round(v * 100) / 100;
+    // Each edge scaled once (the grid has ~40 × 32 cells, each with four edges).
+    const xs = b.x.map((v) => at(x(v))), ys = b.y.map((v) => at(y(v)));
     for (const [i, j, c] of b.cells) {
       const k = span > 0
         ? Math.round(((c - least) / span) * (DENSITY_SHADES - 1))
         : DENSITY_SHADES - 1;
-      const x1 = at(x(b.x[i])), x2 = at(x(b.x[i + 1]));
-      const y1 = at(y(b.y[j])), y2 = at(y(b.y[j + 1]));
-      paths[k].push(`M${x1},${y1}H${x2}V${y2}H${x1}Z`);
+      paths[k].push(`M${xs[i]},${ys[j]}H${xs[i + 1]}V${ys[j + 1]}H${xs[i]}Z`);
     }
     paths.forEach((d, k) => {
       if (d.length === 0) return;
