@@ -129,6 +129,10 @@ export class ComputeWorker {
       return;
     }
     this.#pending.delete(m.id);
+    if (m.summaryJson !== undefined) {
+      m.summary = JSON.parse(m.summaryJson);
+      delete m.summaryJson;
+    }
     if (m.ok) this.#outputs.add(p.key);
     p.resolve(m);
   }

@@ -134,7 +134,8 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
     const page = opts.pageShaper(req.kind, summary, keep);
     const omitted = [...new Set([...(leave ?? []), ...page.omitted])];
     // Plain JSON from here on: the server writes it to the page without a replacer.
-    return { ok: true, summary: plainDeep(page.result), omitted, line: kind.line(summary) };
+    const summaryJson = JSON.stringify(plainDeep(page.result));
+    return { ok: true, summaryJson, omitted, line: kind.line(summary) };
   }
 
   function resummarise(req: SummaryRequest): DoneMessage {

@@ -127,6 +127,13 @@ export interface DoneMessage {
   id: number;
   ok: boolean;
   summary?: unknown;
+  /**
+   * A page copy as JSON text instead of `summary` (page requests only; the
+   * client parses it back): copying text between threads takes about a
+   * quarter of the time of copying the same result as objects, measured on a
+   * check's page copy with its counted charts (0.07 against 0.29 ms).
+   */
+  summaryJson?: string;
   /** Fields of the complete summary left out of this page copy (page requests only). */
   omitted?: string[];
   line?: string;
