@@ -107,6 +107,11 @@ async function relaunch(a: ServeArgs): Promise<number> {
       "run",
       `--config=${join(REPO, "deno.json")}`,
       "--unstable-bundle",
+      // A larger young generation: a live update of 10,000 rows makes a few MB of
+      // short-lived arrays in the compute worker, and with V8's default the worker
+      // stops to collect them several times an update (measured on the latency
+      // bench: p50 about 100 -> 93 ms, and steadier). Costs at most ~64 MB a thread.
+      "--v8-flags=--max-semi-space-size=32",
       ...flags.args,
       MAIN,
       "serve",
