@@ -134,6 +134,8 @@ export class Session {
   #outcomes = new Map<string, Outcome>();
   #optionsCache = new OptionsCache();
   #generation = 0;
+  /** Cancels the latest run's cells still queued in a worker (set by each run). */
+  #cancelOlder: (() => void) | null = null;
   /** With `page`: per cell, the fields its inline values name (this run's document). */
   #keep = new Map<string, Set<string>>();
   /** How many times each cell was computed over the session's life. */
@@ -205,6 +207,7 @@ export class Session {
    */
   async run(source: string): Promise<RunReport> {
     const generation = ++this.#generation;
+    this.#cancelOlder?.();
     const prep = this.#prepare(source);
     const { fileData, fileErrors } = await this.#readFiles(prep.graph, prep.settings);
     const plan = this.#keyed(prep, new Map([...fileData].map(([p, f]) => [p, f.sha256])));
@@ -260,13 +263,18 @@ export class Session {
       going.add(done);
     };
     const live = () => generation === this.#generation;
+    // When a newer run starts (or supersede() is called), this run's cells still
+    // waiting in a worker's queue are cancelled at once, before the worker reaches them.
+    const cancelQueued = () => {
+      const keys = new Set([...computingOn.keys()].map((n) => plan.keys.get(n.name)!));
+      for (const w of this.#pool.workers) w.cancelQueued(keys);
+    };
+    this.#cancelOlder = cancelQueued;
     let superseded = false;
     while (remaining.length > 0 || going.size > 0) {
       superseded ||= generation !== this.#generation;
       if (superseded) {
-        // Runs of this run not yet started in a worker are dropped (answered as cancelled).
-        const keys = new Set([...computingOn.keys()].map((n) => plan.keys.get(n.name)!));
-        for (const w of this.#pool.workers) w.cancelQueued(keys);
+        cancelQueued(); // those dispatched since
       } else {
         for (let i = 0; i < remaining.length;) {
           const node = remaining[i];
@@ -361,10 +369,14 @@ export class Session {
       // Its turn in the worker comes now that its inputs are answered.
       if (inputsCurrent && how.live()) this.#emit(node.name, "computing");
       if (!inputsCurrent) {
-        await ahead; // it found an input missing; not this cell's outcome, so not kept
-        const at = ran.indexOf(node.name, runsBefore);
-        if (at >= 0) ran.splice(at, 1);
-        this.runs.set(node.name, (this.runs.get(node.name) ?? 1) - 1);
+        // It found an input missing, or was cancelled (then #computeOn has undone the
+        // count): not this cell's outcome either way, so not kept.
+        const done = await ahead;
+        if (!done.error?.cancelled) {
+          const at = ran.indexOf(node.name, runsBefore);
+          if (at >= 0) ran.splice(at, 1);
+          this.runs.set(node.name, (this.runs.get(node.name) ?? 1) - 1);
+        }
         ahead = null;
       }
     }
@@ -508,9 +520,9 @@ export class Session {
     const files: Record<string, FileData> = {};
     for (const f of node.files) files[f.path] = fileData.get(f.path)!;
     if (announce()) this.#emit(node.name, "computing");
-    ran.push(node.name);
+    const at = ran.push(node.name) - 1;
     this.runs.set(node.name, (this.runs.get(node.name) ?? 0) + 1);
-    return await worker.run({
+    const done = await worker.run({
       key: plan.keys.get(node.name)!,
       kind: node.kind,
       name: node.name,
@@ -521,6 +533,12 @@ export class Session {
       page: this.#pageFields(node.name),
       onProgress: (fraction, note) => live() && this.#emit(node.name, "computing", fraction, note),
     });
+    if (done.error?.cancelled) {
+      // Never started (a newer run took over): not a computation of this cell.
+      if (ran[at] === node.name) ran.splice(at, 1);
+      this.runs.set(node.name, (this.runs.get(node.name) ?? 1) - 1);
+    }
+    return done;
   }
 
   /** Drops cached outcomes and worker outputs that the current document no longer uses. */
@@ -547,6 +565,7 @@ export class Session {
    */
   supersede(): void {
     this.#generation++;
+    this.#cancelOlder?.();
   }
 
   /** Stops the compute workers. */

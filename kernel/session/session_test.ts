@@ -215,3 +215,21 @@ Deno.test("Session.run() computes independent cells on two workers at once and c
     await Deno.remove(dir, { recursive: true });
   }
 });
+
+Deno.test("Session.run() superseded cancels its cells queued in the worker, which count as not run", async () => {
+  await withSession(async (s) => {
+    // b and c wait in the worker's queue behind a (sent ahead of a's answer).
+    const chain = (tag: number) =>
+      cell("spin", "a", `ms: 200\ntag: ${tag}`) + cell("sum", "b", "of: [a]") +
+      cell("sum", "c", "of: [b]");
+    const first = s.run(chain(1));
+    await new Promise((r) => setTimeout(r, 50));
+    const second = await s.run(chain(2));
+    const old = await first;
+    ok(old.superseded);
+    equal((stateOf(second, "c").result as { value: number }).value, 2);
+    // The first run's b and c never started; a finished (its result is cached under its key).
+    deepEqual([s.runs.get("a"), s.runs.get("b"), s.runs.get("c")], [2, 1, 1]);
+    deepEqual(second.ran, ["a", "b", "c"]);
+  });
+});

@@ -159,6 +159,20 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
   // worker may be waiting on it, and nothing queued here changes a stored output.
   let queue = Promise.resolve();
   const cancelled = new Set<number>();
+  // Before each run, one turn of the event loop, so that a cancel sent while the
+  // run before was computing is read first (queued runs follow as microtasks).
+  const tick = new MessageChannel();
+  let resume: (() => void) | null = null;
+  tick.port1.onmessage = () => {
+    const r = resume;
+    resume = null;
+    r?.();
+  };
+  const yieldToEvents = () =>
+    new Promise<void>((r) => {
+      resume = r;
+      tick.port2.postMessage(0);
+    });
   self.onmessage = (e: MessageEvent<ToWorker>) => {
     const msg = e.data;
     if (msg.op === "cancel") {
@@ -188,14 +202,19 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
         outputs.set(msg.key, msg.output as CellOutput);
       } else if (msg.op === "summary") {
         post(resummarise(msg));
-      } else if (cancelled.delete(msg.id)) {
+      } else if (await yieldToEvents(), cancelled.delete(msg.id)) {
         post({
           op: "done",
           id: msg.id,
           ok: false,
           warnings: [],
           ms: 0,
-          error: { message: "Cancelled: a newer run took over", internal: false, transient: true },
+          error: {
+            message: "Cancelled: a newer run took over",
+            internal: false,
+            transient: true,
+            cancelled: true,
+          },
         });
       } else {
         post(await run(msg));

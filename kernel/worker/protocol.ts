@@ -120,6 +120,8 @@ export interface WireError {
   internal: boolean;
   /** True when the failure is not the cell's (the worker stopped): not cached. */
   transient?: boolean;
+  /** True for a run cancelled before it started (a newer run took over). */
+  cancelled?: boolean;
 }
 
 export interface DoneMessage {
