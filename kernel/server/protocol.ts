@@ -23,7 +23,10 @@
  * `<meta name="plumb-token">` of the shell.
  *
  * A WebSocket frame carries one message, or several as a JSON array in
- * order (the messages of a short run, sent together when it ends).
+ * order (the messages of a short run, sent together when it ends). A run's
+ * messages are held for its first 200 ms (kernel/server/live_workspace.ts),
+ * a cell's later message replacing its earlier one: a cell that settles in
+ * that time is never seen queued or computing.
  *
  * A `version` is the lower-case hex SHA-256 of the document text on disk.
  * Messages arrive in order; a browser applies a `cell` message only when its
