@@ -62,22 +62,31 @@ export class WorkerPool {
   }
 
   /**
-   * Waits for an idle worker; when several are idle, takes the one that holds
-   * the most of `inputs` (then the first started).
+   * Waits for a place on a worker: an idle one first, else a place in the
+   * queue of the least busy (at most {@link QUEUE_DEPTH} runs waiting, so the
+   * worker goes on to the next cell without waiting for this thread); among
+   * equals, the one that holds the most of `inputs` (then the first started).
    *
    * @param inputs Cache keys of the outputs the cell reads.
    * @returns The worker, to be given back with {@link release}.
    */
   acquire(inputs: readonly string[]): Promise<ComputeWorker> {
-    const idle = this.workers.filter((w) => this.#load.get(w) === 0);
-    if (idle.length === 0) {
-      return new Promise((take) => this.#waiting.push({ inputs, take }));
-    }
-    const held = (w: ComputeWorker) => inputs.filter((k) => w.has(k)).length;
-    let best = idle[0];
-    for (const w of idle) if (held(w) > held(best)) best = w;
-    this.#load.set(best, 1);
+    const best = this.#best(inputs);
+    if (best === null) return new Promise((take) => this.#waiting.push({ inputs, take }));
+    this.#load.set(best, this.#load.get(best)! + 1);
     return Promise.resolve(best);
+  }
+
+  #best(inputs: readonly string[]): ComputeWorker | null {
+    const held = (w: ComputeWorker) => inputs.filter((k) => w.has(k)).length;
+    let best: ComputeWorker | null = null;
+    for (const w of this.workers) {
+      const load = this.#load.get(w)!;
+      if (load >= 1 + QUEUE_DEPTH) continue;
+      const b = best === null ? Infinity : this.#load.get(best)!;
+      if (load < b || (load === b && held(w) > held(best!))) best = w;
+    }
+    return best;
   }
 
   /**
@@ -96,20 +105,19 @@ export class WorkerPool {
   }
 
   /**
-   * Gives a place back: once a worker is idle, to the cell that has waited
-   * longest for one.
+   * Gives a place back, to the cell that has waited longest for one.
    *
    * @param w A worker from {@link acquire} or {@link queueOn}.
    */
   release(w: ComputeWorker): void {
-    const load = Math.max(0, (this.#load.get(w) ?? 1) - 1);
-    this.#load.set(w, load);
-    if (load > 0) return;
-    const next = this.#waiting.shift();
-    if (next) {
-      this.#load.set(w, 1);
-      next.take(w);
-    }
+    this.#load.set(w, Math.max(0, (this.#load.get(w) ?? 1) - 1));
+    const next = this.#waiting[0];
+    if (next === undefined) return;
+    const best = this.#best(next.inputs);
+    if (best === null) return;
+    this.#waiting.shift();
+    this.#load.set(best, this.#load.get(best)! + 1);
+    next.take(best);
   }
 
   /**
