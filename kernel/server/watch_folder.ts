@@ -30,11 +30,12 @@ export interface FolderWatch {
  * @param dir The folder.
  * @param onChange Called with the absolute paths changed in one burst; not
  *   called again until its promise settles (changes meanwhile are collected).
- * @param debounceMs Quiet time that ends a burst (default 5 ms: an editor's save, temporary
+ * @param debounceMs Quiet time that ends a burst (default 2 ms: an editor's save, temporary
  *   file, write and rename, and a logger's appended block land within a millisecond or
  *   two here; the file event itself arrives about 1 ms after the write (measured on
  *   this machine kind); runs never overlap and equal content is never recomputed, so a
- *   burst split in two costs at most one extra, superseded run).
+ *   burst split in two costs at most one extra, superseded run, whose messages the page
+ *   never sees: a run's messages are held for its first 200 ms, live_workspace.ts).
  * @returns A handle to stop the watch.
  * @throws {Deno.errors.NotFound} When the folder does not exist.
  * @example
@@ -47,7 +48,7 @@ export interface FolderWatch {
 export function watchFolder(
   dir: string,
   onChange: (paths: Set<string>) => void | Promise<void>,
-  debounceMs = 5,
+  debounceMs = 2,
 ): FolderWatch {
   const watcher = Deno.watchFs(resolve(dir), { recursive: true });
   let pending = new Set<string>();

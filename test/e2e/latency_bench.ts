@@ -73,6 +73,13 @@ const DOC = [
   fence("chart line-residuals", "on: cells\nx: cycle\ny: capacity\nfits: [line]\nresiduals: true"),
 ].join("\n");
 
+/**
+ * Updates made before measuring: the server's code is compiled by V8 as it
+ * runs, and its optimising tier settles after several updates; the figure is
+ * the steady state a reader sees while measurements keep arriving.
+ */
+export const WARM_UP = 10;
+
 function withTimeout<T>(p: Promise<T>, ms: number): Promise<T> {
   let timer: ReturnType<typeof setTimeout> | undefined;
   const late = new Promise<never>((_, reject) => {
@@ -111,7 +118,7 @@ export interface UpdateLatency {
 /**
  * Measures the update latency.
  *
- * @param reps Measured repetitions (after 3 warm-up ones).
+ * @param reps Measured repetitions (after {@link WARM_UP} warm-up ones).
  * @param view Where the page is scrolled: `top` (the table and first fits in
  *   view, as opened) or `charts` (the check's four residual charts in view:
  *   the page then redraws them on every update).
@@ -156,7 +163,7 @@ export async function updateLatency(
       await new Promise((r) => setTimeout(r, 500));
     }
     const csv = `${served.dir}/data/series.csv`;
-    for (let i = 0; i < reps + 3; i++) {
+    for (let i = 0; i < reps + WARM_UP; i++) {
       await page.evaluate(() => {
         const w = globalThis as unknown as {
           seen: Promise<{ dom: number; painted: number }>;
@@ -219,7 +226,7 @@ export async function updateLatency(
           ).join(" "),
         );
       }
-      if (i >= 3) {
+      if (i >= WARM_UP) {
         times.push(seen - t0);
         domTimes.push(dom - t0);
         // The server's own time for the run, as the page shows it (its `run` message).
