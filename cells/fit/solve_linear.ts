@@ -93,28 +93,9 @@ export function solveLinear(problem: FitProblem): FitSolution {
   const precise = usePrecise(n, params.length, kappa)
     ? solvePrecise(problem, terms, ls.qr.perm, root, hasIntercept)
     : null;
-  if (precise !== null) {
-    return {
-      method: "linear",
-      ...precise,
-      hasIntercept,
-      conditionNumber: ls.conditionEstimate,
-      converged: true,
-      iterations: 1,
-      design,
-      designQR: ls.qr,
-      offset,
-    };
-  }
-  const part = root ? unwhiten(ls.fitted, root) : ls.fitted;
-  const fitted = offset ? part.map((v, i) => v + offset[i]) : part;
-  return {
-    method: "linear",
-    estimates: ls.coefficients,
-    unscaledCovariance: ls.unscaledCovariance,
-    fitted,
-    residuals: root ? unwhiten(ls.residuals, root) : ls.residuals,
-    rss: ls.rss,
+  // What both paths share: the design as evaluated and the double QR of it.
+  const common = {
+    method: "linear" as const,
     hasIntercept,
     conditionNumber: ls.conditionEstimate,
     converged: true,
@@ -122,6 +103,17 @@ export function solveLinear(problem: FitProblem): FitSolution {
     design,
     designQR: ls.qr,
     offset,
+  };
+  if (precise !== null) return { ...common, ...precise };
+  const part = root ? unwhiten(ls.fitted, root) : ls.fitted;
+  const fitted = offset ? part.map((v, i) => v + offset[i]) : part;
+  return {
+    ...common,
+    estimates: ls.coefficients,
+    unscaledCovariance: ls.unscaledCovariance,
+    fitted,
+    residuals: root ? unwhiten(ls.residuals, root) : ls.residuals,
+    rss: ls.rss,
   };
 }
 

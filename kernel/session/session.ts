@@ -17,114 +17,27 @@
  * @module
  */
 import type { DocSettings, FileData } from "../../cells/types.ts";
-import { type ParsedDocument, parseDocument, readSettings } from "../document/mod.ts";
+import { parseDocument, readSettings } from "../document/mod.ts";
 import { LocatedError } from "../errors.ts";
 import { hashValue } from "../hash.ts";
-import type { Registry } from "../registry.ts";
 import { buildGraph, type CellNode, type Graph, locateError } from "../graph/build.ts";
 import { OptionsCache } from "../graph/options_cache.ts";
 import type { ComputeWorker } from "../worker/client.ts";
 import { WorkerPool } from "../worker/pool.ts";
 import type { DoneMessage } from "../worker/protocol.ts";
 import { FileStore } from "./files.ts";
+import { type Dispatch, isCellError, isTransient, located, type Outcome } from "./_run_parts.ts";
+import type { CellReport, CellState, Plan, RunReport, SessionOptions } from "./types.ts";
+
+export type {
+  CellReport,
+  CellState,
+  Plan,
+  RunReport,
+  SessionEvent,
+  SessionOptions,
+} from "./types.ts";
 import { checkInlineRefs, referencedFields } from "./inline_refs.ts";
-
-/** The states of a cell, in our own words. */
-export type CellState = "current" | "queued" | "computing" | "failed" | "held";
-
-/** The state and result of one cell after a run. */
-export interface CellReport {
-  name: string;
-  kind: string;
-  line: number;
-  state: CellState;
-  error: { message: string; line: number; column: number } | null;
-  warnings: string[];
-  /** The kind's summary (RUN-JSON `result`); null unless current. */
-  result: unknown;
-  /** One human line of the result. */
-  summaryLine: string | null;
-  /** Time the computation took (when it last ran), in milliseconds. */
-  ms: number;
-  /** True when this run reused a cached result. */
-  cached: boolean;
-  /** With `page: true`: the fields of the complete result left out of `result`. */
-  omitted?: string[];
-}
-
-/** The outcome of a run. */
-export interface RunReport {
-  settings: DocSettings;
-  cells: CellReport[];
-  /** Errors outside cells: front matter, inline references in prose. */
-  errors: { message: string; line: number; column: number }[];
-  /** Names of the cells computed by this run, in order. */
-  ran: string[];
-  superseded: boolean;
-}
-
-/** The sync part of a run: what would be computed. */
-export interface Plan {
-  doc: ParsedDocument;
-  settings: DocSettings;
-  graph: Graph;
-  docErrors: LocatedError[];
-  /** Cache key of every cell that can run (static errors and held cells have none). */
-  keys: Map<string, string>;
-  /** Cells whose key has no cached outcome: these will compute. */
-  stale: string[];
-}
-
-/** A state change, for live views. */
-export interface SessionEvent {
-  name: string;
-  state: CellState;
-  fraction?: number;
-  note?: string;
-  /** The cell's report, when it settles (current, failed or held). */
-  report?: CellReport;
-}
-
-/** How a run hands a cell to the workers. */
-interface Dispatch {
-  /** Told when the cell is given a worker. */
-  started: (node: CellNode, w: ComputeWorker) => void;
-  /** Sent ahead into a worker's queue, before its inputs' answers (`settled`) came back. */
-  early?: { worker: ComputeWorker; settled: Promise<unknown> } | null;
-  /** False once the run was superseded: its cells then settle without telling the listener. */
-  live: () => boolean;
-}
-
-interface Outcome {
-  done: DoneMessage;
-  /** The fields kept beyond the page's copy (sorted, joined), or null for a complete summary. */
-  shape: string | null;
-}
-
-/** Options of a session. */
-export interface SessionOptions {
-  registry: Registry;
-  /** The compute worker entry module (for the product: `cells/worker.ts`). */
-  workerUrl: URL;
-  /** The document's folder, where data files are looked up. */
-  dir: string;
-  onEvent?: (e: SessionEvent) => void;
-  /**
-   * Results as the live page reads them (kernel/server/live_result.ts: no
-   * per-row arrays that no view shows, except fields the document's inline
-   * values name), made in the worker. Default false: complete results
-   * (RUN-JSON).
-   */
-  page?: boolean;
-  /** Compute workers (default: two on two or more cores, else one). */
-  workers?: number;
-}
-
-const located = (e: LocatedError) => ({
-  message: e.message,
-  line: e.pos.line,
-  column: e.pos.column,
-});
 
 /** Runs one document reactively; keep it alive between edits to reuse results. */
 export class Session {
@@ -572,13 +485,4 @@ export class Session {
   close(): void {
     this.#pool.close();
   }
-}
-
-function isTransient(done: DoneMessage): boolean {
-  return !done.ok && done.error?.transient === true;
-}
-
-/** Document errors that belong to a cell (an unclosed fence) are reported on that cell instead. */
-function isCellError(doc: ParsedDocument, e: LocatedError): boolean {
-  return doc.blocks.some((b) => b.type === "cell" && b.error === e);
 }

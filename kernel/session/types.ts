@@ -1,0 +1,85 @@
+/**
+ * The types a session reports and is configured with (kernel/session/session.ts).
+ *
+ * @module
+ */
+import type { DocSettings } from "../../cells/types.ts";
+import type { ParsedDocument } from "../document/mod.ts";
+import type { LocatedError } from "../errors.ts";
+import type { Graph } from "../graph/build.ts";
+import type { Registry } from "../registry.ts";
+
+/** The states of a cell, in our own words. */
+export type CellState = "current" | "queued" | "computing" | "failed" | "held";
+
+/** The state and result of one cell after a run. */
+export interface CellReport {
+  name: string;
+  kind: string;
+  line: number;
+  state: CellState;
+  error: { message: string; line: number; column: number } | null;
+  warnings: string[];
+  /** The kind's summary (RUN-JSON `result`); null unless current. */
+  result: unknown;
+  /** One human line of the result. */
+  summaryLine: string | null;
+  /** Time the computation took (when it last ran), in milliseconds. */
+  ms: number;
+  /** True when this run reused a cached result. */
+  cached: boolean;
+  /** With `page: true`: the fields of the complete result left out of `result`. */
+  omitted?: string[];
+}
+
+/** The outcome of a run. */
+export interface RunReport {
+  settings: DocSettings;
+  cells: CellReport[];
+  /** Errors outside cells: front matter, inline references in prose. */
+  errors: { message: string; line: number; column: number }[];
+  /** Names of the cells computed by this run, in order. */
+  ran: string[];
+  superseded: boolean;
+}
+
+/** The sync part of a run: what would be computed. */
+export interface Plan {
+  doc: ParsedDocument;
+  settings: DocSettings;
+  graph: Graph;
+  docErrors: LocatedError[];
+  /** Cache key of every cell that can run (static errors and held cells have none). */
+  keys: Map<string, string>;
+  /** Cells whose key has no cached outcome: these will compute. */
+  stale: string[];
+}
+
+/** A state change, for live views. */
+export interface SessionEvent {
+  name: string;
+  state: CellState;
+  fraction?: number;
+  note?: string;
+  /** The cell's report, when it settles (current, failed or held). */
+  report?: CellReport;
+}
+
+/** Options of a session. */
+export interface SessionOptions {
+  registry: Registry;
+  /** The compute worker entry module (for the product: `cells/worker.ts`). */
+  workerUrl: URL;
+  /** The document's folder, where data files are looked up. */
+  dir: string;
+  onEvent?: (e: SessionEvent) => void;
+  /**
+   * Results as the live page reads them (kernel/server/live_result.ts: no
+   * per-row arrays that no view shows, except fields the document's inline
+   * values name), made in the worker. Default false: complete results
+   * (RUN-JSON).
+   */
+  page?: boolean;
+  /** Compute workers (default: two on two or more cores, else one). */
+  workers?: number;
+}
