@@ -215,6 +215,8 @@ export class Session {
         remaining.length = 0;
       }
     }
+    // A newer run that started while this one's last cells computed supersedes it too.
+    superseded ||= generation !== this.#generation;
     if (superseded) {
       return { settings: plan.settings, cells: [], errors: [], ran, superseded: true };
     }
