@@ -8,6 +8,7 @@
  *
  * @module
  */
+import { gather, gatherInt } from "../../kernel/arrays.ts";
 import { compile, ExprError, type Model, parseModel } from "../../kernel/expr/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
 import { quotedList } from "../../kernel/linalg/mod.ts";
@@ -34,16 +35,9 @@ export function buildProblem(
   );
   const keep = rowsWithoutMissing(used, table, warn);
   const n = keep === null ? table.rows.length : keep.length;
-  // Plain loops: a typed array's `from` with a mapping function is many times slower;
-  // with every row kept, a copy of the whole array.
-  const pick = (v: Float64Array) => {
-    if (keep === null) return v.slice(0, n);
-    const out = new Float64Array(n);
-    for (let k = 0; k < n; k++) out[k] = v[keep[k]];
-    return out;
-  };
-  const rows = keep === null ? table.rows.slice(0, n) : new Int32Array(n);
-  if (keep !== null) { for (let k = 0; k < n; k++) rows[k] = table.rows[keep[k]]; }
+  // With every row kept, a copy of the whole array.
+  const pick = (v: Float64Array) => keep === null ? v.slice(0, n) : gather(v, keep);
+  const rows = keep === null ? table.rows.slice(0, n) : gatherInt(table.rows, keep);
   const y = compile(model.response, [model.responseColumn], [])([pick(used[0].values)], [], n);
   const bad = notFinite(y, rows);
   if (bad.length > 0) {
