@@ -84,9 +84,7 @@ export class LiveChannel {
     let lightText: string | null = null;
     for (const ws of this.#sent.keys()) {
       if (ws.readyState !== WebSocket.OPEN) continue;
-      const seen = msg.type === "cell" && msg.result !== undefined &&
-        this.#sent.get(ws)!.get(msg.name)?.result === msg.result;
-      if (seen) ws.send(lightText ??= encodeMessage(light(msg as CellMessage)));
+      if (this.#seen(ws, msg)) ws.send(lightText ??= encodeMessage(light(msg as CellMessage)));
       else this.#sendTo(ws, msg, full);
     }
   }
@@ -104,14 +102,18 @@ export class LiveChannel {
     for (const ws of this.#sent.keys()) {
       if (ws.readyState !== WebSocket.OPEN) continue;
       const texts = msgs.map((msg, i) => {
-        const seen = msg.type === "cell" && msg.result !== undefined &&
-          this.#sent.get(ws)!.get(msg.name)?.result === msg.result;
-        if (seen) return encodeMessage(light(msg as CellMessage));
+        if (this.#seen(ws, msg)) return encodeMessage(light(msg as CellMessage));
         this.#remember(ws, msg);
         return full[i];
       });
       ws.send(`[${texts.join(",")}]`);
     }
+  }
+
+  /** Whether a cell message's result is the one this socket was last sent for that cell. */
+  #seen(ws: WebSocket, msg: ServerMessage): boolean {
+    return msg.type === "cell" && msg.result !== undefined &&
+      this.#sent.get(ws)?.get(msg.name)?.result === msg.result;
   }
 
   #sendTo(ws: WebSocket, msg: ServerMessage, text: string): void {
