@@ -4,7 +4,7 @@
  *
  * @module
  */
-import { makeRegistry, type Registry } from "../kernel/registry.ts";
+import { makeRegistry, type Registry } from "../kernel/contract/mod.ts";
 import { tableKind } from "./table/mod.ts";
 import { fitKind } from "./fit/mod.ts";
 import { predictKind } from "./predict/mod.ts";

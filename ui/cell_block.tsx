@@ -13,7 +13,7 @@ import type { LiveBlock } from "../kernel/server/protocol.ts";
 import type { LiveStore } from "./store.ts";
 import { StateMark } from "./state_mark.tsx";
 import { formatMs } from "./format.ts";
-import { viewOf } from "./views.ts";
+import { viewOf } from "../cells/pages.ts";
 import { GenericView } from "./generic_view.tsx";
 import { SourceListing } from "./source_listing.tsx";
 import { Editor } from "./editor.tsx";

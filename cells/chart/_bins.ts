@@ -5,8 +5,8 @@
  *
  * @module
  */
-import type { ChartBins } from "../../ui/charts/chart_data.ts";
-import { countCells } from "../../ui/charts/count_cells.ts";
+import type { ChartBins } from "../shared/chart_data.ts";
+import { countCells } from "../shared/count_cells.ts";
 
 /** Columns × rows of the density grid: about 4 px × 5 px cells on a 640 × 400 chart. */
 export const BIN_GRID = { nx: 80, ny: 50 } as const;

@@ -12,7 +12,7 @@
  */
 import { CellError, type OptionPath } from "../../kernel/errors.ts";
 import { quotedList } from "../../kernel/linalg/mod.ts";
-import type { RunContext } from "../types.ts";
+import type { RunContext } from "../../kernel/contract/mod.ts";
 import type { Fit } from "../fit/fit.ts";
 import type { ChartSpec } from "./spec.ts";
 import { type Inverse, inverseOf } from "./_inverse.ts";

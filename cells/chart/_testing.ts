@@ -5,7 +5,7 @@
  * @module
  */
 import { DEFAULT_SETTINGS } from "../../kernel/document/mod.ts";
-import type { CellOutput, DocSettings, RunContext } from "../types.ts";
+import type { CellOutput, DocSettings, RunContext } from "../../kernel/contract/mod.ts";
 import { tableKind } from "../table/mod.ts";
 import { fitKind } from "../fit/mod.ts";
 import { chartKind } from "./mod.ts";

@@ -21,12 +21,13 @@
  *
  * @module
  */
-import type { CellKind } from "../types.ts";
-import type { ChartData } from "../../ui/charts/chart_data.ts";
-import { type ChartSpec, parseChartSpec } from "./spec.ts";
+import type { CellKind } from "../../kernel/contract/mod.ts";
+import type { ChartData } from "../shared/chart_data.ts";
+import { CHART_OPTIONS, type ChartSpec, parseChartSpec } from "./spec.ts";
 import { type ChartOutput, runChart } from "./run.ts";
 import { summarizeChart } from "./result.ts";
-import { ChartView } from "./view.tsx";
+import type { TemplateContext } from "../../kernel/contract/mod.ts";
+import { cellsOf, fitColumns, numberColumns, tableOf } from "../shared/template_cells.ts";
 
 export type { ChartSpec } from "./spec.ts";
 export type { ChartOutput } from "./run.ts";
@@ -54,5 +55,20 @@ export const chartKind: CellKind<ChartSpec, ChartOutput, ChartData> = {
     } · ${r.curves.length} ${r.curves.length === 1 ? "curve" : "curves"}${
       r.band ? ` · band ${r.band.fit}` : ""
     }`,
-  view: ChartView,
+  options: CHART_OPTIONS,
+  template: chartTemplate,
 };
+
+/** A new chart: the last fit's table, its predictor across, its response up, the fit drawn. */
+function chartTemplate(ctx: TemplateContext): string {
+  const fit = cellsOf(ctx, "Fit").at(-1);
+  const table = (fit && tableOf(ctx, fit)) ?? cellsOf(ctx, "Table").at(-1);
+  const cols = numberColumns(table);
+  const own = fit ? fitColumns(ctx, fit) : { response: null, predictors: [] };
+  const x = own.predictors[0] ?? cols[0] ?? "x";
+  const y = own.response !== null && cols.includes(own.response)
+    ? own.response
+    : cols.find((c) => c !== x) ?? "y";
+  const fits = fit && tableOf(ctx, fit) === table ? `fits: [${fit.name}]\n` : "";
+  return `on: ${table?.name ?? "table1"}\nx: ${x}\ny: ${y}\n${fits}`;
+}

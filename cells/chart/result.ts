@@ -5,7 +5,7 @@
  *
  * @module
  */
-import type { ChartData } from "../../ui/charts/chart_data.ts";
+import type { ChartData } from "../shared/chart_data.ts";
 import type { ChartOutput } from "./run.ts";
 
 /** Significant digits kept in the result. */

@@ -15,9 +15,9 @@
 import { plainArray } from "../../kernel/arrays.ts";
 import { CellError } from "../../kernel/errors.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
-import type { CellOutput, NumberColumn, RunContext, Table } from "../types.ts";
-import type { ChartAxis, ChartData, ChartResiduals } from "../../ui/charts/chart_data.ts";
-import { fitColor } from "../../ui/charts/palette.ts";
+import type { CellOutput, NumberColumn, RunContext, Table } from "../../kernel/contract/mod.ts";
+import type { ChartAxis, ChartData, ChartResiduals } from "../shared/chart_data.ts";
+import { fitColor } from "../shared/palette.ts";
 import type { ChartSpec } from "./spec.ts";
 import { type DrawnFit, drawnFits } from "./_fit_layers.ts";
 import { bandOn, curveOn, gridOver } from "./_curves.ts";

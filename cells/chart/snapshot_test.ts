@@ -2,6 +2,7 @@
  * SVG snapshots of chart cells, rendered on the server with linkedom from
  * seeded data (test/snapshots/).
  */
+import { chartPage } from "./view.tsx";
 import { ok } from "node:assert/strict";
 import { renderToString } from "preact-render-to-string";
 import { renderChartSvg } from "../../ui/charts/render_chart.ts";
@@ -58,7 +59,7 @@ Deno.test("renderChartSvg() draws a binned chart on log axes (snapshot)", async 
   await assertSvgSnapshot(svg, new URL("chart-binned.svg", SNAPSHOTS));
 });
 
-Deno.test("chartKind.view renders to HTML on the server", async () => {
+Deno.test("chartPage.view renders to HTML on the server", async () => {
   const { out } = await runChartCell(await fade(20), {
     on: "cycles",
     x: "cycle",
@@ -66,7 +67,7 @@ Deno.test("chartKind.view renders to HTML on the server", async () => {
     fits: ["root"],
   });
   const html = renderToString(
-    chartKind.view({ name: "c", result: chartKind.summary(out, {} as never) }),
+    chartPage.view({ name: "c", result: chartKind.summary(out, {} as never) }),
   );
   ok(html.includes("<svg") && html.includes("20 rows; fits root"), html.slice(0, 200));
 });

@@ -19,8 +19,12 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import { didYouMean } from "../../kernel/suggest.ts";
-import type { ParseContext } from "../types.ts";
+import {
+  checkOptionKeys,
+  type OptionDecls,
+  type ParseContext,
+  readBoolean,
+} from "../../kernel/contract/mod.ts";
 
 /** A `chart` cell's normalised options (plain JSON: hashed into the cache key). */
 export interface ChartSpec {
@@ -42,18 +46,21 @@ export interface ChartSpec {
 /** Rows beyond which points are binned, unless `bin_above` says otherwise (about 5,000: issue 5). */
 export const DEFAULT_BIN_ABOVE = 5000;
 
-/** Option keys a `chart` cell understands, with what each is for. */
-export const CHART_OPTIONS = {
-  on: "the table cell whose rows are drawn",
-  x: "the column on the horizontal axis",
-  y: "the column on the vertical axis",
-  fits: "fit cells drawn as curves over the x range",
-  band: "a fit whose confidence band of the mean is drawn",
-  residuals: "whether a residual panel is drawn under the chart",
-  log: "logarithmic axes: x, y or both",
-  title: "a title over the chart",
-  bin_above: "rows beyond which points are drawn binned as a density",
-} as const;
+/** Options a `chart` cell understands, each declared once. */
+export const CHART_OPTIONS: OptionDecls = {
+  on: { type: "text", doc: "the table cell whose rows are drawn", required: true, names: "cell" },
+  x: { type: "text", doc: "the column on the horizontal axis", required: true, names: "column" },
+  y: { type: "text", doc: "the column on the vertical axis", required: true, names: "column" },
+  fits: { type: "list", doc: "fit cells drawn as curves over the x range", names: "cells" },
+  band: { type: "text", doc: "a fit whose confidence band of the mean is drawn", names: "cell" },
+  residuals: { type: "boolean", doc: "whether a residual panel is drawn under the chart" },
+  log: { type: "choice", doc: "logarithmic axes", choices: ["x", "y", "both"] },
+  title: { type: "text", doc: "a title over the chart" },
+  bin_above: {
+    type: "whole number",
+    doc: "rows beyond which points are drawn binned as a density",
+  },
+};
 
 /**
  * Checks and normalises a `chart` cell's options.
@@ -76,13 +83,7 @@ export const CHART_OPTIONS = {
  */
 export function parseChartSpec(ctx: ParseContext): ChartSpec {
   const o = ctx.options;
-  for (const key of Object.keys(o)) {
-    if (!(key in CHART_OPTIONS)) {
-      const hint = didYouMean(key, Object.keys(CHART_OPTIONS)) ||
-        `: a chart takes ${Object.keys(CHART_OPTIONS).map((k) => `"${k}"`).join(", ")}`;
-      throw new CellError(`Unknown option "${key}" in chart "${ctx.name}"${hint}`, [key]);
-    }
-  }
+  checkOptionKeys(ctx, CHART_OPTIONS);
   const fits = fitList(ctx, o.fits);
   const band = o.band === undefined || o.band === null ? null : word(ctx, "band", o.band, ["band"]);
   const log = logAxes(ctx, o.log);
@@ -92,7 +93,7 @@ export function parseChartSpec(ctx: ParseContext): ChartSpec {
     y: required(ctx, "y", "the column on the vertical axis, as in y: capacity"),
     fits,
     band,
-    residuals: flag(ctx, "residuals", o.residuals),
+    residuals: readBoolean(ctx, "residuals", false),
     logX: log.x,
     logY: log.y,
     title: titleText(ctx, o.title),
@@ -145,17 +146,6 @@ function logAxes(ctx: ParseContext, v: unknown): { x: boolean; y: boolean } {
     `Option "log" of chart "${ctx.name}" is "${String(v)}": expected x, y, both or none`,
     ["log"],
   );
-}
-
-function flag(ctx: ParseContext, key: string, v: unknown): boolean {
-  if (v === undefined || v === null) return false;
-  if (typeof v !== "boolean") {
-    throw new CellError(
-      `Option "${key}" of chart "${ctx.name}" is "${String(v)}": expected true or false`,
-      [key],
-    );
-  }
-  return v;
 }
 
 function titleText(ctx: ParseContext, v: unknown): string | null {

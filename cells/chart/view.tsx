@@ -5,8 +5,8 @@
  * @module
  */
 import type { VNode } from "preact";
-import type { ViewProps } from "../types.ts";
-import type { ChartData } from "../../ui/charts/chart_data.ts";
+import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
+import type { ChartData } from "../shared/chart_data.ts";
 import { ChartFigure } from "../../ui/charts/chart_figure.tsx";
 
 /**
@@ -30,3 +30,6 @@ function caption(r: ChartData): string {
   const fits = r.curves.map((c) => c.fit);
   return fits.length ? `${drawn}; fits ${fits.join(", ")}` : drawn;
 }
+
+/** The `chart` kind's page face: its view, for the live page and the record. */
+export const chartPage: PageFace<ChartData, VNode> = { kind: "chart", view: ChartView };

@@ -15,12 +15,14 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import type { CellKind } from "../types.ts";
+import type { CellKind } from "../../kernel/contract/mod.ts";
 import type { Fit } from "../fit/mod.ts";
 import { type CheckSpec, parseCheckSpec } from "./spec.ts";
 import type { CheckResult, Diagnostics } from "./result.ts";
 import { diagnose } from "./diagnose.ts";
-import { CheckView } from "./view.tsx";
+import { CHECK_OPTIONS } from "./spec.ts";
+import { type CheckChartInput, checkDensity } from "./density.ts";
+import { cellsOf } from "../shared/template_cells.ts";
 
 export type { CheckSpec } from "./spec.ts";
 export type { CheckResult, Diagnostics, Finding } from "./result.ts";
@@ -48,7 +50,11 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
   },
   summary: (out) => out.result,
   line: lineOf,
-  view: CheckView,
+  options: CHECK_OPTIONS,
+  page: { omit: ["rows", "studentized_external", "dffits"], condense: condenseCharts },
+  template: (ctx) =>
+    `fit: ${cellsOf(ctx, "Fit").at(-1)?.name ?? "fit1"}
+`,
 };
 
 function lineOf(r: CheckResult): string {
@@ -60,4 +66,15 @@ function lineOf(r: CheckResult): string {
     return `${label} (row${f.rows.length > 1 ? "s" : ""} ${shown})`;
   });
   return `${r.findings.length} finding${r.findings.length > 1 ? "s" : ""}: ${parts.join(", ")}`;
+}
+
+/** The per-row arrays the residual charts read, replaced by their counts on a large check. */
+const CHART_ARRAYS = ["fitted", "residuals", "studentized_internal", "leverage", "cooks_distance"];
+
+/** A large check's charts counted once (`density`) instead of five per-row arrays. */
+function condenseCharts(r: CheckResult) {
+  const fields = r as unknown as Record<string, unknown>;
+  if (!CHART_ARRAYS.every((f) => Array.isArray(fields[f]))) return null;
+  const density = checkDensity(r as unknown as CheckChartInput);
+  return density === null ? null : { add: { density }, omit: CHART_ARRAYS };
 }

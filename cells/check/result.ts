@@ -6,7 +6,7 @@
  *
  * @module
  */
-import type { CellOutput } from "../types.ts";
+import type { CellOutput } from "../../kernel/contract/mod.ts";
 
 /** One finding: a code, the source rows it concerns, a plain sentence with evidence and threshold. */
 export interface Finding {

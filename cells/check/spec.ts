@@ -10,10 +10,15 @@
  *
  * @module
  */
-import { CellError } from "../../kernel/errors.ts";
-import { didYouMean } from "../../kernel/suggest.ts";
 import type { BreuschPaganVariant, HCType } from "../../kernel/stats/mod.ts";
-import type { ParseContext } from "../types.ts";
+import {
+  checkOptionKeys,
+  type OptionDecls,
+  type ParseContext,
+  readCellName,
+  readChoice,
+  readNumber,
+} from "../../kernel/contract/mod.ts";
 
 /** A `check` cell's normalised options (plain JSON). */
 export interface CheckSpec {
@@ -24,13 +29,26 @@ export interface CheckSpec {
   significance: number;
 }
 
-/** Option keys a `check` cell understands. */
-export const CHECK_OPTIONS = {
-  fit: "the fit cell to judge",
-  variance_test: "Breusch–Pagan form: koenker (studentized, the default) or original",
-  robust: "heteroscedasticity-consistent standard errors: hc0, hc1, hc2 or hc3",
-  significance: "level below which a test's p-value makes a finding (default 0.05)",
-} as const;
+/** Options a `check` cell understands, each declared once. */
+export const CHECK_OPTIONS: OptionDecls = {
+  fit: { type: "text", doc: "the fit cell to judge", required: true, names: "cell" },
+  variance_test: {
+    type: "choice",
+    doc: "Breusch–Pagan form: koenker (studentized) or original",
+    default: "koenker",
+    choices: ["koenker", "original"],
+  },
+  robust: {
+    type: "choice",
+    doc: "heteroscedasticity-consistent standard errors",
+    choices: ["hc0", "hc1", "hc2", "hc3"],
+  },
+  significance: {
+    type: "number",
+    doc: "level below which a test's p-value makes a finding",
+    default: 0.05,
+  },
+};
 
 const VARIANTS = ["koenker", "original"] as const;
 const HC = ["hc0", "hc1", "hc2", "hc3"] as const;
@@ -53,65 +71,17 @@ const HC = ["hc0", "hc1", "hc2", "hc3"] as const;
  * ```
  */
 export function parseCheckSpec(ctx: ParseContext): CheckSpec {
-  const o = ctx.options;
-  for (const key of Object.keys(o)) {
-    if (!(key in CHECK_OPTIONS)) {
-      const hint = didYouMean(key, Object.keys(CHECK_OPTIONS)) ||
-        `: a check takes ${Object.keys(CHECK_OPTIONS).map((k) => `"${k}"`).join(", ")}`;
-      throw new CellError(`Unknown option "${key}" in check "${ctx.name}"${hint}`, [key]);
-    }
-  }
+  checkOptionKeys(ctx, CHECK_OPTIONS);
   return {
-    fit: fitName(ctx, o.fit),
-    varianceTest: choice(ctx, "variance_test", o.variance_test, VARIANTS) ?? "koenker",
-    robust: choice(ctx, "robust", o.robust, HC),
-    significance: level(ctx, o.significance),
+    fit: readCellName(ctx, "fit", "fit", "name the fit cell to judge, as in fit: line"),
+    varianceTest: readChoice(ctx, "variance_test", VARIANTS) ?? "koenker",
+    robust: readChoice(ctx, "robust", HC),
+    significance: readNumber(
+      ctx,
+      "significance",
+      0.05,
+      (x) => x > 0 && x <= 0.5,
+      "a number in (0, 0.5], such as 0.05",
+    ),
   };
-}
-
-function fitName(ctx: ParseContext, v: unknown): string {
-  if (v === undefined || v === null) {
-    throw new CellError(
-      `Missing "fit" in check "${ctx.name}": name the fit cell to judge, as in fit: line`,
-      [],
-    );
-  }
-  if (typeof v !== "string" || v.trim() === "" || /\s/.test(v.trim())) {
-    throw new CellError(
-      `Option "fit" of check "${ctx.name}" is "${String(v)}": expected the name of a fit cell`,
-      ["fit"],
-    );
-  }
-  return v.trim();
-}
-
-function choice<T extends string>(
-  ctx: ParseContext,
-  key: string,
-  v: unknown,
-  allowed: readonly T[],
-): T | null {
-  if (v === undefined || v === null) return null;
-  const s = typeof v === "string" ? v.trim().toLowerCase() : "";
-  if ((allowed as readonly string[]).includes(s)) return s as T;
-  const hint = typeof v === "string" ? didYouMean(s, allowed) : "";
-  throw new CellError(
-    `Option "${key}" of check "${ctx.name}" is "${String(v)}"${
-      hint || `: expected one of ${allowed.join(", ")}`
-    }`,
-    [key],
-  );
-}
-
-function level(ctx: ParseContext, v: unknown): number {
-  if (v === undefined || v === null) return 0.05;
-  if (typeof v !== "number" || !(v > 0 && v <= 0.5)) {
-    throw new CellError(
-      `Option "significance" of check "${ctx.name}" is "${
-        String(v)
-      }": expected a number in (0, 0.5], such as 0.05`,
-      ["significance"],
-    );
-  }
-  return v;
 }

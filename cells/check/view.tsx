@@ -9,17 +9,17 @@
  * @module
  */
 import type { VNode } from "preact";
-import type { ViewProps } from "../types.ts";
+import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import type { CheckResult } from "./result.ts";
 import { fmt } from "./_format.ts";
+import { DrawnFigure } from "../../ui/charts/mod.ts";
 import {
   type CheckChartInput,
-  DrawnFigure,
   leverageChart,
   normalQuantiles,
   residualsVsFitted,
   scaleLocation,
-} from "../../ui/charts/mod.ts";
+} from "./residual_charts.ts";
 
 /** The four residual charts, in the standard order. */
 const CHARTS = [residualsVsFitted, normalQuantiles, scaleLocation, leverageChart];
@@ -162,3 +162,6 @@ export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
     </section>
   );
 }
+
+/** The `check` kind's page face: its view, for the live page and the record. */
+export const checkPage: PageFace<CheckResult, VNode> = { kind: "check", view: CheckView };

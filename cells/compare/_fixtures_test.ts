@@ -6,7 +6,7 @@
  */
 import { fitKind } from "../fit/mod.ts";
 import type { Fit } from "../fit/mod.ts";
-import type { CellOutput, DocSettings, Table } from "../types.ts";
+import type { CellOutput, DocSettings, Table } from "../../kernel/contract/mod.ts";
 import { makeTable, parseContext, runContext, SETTINGS } from "../fit/_fixtures_test.ts";
 import { compareKind } from "./mod.ts";
 import type { CompareResult } from "./result.ts";

@@ -4,7 +4,7 @@
  * @module
  */
 import type { CompareResult } from "./result.ts";
-import { formatNumber } from "../format.ts";
+import { formatNumber } from "../shared/format.ts";
 
 /**
  * `root preferred by AICc (weight 0.93) over power (Δ 5.2)`.

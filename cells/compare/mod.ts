@@ -16,12 +16,14 @@
  *
  * @module
  */
-import type { CellKind } from "../types.ts";
+import type { CellKind } from "../../kernel/contract/mod.ts";
 import { type CompareSpec, parseCompareSpec } from "./spec.ts";
 import type { CompareResult, Comparison } from "./result.ts";
 import { runCompare } from "./run.ts";
 import { compareLine } from "./line.ts";
-import { CompareView } from "./view.tsx";
+import { COMPARE_OPTIONS } from "./spec.ts";
+import type { TemplateContext } from "../../kernel/contract/mod.ts";
+import { cellsOf } from "../shared/template_cells.ts";
 
 export type { CompareSpec, Criterion } from "./spec.ts";
 export type { CompareResult, CompareRow, Comparison } from "./result.ts";
@@ -38,5 +40,19 @@ export const compareKind: CellKind<CompareSpec, Comparison, CompareResult> = {
   run: runCompare,
   summary: (out) => out.result,
   line: compareLine,
-  view: CompareView,
+  options: COMPARE_OPTIONS,
+  template: compareTemplate,
 };
+
+/** A new comparison: the last two fits of the same table and response. */
+function compareTemplate(ctx: TemplateContext): string {
+  const fits = cellsOf(ctx, "Fit");
+  const last = fits.at(-1);
+  const same = fits.filter((f) =>
+    f.inputs.join() === last?.inputs.join() &&
+    (f.result as { response?: string } | null)?.response ===
+      (last?.result as { response?: string } | null)?.response
+  );
+  const pick = (same.length >= 2 ? same : fits).slice(-2).map((f) => f.name);
+  return `fits: [${(pick.length === 2 ? pick : ["fit1", "fit2"]).join(", ")}]\n`;
+}

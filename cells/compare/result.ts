@@ -16,7 +16,7 @@
  *
  * @module
  */
-import type { CellOutput } from "../types.ts";
+import type { CellOutput } from "../../kernel/contract/mod.ts";
 import type { Criterion } from "./spec.ts";
 import type { NestedTest } from "./nested_tests.ts";
 

@@ -13,7 +13,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import type { RunContext } from "../types.ts";
+import type { RunContext } from "../../kernel/contract/mod.ts";
 import type { Fit } from "../fit/mod.ts";
 import type { CompareSpec } from "./spec.ts";
 import { type Candidate, checkComparable } from "./comparable.ts";

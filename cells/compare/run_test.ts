@@ -1,7 +1,7 @@
 import assert from "node:assert/strict";
 import { CellError } from "../../kernel/errors.ts";
 import { compare, fitOf, makeTable, wiggle } from "./_fixtures_test.ts";
-import type { CellOutput } from "../types.ts";
+import type { CellOutput } from "../../kernel/contract/mod.ts";
 
 const x = Float64Array.from({ length: 10 }, (_, i) => i + 1);
 const noise = wiggle(10, 0.2);

@@ -12,7 +12,12 @@
  */
 import { CellError } from "../../kernel/errors.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
-import type { ParseContext } from "../types.ts";
+import {
+  checkOptionKeys,
+  type OptionDecls,
+  type ParseContext,
+  readNumber,
+} from "../../kernel/contract/mod.ts";
 
 /** A criterion to rank by. */
 export type Criterion = "aic" | "aicc" | "bic" | "loo";
@@ -38,13 +43,30 @@ export interface CompareSpec {
   significance: number;
 }
 
-/** Option keys a `compare` cell understands, with what each is for. */
-export const COMPARE_OPTIONS = {
-  fits: "the fit cells to compare, as a list of two or more names",
-  by: "the criterion that ranks them: aic, aicc, bic or loo",
-  folds: "how many folds the cross-validation of nonlinear fits uses (default 10)",
-  significance: "the level at which nested F tests count as significant (default 0.05)",
-} as const;
+/** Options a `compare` cell understands, each declared once. */
+export const COMPARE_OPTIONS: OptionDecls = {
+  fits: {
+    type: "list",
+    doc: "the fit cells to compare, two or more",
+    required: true,
+    names: "cells",
+  },
+  by: {
+    type: "choice",
+    doc: "the criterion that ranks them (default the document's criterion)",
+    choices: CRITERIA,
+  },
+  folds: {
+    type: "whole number",
+    doc: "how many folds the cross-validation of nonlinear fits uses",
+    default: DEFAULT_FOLDS,
+  },
+  significance: {
+    type: "number",
+    doc: "the level at which nested F tests count as significant",
+    default: DEFAULT_SIGNIFICANCE,
+  },
+};
 
 /**
  * Checks and normalises a `compare` cell's options.
@@ -68,18 +90,24 @@ export const COMPARE_OPTIONS = {
  */
 export function parseCompareSpec(ctx: ParseContext): CompareSpec {
   const o = ctx.options;
-  for (const key of Object.keys(o)) {
-    if (!(key in COMPARE_OPTIONS)) {
-      const hint = didYouMean(key, Object.keys(COMPARE_OPTIONS)) ||
-        `: a compare cell takes ${Object.keys(COMPARE_OPTIONS).map((k) => `"${k}"`).join(", ")}`;
-      throw new CellError(`Unknown option "${key}" in compare "${ctx.name}"${hint}`, [key]);
-    }
-  }
+  checkOptionKeys(ctx, COMPARE_OPTIONS);
   return {
     fits: fitNames(ctx, o.fits),
     by: criterion(ctx, o.by),
-    folds: folds(ctx, o.folds),
-    significance: significance(ctx, o.significance),
+    folds: readNumber(
+      ctx,
+      "folds",
+      DEFAULT_FOLDS,
+      (x) => Number.isSafeInteger(x) && x >= 2,
+      "a whole number, 2 or more",
+    ),
+    significance: readNumber(
+      ctx,
+      "significance",
+      DEFAULT_SIGNIFICANCE,
+      (x) => x > 0 && x < 1,
+      "a number between 0 and 1, exclusive",
+    ),
   };
 }
 
@@ -136,30 +164,4 @@ function criterion(ctx: ParseContext, v: unknown): Criterion {
     `Criterion "${String(raw)}" of compare "${ctx.name}" is not known${hint}`,
     v === undefined || v === null ? [] : ["by"],
   );
-}
-
-function folds(ctx: ParseContext, v: unknown): number {
-  if (v === undefined || v === null) return DEFAULT_FOLDS;
-  if (typeof v !== "number" || !Number.isSafeInteger(v) || v < 2) {
-    throw new CellError(
-      `Option "folds" of compare "${ctx.name}" is "${
-        String(v)
-      }": expected a whole number, 2 or more`,
-      ["folds"],
-    );
-  }
-  return v;
-}
-
-function significance(ctx: ParseContext, v: unknown): number {
-  if (v === undefined || v === null) return DEFAULT_SIGNIFICANCE;
-  if (typeof v !== "number" || !(v > 0 && v < 1)) {
-    throw new CellError(
-      `Option "significance" of compare "${ctx.name}" is "${
-        String(v)
-      }": expected a number between 0 and 1, exclusive`,
-      ["significance"],
-    );
-  }
-  return v;
 }

@@ -2,7 +2,7 @@ import assert from "node:assert/strict";
 import { CellError } from "../../kernel/errors.ts";
 import { parseCompareSpec } from "./spec.ts";
 import { SETTINGS } from "./_fixtures_test.ts";
-import type { DocSettings } from "../types.ts";
+import type { DocSettings } from "../../kernel/contract/mod.ts";
 
 function parse(options: Record<string, unknown>, settings: Partial<DocSettings> = {}) {
   return parseCompareSpec({

@@ -17,7 +17,7 @@
  */
 import type { Criterion } from "./spec.ts";
 import type { NestedTest } from "./nested_tests.ts";
-import { formatNumber, formatP } from "../format.ts";
+import { formatNumber, formatP } from "../shared/format.ts";
 
 /** The criteria's names as printed. */
 export const LABELS: Readonly<Record<Criterion, string>> = {

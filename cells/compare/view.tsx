@@ -8,9 +8,9 @@
  * @module
  */
 import type { VNode } from "preact";
-import type { ViewProps } from "../types.ts";
+import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import type { CompareResult, CompareRow } from "./result.ts";
-import { formatNumber, formatP } from "../format.ts";
+import { formatNumber, formatP } from "../shared/format.ts";
 
 /**
  * Renders a compare result.
@@ -119,3 +119,6 @@ function looNote(rows: readonly CompareRow[]): string {
     kfold[0].loo_folds
   }-fold cross-validation with the document's seed, refitted from the full-data estimates.`;
 }
+
+/** The `compare` kind's page face: its view, for the live page and the record. */
+export const comparePage: PageFace<CompareResult, VNode> = { kind: "compare", view: CompareView };

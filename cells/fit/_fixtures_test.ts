@@ -3,7 +3,13 @@
  *
  * @module
  */
-import type { Column, DocSettings, ParseContext, RunContext, Table } from "../types.ts";
+import type {
+  Column,
+  DocSettings,
+  ParseContext,
+  RunContext,
+  Table,
+} from "../../kernel/contract/mod.ts";
 
 export const SETTINGS: DocSettings = {
   title: "test",

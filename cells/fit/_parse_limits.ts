@@ -14,7 +14,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import type { ParseContext } from "../types.ts";
+import type { ParseContext } from "../../kernel/contract/mod.ts";
 
 /** Ranges by parameter name: [lower, upper], null for an open end. */
 export type Limits = Record<string, [number | null, number | null]>;

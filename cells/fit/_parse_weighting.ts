@@ -16,7 +16,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import type { ParseContext } from "../types.ts";
+import type { ParseContext } from "../../kernel/contract/mod.ts";
 
 /** The weighting part of a fit spec (keys present only when given). */
 export interface WeightingSpec {

@@ -18,7 +18,7 @@ import {
 } from "../../kernel/expr/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
 import { quotedList } from "../../kernel/linalg/mod.ts";
-import type { NumberColumn, Table } from "../types.ts";
+import type { NumberColumn, Table } from "../../kernel/contract/mod.ts";
 import type { FitSpec } from "./spec.ts";
 import type { FitProblem } from "./problem.ts";
 import { countRows, identifierOffset, rowList } from "./_offsets.ts";

@@ -6,7 +6,7 @@
  */
 import type { QRFactorization } from "../../kernel/linalg/mod.ts";
 import type { Model } from "../../kernel/expr/mod.ts";
-import type { CellOutput } from "../types.ts";
+import type { CellOutput } from "../../kernel/contract/mod.ts";
 import type { FitStatistics } from "./_statistics.ts";
 import type { Weighting } from "./_weighting.ts";
 

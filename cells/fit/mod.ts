@@ -19,13 +19,15 @@
  *
  * @module
  */
-import type { CellKind } from "../types.ts";
+import type { CellKind } from "../../kernel/contract/mod.ts";
 import { type FitSpec, parseFitSpec } from "./spec.ts";
 import type { Fit } from "./fit.ts";
 import { type FitResult, summarizeFit } from "./result.ts";
 import { runFit } from "./run.ts";
-import { FitView } from "./view.tsx";
-import { formatNumber, formatR2 } from "../format.ts";
+import { FIT_OPTIONS } from "./spec.ts";
+import type { TemplateContext } from "../../kernel/contract/mod.ts";
+import { cellsOf, numberColumns } from "../shared/template_cells.ts";
+import { formatNumber, formatR2 } from "../shared/format.ts";
 
 export type { FitSpec } from "./spec.ts";
 export type { Fit } from "./fit.ts";
@@ -45,5 +47,15 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
   run: runFit,
   summary: (out, _spec, leaveOut) => summarizeFit(out, leaveOut),
   line: (r) => `${r.model} · n ${r.n} · R² ${formatR2(r.r2)} · σ ${formatNumber(r.sigma, 3)}`,
-  view: FitView,
+  options: FIT_OPTIONS,
+  page: { omit: ["fitted", "residuals", "rows"] },
+  template: fitTemplate,
 };
+
+/** A new fit: a straight line through the last table's last two number columns. */
+function fitTemplate(ctx: TemplateContext): string {
+  const table = cellsOf(ctx, "Table").at(-1);
+  const cols = numberColumns(table);
+  const [x, y] = cols.length >= 2 ? cols.slice(-2) : ["x", "y"];
+  return `on: ${table?.name ?? "table1"}\nmodel: ${y} = a + b*${x}\n`;
+}

@@ -1,9 +1,10 @@
+import { fitPage } from "./view.tsx";
 import assert from "node:assert/strict";
 import { CellError } from "../../kernel/errors.ts";
 import { digits, loadStrd } from "../../kernel/linalg/_strd.ts";
 import { fitKind } from "./mod.ts";
 import { makeTable, parseContext, runContext } from "./_fixtures_test.ts";
-import type { Table } from "../types.ts";
+import type { Table } from "../../kernel/contract/mod.ts";
 import type { Fit } from "./fit.ts";
 
 /** parse + run + summary in one go. */
@@ -232,7 +233,7 @@ Deno.test("fitKind.line() and view() show the model, n, R² and σ", async () =>
   );
   assert.equal(fitKind.line(result), "y = a + b*x · n 4 · R² 0.9980 · σ 0.141");
   const { renderToString } = await import("preact-render-to-string");
-  const html = renderToString(fitKind.view({ name: "line", result }));
+  const html = renderToString(fitPage.view({ name: "line", result }));
   assert.ok(html.includes("<code>y = a + b*x</code>"), html);
   assert.ok(html.includes('<th scope="row"><code>b</code></th><td>2</td>'), html);
   assert.ok(html.includes("<dt>R²</dt><dd>0.9980</dd>"), html);

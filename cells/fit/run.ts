@@ -18,7 +18,7 @@ import { isLinearIn } from "../../kernel/expr/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
 import { nearest } from "../../kernel/suggest.ts";
 import { quotedList } from "../../kernel/linalg/mod.ts";
-import type { RunContext, Table } from "../types.ts";
+import type { RunContext, Table } from "../../kernel/contract/mod.ts";
 import type { FitSpec } from "./spec.ts";
 import type { Fit } from "./fit.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";

@@ -17,8 +17,13 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import { didYouMean } from "../../kernel/suggest.ts";
-import type { ParseContext } from "../types.ts";
+import {
+  checkOptionKeys,
+  type OptionDecls,
+  type ParseContext,
+  readCellName,
+  readMapping,
+} from "../../kernel/contract/mod.ts";
 import { parseWeighting } from "./_parse_weighting.ts";
 import { type Limits, parseLimits } from "./_parse_limits.ts";
 
@@ -40,17 +45,26 @@ export interface FitSpec {
   within?: Limits;
 }
 
-/** Option keys a `fit` cell understands, with what each is for. */
-export const FIT_OPTIONS = {
-  on: "the table cell to fit",
-  model: "the model equation, response = expression",
-  start: "start values of parameters, for nonlinear fits",
-  weights: "relative weights ∝ 1/variance, an expression over columns",
-  known_sigma: "each row's known standard deviation (absolute), an expression over columns",
-  count_variance:
-    "whether AIC, AICc and BIC count the error variance as a parameter (default true)",
-  within: "ranges [lower, upper] that nonlinear estimates stay inside, null for an open end",
-} as const;
+/** Options a `fit` cell understands, each declared once. */
+export const FIT_OPTIONS: OptionDecls = {
+  on: { type: "text", doc: "the table cell to fit", required: true, names: "cell" },
+  model: { type: "equation", doc: "the model equation, response = expression", required: true },
+  start: { type: "mapping", doc: "start values of parameters, for nonlinear fits" },
+  weights: { type: "expression", doc: "relative weights ∝ 1/variance, an expression over columns" },
+  known_sigma: {
+    type: "expression",
+    doc: "each row's known standard deviation (absolute), an expression over columns",
+  },
+  count_variance: {
+    type: "boolean",
+    doc: "whether AIC, AICc and BIC count the error variance as a parameter",
+    default: true,
+  },
+  within: {
+    type: "mapping",
+    doc: "ranges [lower, upper] that nonlinear estimates stay inside, null for an open end",
+  },
+};
 
 /**
  * Checks and normalises a `fit` cell's options.
@@ -73,36 +87,14 @@ export const FIT_OPTIONS = {
  */
 export function parseFitSpec(ctx: ParseContext): FitSpec {
   const o = ctx.options;
-  for (const key of Object.keys(o)) {
-    if (!(key in FIT_OPTIONS)) {
-      const hint = didYouMean(key, Object.keys(FIT_OPTIONS)) ||
-        `: a fit takes ${Object.keys(FIT_OPTIONS).map((k) => `"${k}"`).join(", ")}`;
-      throw new CellError(`Unknown option "${key}" in fit "${ctx.name}"${hint}`, [key]);
-    }
-  }
+  checkOptionKeys(ctx, FIT_OPTIONS);
   return {
-    on: cellName(ctx, o.on),
+    on: readCellName(ctx, "on", "table", "name the table cell to fit, as in on: cycles"),
     model: modelText(ctx, o.model),
-    start: startValues(ctx, o.start),
+    start: startValues(ctx),
     ...parseWeighting(ctx),
     ...parseLimits(ctx),
   };
-}
-
-function cellName(ctx: ParseContext, v: unknown): string {
-  if (v === undefined || v === null) {
-    throw new CellError(
-      `Missing "on" in fit "${ctx.name}": name the table cell to fit, as in on: cycles`,
-      [],
-    );
-  }
-  if (typeof v !== "string" || v.trim() === "" || /\s/.test(v.trim())) {
-    throw new CellError(
-      `Option "on" of fit "${ctx.name}" is "${String(v)}": expected the name of a table cell`,
-      ["on"],
-    );
-  }
-  return v.trim();
 }
 
 function modelText(ctx: ParseContext, v: unknown): string {
@@ -123,18 +115,11 @@ function modelText(ctx: ParseContext, v: unknown): string {
   return v;
 }
 
-function startValues(ctx: ParseContext, v: unknown): Record<string, number> {
-  if (v === undefined || v === null) return {};
-  if (typeof v !== "object" || Array.isArray(v)) {
-    throw new CellError(
-      `Option "start" of fit "${ctx.name}" is "${
-        String(v)
-      }": expected a mapping such as { a: 1, b: 0.5 }`,
-      ["start"],
-    );
-  }
+function startValues(ctx: ParseContext): Record<string, number> {
+  const v = readMapping(ctx, "start", "{ a: 1, b: 0.5 }");
+  if (v === null) return {};
   const out: Record<string, number> = {};
-  for (const [k, x] of Object.entries(v as Record<string, unknown>)) {
+  for (const [k, x] of Object.entries(v)) {
     if (typeof x !== "number" || !Number.isFinite(x)) {
       throw new CellError(
         `Start value of "${k}" in fit "${ctx.name}" is "${String(x)}": expected a finite number`,

@@ -3,7 +3,7 @@ import { CellError } from "../../kernel/errors.ts";
 import { standardNormal, studentT } from "../../kernel/stats/mod.ts";
 import { fitKind } from "./mod.ts";
 import { makeTable, parseContext, runContext } from "./_fixtures_test.ts";
-import type { Table } from "../types.ts";
+import type { Table } from "../../kernel/contract/mod.ts";
 import type { Fit } from "./fit.ts";
 
 function fit(name: string, model: string, table: Table, extra: Record<string, unknown> = {}) {

@@ -8,9 +8,9 @@
  * @module
  */
 import type { VNode } from "preact";
-import type { ViewProps } from "../types.ts";
+import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import type { FitResult } from "./result.ts";
-import { formatNumber, formatR2 } from "../format.ts";
+import { formatNumber, formatR2 } from "../shared/format.ts";
 
 /**
  * Renders a fit result.
@@ -108,3 +108,6 @@ function statistics(r: FitResult): [string, string][] {
     ["Response", r.response],
   ];
 }
+
+/** The `fit` kind's page face: its view, for the live page and the record. */
+export const fitPage: PageFace<FitResult, VNode> = { kind: "fit", view: FitView };

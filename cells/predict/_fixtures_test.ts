@@ -7,7 +7,7 @@
 import { fitKind } from "../fit/mod.ts";
 import type { Fit } from "../fit/mod.ts";
 import { makeTable, parseContext, runContext, SETTINGS } from "../fit/_fixtures_test.ts";
-import type { DocSettings, RunContext } from "../types.ts";
+import type { DocSettings, RunContext } from "../../kernel/contract/mod.ts";
 import { predictKind } from "./mod.ts";
 import type { Predictions, PredictResult } from "./result.ts";
 

@@ -38,7 +38,7 @@ import type { Fit } from "../fit/mod.ts";
 import { meanResponse, type ModelAtEstimates } from "./mean_response.ts";
 import type { IntervalSettings } from "./interval_settings.ts";
 import { bisectRoot, firstExit, scanSignChanges } from "./_roots.ts";
-import { formatNumber } from "../format.ts";
+import { formatNumber } from "../shared/format.ts";
 
 /** One inverse prediction. */
 export interface InversePrediction {

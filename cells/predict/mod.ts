@@ -25,12 +25,14 @@
  *
  * @module
  */
-import type { CellKind } from "../types.ts";
+import type { CellKind } from "../../kernel/contract/mod.ts";
 import { parsePredictSpec, type PredictSpec } from "./spec.ts";
 import type { Predictions, PredictResult } from "./result.ts";
 import { runPredict } from "./run.ts";
-import { PredictView } from "./view.tsx";
-import { formatInterval, formatNumber } from "../format.ts";
+import { PREDICT_OPTIONS } from "./spec.ts";
+import type { TemplateContext } from "../../kernel/contract/mod.ts";
+import { cellsOf, fitColumns } from "../shared/template_cells.ts";
+import { formatInterval, formatNumber } from "../shared/format.ts";
 
 export type { PredictSpec } from "./spec.ts";
 export type {
@@ -51,7 +53,8 @@ export const predictKind: CellKind<PredictSpec, Predictions, PredictResult> = {
   run: runPredict,
   summary: (out) => out.result,
   line: predictLine,
-  view: PredictView,
+  options: PREDICT_OPTIONS,
+  template: predictTemplate,
 };
 
 /**
@@ -86,4 +89,11 @@ export function predictLine(r: PredictResult): string {
     );
   }
   return parts.join(" · ");
+}
+
+/** A new prediction from the last fit, at 1 on its first predictor (in the domain of log, sqrt, powers). */
+function predictTemplate(ctx: TemplateContext): string {
+  const fit = cellsOf(ctx, "Fit").at(-1);
+  const x = fit ? fitColumns(ctx, fit).predictors[0] ?? "x" : "x";
+  return `fit: ${fit?.name ?? "fit1"}\nat: { ${x}: [1] }\n`;
 }

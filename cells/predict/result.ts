@@ -9,7 +9,7 @@
  *
  * @module
  */
-import type { CellOutput } from "../types.ts";
+import type { CellOutput } from "../../kernel/contract/mod.ts";
 
 /** One prediction point. Values that do not exist (the model is not finite there) are null. */
 export interface PredictPointResult {

@@ -16,7 +16,7 @@
  */
 import { CellError } from "../../kernel/errors.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
-import type { RunContext } from "../types.ts";
+import type { RunContext } from "../../kernel/contract/mod.ts";
 import type { Fit } from "../fit/mod.ts";
 import type { PredictSpec } from "./spec.ts";
 import type { Predictions, PredictPointResult, PredictResult } from "./result.ts";
@@ -25,7 +25,7 @@ import { type IntervalSettings, intervalSettings } from "./interval_settings.ts"
 import { type ResponseScale, responseScale } from "./response_scale.ts";
 import { type InverseContext, inversePrediction } from "./inverse_prediction.ts";
 import { type Points, pointsOf, quoted } from "./_points.ts";
-import { formatNumber } from "../format.ts";
+import { formatNumber } from "../shared/format.ts";
 
 /** Share of the fitted x range added on each side for the root search of `solve`. */
 export const ROOT_MARGIN = 0.1;

@@ -21,8 +21,12 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import { didYouMean } from "../../kernel/suggest.ts";
-import type { ParseContext } from "../types.ts";
+import {
+  checkOptionKeys,
+  type OptionDecls,
+  type ParseContext,
+  readCellName,
+} from "../../kernel/contract/mod.ts";
 
 /** A `predict` cell's normalised options (plain JSON: hashed into the cache key). */
 export interface PredictSpec {
@@ -44,17 +48,38 @@ export interface PredictSpec {
   search?: [number, number];
 }
 
-/** Option keys a `predict` cell understands, with what each is for. */
-export const PREDICT_OPTIONS = {
-  fit: "the fit cell to predict from",
-  at: "values per predictor column; lists of equal length are paired element by element",
-  solve: "inverse prediction: { response: value or list }, for fits with one predictor",
-  level: "interval level in (0, 1); default the document's confidence",
-  weight: "relative weight of a new observation, for fits with weights (default 1)",
-  sigma: "standard deviation of a new observation, for fits with known_sigma",
-  replicates: "number of new observations averaged, for prediction intervals (default 1)",
-  search: "the x range [low, high] that solve searches (default the fitted range ± 10 %)",
-} as const;
+/** Options a `predict` cell understands, each declared once. */
+export const PREDICT_OPTIONS: OptionDecls = {
+  fit: { type: "text", doc: "the fit cell to predict from", required: true, names: "cell" },
+  at: {
+    type: "mapping",
+    doc: "values per predictor column; lists of equal length are paired element by element",
+    names: "columns",
+  },
+  solve: {
+    type: "mapping",
+    doc: "inverse prediction: { response: value or list }, for fits with one predictor",
+  },
+  level: { type: "number", doc: "interval level in (0, 1) (default the document's confidence)" },
+  weight: {
+    type: "number",
+    doc: "relative weight of a new observation, for fits with weights",
+    default: 1,
+  },
+  sigma: {
+    type: "number",
+    doc: "standard deviation of a new observation, for fits with known_sigma",
+  },
+  replicates: {
+    type: "whole number",
+    doc: "number of new observations averaged, for prediction intervals",
+    default: 1,
+  },
+  search: {
+    type: "list",
+    doc: "the x range [low, high] that solve searches (default the fitted range ± 10 %)",
+  },
+};
 
 /**
  * Checks and normalises a `predict` cell's options.
@@ -78,13 +103,7 @@ export const PREDICT_OPTIONS = {
  */
 export function parsePredictSpec(ctx: ParseContext): PredictSpec {
   const o = ctx.options;
-  for (const key of Object.keys(o)) {
-    if (!(key in PREDICT_OPTIONS)) {
-      const hint = didYouMean(key, Object.keys(PREDICT_OPTIONS)) ||
-        `: a predict cell takes ${Object.keys(PREDICT_OPTIONS).map((k) => `"${k}"`).join(", ")}`;
-      throw new CellError(`Unknown option "${key}" in predict "${ctx.name}"${hint}`, [key]);
-    }
-  }
+  checkOptionKeys(ctx, PREDICT_OPTIONS);
   const at = atValues(ctx, o.at);
   const solve = solveValues(ctx, o.solve);
   if (at === null && solve === null) {
@@ -104,7 +123,7 @@ export function parsePredictSpec(ctx: ParseContext): PredictSpec {
   );
   const search = searchRange(ctx, o.search);
   return {
-    fit: fitName(ctx, o.fit),
+    fit: readCellName(ctx, "fit", "fit", "name the fit cell to predict from, as in fit: line"),
     at,
     solve,
     ...(level === undefined ? {} : { level }),
@@ -113,22 +132,6 @@ export function parsePredictSpec(ctx: ParseContext): PredictSpec {
     ...(replicates === undefined ? {} : { replicates }),
     ...(search === undefined ? {} : { search }),
   };
-}
-
-function fitName(ctx: ParseContext, v: unknown): string {
-  if (v === undefined || v === null) {
-    throw new CellError(
-      `Missing "fit" in predict "${ctx.name}": name the fit cell to predict from, as in fit: line`,
-      [],
-    );
-  }
-  if (typeof v !== "string" || v.trim() === "" || /\s/.test(v.trim())) {
-    throw new CellError(
-      `Option "fit" of predict "${ctx.name}" is "${String(v)}": expected the name of a fit cell`,
-      ["fit"],
-    );
-  }
-  return v.trim();
 }
 
 function isMapping(v: unknown): v is Record<string, unknown> {

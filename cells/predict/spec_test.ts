@@ -1,3 +1,4 @@
+import { predictPage } from "./view.tsx";
 import assert from "node:assert/strict";
 import { CellError } from "../../kernel/errors.ts";
 import { parseContext } from "../fit/_fixtures_test.ts";
@@ -123,7 +124,7 @@ Deno.test("predictKind.line() and the view show points and inverse predictions",
     line,
     /^from model at 95% · x = 2: [0-9.]+, PI \[[0-9., ]+\] \(\+1 points\) · y = 5 at x = /,
   );
-  const html = renderToString(predictKind.view({ name: "eol", result }));
+  const html = renderToString(predictPage.view({ name: "eol", result }));
   assert.ok(html.includes("fieller") && html.includes("new observation"), html);
   assert.equal((html.match(/<tr>/g) ?? []).length, 2 + 3, "two header rows, two points, one solve");
 });

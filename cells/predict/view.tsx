@@ -8,9 +8,9 @@
  * @module
  */
 import type { VNode } from "preact";
-import type { ViewProps } from "../types.ts";
+import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import type { PredictResult } from "./result.ts";
-import { formatInterval, formatNumber } from "../format.ts";
+import { formatInterval, formatNumber } from "../shared/format.ts";
 
 /**
  * Renders a predict result.
@@ -100,3 +100,6 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
 function entries(v: Record<string, number>): string {
   return Object.entries(v).map(([k, x]) => `${k} = ${formatNumber(x, 6)}`).join(", ");
 }
+
+/** The `predict` kind's page face: its view, for the live page and the record. */
+export const predictPage: PageFace<PredictResult, VNode> = { kind: "predict", view: PredictView };

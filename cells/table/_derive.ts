@@ -10,7 +10,7 @@
 import { CellError } from "../../kernel/errors.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
 import { compile, type Expr, ExprError, parseColumnExpression } from "../../kernel/expr/mod.ts";
-import type { Column, NumberColumn } from "../types.ts";
+import type { Column, NumberColumn } from "../../kernel/contract/mod.ts";
 import { findId } from "./_find_id.ts";
 
 function parseAgainst(name: string, text: string, columns: Column[]): Expr {

@@ -15,7 +15,7 @@
 import { CellError, type OptionPath } from "../../kernel/errors.ts";
 import { formatBytes } from "../../kernel/format_bytes.ts";
 import { type DelimitedData, DelimitedError, readDelimited } from "../../kernel/csv/mod.ts";
-import type { RunContext } from "../types.ts";
+import type { RunContext } from "../../kernel/contract/mod.ts";
 import type { InlineData, TableSpec } from "./spec.ts";
 
 function quote(s: string): string {

@@ -7,7 +7,7 @@
 import { gather as gatherValues } from "../../kernel/arrays.ts";
 import { CellError } from "../../kernel/errors.ts";
 import type { DelimitedColumn } from "../../kernel/csv/mod.ts";
-import type { Column } from "../types.ts";
+import type { Column } from "../../kernel/contract/mod.ts";
 import type { TableSpec } from "./spec.ts";
 
 /**

@@ -4,7 +4,7 @@
  * @module
  */
 import { DEFAULT_SETTINGS } from "../../kernel/document/mod.ts";
-import type { DocSettings, FileData, ParseContext, RunContext } from "../types.ts";
+import type { DocSettings, FileData, ParseContext, RunContext } from "../../kernel/contract/mod.ts";
 
 /** Default document settings (the kernel's defaults). */
 export const SETTINGS: DocSettings = { ...DEFAULT_SETTINGS, title: "test", extra: {} };

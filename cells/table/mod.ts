@@ -19,11 +19,11 @@
  *
  * @module
  */
-import type { CellKind } from "../types.ts";
+import type { CellKind } from "../../kernel/contract/mod.ts";
 import { runTable, type TableOutput } from "./run.ts";
 import { parseTableSpec, type TableSpec } from "./spec.ts";
 import { summarizeTable, tableLine, type TableResult } from "./summary.ts";
-import { TableView } from "./view.tsx";
+import { TABLE_OPTIONS } from "./spec.ts";
 
 export type { TableSpec } from "./spec.ts";
 export type { TableOutput } from "./run.ts";
@@ -43,5 +43,22 @@ export const tableKind: CellKind<TableSpec, TableOutput, TableResult> = {
   run: runTable,
   summary: (out) => summarizeTable(out),
   line: tableLine,
-  view: TableView,
+  options: TABLE_OPTIONS,
+  columns: (r) => r.columns.map(({ name, type, unit }) => ({ name, type, unit })),
+  template: tableTemplate,
 };
+
+/** A new table: a few inline rows, so it runs before any file is chosen. */
+function tableTemplate(): string {
+  return [
+    "# from: data/measurements.csv   (or read a file beside the document)",
+    "columns: [x, y]",
+    "rows:",
+    "  - [1, 2.1]",
+    "  - [2, 3.9]",
+    "  - [3, 6.2]",
+    "  - [4, 7.8]",
+    "  - [5, 10.1]",
+    "",
+  ].join("\n");
+}

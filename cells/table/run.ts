@@ -14,7 +14,7 @@
  */
 import { CellError } from "../../kernel/errors.ts";
 import { ExprError } from "../../kernel/expr/mod.ts";
-import type { Column, NumberColumn, RunContext, Table } from "../types.ts";
+import type { Column, NumberColumn, RunContext, Table } from "../../kernel/contract/mod.ts";
 import { addDerived, checkUnits } from "./_derive.ts";
 import { readSource } from "./_read_source.ts";
 import { gatherInt } from "../../kernel/arrays.ts";

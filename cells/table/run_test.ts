@@ -1,7 +1,8 @@
+import { tablePage } from "./view.tsx";
 import assert from "node:assert/strict";
 import { renderToString } from "preact-render-to-string";
 import { CellError } from "../../kernel/errors.ts";
-import type { NumberColumn, TextColumn } from "../types.ts";
+import type { NumberColumn, TextColumn } from "../../kernel/contract/mod.ts";
 import { tableKind, type TableOutput } from "./mod.ts";
 import { parseCtx, runCtx } from "./_testing.ts";
 
@@ -265,7 +266,7 @@ Deno.test("tableKind.view() shows columns with type, unit, missing and exclusion
     },
     { "d.csv": FADE },
   );
-  const html = renderToString(tableKind.view({ name: "cycles", result }));
+  const html = renderToString(tablePage.view({ name: "cycles", result }));
   assert.match(
     html,
     /<td><code>capacity<\/code><\/td><td>number<\/td><td>mAh<\/td><td class="plumb-num">1<\/td>/,

@@ -25,7 +25,7 @@
  */
 import { CellError } from "../../kernel/errors.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
-import type { ParseContext } from "../types.ts";
+import { checkOptionKeys, type OptionDecls, type ParseContext } from "../../kernel/contract/mod.ts";
 import { parseExclude } from "./_parse_exclude.ts";
 import { parseInline } from "./_parse_inline.ts";
 import { parseDerive, parseWhere } from "./_parse_derive.ts";
@@ -57,20 +57,31 @@ export interface TableSpec {
   where: string | null;
 }
 
-/** Option keys a `table` cell understands, with what each is for. */
-export const TABLE_OPTIONS = {
-  from: "the data file, relative to the document",
-  columns: "inline data: the column names",
-  rows: "inline data: one list of values per row",
-  delimiter: "the field delimiter",
-  decimal: "the decimal separator, point or comma",
-  missing: "markers of a missing value besides the empty field",
-  types: "forced column types, number or text",
-  units: "units of the columns",
-  exclude: "rows left out, each entry with rows and why",
-  derive: "derived number columns by expression",
-  where: "a row filter, such as temp >= 20",
-} as const;
+/** Options a `table` cell understands, each declared once. */
+export const TABLE_OPTIONS: OptionDecls = {
+  from: { type: "text", doc: "the data file, relative to the document", names: "file" },
+  columns: { type: "list", doc: "inline data: the column names" },
+  rows: { type: "rows", doc: "inline data: one list of values per row" },
+  delimiter: {
+    type: "text",
+    doc: 'the field delimiter (default ",", "\\t" for .tsv, ";" with a decimal comma)',
+  },
+  decimal: {
+    type: "choice",
+    doc: "the decimal separator",
+    default: "point",
+    choices: ["point", "comma"],
+  },
+  missing: {
+    type: "list",
+    doc: "markers of a missing value besides the empty field (default NA, NaN)",
+  },
+  types: { type: "mapping", doc: "forced column types, number or text", names: "columns" },
+  units: { type: "mapping", doc: "units of the columns", names: "columns" },
+  exclude: { type: "list", doc: "rows left out, each entry with rows and why" },
+  derive: { type: "mapping", doc: "derived number columns by expression, in order" },
+  where: { type: "expression", doc: "a row filter, such as temp >= 20" },
+};
 
 function stringMap(v: unknown, key: string): Record<string, unknown> {
   if (v === undefined || v === null) return {};
@@ -147,14 +158,7 @@ function parseMissing(v: unknown): string[] | null {
  */
 export function parseTableSpec(ctx: ParseContext): TableSpec {
   const o = ctx.options;
-  for (const key of Object.keys(o)) {
-    if (!(key in TABLE_OPTIONS)) {
-      throw new CellError(
-        `Option "${key}" is not known to a table${didYouMean(key, Object.keys(TABLE_OPTIONS))}`,
-        [key],
-      );
-    }
-  }
+  checkOptionKeys(ctx, TABLE_OPTIONS);
   const hasFrom = o.from !== undefined && o.from !== null;
   const hasRows = o.rows !== undefined;
   if (hasFrom === hasRows) {

@@ -42,7 +42,7 @@ Deno.test("tableKind.parse() normalises a file table and declares the file", () 
 });
 
 Deno.test("tableKind.parse() refuses an unknown option with a suggestion", () => {
-  parseFails({ form: "a.csv" }, `Option "form" is not known to a table: did you mean "from"?`, [
+  parseFails({ form: "a.csv" }, `Unknown option "form" in table "t": did you mean "from"?`, [
     "form",
   ]);
 });

@@ -7,7 +7,7 @@
  * @module
  */
 import type { VNode } from "preact";
-import type { ViewProps } from "../types.ts";
+import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import { tableLine, type TableResult } from "./summary.ts";
 
 function Source({ r }: { r: TableResult }): VNode {
@@ -99,3 +99,6 @@ export function TableView(props: ViewProps<TableResult>): VNode {
     </div>
   );
 }
+
+/** The `table` kind's page face: its view, for the live page and the record. */
+export const tablePage: PageFace<TableResult, VNode> = { kind: "table", view: TableView };

@@ -12,8 +12,22 @@
  *
  * @module
  */
+import type { Registry } from "../contract/mod.ts";
 import { runCommand } from "./run.ts";
 import { serveCommand } from "./serve.ts";
+
+/**
+ * What the command line is given by its entry point (the product's is
+ * `cells/main.ts`): the kernel knows no kind, so the kinds come from outside.
+ */
+export interface Product {
+  /** The compute faces. */
+  registry: Registry;
+  /** The compute worker's entry module (imports the same registry). */
+  workerUrl: URL;
+  /** The entry module itself, which `serve` relaunches with narrowed permissions. */
+  mainUrl: URL;
+}
 
 const USAGE = `Plumb: fit models to measurements and judge them
 
@@ -29,18 +43,17 @@ Usage:
  * Runs the command line with the given arguments.
  *
  * @param args Command-line arguments (without the program name).
+ * @param product The kinds, the worker entry and the entry module.
  * @returns The exit status.
  */
-export async function main(args: string[]): Promise<number> {
+export async function main(args: string[], product: Product): Promise<number> {
   const [command, ...rest] = args;
   if (command === undefined || command === "help" || command === "--help" || command === "-h") {
     console.log(USAGE);
     return command === undefined ? 2 : 0;
   }
-  if (command === "run") return await runCommand(rest);
-  if (command === "serve") return await serveCommand(rest);
+  if (command === "run") return await runCommand(rest, product);
+  if (command === "serve") return await serveCommand(rest, product);
   console.error(`Unknown command "${command}"\n\n${USAGE}`);
   return 2;
 }
-
-if (import.meta.main) Deno.exit(await main(Deno.args));

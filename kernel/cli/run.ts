@@ -4,12 +4,10 @@
  * @module
  */
 import { dirname } from "node:path";
-import { registry } from "../../cells/mod.ts";
 import { VERSION } from "../version.ts";
 import { type RunReport, Session } from "../session/session.ts";
 import { formatHuman } from "./format_human.ts";
-
-const WORKER = new URL("../../cells/worker.ts", import.meta.url);
+import type { Product } from "./main.ts";
 
 /**
  * The RUN-JSON object of a run (../shared/RUN-JSON.md).
@@ -46,9 +44,10 @@ function replacer(_key: string, value: unknown): unknown {
  * Runs `plumb run` with its arguments.
  *
  * @param args Arguments after `run`.
+ * @param product The kinds and the worker entry.
  * @returns The exit status.
  */
-export async function runCommand(args: string[]): Promise<number> {
+export async function runCommand(args: string[], product: Product): Promise<number> {
   const json = args.includes("--json");
   const paths = args.filter((a) => a !== "--json");
   const unknown = paths.find((a) => a.startsWith("-"));
@@ -71,7 +70,11 @@ export async function runCommand(args: string[]): Promise<number> {
     console.error(`Cannot read document "${path}": ${why}`);
     return 2;
   }
-  const session = new Session({ registry, workerUrl: WORKER, dir: dirname(path) });
+  const session = new Session({
+    registry: product.registry,
+    workerUrl: product.workerUrl,
+    dir: dirname(path),
+  });
   try {
     const report = await session.run(source);
     if (json) console.log(JSON.stringify(runJson(path, report), replacer, 2));

@@ -18,14 +18,12 @@
  */
 import { dirname, join, resolve } from "node:path";
 import { fileURLToPath as fromFileUrl } from "node:url";
-import { registry } from "../../cells/mod.ts";
 import { buildBundle, type Bundle, canBundle } from "../server/bundle.ts";
 import { narrowedFlags } from "../server/permissions.ts";
 import { startServer } from "../server/server.ts";
+import type { Product } from "./main.ts";
 
 const REPO = fromFileUrl(new URL("../../", import.meta.url)).replace(/\/$/, "");
-const WORKER = new URL("../../cells/worker.ts", import.meta.url);
-const MAIN = fromFileUrl(new URL("./main.ts", import.meta.url));
 const USAGE = "Usage: plumb serve <document.md> [--port N] [--host H]";
 const LOOPBACK = new Set(["127.0.0.1", "localhost"]);
 
@@ -77,9 +75,10 @@ export function parseServeArgs(args: string[]): ServeArgs {
  * may, then serves until interrupted.
  *
  * @param args Arguments after `serve`.
+ * @param product The kinds, the worker entry and the entry module to relaunch.
  * @returns The exit status (2 for a usage error or an unreadable document).
  */
-export async function serveCommand(args: string[]): Promise<number> {
+export async function serveCommand(args: string[], product: Product): Promise<number> {
   let a: ServeArgs;
   try {
     a = parseServeArgs(args);
@@ -88,11 +87,11 @@ export async function serveCommand(args: string[]): Promise<number> {
     return 2;
   }
   const mayRun = Deno.permissions.querySync({ name: "run" }).state === "granted";
-  if (!a.narrowed && mayRun) return await relaunch(a);
-  return await serveHere(a);
+  if (!a.narrowed && mayRun) return await relaunch(a, product);
+  return await serveHere(a, product);
 }
 
-async function relaunch(a: ServeArgs): Promise<number> {
+async function relaunch(a: ServeArgs, product: Product): Promise<number> {
   try {
     if (!(await Deno.stat(a.document)).isFile) throw new Error("not a file");
   } catch (err) {
@@ -113,7 +112,7 @@ async function relaunch(a: ServeArgs): Promise<number> {
       // bench: p50 about 100 -> 93 ms, and steadier). Costs at most ~64 MB a thread.
       "--v8-flags=--max-semi-space-size=32",
       ...flags.args,
-      MAIN,
+      fromFileUrl(product.mainUrl),
       "serve",
       a.document,
       "--port",
@@ -146,7 +145,7 @@ function freePort(host: string): number {
   return port;
 }
 
-async function serveHere(a: ServeArgs): Promise<number> {
+async function serveHere(a: ServeArgs, product: Product): Promise<number> {
   if (!LOOPBACK.has(a.host)) {
     console.warn(
       `Warning: serving on "${a.host}", not only this computer: anyone who can reach it and ` +
@@ -159,8 +158,8 @@ async function serveHere(a: ServeArgs): Promise<number> {
   try {
     server = await startServer({
       document: a.document,
-      registry,
-      workerUrl: WORKER,
+      registry: product.registry,
+      workerUrl: product.workerUrl,
       hostname: a.host,
       port: a.port ?? 0,
       bundle,

@@ -15,7 +15,7 @@
  */
 import { isMap, isPair, isScalar, type Node } from "yaml";
 import { LocatedError, type SourcePos } from "../errors.ts";
-import type { DocSettings } from "../../cells/types.ts";
+import type { DocSettings } from "../contract/mod.ts";
 import type { ParsedDocument } from "./types.ts";
 import { didYouMean } from "../suggest.ts";
 import { parseYamlRegion, type YamlRegion } from "./_yaml.ts";

@@ -13,12 +13,12 @@
  *
  * @module
  */
-import type { DocSettings, FileRef, InputRef } from "../../cells/types.ts";
+import type { DocSettings, FileRef, InputRef } from "../contract/mod.ts";
 import type { CellBlock, ParsedDocument } from "../document/mod.ts";
 import { lineColumnAt } from "../document/mod.ts";
 import { OptionsCache } from "./options_cache.ts";
 import { CellError, LocatedError, type OptionPath, type SourcePos } from "../errors.ts";
-import type { AnyKind, Registry } from "../registry.ts";
+import type { AnyKind, Registry } from "../contract/mod.ts";
 import { didYouMean } from "../suggest.ts";
 import { canonicalJson } from "../hash.ts";
 import { findCycles } from "./cycles.ts";
@@ -56,8 +56,6 @@ export interface Graph {
   byName: Map<string, CellNode>;
   /** Nodes in an order where every cell comes after the cells it reads (cycle members last). */
   order: CellNode[];
-  /** Downstream edges: cell name → names of the cells that read it. */
-  readers: Map<string, string[]>;
 }
 
 /**
@@ -213,19 +211,7 @@ export function buildGraph(
       node.error = new LocatedError(`Cycle: ${path}`, node.locate(ref?.path ?? []));
     }
   }
-  return { nodes, byName, order: topologicalOrder(nodes, byName), readers: readersOf(nodes) };
-}
-
-function readersOf(nodes: CellNode[]): Map<string, string[]> {
-  const readers = new Map<string, string[]>();
-  for (const n of nodes) {
-    for (const d of n.deps) {
-      const list = readers.get(d) ?? [];
-      list.push(n.name);
-      readers.set(d, list);
-    }
-  }
-  return readers;
+  return { nodes, byName, order: topologicalOrder(nodes, byName) };
 }
 
 /** Depth-first post-order from each node in document order; a cycle member is emitted once. */

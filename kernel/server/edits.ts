@@ -20,7 +20,7 @@ import {
   removeCell,
   replaceCellBody,
 } from "../document/mod.ts";
-import type { Registry } from "../registry.ts";
+import type { Registry } from "../contract/mod.ts";
 import { didYouMean } from "../suggest.ts";
 import { templateFor } from "./templates.ts";
 
@@ -94,6 +94,7 @@ export function saveCell(source: string, name: unknown, body: unknown): Edited {
  * @param source The document text.
  * @param req `after` (a cell name or null for the end), `kind`, `name`, optional `body`.
  * @param registry The known kinds (for the check and the template).
+ * @param resultOf The last result of a cell by name (what templates read), or null.
  * @returns The new text.
  * @throws {EditError} 404 for an unknown `after`, 400 for an unknown kind or a bad or taken name.
  * @example
@@ -108,6 +109,7 @@ export function newCell(
   source: string,
   req: { after?: unknown; kind?: unknown; name?: unknown; body?: unknown },
   registry: Registry,
+  resultOf: (name: string) => unknown = () => null,
 ): Edited {
   const doc = parseDocument(source);
   const all = cellsIn(doc);
@@ -124,7 +126,7 @@ export function newCell(
     ? all.length - 1
     : all.indexOf(cellNamed(doc, req.after));
   const at = index === -1 && all.length === 0 ? { offset: source.length } : index;
-  const body = (req.body as string | undefined) ?? templateFor(kind, registry, doc);
+  const body = (req.body as string | undefined) ?? templateFor(kind, registry, doc, resultOf);
   return { source: guarded(() => insertCell(doc, at, kind, name, body)) };
 }
 

@@ -31,10 +31,10 @@
  * @module
  */
 import { basename, dirname, resolve } from "node:path";
-import type { OptionPath } from "../../cells/types.ts";
+import type { OptionPath } from "../contract/mod.ts";
 import { type ParsedDocument, readSettings } from "../document/mod.ts";
 import { hashValue, sha256Hex } from "../hash.ts";
-import type { Registry } from "../registry.ts";
+import type { Registry } from "../contract/mod.ts";
 import { Session, type SessionEvent } from "../session/session.ts";
 import { documentMessage, type FileInfo } from "./document_message.ts";
 import type { CellMessage, DocumentMessage, ServerMessage } from "./protocol.ts";
@@ -111,6 +111,17 @@ export class LiveWorkspace {
   /** How many times each cell was computed (for tests and benchmarks). */
   get runs(): ReadonlyMap<string, number> {
     return this.#session.runs;
+  }
+
+  /**
+   * A cell's last result as the page has it (its page copy), for add-cell
+   * templates.
+   *
+   * @param name The cell's name.
+   * @returns The result, or null when the cell has none.
+   */
+  resultOf(name: string): unknown {
+    return this.#cells.get(name)?.result ?? null;
   }
 
   /**

@@ -14,7 +14,7 @@
  * @module
  */
 import { dirname, extname, join, normalize, resolve, sep } from "node:path";
-import type { Registry } from "../registry.ts";
+import type { Registry } from "../contract/mod.ts";
 import { sha256Hex } from "../hash.ts";
 import { writeFileAtomic } from "./atomic_write.ts";
 import type { Bundle } from "./bundle.ts";
@@ -245,7 +245,7 @@ class Editor {
     }
     let edited: Edited;
     try {
-      edited = edit(disk.source, body, this.registry);
+      edited = edit(disk.source, body, this.registry, (n) => this.workspace.resultOf(n));
     } catch (err) {
       if (err instanceof EditError) {
         return Response.json({ error: err.message }, { status: err.status });
@@ -260,11 +260,16 @@ class Editor {
   }
 }
 
-type Edit = (source: string, body: Record<string, unknown>, registry: Registry) => Edited;
+type Edit = (
+  source: string,
+  body: Record<string, unknown>,
+  registry: Registry,
+  resultOf: (name: string) => unknown,
+) => Edited;
 
 const EDITS: Record<string, Edit> = {
   "/api/cell": (s, b) => saveCell(s, b.name, b.body),
-  "/api/cell/new": (s, b, r) => newCell(s, b, r),
+  "/api/cell/new": (s, b, r, of) => newCell(s, b, r, of),
   "/api/cell/delete": (s, b) => deleteCell(s, b.name),
   "/api/cell/restore": (s, b) => restoreCell(s, b.text, b.at),
 };

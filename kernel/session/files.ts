@@ -11,7 +11,7 @@
  * @module
  */
 import { isAbsolute, join, relative, resolve } from "node:path";
-import type { FileData } from "../../cells/types.ts";
+import type { FileData } from "../contract/mod.ts";
 import { CellError, type OptionPath } from "../errors.ts";
 import { sha256Hex } from "../hash.ts";
 import { formatBytes } from "../format_bytes.ts";

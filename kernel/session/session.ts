@@ -16,7 +16,7 @@
  *
  * @module
  */
-import type { DocSettings, FileData } from "../../cells/types.ts";
+import type { DocSettings, FileData } from "../contract/mod.ts";
 import { parseDocument, readSettings } from "../document/mod.ts";
 import { LocatedError } from "../errors.ts";
 import { hashValue } from "../hash.ts";

@@ -3,11 +3,11 @@
  *
  * @module
  */
-import type { DocSettings } from "../../cells/types.ts";
+import type { DocSettings } from "../contract/mod.ts";
 import type { ParsedDocument } from "../document/mod.ts";
 import type { LocatedError } from "../errors.ts";
 import type { Graph } from "../graph/build.ts";
-import type { Registry } from "../registry.ts";
+import type { Registry } from "../contract/mod.ts";
 
 /** The states of a cell, in our own words. */
 export type CellState = "current" | "queued" | "computing" | "failed" | "held";

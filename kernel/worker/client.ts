@@ -9,8 +9,8 @@
  *
  * @module
  */
-import type { FileData } from "../../cells/types.ts";
-import type { CellOutput } from "../../cells/types.ts";
+import type { FileData } from "../contract/mod.ts";
+import type { CellOutput } from "../contract/mod.ts";
 import type { DoneMessage, FromWorker, RunRequest, SummaryRequest, ToWorker } from "./protocol.ts";
 
 /** One cell to run: the run request without its wire fields, with file contents instead of digests. */

@@ -7,10 +7,11 @@
  *
  * @module
  */
-import type { CellOutput, FileData } from "../../cells/types.ts";
+import type { CellOutput, FileData } from "../contract/mod.ts";
 import { plainDeep } from "../arrays.ts";
 import { CellError } from "../errors.ts";
-import type { Registry } from "../registry.ts";
+import type { Registry } from "../contract/mod.ts";
+import { pageCopy, pageLeavesOut } from "./page_copy.ts";
 import type {
   DoneMessage,
   FromWorker,
@@ -20,29 +21,10 @@ import type {
   WireError,
 } from "./protocol.ts";
 
-/** How the worker makes the page's copy of a summary (kernel/server/live_result.ts). */
-export type PageShaper = (
-  kind: string,
-  summary: unknown,
-  keep: ReadonlySet<string>,
-) => { result: unknown; omitted: string[] };
-
 /** Progress of a run is first sent this long after it started (ms). */
 const PROGRESS_AFTER_MS = 100;
 /** Then at most this often (ms): each message costs both threads about 0.4 ms (measured). */
 const PROGRESS_EVERY_MS = 50;
-
-/** Options of {@link serveComputeWorker}. */
-export interface ComputeWorkerOptions {
-  /** Makes page copies for requests with `page`; without it they get the complete summary. */
-  pageShaper?: PageShaper;
-  /**
-   * The fields a kind's page copy drops, besides those kept (ui/page_fields.ts
-   * `pageOmits`): passed to the kind's `summary` as `leaveOut`, so it need
-   * not build them.
-   */
-  pageLeavesOut?: (kind: string, keep: ReadonlySet<string>) => ReadonlySet<string>;
-}
 
 function toWire(err: unknown): WireError {
   if (err instanceof CellError) {
@@ -58,10 +40,9 @@ function toWire(err: unknown): WireError {
 /**
  * Serves run requests on `self` until the worker is terminated.
  *
- * @param registry The cell kinds this worker can run.
- * @param opts How page copies are made.
+ * @param registry The cell kinds this worker can run (their compute faces).
  */
-export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOptions = {}): void {
+export function serveComputeWorker(registry: Registry): void {
   const outputs = new Map<string, CellOutput>();
   const files = new Map<string, FileData>();
   const post = (m: FromWorker) => self.postMessage(m);
@@ -124,15 +105,15 @@ export function serveComputeWorker(registry: Registry, opts: ComputeWorkerOption
   /** The summary part of a reply: complete, or the page's copy when asked. */
   function summarise(req: RunRequest | SummaryRequest, out: CellOutput): Partial<DoneMessage> {
     const kind = registry.get(req.kind)!;
-    if (req.page === undefined || opts.pageShaper === undefined) {
+    if (req.page === undefined) {
       const summary = kind.summary(out, req.spec);
       return { ok: true, summary, line: kind.line(summary) };
     }
     const keep = new Set(req.page);
-    const leave = opts.pageLeavesOut?.(req.kind, keep);
+    const leave = pageLeavesOut(kind, keep);
     const summary = kind.summary(out, req.spec, leave);
-    const page = opts.pageShaper(req.kind, summary, keep);
-    const omitted = [...new Set([...(leave ?? []), ...page.omitted])];
+    const page = pageCopy(kind, summary, keep);
+    const omitted = [...new Set([...leave, ...page.omitted])];
     // Plain JSON from here on: the server writes it to the page without a replacer.
     const summaryJson = JSON.stringify(plainDeep(page.result));
     return { ok: true, summaryJson, omitted, line: kind.line(summary) };

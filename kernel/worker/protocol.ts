@@ -32,7 +32,7 @@
  *
  * @module
  */
-import type { DocSettings, OptionPath } from "../../cells/types.ts";
+import type { DocSettings, OptionPath } from "../contract/mod.ts";
 
 /** Run one cell. */
 export interface RunRequest {

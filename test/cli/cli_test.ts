@@ -5,7 +5,7 @@
 import { deepEqual, equal, match, ok } from "node:assert/strict";
 import { join } from "node:path";
 
-const MAIN = new URL("../../kernel/cli/main.ts", import.meta.url).pathname;
+const MAIN = new URL("../../cells/main.ts", import.meta.url).pathname;
 const DEMO = new URL("../../examples/fade/fade.md", import.meta.url).pathname;
 
 async function plumb(...args: string[]) {

@@ -103,7 +103,7 @@ export async function serve(
       "run",
       "-A",
       "--unstable-bundle",
-      new URL("kernel/cli/main.ts", REPO).pathname,
+      new URL("cells/main.ts", REPO).pathname,
       "serve",
       doc,
       "--port",

@@ -14,7 +14,7 @@ import { join } from "node:path";
 /** `../shared/reference/` beside the repository. */
 export const REFERENCE_DIR = new URL("../../../shared/reference/", import.meta.url);
 
-const MAIN = new URL("../../kernel/cli/main.ts", import.meta.url).pathname;
+const MAIN = new URL("../../cells/main.ts", import.meta.url).pathname;
 
 /** Suites that already said they skip: one line each. */
 const announced = new Set<string>();

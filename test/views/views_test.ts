@@ -6,6 +6,7 @@ import { match, ok } from "node:assert/strict";
 import { renderToString } from "preact-render-to-string";
 import { h } from "preact";
 import { registry } from "../../cells/mod.ts";
+import { pages } from "../../cells/pages.ts";
 import { Session } from "../../kernel/session/session.ts";
 
 const DEMO = new URL("../../examples/fade/fade.md", import.meta.url);
@@ -20,7 +21,7 @@ Deno.test("views render the demo's table and fit results to HTML", async () => {
     const report = await session.run(await Deno.readTextFile(DEMO));
     for (const cell of report.cells) {
       ok(cell.state === "current", `${cell.name}: ${cell.error?.message}`);
-      const view = registry.get(cell.kind)!.view;
+      const view = pages.get(cell.kind)!.view;
       const html = renderToString(h(view, { name: cell.name, result: cell.result }));
       ok(html.length > 100, `${cell.name} renders something`);
       if (cell.kind === "table") {

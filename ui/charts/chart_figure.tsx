@@ -24,7 +24,7 @@
  */
 import type { VNode } from "preact";
 import { useEffect, useLayoutEffect, useRef } from "preact/hooks";
-import type { ChartData } from "./chart_data.ts";
+import type { ChartData } from "../../cells/shared/chart_data.ts";
 import { renderChart } from "./render_chart.ts";
 import { chartDocument } from "./svg_document.ts";
 

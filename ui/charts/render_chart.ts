@@ -11,8 +11,8 @@
  * @module
  */
 import * as Plot from "@observablehq/plot";
-import type { ChartData } from "./chart_data.ts";
-import { INK } from "./palette.ts";
+import type { ChartData } from "../../cells/shared/chart_data.ts";
+import { INK } from "../../cells/shared/palette.ts";
 import { type Panel, stackPanels } from "./_svg.ts";
 
 /** Size of the chart: width, main panel height and residual panel height, px. */

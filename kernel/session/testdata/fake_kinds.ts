@@ -4,16 +4,16 @@
  *
  * @module
  */
-import { h } from "preact";
-import type { CellKind, CellOutput } from "../../../cells/types.ts";
+import type { CellKind, CellOutput } from "../../contract/mod.ts";
 import { CellError } from "../../errors.ts";
-import { makeRegistry } from "../../registry.ts";
+import { makeRegistry } from "../../contract/mod.ts";
 
 interface Num extends CellOutput {
   value: number;
 }
 
-const view = () => h("span", null);
+/** What every fake kind declares besides its own parts: no options, an empty template. */
+const plain = { options: {}, template: () => "" };
 
 /** `num x` with `value: 3` gives 3. */
 export const numKind: CellKind<{ value: number }, Num, { value: number }> = {
@@ -32,7 +32,7 @@ export const numKind: CellKind<{ value: number }, Num, { value: number }> = {
   run: (spec) => ({ type: "Value", value: spec.value }),
   summary: (out) => ({ value: out.value }),
   line: (r) => String(r.value),
-  view,
+  ...plain,
 };
 
 /** `sum s` with `of: [a, b]` adds the values of cells a and b. */
@@ -57,7 +57,7 @@ export const sumKind: CellKind<{ of: string[] }, Num, { value: number }> = {
   },
   summary: (out) => ({ value: out.value }),
   line: (r) => String(r.value),
-  view,
+  ...plain,
 };
 
 /** `bytes b` with `from: data.txt` gives the file's length (as a "Table", to test wrong-kind references). */
@@ -72,7 +72,7 @@ export const bytesKind: CellKind<{ from: string }, Num, { value: number }> = {
   run: (spec, ctx) => ({ type: "Table", value: ctx.files[spec.from].bytes.length }),
   summary: (out) => ({ value: out.value }),
   line: (r) => `${r.value} bytes`,
-  view,
+  ...plain,
 };
 
 /** `peek p` tries to read a file from inside the worker (it must be refused). */
@@ -92,7 +92,7 @@ export const peekKind: CellKind<{ path: string }, Num, { value: number }> = {
   },
   summary: (out) => ({ value: out.value }),
   line: (r) => String(r.value),
-  view,
+  ...plain,
 };
 
 /** `spin s` with `ms: 200` busy-waits, for superseded-run tests. */
@@ -110,7 +110,7 @@ export const spinKind: CellKind<{ ms: number; tag: number }, Num, { value: numbe
   },
   summary: (out) => ({ value: out.value }),
   line: (r) => String(r.value),
-  view,
+  ...plain,
 };
 
 /** The test registry. */

@@ -1,7 +1,7 @@
 import { deepEqual, equal, ok } from "node:assert/strict";
 import { join } from "node:path";
 import { registry } from "../../cells/mod.ts";
-import { Session } from "./session.ts";
+import { Session } from "../../kernel/session/session.ts";
 
 const WORKER = new URL("../../cells/worker.ts", import.meta.url);
 

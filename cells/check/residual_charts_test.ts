@@ -1,7 +1,7 @@
 import { equal, ok } from "node:assert/strict";
 import { checkChartsSvg, checkDensity } from "./residual_charts.ts";
-import { chartDocument } from "./svg_document.ts";
-import { assertSvgSnapshot } from "./_snapshot.ts";
+import { chartDocument } from "../../ui/charts/svg_document.ts";
+import { assertSvgSnapshot } from "../../ui/charts/_snapshot.ts";
 
 const SNAPSHOTS = new URL("../../test/snapshots/", import.meta.url);
 

@@ -1,6 +1,12 @@
 import { equal, throws } from "node:assert/strict";
 import { registry } from "../../cells/mod.ts";
-import { deleteCell, EditError, newCell, restoreCell, saveCell } from "./edits.ts";
+import {
+  deleteCell,
+  EditError,
+  newCell,
+  restoreCell,
+  saveCell,
+} from "../../kernel/server/edits.ts";
 
 const F = "```";
 const SRC = `---\ntitle: T\n---\n\nIntro.\r\n\n${F}table t\nfrom: a.csv\n${F}\n\nMiddle.\n\n` +

@@ -6,7 +6,7 @@
  *
  * @module
  */
-import type { CellKind } from "../cells/types.ts";
+import type { CellKind } from "./kind.ts";
 
 /** A kind record of any spec, output and result type (the registry is heterogeneous). */
 // deno-lint-ignore no-explicit-any

@@ -1,8 +1,8 @@
 import { equal, match, ok, throws } from "node:assert/strict";
 import { join } from "node:path";
-import { parseServeArgs } from "./serve.ts";
+import { parseServeArgs } from "../../kernel/cli/serve.ts";
 
-const MAIN = new URL("./main.ts", import.meta.url).pathname;
+const MAIN = new URL("../../cells/main.ts", import.meta.url).pathname;
 const REPO = new URL("../../", import.meta.url).pathname;
 
 Deno.test("parseServeArgs() reads port and host and refuses bad ones", () => {

@@ -1,10 +1,10 @@
 import { deepEqual, equal, match, notEqual, ok } from "node:assert/strict";
 import { join } from "node:path";
 import { registry } from "../../cells/mod.ts";
-import { sha256Hex } from "../hash.ts";
-import { TEMP_PREFIX } from "./atomic_write.ts";
-import type { CellMessage, RunMessage, ServerMessage } from "./protocol.ts";
-import { type LiveServer, startServer } from "./server.ts";
+import { sha256Hex } from "../../kernel/hash.ts";
+import { TEMP_PREFIX } from "../../kernel/server/atomic_write.ts";
+import type { CellMessage, RunMessage, ServerMessage } from "../../kernel/server/protocol.ts";
+import { type LiveServer, startServer } from "../../kernel/server/server.ts";
 
 const WORKER = new URL("../../cells/worker.ts", import.meta.url);
 const F = "```";

@@ -1,0 +1,150 @@
+/**
+ * The cell contract: what every cell kind provides. A kind has two faces,
+ * kept side by side in its folder under `cells/`:
+ *
+ * ```
+ *  compute face (CellKind, this file)          page face (PageFace)
+ *  ───────────────────────────────────          ─────────────────────
+ *  options ─▶ parse ─▶ spec ─▶ inputs/files    view(result) ─▶ the block's body
+ *                       │                        (live page and static record)
+ *  inputs' outputs ─────┴─▶ run ─▶ output
+ *                                   │
+ *                      summary ◀────┘  (RUN-JSON result; page copy less `page.omit`)
+ * ```
+ *
+ * `parse` runs on the server's main thread (it needs only the options);
+ * `run` and `summary` run in the compute worker, which has no permissions:
+ * files arrive as bytes in {@link RunContext.files}. Outputs stay in the
+ * worker's store; only summaries travel back. The compute face imports no UI
+ * library; the page face is loaded by the browser bundle and the record only.
+ *
+ * Errors are thrown as {@link CellError} with an option path (and an offset
+ * into a text value); the kernel turns that into a document line and column.
+ *
+ * @module
+ */
+import type { CellOutput, FileData, FileRef, InputRef, OutputType } from "./values.ts";
+import type { DocSettings } from "./settings.ts";
+import type { OptionDecls } from "./options.ts";
+
+/** What `parse` gets: one cell's options and ways to report about them. */
+export interface ParseContext {
+  /** The cell's name (second word of the fence's info string). */
+  name: string;
+  /** The cell's kind (first word). */
+  kind: string;
+  /** The YAML body as plain data (an empty mapping for an empty body). */
+  options: Record<string, unknown>;
+  /** The raw body text (what code kinds use). */
+  body: string;
+  settings: DocSettings;
+  /** Records a warning shown on the cell; deduplicated by the kernel. */
+  warn(message: string): void;
+}
+
+/** What `run` gets besides its spec. */
+export interface RunContext {
+  name: string;
+  settings: DocSettings;
+  /** Outputs of the referenced cells, by cell name. */
+  inputs: Readonly<Record<string, CellOutput>>;
+  /** Contents of the files named by `files`, by path as written. */
+  files: Readonly<Record<string, FileData>>;
+  /** Records a warning shown on the cell; deduplicated by the kernel. */
+  warn(message: string): void;
+  /** Reports progress of long work, `fraction` in [0, 1]. */
+  progress(fraction: number, note?: string): void;
+}
+
+/** A column a cell offers other cells (a table's columns, by the kind's `columns`). */
+export interface ColumnInfo {
+  name: string;
+  type: "number" | "text";
+  unit: string | null;
+}
+
+/** One cell of the document, as a template sees it. */
+export interface TemplateCell {
+  name: string;
+  kind: string;
+  /** The kind's output type; null for a kind this registry does not know. */
+  output: OutputType | null;
+  /** The cells it reads. */
+  inputs: readonly string[];
+  /** The columns it offers, from its last result (empty when it has none yet). */
+  columns: readonly ColumnInfo[];
+  /** Its last result as the page has it (null when it has none). */
+  result: unknown;
+}
+
+/** What `template` gets: the document's cells in order, with what they offer. */
+export interface TemplateContext {
+  cells: readonly TemplateCell[];
+}
+
+/** How the live page's copy of a result differs from the complete RUN-JSON result. */
+export interface PageCopy<R = unknown> {
+  /** Top-level result fields that no page view reads (per-row arrays, mostly). */
+  omit: readonly string[];
+  /**
+   * Stand-ins for large fields (a check's charts counted into cells): fields
+   * to add and the fields they replace; null to keep the result as it is.
+   */
+  condense?(result: R): { add: Record<string, unknown>; omit: readonly string[] } | null;
+}
+
+/**
+ * A cell kind's compute face: a plug-in record. `Spec` must be plain JSON
+ * data (the kernel hashes it to decide what reruns), `Out` the kind's output
+ * value and `R` the RUN-JSON result object.
+ */
+export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R = unknown> {
+  /** The kind's name as written in a fence's info string. */
+  kind: string;
+  /** What the body holds: YAML options, or code. */
+  body: "yaml" | "code";
+  /** The type of value `run` returns. */
+  output: OutputType;
+  /** One line on what the kind does (reference documentation and errors). */
+  description: string;
+  /** The options it understands, each declared once (key, type, default, one line). */
+  options: OptionDecls;
+  /** Options → spec. Throws {@link CellError} for bad options. */
+  parse(ctx: ParseContext): Spec;
+  /** The cells this one reads. */
+  inputs(spec: Spec): InputRef[];
+  /** The data files this one reads (optional). */
+  files?(spec: Spec): FileRef[];
+  /** Pure computation. Throws {@link CellError} for bad data. */
+  run(spec: Spec, ctx: RunContext): Out | Promise<Out>;
+  /**
+   * The RUN-JSON `result` object (plain JSON). `leaveOut`, when given, names
+   * top-level fields the caller drops (the page copy's `page.omit`): a kind
+   * may skip building them.
+   */
+  summary(out: Out, spec: Spec, leaveOut?: ReadonlySet<string>): R;
+  /** One human line for the CLI summary. */
+  line(result: R): string;
+  /** How the page's copy of a result is made smaller (optional: the whole result). */
+  page?: PageCopy<R>;
+  /** The columns a result offers other cells (tables; optional). */
+  columns?(result: R): ColumnInfo[];
+  /** The body of a new cell of this kind that runs on the document at hand. */
+  template(ctx: TemplateContext): string;
+}
+
+/** Props every kind's view receives. */
+export interface ViewProps<R = unknown> {
+  name: string;
+  /** The kind's summary of its output (plain JSON), or its page copy. */
+  result: R;
+}
+
+/**
+ * A cell kind's page face: its view, shared by the live page and the static
+ * record. `V` is the view library's node type (the kernel names none).
+ */
+export interface PageFace<R = unknown, V = unknown> {
+  kind: string;
+  view(props: ViewProps<R>): V;
+}

@@ -1,0 +1,129 @@
+/**
+ * The house's import rules (DESIGN.md §2, DEVELOPERS.md "Boundaries"):
+ *
+ * ```
+ *   cells/main.ts ──▶ kernel/cli        cells/worker.ts ──▶ kernel/worker
+ *        │                                     │
+ *        └──▶ cells/mod.ts (compute faces) ◀───┘      no ui/, no .tsx, no view library
+ *   ui/ ──▶ cells/pages.ts (page faces: view.tsx) ──▶ ui/charts …
+ *   kernel/ ──▶ kernel/ only (the contract lives in kernel/contract/)
+ * ```
+ *
+ * 1. `kernel/` imports nothing under `cells/` or `ui/` (its tests included).
+ * 2. The compute faces (everything `cells/mod.ts` and `cells/worker.ts` reach)
+ *    import no module under `ui/`, no `.tsx` file and no UI library.
+ * 3. Only page faces import `ui/`: a file under `cells/` that imports `ui/`
+ *    is reached from `cells/pages.ts` and never from the compute registry.
+ * 4. `deno info` of the compute worker's entry lists no UI library at all
+ *    (the runtime's own view of the module graph, npm packages included).
+ *
+ * Imports are read as text (static `import … from`, `export … from` and
+ * `import("…")` with a literal specifier).
+ */
+import { deepEqual, ok } from "node:assert/strict";
+import { dirname, join, relative, resolve } from "node:path";
+import { fileURLToPath } from "node:url";
+
+const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), "../..");
+/** Packages that belong to the page: the view library, the plotting library and what it draws with, math and Markdown. */
+const UI_PACKAGES =
+  /^(preact|preact-render-to-string|@preact\/|@observablehq\/plot|d3|d3-|katex|markdown-it|linkedom|interval-tree|isoformat)/;
+
+/** Every .ts/.tsx file under a folder, as paths from the root. */
+function walk(dir: string): string[] {
+  const out: string[] = [];
+  for (const e of Deno.readDirSync(join(ROOT, dir))) {
+    const p = join(dir, e.name);
+    if (e.isDirectory) out.push(...walk(p));
+    else if (/\.tsx?$/.test(e.name)) out.push(p);
+  }
+  return out;
+}
+
+const SPEC = /(?:^|\n)\s*(?:import|export)\s[^;]*?from\s*"([^"]+)"|import\(\s*"([^"]+)"\s*\)/g;
+
+/** The specifiers a file imports: relative ones resolved to paths from the root, others as written. */
+function importsOf(file: string): string[] {
+  const text = Deno.readTextFileSync(join(ROOT, file));
+  const out: string[] = [];
+  for (const m of text.matchAll(SPEC)) {
+    const spec = m[1] ?? m[2];
+    out.push(spec.startsWith(".") ? relative(ROOT, resolve(ROOT, dirname(file), spec)) : spec);
+  }
+  return out;
+}
+
+/** The bare package name a specifier names (deno.json maps bare names to npm). */
+const packageOf = (spec: string) =>
+  spec.replace(/^npm:\/?/, "").replace(/^(@?[^@/]+(?:\/[^@/]+)?)@.*$/, "$1");
+
+/** Every file reached from the entries by relative imports. */
+function reach(entries: string[]): Set<string> {
+  const seen = new Set<string>();
+  const stack = [...entries];
+  while (stack.length > 0) {
+    const f = stack.pop()!;
+    if (seen.has(f)) continue;
+    seen.add(f);
+    for (const s of importsOf(f)) if (/\.tsx?$/.test(s) && !s.includes(":")) stack.push(s);
+  }
+  return seen;
+}
+
+Deno.test("kernel/ imports nothing under cells/ or ui/", () => {
+  const bad = walk("kernel").flatMap((f) =>
+    importsOf(f).filter((s) => s.startsWith("cells/") || s.startsWith("ui/")).map((s) =>
+      `${f} → ${s}`
+    )
+  );
+  deepEqual(bad, []);
+});
+
+Deno.test("compute faces import no ui/, no .tsx and no UI library", () => {
+  const compute = reach(["cells/mod.ts", "cells/worker.ts", "cells/main.ts"]);
+  ok(compute.has("cells/fit/mod.ts") && compute.has("kernel/worker/compute_worker.ts"));
+  const bad: string[] = [];
+  for (const f of compute) {
+    if (f.startsWith("ui/") || f.endsWith(".tsx")) bad.push(f);
+    for (const s of importsOf(f)) if (UI_PACKAGES.test(packageOf(s))) bad.push(`${f} → ${s}`);
+  }
+  deepEqual(bad, []);
+});
+
+Deno.test("only page faces import ui/", () => {
+  const compute = reach(["cells/mod.ts", "cells/worker.ts", "cells/main.ts"]);
+  const page = reach(["cells/pages.ts"]);
+  const bad = walk("cells").filter((f) =>
+    !f.endsWith("_test.ts") && !f.endsWith("_test.tsx") &&
+    importsOf(f).some((s) => s.startsWith("ui/")) && (compute.has(f) || !page.has(f))
+  );
+  deepEqual(bad, []);
+});
+
+Deno.test("deno info of the compute worker's entry lists no UI library", async () => {
+  const out = await new Deno.Command(Deno.execPath(), {
+    args: ["info", "--json", "cells/worker.ts"],
+    cwd: ROOT,
+    stdout: "piped",
+    stderr: "piped",
+  }).output();
+  ok(out.success, new TextDecoder().decode(out.stderr));
+  // `npmPackages` lists the whole lock file; what the graph uses are its modules and their
+  // dependencies' specifiers (an npm package appears as an `npm:` specifier there).
+  const info = JSON.parse(new TextDecoder().decode(out.stdout)) as {
+    modules: {
+      specifier: string;
+      dependencies?: { specifier: string; code?: { specifier: string } }[];
+    }[];
+  };
+  const used = info.modules.flatMap((m) => [
+    m.specifier,
+    ...(m.dependencies ?? []).map((d) => d.code?.specifier ?? d.specifier),
+  ]);
+  const bad = used.filter((s) =>
+    s.includes("/ui/") || s.endsWith(".tsx") ||
+    (s.startsWith("npm:") && UI_PACKAGES.test(packageOf(s)))
+  );
+  deepEqual(bad, []);
+  ok(info.modules.length < 200, `${info.modules.length} modules`);
+});
