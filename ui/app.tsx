@@ -16,9 +16,10 @@ import { Prose } from "./prose.tsx";
 import { Rail, type Removed } from "./rail.tsx";
 import type { LiveStore } from "./store.ts";
 import { TopBar } from "./top_bar.tsx";
+import { pages } from "../cells/pages.ts";
 
-/** Kinds offered when adding a cell; the server gives each its template. */
-export const ADDABLE_KINDS = ["table", "fit", "compare", "check", "predict", "chart"] as const;
+/** Kinds offered when adding a cell (every kind with a page face); the server gives each its template. */
+export const ADDABLE_KINDS: readonly string[] = [...pages.keys()];
 
 function cellNames(doc: DocumentMessage): string[] {
   return doc.blocks.flatMap((b) => b.type === "cell" ? [b.name] : []);

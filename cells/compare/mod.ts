@@ -22,7 +22,7 @@ import type { CompareResult, Comparison } from "./result.ts";
 import { runCompare } from "./run.ts";
 import { compareLine } from "./line.ts";
 import { COMPARE_OPTIONS } from "./spec.ts";
-import type { TemplateContext } from "../../kernel/contract/mod.ts";
+import type { TemplateCell, TemplateContext } from "../../kernel/contract/mod.ts";
 import { cellsOf } from "../shared/template_cells.ts";
 
 export type { CompareSpec, Criterion } from "./spec.ts";
@@ -44,15 +44,16 @@ export const compareKind: CellKind<CompareSpec, Comparison, CompareResult> = {
   template: compareTemplate,
 };
 
-/** A new comparison: the last two fits of the same table and response. */
+/**
+ * A new comparison: the latest two fits of one table and one response (fits
+ * of different data are not comparable), else the last two fits.
+ */
 function compareTemplate(ctx: TemplateContext): string {
   const fits = cellsOf(ctx, "Fit");
-  const last = fits.at(-1);
-  const same = fits.filter((f) =>
-    f.inputs.join() === last?.inputs.join() &&
-    (f.result as { response?: string } | null)?.response ===
-      (last?.result as { response?: string } | null)?.response
-  );
-  const pick = (same.length >= 2 ? same : fits).slice(-2).map((f) => f.name);
-  return `fits: [${(pick.length === 2 ? pick : ["fit1", "fit2"]).join(", ")}]\n`;
+  const basis = (f: TemplateCell) =>
+    `${f.inputs.join()}|${(f.result as { response?: string } | null)?.response ?? ""}`;
+  const pair = fits.map((f) => fits.filter((g) => basis(g) === basis(f)))
+    .filter((group) => group.length >= 2).at(-1)?.slice(-2) ?? fits.slice(-2);
+  const names = pair.length === 2 ? pair.map((f) => f.name) : ["fit1", "fit2"];
+  return `fits: [${names.join(", ")}]\n`;
 }

@@ -6,10 +6,13 @@
  * model: capacity = q0 - a*sqrt(cycle)
  * ```
  *
- * Models linear in their parameters are solved directly by QR least squares
- * (kernel/linalg); nonlinear models wait for the numerical core
- * (`solve_nonlinear.ts` is the slot). Rows with a missing value in a column
- * the model uses are left out, with a warning that counts them.
+ * Models linear in their parameters are solved directly by pivoted QR least
+ * squares (kernel/linalg; `solve_linear.ts`, in double-double from the data
+ * as printed when small or ill-conditioned); nonlinear models by
+ * Levenberg–Marquardt (kernel/optim; `solve_nonlinear.ts`) with exact
+ * derivatives, multi-start when start values are missing, and parameter
+ * ranges. Rows with a missing value in a column the model uses are left
+ * out, with a warning that counts them.
  *
  * @example
  * ```ts

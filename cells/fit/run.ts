@@ -36,7 +36,8 @@ import { identifierOffset } from "./_offsets.ts";
  * @param ctx Inputs (the table under `spec.on`) and the warning sink.
  * @returns The fit.
  * @throws {CellError} For a missing table, model errors (located in the model
- *   text), too few rows, aliased terms or a nonlinear model (for now).
+ *   text), too few rows, aliased terms, a model that is not finite at the
+ *   start, or a nonlinear fit that does not converge.
  */
 export function runFit(spec: FitSpec, ctx: RunContext): Fit {
   const table = tableInput(spec, ctx);
