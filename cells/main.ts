@@ -15,8 +15,10 @@ import { registry } from "./mod.ts";
 /** The compute worker's entry module. */
 export const WORKER_URL: URL = new URL("./worker.ts", import.meta.url);
 
+/** The live page's entry module. */
+export const PAGE_URL: URL = new URL("../ui/main.tsx", import.meta.url);
+
 if (import.meta.main) {
-  Deno.exit(
-    await main(Deno.args, { registry, workerUrl: WORKER_URL, mainUrl: new URL(import.meta.url) }),
-  );
+  const mainUrl = new URL(import.meta.url);
+  Deno.exit(await main(Deno.args, { registry, workerUrl: WORKER_URL, mainUrl, pageUrl: PAGE_URL }));
 }

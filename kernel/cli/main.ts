@@ -27,6 +27,8 @@ export interface Product {
   workerUrl: URL;
   /** The entry module itself, which `serve` relaunches with narrowed permissions. */
   mainUrl: URL;
+  /** The live page's entry module, which `serve` bundles for the browser. */
+  pageUrl: URL;
 }
 
 const USAGE = `Plumb: fit models to measurements and judge them

@@ -8,7 +8,7 @@
  *  deno run --no-prompt --allow-read=<doc folder>,<repo> --allow-write=<doc folder>
  *           --allow-net=127.0.0.1:<port> --allow-env=LOG_TOKENS,LOG_STREAM
  *           --unstable-bundle main.ts serve doc.md --port <port> --host <host> --narrowed
- *     │ bundles ui/main.tsx, binds, prints the URL, runs the document, watches its folder
+ *     │ bundles the page (product.pageUrl), binds, prints the URL, runs the document, watches its folder
  * ```
  *
  * Without permission to run Deno the command serves in its own process with
@@ -152,7 +152,7 @@ async function serveHere(a: ServeArgs, product: Product): Promise<number> {
         `learns the URL can read and change the analysis and its folder`,
     );
   }
-  const bundle = await frontEnd();
+  const bundle = await frontEnd(product.pageUrl);
   const katex = join(REPO, "node_modules", "katex", "dist");
   let server;
   try {
@@ -179,15 +179,15 @@ async function serveHere(a: ServeArgs, product: Product): Promise<number> {
   return 0;
 }
 
-/** Bundles ui/main.tsx when it exists; null (the plain page) otherwise. */
-async function frontEnd(): Promise<Bundle | null> {
-  const entry = join(REPO, "ui", "main.tsx");
+/** Bundles the page's entry module when it exists; null (the plain page) otherwise. */
+async function frontEnd(page: URL): Promise<Bundle | null> {
+  const entry = fromFileUrl(page);
   if (!(await exists(entry))) return null;
   if (!canBundle()) {
     console.warn("The front end is not bundled (run deno with --unstable-bundle): plain page");
     return null;
   }
-  return await buildBundle(new URL(`file://${entry}`));
+  return await buildBundle(page);
 }
 
 async function exists(path: string): Promise<boolean> {
