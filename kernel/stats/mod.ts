@@ -41,7 +41,13 @@ export { cooksDistance } from "./cooks_distance.ts";
 export { dffits } from "./dffits.ts";
 export { varianceInflation } from "./variance_inflation.ts";
 export { conditionNumber } from "./condition_number.ts";
-export { durbinWatson, type DurbinWatsonTest, durbinWatsonTest } from "./durbin_watson.ts";
+export {
+  durbinWatson,
+  type DurbinWatsonTest,
+  durbinWatsonTest,
+  EXACT_DF as DURBIN_WATSON_EXACT_DF,
+} from "./durbin_watson.ts";
+export { durbinWatsonCdf } from "./durbin_watson_exact.ts";
 export { type BreuschPagan, breuschPagan, type BreuschPaganVariant } from "./breusch_pagan.ts";
 export { type ShapiroWilk, shapiroWilk } from "./shapiro_wilk.ts";
 export { type JarqueBera, jarqueBera } from "./jarque_bera.ts";
