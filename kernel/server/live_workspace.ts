@@ -28,6 +28,10 @@
  * the update as seen in the page p50 145 → 122 ms); a long run still shows
  * busy states, progress and each result as it comes.
  *
+ * A cell's result stays the JSON text the compute worker wrote for the page
+ * (`CellReport.page`) all the way to the socket: the live channel splices it
+ * into each frame's text (live_channel.ts).
+ *
  * @module
  */
 import { basename, dirname, resolve } from "node:path";
@@ -37,7 +41,8 @@ import { hashValue, sha256Hex } from "../hash.ts";
 import type { Registry } from "../contract/mod.ts";
 import { Session, type SessionEvent } from "../session/session.ts";
 import { documentMessage, type FileInfo } from "./document_message.ts";
-import type { CellMessage, DocumentMessage, ServerMessage } from "./protocol.ts";
+import type { Outgoing, OutgoingCell } from "./live_channel.ts";
+import type { DocumentMessage } from "./protocol.ts";
 
 /** Options of a live workspace. */
 export interface LiveOptions {
@@ -45,10 +50,10 @@ export interface LiveOptions {
   path: string;
   registry: Registry;
   workerUrl: URL;
-  /** Called with every message, in order. */
-  send: (msg: ServerMessage) => void;
+  /** Called with every message, in order (a cell's result as the worker's JSON text). */
+  send: (msg: Outgoing) => void;
   /** Called with several messages to deliver together, in order (default: `send` each). */
-  sendMany?: (msgs: ServerMessage[]) => void;
+  sendMany?: (msgs: Outgoing[]) => void;
   /** How long cell messages are held back from the start of a run (default {@link BUSY_GRACE_MS}). */
   busyGraceMs?: number;
 }
@@ -76,10 +81,10 @@ export class LiveWorkspace {
   #session: Session;
   #doc: DocumentMessage | null = null;
   #kinds = new Map<string, string>();
-  #cells = new Map<string, CellMessage>();
+  #cells = new Map<string, OutgoingCell>();
   #started = new Map<string, number>();
   /** Cell messages held back during this run's grace period, in order, the latest per cell. */
-  #held = new Map<string, CellMessage>();
+  #held = new Map<string, OutgoingCell>();
   /** The document message held back with them (the latest). */
   #heldDoc: DocumentMessage | null = null;
   #graceTimer: ReturnType<typeof setTimeout> | null = null;
@@ -115,13 +120,14 @@ export class LiveWorkspace {
 
   /**
    * A cell's last result as the page has it (its page copy), for add-cell
-   * templates.
+   * templates: parsed from the worker's text on each call (rare).
    *
    * @param name The cell's name.
    * @returns The result, or null when the cell has none.
    */
   resultOf(name: string): unknown {
-    return this.#cells.get(name)?.result ?? null;
+    const text = this.#cells.get(name)?.result;
+    return text === undefined ? null : JSON.parse(text.json);
   }
 
   /**
@@ -129,7 +135,7 @@ export class LiveWorkspace {
    *
    * @returns The document message, then the latest message of every cell.
    */
-  welcome(): ServerMessage[] {
+  welcome(): Outgoing[] {
     return this.#doc ? [this.#doc, ...this.#cells.values()] : [];
   }
 
@@ -254,7 +260,7 @@ export class LiveWorkspace {
    * Ends the grace period: messages still held are sent now, together, with
    * the run's own message when the run ended; later ones go out at once.
    */
-  #endGrace(last?: ServerMessage): void {
+  #endGrace(last?: Outgoing): void {
     if (this.#graceTimer !== null) clearTimeout(this.#graceTimer);
     this.#graceTimer = null;
     this.#graceOver = true;
@@ -263,7 +269,7 @@ export class LiveWorkspace {
     this.#heldDoc = null;
     this.#held.clear();
     const version = this.#doc?.version;
-    const out: ServerMessage[] = [
+    const out: Outgoing[] = [
       ...(doc ? [doc] : []),
       ...held.filter((m) => m.version === version),
     ];
@@ -301,7 +307,7 @@ export class LiveWorkspace {
 
   #onEvent(e: SessionEvent): void {
     const version = this.#doc?.version ?? "";
-    const msg: CellMessage = {
+    const msg: OutgoingCell = {
       type: "cell",
       version,
       name: e.name,
@@ -323,7 +329,7 @@ export class LiveWorkspace {
       msg.cached = r.cached;
       if (r.error) msg.error = r.error;
       if (r.state === "current") {
-        msg.result = r.result;
+        if (r.page) msg.result = r.page;
         if (r.omitted) msg.omitted = r.omitted;
         if (r.summaryLine !== null) msg.summaryLine = r.summaryLine;
       }

@@ -1,18 +1,22 @@
-import { deepEqual, ok } from "node:assert/strict";
+import { deepEqual, equal, ok } from "node:assert/strict";
 import { join } from "node:path";
 import { fakeRegistry } from "../session/testdata/fake_kinds.ts";
+import type { Outgoing } from "./live_channel.ts";
 import { LiveWorkspace } from "./live_workspace.ts";
-import type { ServerMessage } from "./protocol.ts";
 
 const WORKER = new URL("../session/testdata/fake_worker.ts", import.meta.url);
 const fence = (info: string, body: string) => "```" + info + "\n" + body + "\n```\n";
 
-/** The cell states sent for a run of `doc`, after a warm-up run (workers started) of another document. */
-async function statesSent(doc: string, busyGraceMs?: number): Promise<string[]> {
+/** Runs `fn` on a workspace of a document holding `first`, with the messages it sends. */
+async function withWorkspace(
+  first: string,
+  fn: (ws: LiveWorkspace, path: string, sent: Outgoing[]) => Promise<void>,
+  busyGraceMs?: number,
+): Promise<void> {
   const dir = await Deno.makeTempDir({ prefix: "plumb-live-" });
   const path = join(dir, "doc.md");
-  await Deno.writeTextFile(path, fence("num warm", "value: 0"));
-  const sent: ServerMessage[] = [];
+  await Deno.writeTextFile(path, first);
+  const sent: Outgoing[] = [];
   const ws = new LiveWorkspace({
     path,
     registry: fakeRegistry,
@@ -21,15 +25,24 @@ async function statesSent(doc: string, busyGraceMs?: number): Promise<string[]> 
     busyGraceMs,
   });
   try {
-    await ws.request();
-    sent.length = 0;
-    await Deno.writeTextFile(path, doc);
-    await ws.request([path]);
+    await fn(ws, path, sent);
   } finally {
     ws.close();
     await Deno.remove(dir, { recursive: true });
   }
-  return sent.flatMap((m) => m.type === "cell" ? [`${m.name}:${m.state}`] : []);
+}
+
+/** The cell states sent for a run of `doc`, after a warm-up run (workers started) of another document. */
+async function statesSent(doc: string, busyGraceMs?: number): Promise<string[]> {
+  let states: string[] = [];
+  await withWorkspace(fence("num warm", "value: 0"), async (ws, path, sent) => {
+    await ws.request();
+    sent.length = 0;
+    await Deno.writeTextFile(path, doc);
+    await ws.request([path]);
+    states = sent.flatMap((m) => m.type === "cell" ? [`${m.name}:${m.state}`] : []);
+  }, busyGraceMs);
+  return states;
 }
 
 Deno.test("LiveWorkspace sends no busy states for cells that settle within the grace period", async () => {
@@ -52,4 +65,17 @@ Deno.test("LiveWorkspace sends the busy states of long work once the grace perio
   deepEqual(states.filter((s) => s.startsWith("a:")), ["a:current"]);
   const s = states.filter((x) => x.startsWith("s:"));
   ok(s.length === 2 && s[0] === "s:computing" && s[1] === "s:current", s.join());
+});
+
+Deno.test("LiveWorkspace.resultOf() parses a cell's page result from the worker's text; a held cell's message says why once", async () => {
+  const doc = fence("num a", "value: 4") + fence("peek p", "path: /etc/hostname") +
+    fence("sum s", "of: [a, p]");
+  await withWorkspace(doc, async (ws, _path, sent) => {
+    await ws.request();
+    deepEqual(ws.resultOf("a"), { value: 4 });
+    equal(ws.resultOf("s"), null);
+    const held = sent.flatMap((m) => m.type === "cell" && m.name === "s" ? [m] : []).at(-1)!;
+    equal(held.state, "held");
+    equal(held.error?.message, 'input "p" is failed');
+  });
 });

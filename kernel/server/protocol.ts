@@ -99,7 +99,8 @@ export interface CellMessage {
   note?: string;
   /**
    * The kind's summary (RUN-JSON `result`) less the fields in `omitted`;
-   * absent on a current message when this connection already has it.
+   * absent on a current message when this connection already has it (the
+   * same cache key: kernel/server/live_channel.ts).
    */
   result?: unknown;
   /** Fields of the complete result left out of `result` (per-row arrays no view reads). */

@@ -41,7 +41,7 @@ export interface ServerOptions {
   bundle?: Bundle | null;
   /** Folder of KaTeX's `dist` (stylesheet and fonts), or null. */
   katexDir?: string | null;
-  /** Quiet time that ends a burst of file events, in ms (default 15). */
+  /** Quiet time that ends a burst of file events, in ms (default 2, see watch_folder.ts). */
   debounceMs?: number;
 }
 

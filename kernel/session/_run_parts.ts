@@ -1,23 +1,41 @@
 /**
- * What a session's run passes between its steps, and small helpers on outcomes
- * (kept apart from session.ts to hold it under the style's file length).
+ * What a session lends each of its runs (kernel/session/run.ts), and small
+ * helpers on outcomes.
+ *
+ * ```
+ *  Session ── RunHost: workers, files, outcome cache, planning, listener ──▶ Run
+ * ```
  *
  * @module
  */
 import type { ParsedDocument } from "../document/mod.ts";
 import type { LocatedError } from "../errors.ts";
-import type { CellNode } from "../graph/build.ts";
-import type { ComputeWorker } from "../worker/client.ts";
+import type { WorkerPool } from "../worker/pool.ts";
 import type { DoneMessage } from "../worker/protocol.ts";
+import type { FileStore } from "./files.ts";
+import type { Plan, SessionEvent } from "./types.ts";
 
-/** How a run hands a cell to the workers. */
-export interface Dispatch {
-  /** Told when the cell is given a worker. */
-  started: (node: CellNode, w: ComputeWorker) => void;
-  /** Sent ahead into a worker's queue, before its inputs' answers (`settled`) came back. */
-  early?: { worker: ComputeWorker; settled: Promise<unknown> } | null;
-  /** False once the run was superseded: its cells then settle without telling the listener. */
-  live: () => boolean;
+/** A plan before the data files are read: no keys yet. */
+export type Prepared = Omit<Plan, "keys" | "stale">;
+
+/** What a run uses of its session. */
+export interface RunHost {
+  /** The compute workers. */
+  pool: WorkerPool;
+  /** The data files, read on the main thread. */
+  files: FileStore;
+  /** Answers kept by cache key, across runs. */
+  outcomes: Map<string, Outcome>;
+  /** Whether results are the page's copies (`SessionOptions.page`). */
+  page: boolean;
+  /** Parses and checks a document (the last one is remembered). */
+  prepare(source: string): Prepared;
+  /** Keys every cell that can run, given the SHA-256 of each data file. */
+  keyed(prep: Prepared, fileShas: ReadonlyMap<string, string>): Plan;
+  /** Tells the session's listener. */
+  emit(e: SessionEvent): void;
+  /** Counts one computation of a cell (`Session.runs`). */
+  computed(name: string): void;
 }
 
 /** A cell's answer kept under its cache key. */

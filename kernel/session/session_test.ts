@@ -1,4 +1,4 @@
-import { deepEqual, equal, match, ok } from "node:assert/strict";
+import { deepEqual, equal, match, notEqual, ok } from "node:assert/strict";
 import { join } from "node:path";
 import { Session } from "./session.ts";
 import { fakeRegistry } from "./testdata/fake_kinds.ts";
@@ -235,4 +235,40 @@ Deno.test("Session.run() superseded cancels its cells queued in the worker, whic
     ok(s.runs.get("a")! >= 1);
     deepEqual(second.ran, ["a", "b", "c"]);
   });
+});
+
+//   p (fails when run) ── s
+// s is sent into p's worker queue ahead of p's answer; the worker then finds p missing.
+Deno.test("Session.run() holds a cell whose input failed, names the input once and does not count it as run", async () => {
+  await withSession(async (s) => {
+    await s.run(cell("num", "warm", "value: 0")); // the worker is up
+    const r = await s.run(cell("peek", "p", "path: /etc/hostname") + cell("sum", "s", "of: [p]"));
+    equal(stateOf(r, "p").state, "failed");
+    equal(stateOf(r, "s").state, "held");
+    // The state says held; the message only why (the page and the terminal add the word).
+    equal(stateOf(r, "s").error!.message, 'input "p" is failed');
+    deepEqual(r.ran, ["p"]);
+    deepEqual([s.runs.get("p"), s.runs.get("s")], [1, undefined]);
+  });
+});
+
+Deno.test("Session.run() with page: true keeps the worker's text of a result and parses it on demand", async () => {
+  const dir = await Deno.makeTempDir({ prefix: "plumb-session-" });
+  const s = new Session({ registry: fakeRegistry, workerUrl: WORKER, dir, page: true });
+  try {
+    const doc = (v: number) => cell("num", "a", `value: ${v}`) + cell("sum", "b", "of: [a]");
+    let r = await s.run(doc(2));
+    const b = stateOf(r, "b");
+    equal(b.page!.json, '{"value":2}');
+    deepEqual(b.result, { value: 2 });
+    // Reused from the cache: the same text under the same id.
+    r = await s.run(doc(2) + "\nProse.\n");
+    deepEqual([stateOf(r, "b").page, stateOf(r, "b").cached], [b.page, true]);
+    // A new value: a new key.
+    r = await s.run(doc(5));
+    notEqual(stateOf(r, "b").page!.id, b.page!.id);
+  } finally {
+    s.close();
+    await Deno.remove(dir, { recursive: true });
+  }
 });

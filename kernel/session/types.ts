@@ -30,6 +30,22 @@ export interface CellReport {
   cached: boolean;
   /** With `page: true`: the fields of the complete result left out of `result`. */
   omitted?: string[];
+  /**
+   * With `page: true`, a current cell's result as the worker wrote it for the
+   * page (`result` is then parsed from its text when first read).
+   */
+  page?: PageText;
+}
+
+/** A page copy of a result as JSON text, and what tells equal texts apart from others. */
+export interface PageText {
+  /** The page copy as JSON text, as the compute worker wrote it. */
+  json: string;
+  /**
+   * Equal for equal texts: the cell's cache key, followed by the fields kept
+   * beyond the page copy when inline values name some (`key+residuals`).
+   */
+  id: string;
 }
 
 /** The outcome of a run. */
@@ -38,7 +54,7 @@ export interface RunReport {
   cells: CellReport[];
   /** Errors outside cells: front matter, inline references in prose. */
   errors: { message: string; line: number; column: number }[];
-  /** Names of the cells computed by this run, in order. */
+  /** Names of the cells computed by this run, in the order they were sent to a worker. */
   ran: string[];
   superseded: boolean;
 }
@@ -74,12 +90,12 @@ export interface SessionOptions {
   dir: string;
   onEvent?: (e: SessionEvent) => void;
   /**
-   * Results as the live page reads them (kernel/server/live_result.ts: no
+   * Results as the live page reads them (kernel/worker/page_copy.ts: no
    * per-row arrays that no view shows, except fields the document's inline
-   * values name), made in the worker. Default false: complete results
-   * (RUN-JSON).
+   * values name), made in the worker and kept as its JSON text
+   * (`CellReport.page`). Default false: complete results (RUN-JSON).
    */
   page?: boolean;
-  /** Compute workers (default: two on two or more cores, else one). */
+  /** Compute workers (default: two on four or more cores, else one; kernel/worker/pool.ts). */
   workers?: number;
 }

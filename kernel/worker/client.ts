@@ -11,7 +11,14 @@
  */
 import type { FileData } from "../contract/mod.ts";
 import type { CellOutput } from "../contract/mod.ts";
-import type { DoneMessage, FromWorker, RunRequest, SummaryRequest, ToWorker } from "./protocol.ts";
+import {
+  type DoneMessage,
+  type FromWorker,
+  type RunRequest,
+  type SummaryRequest,
+  type ToWorker,
+  transientAnswer,
+} from "./protocol.ts";
 
 /** One cell to run: the run request without its wire fields, with file contents instead of digests. */
 export interface WorkerJob extends Omit<RunRequest, "op" | "id" | "files"> {
@@ -75,19 +82,11 @@ export class ComputeWorker {
     for (const give of this.#exports.values()) give(null);
     this.#exports.clear();
     this.#start();
+    // Runs are answered in the order sent: the oldest unanswered one was computing.
+    const computing = pending.find(([, p]) => p.run)?.[0];
+    const why = `The compute worker stopped: ${reason}`;
     for (const [id, p] of pending) {
-      p.resolve({
-        op: "done",
-        id,
-        ok: false,
-        warnings: [],
-        ms: 0,
-        error: {
-          message: `The compute worker stopped: ${reason}`,
-          internal: false,
-          transient: true,
-        },
-      });
+      p.resolve(transientAnswer(id, why, { computed: id === computing }));
     }
   }
 
@@ -129,10 +128,6 @@ export class ComputeWorker {
       return;
     }
     this.#pending.delete(m.id);
-    if (m.summaryJson !== undefined) {
-      m.summary = JSON.parse(m.summaryJson);
-      delete m.summaryJson;
-    }
     if (m.ok) this.#outputs.add(p.key);
     p.resolve(m);
   }
@@ -155,7 +150,9 @@ export class ComputeWorker {
    * Runs one cell; resolves with the worker's reply (never rejects).
    *
    * @param job What to run.
-   * @returns The reply, with the summary or the unlocated error.
+   * @returns The reply, with the summary (a page copy as JSON text, `summaryJson`,
+   *   when `job.page` is given) or the unlocated error, and whether the worker
+   *   `computed` the cell for it.
    */
   run(job: WorkerJob): Promise<DoneMessage> {
     const files: Record<string, string> = {};
@@ -244,14 +241,7 @@ export class ComputeWorker {
   close(): void {
     this.#worker.terminate();
     for (const [id, p] of this.#pending) {
-      p.resolve({
-        op: "done",
-        id,
-        ok: false,
-        warnings: [],
-        ms: 0,
-        error: { message: "The compute worker was closed", internal: false, transient: true },
-      });
+      p.resolve(transientAnswer(id, "The compute worker was closed"));
     }
     this.#pending.clear();
     for (const give of this.#exports.values()) give(null);

@@ -7,7 +7,7 @@
  *   │ summary {id, key, kind, spec, page?}  (summarise a held output again) ──▶
  *   │ file {sha, bytes}  (only for content the worker lacks)         ──▶
  *   │ ◀── progress {id, fraction, note}
- *   │ ◀── done {id, ok, summary | error, warnings, ms}
+ *   │ ◀── done {id, ok, computed, summary | summaryJson | error, warnings, ms}
  *   │ retain {keys, shas}  (drop every other output and file)        ──▶
  *   │ export {id, key} ──▶ ◀── output {id, output | absent}  (answered between runs)
  *   │ import {key, output}  (an output another worker computed)       ──▶
@@ -26,9 +26,15 @@
  * structured clone, 0.5–2 ms for a 10,000-row fit) instead of computing it
  * again. Only summaries (plain JSON)
  * come back: complete (RUN-JSON) by default, or, with `page`, the live
- * page's copy (no per-row arrays the page does not read), which keeps the
- * reply of a 10,000-row fit at about 2 kB instead of 430 kB (copying that
- * across threads took 6–7 ms a fit and 20 ms for a check).
+ * page's copy (no per-row arrays the page does not read) as JSON text, which
+ * keeps the reply of a 10,000-row fit at about 2 kB instead of 430 kB
+ * (copying that across threads took 6–7 ms a fit and 20 ms for a check);
+ * the server forwards that text to the page as it is.
+ *
+ * A `done` says whether the cell was `computed` (the kind's `run` was called,
+ * whether it returned or threw): false for a cancelled run, an input or file
+ * the worker lacks, an unknown kind or a summary request, so the kernel
+ * counts a computation only when one happened.
  *
  * @module
  */
@@ -101,6 +107,7 @@ export interface CancelMessage {
   ids: number[];
 }
 
+/** A message from the kernel to the worker. */
 export type ToWorker =
   | CancelMessage
   | RunRequest
@@ -124,16 +131,24 @@ export interface WireError {
   cancelled?: boolean;
 }
 
+/** The answer to a run or a summary request. */
 export interface DoneMessage {
   op: "done";
   id: number;
   ok: boolean;
+  /**
+   * True when the worker computed the cell for this answer (the kind's `run`
+   * was called); false when it answered without computing (cancelled, an
+   * input or file it lacks, an unknown kind, a summary request, a stopped worker).
+   */
+  computed: boolean;
+  /** The complete summary (requests without `page`). */
   summary?: unknown;
   /**
    * A page copy as JSON text instead of `summary` (page requests only; the
-   * client parses it back): copying text between threads takes about a
-   * quarter of the time of copying the same result as objects, measured on a
-   * check's page copy with its counted charts (0.07 against 0.29 ms).
+   * server forwards it to the page as it is): copying text between threads
+   * takes about a quarter of the time of copying the same result as objects,
+   * measured on a check's page copy with its counted charts (0.07 against 0.29 ms).
    */
   summaryJson?: string;
   /** Fields of the complete summary left out of this page copy (page requests only). */
@@ -144,6 +159,7 @@ export interface DoneMessage {
   ms: number;
 }
 
+/** Progress of a run in its worker, sent after 100 ms and then at most every 50 ms. */
 export interface ProgressMessage {
   op: "progress";
   id: number;
@@ -158,4 +174,31 @@ export interface OutputMessage {
   output?: unknown;
 }
 
+/** A message from the worker to the kernel. */
 export type FromWorker = DoneMessage | ProgressMessage | OutputMessage;
+
+/**
+ * An answer given without a result of the cell's own: a run cancelled before
+ * it started, or runs a worker will not answer (it stopped, or was closed).
+ * Transient, so never cached.
+ *
+ * @param id The request's id.
+ * @param message Why, for people.
+ * @param how `cancelled` for a cancelled run; `computed` when the cell was computing.
+ * @returns The failed answer.
+ * @example
+ * ```ts
+ * import { transientAnswer } from "./protocol.ts";
+ * const d = transientAnswer(7, "Cancelled", { cancelled: true });
+ * if (d.ok || d.computed || !d.error?.transient || !d.error.cancelled) throw new Error();
+ * ```
+ */
+export function transientAnswer(
+  id: number,
+  message: string,
+  how: { cancelled?: boolean; computed?: boolean } = {},
+): DoneMessage {
+  const error: WireError = { message, internal: false, transient: true };
+  if (how.cancelled) error.cancelled = true;
+  return { op: "done", id, ok: false, computed: how.computed ?? false, warnings: [], ms: 0, error };
+}

@@ -1,0 +1,175 @@
+/**
+ * The compute worker's two answers that summarise a cell: run it (gather its
+ * inputs and files from the worker's store, call the kind's `run`, keep the
+ * output, summarise), or summarise an output it keeps again in another shape.
+ *
+ * ```
+ *  run {key, kind, inputs:{name→key}, files:{path→sha}, page?}
+ *    │ gatherInputs: every input and file in the store? ── no ──▶ done {computed: false}
+ *    ▼
+ *  compute: kind.run(spec, ctx) ── throws ──▶ done {computed: true, error}
+ *    │ outputs[key] = output
+ *    ▼
+ *  summarise: complete summary, or the page's copy as JSON text ──▶ done {computed: true}
+ * ```
+ *
+ * @module
+ */
+import type { CellOutput, FileData, Registry } from "../contract/mod.ts";
+import { plainDeep } from "../arrays.ts";
+import { CellError } from "../errors.ts";
+import { pageCopy, pageLeavesOut } from "./page_copy.ts";
+import type { DoneMessage, FromWorker, RunRequest, SummaryRequest, WireError } from "./protocol.ts";
+
+/** Progress of a run is first sent this long after it started (ms). */
+const PROGRESS_AFTER_MS = 100;
+/** Then at most this often (ms): each message costs both threads about 0.4 ms (measured). */
+const PROGRESS_EVERY_MS = 50;
+
+/** What a compute worker keeps between messages. */
+export interface WorkerStore {
+  /** Cell outputs by cache key. */
+  outputs: Map<string, CellOutput>;
+  /** File contents by SHA-256. */
+  files: Map<string, FileData>;
+}
+
+/** A thrown value as the kernel gets it: a cell's own error, an engine limit, or a bug. */
+function toWire(err: unknown): WireError {
+  if (err instanceof CellError) {
+    return { message: err.message, path: [...err.path], offset: err.offset, internal: false };
+  }
+  if (err instanceof RangeError && /allocation|memory|Array buffer/i.test(err.message)) {
+    return { message: `Out of memory: ${err.message}`, internal: false };
+  }
+  const message = err instanceof Error ? err.message : String(err);
+  return { message, internal: true };
+}
+
+/** A run's inputs and files from the store, or the message saying what is missing. */
+function gatherInputs(
+  store: WorkerStore,
+  req: RunRequest,
+): { inputs: Record<string, CellOutput>; files: Record<string, FileData> } | string {
+  const inputs: Record<string, CellOutput> = {};
+  for (const [name, key] of Object.entries(req.inputs)) {
+    const out = store.outputs.get(key);
+    if (!out) return `Input "${name}" is not computed`;
+    inputs[name] = out;
+  }
+  const files: Record<string, FileData> = {};
+  for (const [path, sha] of Object.entries(req.files)) {
+    const f = store.files.get(sha);
+    if (!f) return `File "${path}" was not sent`;
+    files[path] = { ...f, path };
+  }
+  return { inputs, files };
+}
+
+/**
+ * Runs one cell and keeps its output in the store under its key.
+ *
+ * @param registry The kinds this worker runs.
+ * @param store The worker's outputs and files.
+ * @param req The run request.
+ * @param post Sends a message to the kernel (progress of long work).
+ * @returns The answer: `computed` true once the kind's `run` was called.
+ */
+export async function runCell(
+  registry: Registry,
+  store: WorkerStore,
+  req: RunRequest,
+  post: (m: FromWorker) => void,
+): Promise<DoneMessage> {
+  const t0 = performance.now();
+  const warnings: string[] = [];
+  const done = (computed: boolean, rest: Partial<DoneMessage>): DoneMessage => ({
+    op: "done",
+    id: req.id,
+    ok: false,
+    computed,
+    warnings,
+    ms: performance.now() - t0,
+    ...rest,
+  });
+  const kind = registry.get(req.kind);
+  if (!kind) {
+    return done(false, { error: { message: `Unknown cell kind "${req.kind}"`, internal: true } });
+  }
+  const gathered = gatherInputs(store, req);
+  if (typeof gathered === "string") {
+    return done(false, { error: { message: gathered, internal: true } });
+  }
+  let lastProgress = -Infinity;
+  try {
+    const out = await kind.run(req.spec, {
+      name: req.name,
+      settings: req.settings,
+      ...gathered,
+      warn: (m) => {
+        if (!warnings.includes(m)) warnings.push(m);
+      },
+      progress: (fraction, note) => {
+        // Work that ends within the server's grace for busy states shows no progress
+        // (kernel/server/live_workspace.ts): send none for it, then at most every 50 ms.
+        const now = performance.now();
+        if (now - t0 < PROGRESS_AFTER_MS || now - lastProgress < PROGRESS_EVERY_MS) return;
+        lastProgress = now;
+        post({ op: "progress", id: req.id, fraction, note });
+      },
+    });
+    store.outputs.set(req.key, out);
+    return done(true, summarise(registry, req, out));
+  } catch (err) {
+    return done(true, { error: toWire(err) });
+  }
+}
+
+/** The summary part of a reply: complete, or the page's copy as JSON text when asked. */
+function summarise(
+  registry: Registry,
+  req: RunRequest | SummaryRequest,
+  out: CellOutput,
+): Partial<DoneMessage> {
+  const kind = registry.get(req.kind)!;
+  if (req.page === undefined) {
+    const summary = kind.summary(out, req.spec);
+    return { ok: true, summary, line: kind.line(summary) };
+  }
+  const keep = new Set(req.page);
+  const leave = pageLeavesOut(kind, keep);
+  const summary = kind.summary(out, req.spec, leave);
+  const page = pageCopy(kind, summary, keep);
+  const omitted = [...new Set([...leave, ...page.omitted])];
+  // Plain JSON from here on: the server forwards this text to the page as it is.
+  const summaryJson = JSON.stringify(plainDeep(page.result));
+  return { ok: true, summaryJson, omitted, line: kind.line(summary) };
+}
+
+/**
+ * Summarises an output the store keeps again, in the shape now asked for
+ * (nothing is computed).
+ *
+ * @param registry The kinds this worker runs.
+ * @param store The worker's outputs.
+ * @param req The summary request.
+ * @returns The answer (`computed` false), an error when the output is not kept.
+ */
+export function resummarise(
+  registry: Registry,
+  store: WorkerStore,
+  req: SummaryRequest,
+): DoneMessage {
+  const t0 = performance.now();
+  const out = store.outputs.get(req.key);
+  const base = { op: "done" as const, id: req.id, ok: false, computed: false, warnings: [] };
+  if (!out || !registry.has(req.kind)) {
+    const error = { message: `Output "${req.key}" is not held`, internal: true };
+    return { ...base, error, ms: performance.now() - t0 };
+  }
+  try {
+    return { ...base, ...summarise(registry, req, out), ms: performance.now() - t0 };
+  } catch (err) {
+    return { ...base, error: toWire(err), ms: performance.now() - t0 };
+  }
+}

@@ -1,0 +1,59 @@
+import { deepEqual, equal } from "node:assert/strict";
+import { ComputeWorker } from "./client.ts";
+import type { WorkerJob } from "./client.ts";
+
+const WORKER = new URL("../session/testdata/fake_worker.ts", import.meta.url);
+
+const SETTINGS = {} as WorkerJob["settings"];
+
+/** A job of the test kinds (kernel/session/testdata/fake_kinds.ts). */
+function job(kind: string, key: string, spec: unknown, inputs: Record<string, string> = {}) {
+  return { key, kind, name: key, spec, settings: SETTINGS, inputs, files: {} };
+}
+
+async function withWorker(fn: (w: ComputeWorker) => Promise<void>): Promise<void> {
+  const w = new ComputeWorker(WORKER);
+  try {
+    await fn(w);
+  } finally {
+    w.close();
+  }
+}
+
+Deno.test("ComputeWorker.run() says computed only when the kind's run was called", async () => {
+  await withWorker(async (w) => {
+    const a = await w.run(job("num", "ka", { value: 3 }));
+    deepEqual([a.ok, a.computed, a.summary], [true, true, { value: 3 }]);
+    // An input the worker lacks: answered without computing.
+    const missing = await w.run(job("sum", "kb", { of: ["x"] }, { x: "absent" }));
+    deepEqual([missing.ok, missing.computed], [false, false]);
+    equal(missing.error?.message, 'Input "x" is not computed');
+    // A cell that throws was computed all the same.
+    const refused = await w.run(job("peek", "kp", { path: "/etc/hostname" }));
+    deepEqual([refused.ok, refused.computed], [false, true]);
+    // Summarising a kept output again computes nothing.
+    const again = await w.summarize({ key: "ka", kind: "num", spec: { value: 3 }, page: [] });
+    deepEqual([again.ok, again.computed], [true, false]);
+  });
+});
+
+Deno.test("ComputeWorker.run() with page returns the page copy as the worker's JSON text", async () => {
+  await withWorker(async (w) => {
+    const a = await w.run({ ...job("num", "ka", { value: 3 }), page: [] });
+    deepEqual([a.ok, a.summaryJson, a.summary], [true, '{"value":3}', undefined]);
+    const b = await w.run({ ...job("sum", "kb", { of: ["a"] }, { a: "ka" }), page: [] });
+    equal(b.summaryJson, '{"value":3}');
+  });
+});
+
+Deno.test("ComputeWorker.cancelQueued() answers a run not yet started as cancelled and not computed", async () => {
+  await withWorker(async (w) => {
+    await w.run(job("num", "warm", { value: 0 })); // the worker is up
+    const busy = w.run(job("spin", "ks", { ms: 150, tag: 1 }));
+    const queued = w.run(job("num", "kq", { value: 2 }));
+    w.cancelQueued(new Set(["kq"]));
+    const [s, q] = await Promise.all([busy, queued]);
+    deepEqual([s.ok, s.computed], [true, true]);
+    deepEqual([q.ok, q.computed, q.error?.cancelled], [false, false, true]);
+  });
+});
