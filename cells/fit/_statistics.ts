@@ -15,11 +15,18 @@
  *   TSS = Σ wᵢ(yᵢ − ȳ_w)², ȳ_w = Σwᵢyᵢ/Σwᵢ; R² = 1 − RSS/TSS;
  *   adj. R² = 1 − (1 − R²)(n − 1)/(n − p); F = (ESS/(p − 1))/(RSS/(n − p))
  *   against F(p − 1, n − p), ESS = TSS − RSS.
- * - Without one the centred identity fails: R² is the uncentred
+ * - Linear fits without one the centred identity fails: R² is the uncentred
  *   1 − RSS/Σwᵢyᵢ², adj. R² = 1 − (1 − R²)·n/(n − p), no F test, and a
  *   warning (as NIST certifies NoInt1/NoInt2; see DESIGN.md §5).
- * - Nonlinear fits: R² = 1 − RSS/TSS with ESS = Σwᵢ(ŷᵢ − ȳ_w)² computed
- *   directly, since TSS = ESS + RSS does not hold; no F test; a warning.
+ * - Nonlinear fits: always the centred R² = 1 − RSS/TSS, TSS = Σwᵢ(yᵢ − ȳ_w)²
+ *   (the definition of linear fits with an intercept, and of DESIGN.md §5),
+ *   adj. R² with n − 1, ESS = Σwᵢ(ŷᵢ − ȳ_w)² computed directly since
+ *   TSS = ESS + RSS does not hold; R² is then neither the share of variance
+ *   explained nor the squared correlation of observed and fitted values (it
+ *   may even be negative): no F test, and a warning that says so.
+ * - Known standard deviations: no F test (its denominator would estimate the
+ *   scale the σᵢ fix), a warning; instead the Wald χ² of the slopes and the
+ *   χ² goodness of fit of `_known_sigma.ts`.
  * - TSS = 0: R² is undefined (null), with a warning.
  *
  * p-values are upper tails computed directly (kernel/stats), so values down
@@ -32,9 +39,10 @@ import type { FitProblem, FitSolution } from "./problem.ts";
 import { type Likelihood, likelihood } from "./_likelihood.ts";
 import type { Weighting } from "./_weighting.ts";
 import { explainedSum, totalSum } from "./_sums.ts";
+import { type KnownSigmaTests, knownSigmaTests } from "./_known_sigma.ts";
 
 /** Statistics shared by every fit. `null` marks a value that does not exist. */
-export interface FitStatistics extends Likelihood {
+export interface FitStatistics extends Likelihood, KnownSigmaTests {
   n: number;
   p: number;
   dfResidual: number;
@@ -104,7 +112,15 @@ export function fitStatistics(
   const correlation = s.unscaledCovariance.map((v, k) =>
     v / Math.sqrt(diag(k % p) * diag(Math.floor(k / p)))
   );
-  const r = rSquared(problem, s, weights, df, warn);
+  const r = rSquared(problem, s, weights, df, absolute, warn);
+  const known = knownSigmaTests({
+    weights: absolute ? weights : null,
+    rss: s.rss,
+    df,
+    wald: s.method === "linear" && r.r2Centred,
+    design: s.design,
+    estimates: s.estimates,
+  });
   return {
     n,
     p,
@@ -119,6 +135,7 @@ export function fitStatistics(
     correlation,
     covarianceScaled: !absolute,
     weighting: o.weighting,
+    ...known,
     ...likelihood(
       { name: problem.name, n, p, rss: s.rss, weights, weighting: o.weighting },
       o.countVariance,
@@ -152,10 +169,12 @@ function rSquared(
   s: FitSolution,
   weights: Float64Array | null,
   df: number,
+  absolute: boolean,
   warn: (m: string) => void,
 ) {
   const n = problem.n, p = s.estimates.length;
-  const linear = s.method === "linear", centred = s.hasIntercept;
+  // Nonlinear fits always take the centred form, the definition of DESIGN.md §5.
+  const linear = s.method === "linear", centred = !linear || s.hasIntercept;
   // The linear solver's double-double TSS (unweighted fits) is the more accurate one when given.
   const tss = weights === null && s.tss !== undefined
     ? s.tss
@@ -182,11 +201,15 @@ function rSquared(
     );
   } else if (!linear) {
     warn(
-      `R² of "${problem.name}" is 1 − RSS/TSS of a nonlinear fit: TSS = ESS + RSS does not hold, so it is not the share of variance explained, and no overall F test is given`,
+      `R² of "${problem.name}" is the centred 1 − RSS/TSS of a nonlinear fit: TSS = ESS + RSS does not hold, so it is neither the share of variance explained nor the squared correlation of observed and fitted values, and no overall F test is given`,
     );
   }
   let fStatistic: number | null = null, fPValue: number | null = null;
-  if (linear && centred && p > 1 && df > 0 && tss > 0) {
+  if (absolute && linear && centred && p > 1) {
+    warn(
+      `Overall F test of "${problem.name}" is not given: with known standard deviations ("known_sigma") the scale is not estimated, so every term but the intercept is tested together by the Wald χ² (wald_chi2) instead`,
+    );
+  } else if (linear && centred && p > 1 && df > 0 && tss > 0) {
     fStatistic = finiteOrNull((ess / (p - 1)) / (s.rss / df));
     if (fStatistic !== null) fPValue = fisherF(p - 1, df).upper(fStatistic);
   }

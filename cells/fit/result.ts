@@ -4,7 +4,10 @@
  *
  * Our additions to the documented shape (extend, never rename): `r2_kind`,
  * `condition_number`, `confidence`, `inference`, `weighting`,
- * `weighting_statement`, `k_convention`.
+ * `weighting_statement`, `k_convention`, and for fits with known standard
+ * deviations the χ² tests `wald_chi2`, `wald_df`, `wald_p_value`,
+ * `gof_chi2`, `gof_df`, `gof_p_value`, `reduced_chi2` (`_known_sigma.ts`;
+ * null for other fits). From RUN-JSON.md's Additions: `rows_missing`.
  *
  * With weights, `rss`, `tss` and `ess` are the weighted sums Σwᵢrᵢ²,
  * Σwᵢ(yᵢ − ȳ_w)² and TSS − RSS, and `fitted`/`residuals` are on the
@@ -49,11 +52,32 @@ export interface FitResult {
   ess: number;
   r2: number | null;
   adj_r2: number | null;
-  /** Our addition: "centred" (with an intercept) or "uncentred" (1 − RSS/Σy²). */
+  /**
+   * Our addition: "centred" (1 − RSS/TSS about the (weighted) mean: linear
+   * fits with an intercept and every nonlinear fit) or "uncentred"
+   * (1 − RSS/Σy²: linear fits without an intercept).
+   */
   r2_kind: "centred" | "uncentred";
   sigma: number | null;
+  /** Null without an intercept, for nonlinear fits, and with known σ (see `wald_chi2`). */
   f_statistic: number | null;
   f_p_value: number | null;
+  /**
+   * Our addition, known σ only: Wald χ² of every parameter but the intercept,
+   * β̂ₛᵀCov⁻¹β̂ₛ with the covariance not rescaled (linear fits with an
+   * intercept; null otherwise), on `wald_df` = p − 1 degrees of freedom.
+   */
+  wald_chi2: number | null;
+  wald_df: number | null;
+  wald_p_value: number | null;
+  /** Our addition, known σ only: goodness of fit χ² = Σ((yᵢ − ŷᵢ)/σᵢ)² (= `rss`). */
+  gof_chi2: number | null;
+  /** n − p. */
+  gof_df: number | null;
+  /** P(χ²(gof_df) > gof_chi2). */
+  gof_p_value: number | null;
+  /** gof_chi2 / gof_df (≈ 1 when the σᵢ describe the scatter). */
+  reduced_chi2: number | null;
   log_likelihood: number | null;
   k: number;
   /** Our addition: how `k` was counted, in words. */
@@ -74,6 +98,13 @@ export interface FitResult {
   fitted: number[];
   residuals: number[];
   rows: number[];
+  /**
+   * RUN-JSON addition: every source row left out of this fit because a
+   * column the model or the weights (`weights`, `known_sigma`) use is missing
+   * there, ascending (the warning names the first five). Rows the table
+   * excluded, and rows of weight 0, are not in it.
+   */
+  rows_missing: number[];
   converged: boolean;
   iterations: number;
   rank_deficient: null;
@@ -143,6 +174,13 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
     sigma: st.sigma,
     f_statistic: st.fStatistic,
     f_p_value: st.fPValue,
+    wald_chi2: st.waldChi2,
+    wald_df: st.waldDf,
+    wald_p_value: st.waldPValue,
+    gof_chi2: st.gofChi2,
+    gof_df: st.gofDf,
+    gof_p_value: st.gofPValue,
+    reduced_chi2: st.reducedChi2,
     log_likelihood: st.logLikelihood,
     k: st.k,
     k_convention: st.kConvention,
@@ -155,6 +193,7 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
     weighting_statement: WEIGHTING_STATEMENTS[st.weighting],
     condition_number: num(fit.conditionNumber),
     ...perRow,
+    rows_missing: plainArray(fit.rowsMissing ?? []),
     converged: fit.converged,
     iterations: fit.iterations,
     rank_deficient: null,

@@ -5,6 +5,7 @@ import { fitKind } from "./mod.ts";
 import { makeTable, parseContext, runContext } from "./_fixtures_test.ts";
 import type { Table } from "../../kernel/contract/mod.ts";
 import type { Fit } from "./fit.ts";
+import { add, div, int, mul, type Q, q, sub, val } from "./_rational_test.ts";
 
 function fit(name: string, model: string, table: Table, extra: Record<string, unknown> = {}) {
   const spec = fitKind.parse(parseContext(name, { on: "data", model, ...extra }));
@@ -27,20 +28,6 @@ function refuses(
     return true;
   });
 }
-
-// ---- exact rational arithmetic for hand computations --------------------------------------
-type Q = [bigint, bigint];
-const gcd = (a: bigint, b: bigint): bigint => (b === 0n ? (a < 0n ? -a : a) : gcd(b, a % b));
-const q = (n: bigint, d = 1n): Q => {
-  const g = gcd(n, d) * (d < 0n ? -1n : 1n);
-  return [n / g, d / g];
-};
-const add = (a: Q, b: Q) => q(a[0] * b[1] + b[0] * a[1], a[1] * b[1]);
-const sub = (a: Q, b: Q) => q(a[0] * b[1] - b[0] * a[1], a[1] * b[1]);
-const mul = (a: Q, b: Q) => q(a[0] * b[0], a[1] * b[1]);
-const div = (a: Q, b: Q) => q(a[0] * b[1], a[1] * b[0]);
-const val = (a: Q) => Number(a[0]) / Number(a[1]);
-const int = (n: number) => q(BigInt(n));
 
 /**
  * Weighted least squares for y = a + b·x by the normal equations in exact

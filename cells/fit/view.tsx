@@ -1,8 +1,9 @@
 /**
  * The fit cell's view: the model, a parameter table (estimate, standard
  * error, interval at the document's confidence level, t, p), the fit
- * statistics, the weighting stated plainly and the k convention of the
- * criteria. Shared by the live page and the static record, so it is plain
+ * statistics (with known σ the Wald χ² of the slopes and the χ² goodness of
+ * fit in place of the F test), the weighting stated plainly and the k
+ * convention of the criteria. Shared by the live page and the static record, so it is plain
  * markup with no scripts or state.
  *
  * @module
@@ -25,9 +26,11 @@ import { formatNumber, formatR2 } from "../shared/format.ts";
  *   method: "linear", model: "y = a + b*x", response: "y", weighted: false, n: 3, p: 2,
  *   df_residual: 1, parameters: [], covariance: [], correlation: [], covariance_scaled: true,
  *   rss: 0, tss: 1, ess: 1, r2: 1, adj_r2: 1, r2_kind: "centred", sigma: 0, f_statistic: null,
- *   f_p_value: null, log_likelihood: null, k: 3, k_convention: "k = p + 1", aic: null, aicc: null,
+ *   f_p_value: null, wald_chi2: null, wald_df: null, wald_p_value: null, gof_chi2: null,
+ *   gof_df: null, gof_p_value: null, reduced_chi2: null, log_likelihood: null, k: 3, k_convention: "k = p + 1", aic: null, aicc: null,
  *   bic: null, confidence: 0.95, inference: "t", weighting: "none", weighting_statement: "unweighted",
- *   condition_number: 1, fitted: [], residuals: [], rows: [], converged: true, iterations: 1,
+ *   condition_number: 1, fitted: [], residuals: [], rows: [], rows_missing: [], converged: true,
+ *   iterations: 1,
  *   rank_deficient: null,
  * } }));
  * if (!html.includes("y = a + b*x")) throw new Error(html);
@@ -85,21 +88,32 @@ function formatP(p: number | null): string {
 
 function statistics(r: FitResult): [string, string][] {
   const uncentred = r.r2_kind === "uncentred" ? " (uncentred: no intercept)" : "";
+  const nonlinear = r.method === "nonlinear" ? " (not the share of variance explained)" : "";
   const weighted = r.weighted ? " (weighted)" : "";
   const f = r.f_statistic === null
     ? "—"
     : `${formatNumber(r.f_statistic, 5)} on ${r.p - 1} and ${r.df_residual} df, p ${
       formatP(r.f_p_value)
     }`;
+  const tests: [string, string][] = r.weighting === "absolute"
+    ? [
+      [
+        "Wald χ² (all terms but the intercept, known σ)",
+        chi2(r.wald_chi2, r.wald_df, r.wald_p_value),
+      ],
+      ["Goodness of fit χ² = Σ((y − ŷ)/σ)²", chi2(r.gof_chi2, r.gof_df, r.gof_p_value)],
+      ["Reduced χ² (χ²/df)", formatNumber(r.reduced_chi2, 4)],
+    ]
+    : [["F (all terms but the intercept)", f]];
   return [
     ["Rows used", String(r.n)],
     ["Parameters", String(r.p)],
     ["Residual degrees of freedom", String(r.df_residual)],
     [`Residual sum of squares${weighted}`, formatNumber(r.rss, 6)],
     ["Residual standard error σ", formatNumber(r.sigma, 4)],
-    ["R²", formatR2(r.r2) + uncentred],
+    ["R²", formatR2(r.r2) + uncentred + nonlinear],
     ["Adjusted R²", formatR2(r.adj_r2)],
-    ["F (all terms but the intercept)", f],
+    ...tests,
     ["Log-likelihood (Gaussian)", formatNumber(r.log_likelihood, 6)],
     ["AIC", formatNumber(r.aic, 6)],
     ["AICc", formatNumber(r.aicc, 6)],
@@ -107,6 +121,12 @@ function statistics(r: FitResult): [string, string][] {
     ["Parameters counted by the criteria", `${r.k} (${r.k_convention})`],
     ["Response", r.response],
   ];
+}
+
+/** `12.3 on 2 df, p 0.002`, or — when the test is not given. */
+function chi2(x: number | null, df: number | null, p: number | null): string {
+  if (x === null || df === null) return "—";
+  return `${formatNumber(x, 5)} on ${df} df, p ${formatP(p)}`;
 }
 
 /** The `fit` kind's page face: its view, for the live page and the record. */
