@@ -33,7 +33,7 @@ export function buildProblem(
   const used = [model.responseColumn, ...model.columns].map((c) =>
     numericColumn(name, model, table, c)
   );
-  const keep = rowsWithoutMissing(used, table, warn);
+  const { keep, left } = rowsWithoutMissing(used, table, warn);
   const n = keep === null ? table.rows.length : keep.length;
   // With every row kept, a copy of the whole array.
   const pick = (v: Float64Array) => keep === null ? v.slice(0, n) : gather(v, keep);
@@ -60,6 +60,7 @@ export function buildProblem(
     y,
     rows,
     start: spec.start,
+    ...(left.length > 0 ? { rowsMissing: Int32Array.from(left) } : {}),
     lo: {
       columns: used.slice(1).map(pickLo),
       response: { hi: pick(used[0].values), lo: pickLo(used[0]) },
@@ -96,15 +97,16 @@ function numericColumn(name: string, model: Model, table: Table, col: string): N
 }
 
 /**
- * Indexes of rows with every used column present (null: all of them, when no
- * used column has a missing value); warns about the others.
+ * Indexes of rows with every used column present (`keep`; null: all of them,
+ * when no used column has a missing value) and the source row numbers of the
+ * others (`left`); warns about those, naming the first five.
  */
 function rowsWithoutMissing(
   used: NumberColumn[],
   table: Table,
   warn: (m: string) => void,
-): number[] | null {
-  if (used.every((c) => !hasNaN(c.values))) return null;
+): { keep: number[] | null; left: number[] } {
+  if (used.every((c) => !hasNaN(c.values))) return { keep: null, left: [] };
   const keep: number[] = [], left: number[] = [];
   const culprits = new Set<string>();
   const m = table.rows.length;
@@ -129,7 +131,7 @@ function rowsWithoutMissing(
       }`,
     );
   }
-  return keep;
+  return { keep, left };
 }
 
 function hasNaN(v: Float64Array): boolean {

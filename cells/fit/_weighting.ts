@@ -84,10 +84,17 @@ export function applyWeighting(
   }
   const sub = keep.length === problem.n ? problem : subset(problem, keep);
   const w = Float64Array.from(keep, (i) => (key === "weights" ? v[i] : 1 / (v[i] * v[i])));
+  const rowsMissing = withMissing(problem.rowsMissing, missing.map((i) => problem.rows[i]));
   return {
     weighting: key === "weights" ? "relative" : "absolute",
-    problem: { ...sub, weights: w },
+    problem: { ...sub, weights: w, ...(rowsMissing ? { rowsMissing } : {}) },
   };
+}
+
+/** The rows left out for the model's columns and for the weights', ascending; undefined when none. */
+function withMissing(before: Int32Array | undefined, more: number[]): Int32Array | undefined {
+  if (more.length === 0) return before;
+  return Int32Array.from([...(before ?? []), ...more]).sort();
 }
 
 function parseAgainst(text: string, table: Table, key: string): Expr {

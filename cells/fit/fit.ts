@@ -40,6 +40,11 @@ export interface Fit extends CellOutput {
   residuals: Float64Array;
   /** Source row number of each row used. */
   rows: Int32Array;
+  /**
+   * Source row numbers (ascending) left out because a column the model or
+   * the weights use is missing there; absent when none.
+   */
+  rowsMissing?: Int32Array;
   /** Design (linear) or Jacobian (nonlinear) columns, one per parameter. */
   design: Float64Array[];
   /** Linear fits: the full-rank QR of the (√w-scaled) design the solver factored (FitSolution). */

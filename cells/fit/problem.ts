@@ -69,6 +69,12 @@ export interface FitProblem {
    * The cell derives every weighted statistic from these (`_statistics.ts`).
    */
   weights?: Float64Array | null;
+  /**
+   * Source row numbers (ascending) left out before the solver because a
+   * column the model or the weights use is missing there (RUN-JSON
+   * `rows_missing`); absent when none. Solvers do not read it.
+   */
+  rowsMissing?: Int32Array;
 }
 
 /** What a solver returns. */

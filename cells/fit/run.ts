@@ -103,6 +103,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
     fitted: solution.fitted,
     residuals: solution.residuals,
     rows: problem.rows,
+    ...(problem.rowsMissing ? { rowsMissing: problem.rowsMissing } : {}),
     design: solution.design,
     ...(solution.designQR ? { designQR: solution.designQR } : {}),
     offset: solution.offset,
