@@ -131,7 +131,7 @@ export class Run {
       else if (this.#superseded) break;
       else await this.#settleWaitingOnEachOther();
     }
-    // A newer run that started while this one's last cells computed supersedes it too.
+    // Superseded also when a newer run started while this one's last cells computed.
     return this.#finish();
   }
 

@@ -6,7 +6,7 @@
  *                        │ key = hash(kind, spec, settings,
  *                        │            keys of inputs, SHA-256 of files)
  *                        ▼
- *              outcome cache (key → summary | error)
+ *              outcome cache (key → summary, page text or error)
  * ```
  *
  * A cell reruns only when its key is new, so an edit that changes nothing
@@ -49,7 +49,10 @@ export class Session {
   #host: RunHost;
   /** The latest run (a newer one supersedes it). */
   #latest: Run | null = null;
-  /** How many times each cell was computed over the session's life. */
+  /**
+   * How many times each cell was computed over the session's life (counted
+   * when its worker says it computed it, `DoneMessage.computed`).
+   */
   readonly runs = new Map<string, number>();
 
   /** @param opts Registry, worker entry and the document's folder. */
