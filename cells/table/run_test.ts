@@ -64,6 +64,8 @@ Deno.test("tableKind.run() reads a file with units and exclusions into the RUN-J
     sha256: "sha-of-d.csv",
     source: "d.csv",
     rows_filtered: 0,
+    // Row 4 carries the missing capacity ("NA") and is kept.
+    rows_missing: [4],
   });
   assert.deepEqual(Array.from((col(out, "capacity") as NumberColumn).values).map(String), [
     "2500.5",

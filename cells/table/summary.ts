@@ -3,6 +3,7 @@
  *
  * @module
  */
+import type { Column } from "../../kernel/contract/mod.ts";
 import type { TableOutput } from "./run.ts";
 
 /** One column in the table's result. */
@@ -26,6 +27,17 @@ export interface TableResult {
   source: string | null;
   /** Rows dropped by the `where` filter, not counted as exclusions. (Addition.) */
   rows_filtered: number;
+  /**
+   * RUN-JSON addition: the source row numbers, ascending, of the rows used
+   * that carry a missing value in any column (read or derived). A table
+   * leaves no row out for a missing value, it keeps it with the hole; these
+   * are the rows a fit will leave out if its model or weights use the column
+   * (the fit's own `rows_missing` then names those it did). The columns'
+   * `missing` counts are over the same rows. Rows the `where` filter dropped
+   * (a comparison with a missing value does not hold) are counted in
+   * `rows_filtered`, not listed here.
+   */
+  rows_missing: number[];
 }
 
 /**
@@ -41,6 +53,7 @@ export interface TableResult {
  *   excluded: [{ row: 2, why: "probe loose" }], sha256: null, source: null, rowsFiltered: 0,
  * });
  * if (r.rows_used !== 2 || r.excluded[0].row !== 2) throw new Error("bad summary");
+ * if (r.rows_missing.length !== 0) throw new Error("no column, no missing value");
  * ```
  */
 export function summarizeTable(out: TableOutput): TableResult {
@@ -57,7 +70,21 @@ export function summarizeTable(out: TableOutput): TableResult {
     sha256: out.sha256,
     source: out.source,
     rows_filtered: out.rowsFiltered,
+    rows_missing: rowsWithMissing(out.columns, out.rows),
   };
+}
+
+/** Source rows (ascending, as `rows` is) where any column is missing: NaN or null. */
+function rowsWithMissing(columns: readonly Column[], rows: Int32Array): number[] {
+  const holed = columns.filter((c) => c.missing > 0);
+  if (holed.length === 0) return [];
+  const out: number[] = [];
+  for (let i = 0; i < rows.length; i++) {
+    if (holed.some((c) => c.type === "number" ? Number.isNaN(c.values[i]) : c.values[i] === null)) {
+      out.push(rows[i]);
+    }
+  }
+  return out;
 }
 
 /**
@@ -68,7 +95,8 @@ export function summarizeTable(out: TableOutput): TableResult {
  * @example
  * ```ts
  * import { tableLine } from "./summary.ts";
- * const line = tableLine({ rows_read: 120, rows_used: 118, rows_filtered: 0, source: null, sha256: null,
+ * const line = tableLine({ rows_read: 120, rows_used: 118, rows_filtered: 0, rows_missing: [],
+ *   source: null, sha256: null,
  *   excluded: [{ row: 41, why: "a" }, { row: 42, why: "a" }], columns: [
  *   { name: "a", type: "number", unit: null, missing: 0 }, { name: "b", type: "number", unit: null, missing: 0 },
  *   { name: "c", type: "text", unit: null, missing: 0 }] });

@@ -82,7 +82,7 @@ function Exclusions({ r }: { r: TableResult }): VNode | null {
  * import { renderToString } from "preact-render-to-string";
  * import { TableView } from "./view.tsx";
  * const html = renderToString(TableView({ name: "cycles", result: {
- *   rows_read: 2, rows_used: 1, rows_filtered: 0, source: "b7.csv", sha256: null,
+ *   rows_read: 2, rows_used: 1, rows_filtered: 0, rows_missing: [], source: "b7.csv", sha256: null,
  *   excluded: [{ row: 2, why: "probe loose" }],
  *   columns: [{ name: "cycle", type: "number", unit: "cycles", missing: 0 }] } }));
  * if (!html.includes("probe loose")) throw new Error("reason not shown");
