@@ -8,7 +8,10 @@
  * `count_variance` convention) and log L on the original scale:
  * log L + Σ ln |g′(yᵢ)| for a response written as g(y) (`original_scale.ts`).
  * For a bare column the values equal the fit's own criteria. Weighted fits
- * use the fit's weighted log L.
+ * use the fit's weighted log L, which includes ½·Σ ln wᵢ (the weights as a
+ * variance model, yᵢ ~ N(μᵢ, σ²/wᵢ)): a density of the same y whatever the
+ * weights, so fits that differ only in their relative weights compare here
+ * (comparable.ts). The fit's log L is used as it is; nothing is added here.
  *
  * @module
  */

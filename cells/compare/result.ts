@@ -10,9 +10,14 @@
  * `weight` is null.
  *
  * Our additions (extend, never rename): per row `rank`, `response`,
- * `method`, `log_jacobian`, `loo_method`, `loo_folds`; per nested test
- * `ss_extra`; at the top `criterion`, `k_convention`, `evidence_scale`,
- * `criteria_scale`, `significance`.
+ * `method`, `log_jacobian`, `loo_method`, `loo_folds`, `weights_option`; per
+ * nested test `ss_extra`; at the top `criterion`, `k_convention`,
+ * `evidence_scale`, `criteria_scale`, `significance`, `weighting_basis`.
+ *
+ * Fits may differ in their relative weights (none, 1/x, 1/x²): each row's
+ * log-likelihood then includes ½·Σ ln wᵢ of its own weights (the weights as
+ * a variance model), `weighting_basis` says so, and nested F tests are given
+ * only between fits of equal weights.
  *
  * @module
  */
@@ -52,6 +57,8 @@ export interface CompareRow {
   loo_method: "press" | "k-fold";
   /** Our addition: folds used by "k-fold", null for "press". */
   loo_folds: number | null;
+  /** Our addition: the fit's `weights` option as written; null unweighted or with known σ. */
+  weights_option: string | null;
 }
 
 /** The `compare` result object. */
@@ -73,6 +80,12 @@ export interface CompareResult {
   criteria_scale: string;
   /** Our addition: the level the verdict uses for nested F tests. */
   significance: number;
+  /**
+   * Our addition: when the fits differ in their relative weights, the basis
+   * of comparing them in plain words (also the verdict's last sentence);
+   * null when every fit is weighted alike.
+   */
+  weighting_basis: string | null;
 }
 
 /** Output of `compare`: its result, ready to summarise. */

@@ -6,9 +6,14 @@
  *     ├─ candidateCriteria (log L on the original scale, AIC/AICc/BIC)
  *     ├─ looRmse (PRESS for linear fits, seeded k-fold for nonlinear fits)
  *     ├─ rankBy(by) ─▶ Δ, Akaike weights, preferred
- *     ├─ nestedTests (linear fits, column-space inclusion, F tests)
- *     └─ verdict
+ *     ├─ nestedTests (linear fits, column-space inclusion, F tests), among fits of equal weights
+ *     └─ verdict (with the basis of the comparison when the weights differ)
  * ```
+ *
+ * Fits that differ only in their relative weights are ranked by AIC, AICc
+ * or BIC (comparable.ts); an F test needs one variance model, so nested
+ * pairs are tested only among fits of the same weights, and the
+ * leave-one-out RMSE, weighted by each fit's own weights, cannot rank them.
  *
  * @module
  */
@@ -16,13 +21,13 @@ import { CellError } from "../../kernel/errors.ts";
 import type { RunContext } from "../../kernel/contract/mod.ts";
 import type { Fit } from "../fit/mod.ts";
 import type { CompareSpec } from "./spec.ts";
-import { type Candidate, checkComparable } from "./comparable.ts";
+import { type Candidate, checkComparable, sameWeights } from "./comparable.ts";
 import { originalScale } from "./original_scale.ts";
 import { candidateCriteria, type Criteria } from "./criteria.ts";
 import { type LooResult, looRmse } from "./loo.ts";
 import { rankBy } from "./akaike_weights.ts";
-import { nestedTests } from "./nested_tests.ts";
-import { EVIDENCE_SCALES, LABELS, verdict } from "./verdict.ts";
+import { type NestedTest, nestedTests } from "./nested_tests.ts";
+import { EVIDENCE_SCALES, LABELS, verdict, weightingBasis } from "./verdict.ts";
 import type { CompareRow, Comparison } from "./result.ts";
 
 /**
@@ -33,7 +38,7 @@ import type { CompareRow, Comparison } from "./result.ts";
  * @returns The comparison.
  * @throws {CellError} At `fits` for an input that is not a fit, fits that are
  *   not comparable (`comparable.ts`) or a transform with no original scale
- *   (`original_scale.ts`).
+ *   (`original_scale.ts`); at `by` for `loo` over fits weighted differently.
  */
 export function runCompare(spec: CompareSpec, ctx: RunContext): Comparison {
   const candidates = spec.fits.map((name, j): Candidate => {
@@ -41,6 +46,7 @@ export function runCompare(spec: CompareSpec, ctx: RunContext): Comparison {
     return { name, fit, scale: originalScale(fit, ctx.name, ["fits", j]) };
   });
   checkComparable(ctx.name, candidates);
+  const weights = differentWeights(ctx.name, candidates, spec.by);
   const criteria = candidates.map(candidateCriteria);
   const loo = candidates.map((c) => looRmse(c, spec.folds, ctx.settings.seed));
   for (const l of loo) if (l.warning !== null) ctx.warn(l.warning);
@@ -58,7 +64,7 @@ export function runCompare(spec: CompareSpec, ctx: RunContext): Comparison {
       } and ${unranked.length === 1 ? "is" : "are"} not ranked`,
     );
   }
-  const nested = nestedTests(candidates);
+  const nested = nestedWithinWeights(candidates);
   const ranked = rows.filter((r) => r.rank !== null).sort((a, b) => a.rank! - b.rank!)
     .map((r) => ({
       fit: r.fit,
@@ -74,14 +80,60 @@ export function runCompare(spec: CompareSpec, ctx: RunContext): Comparison {
       rows,
       preferred: ranking.best < 0 ? null : spec.fits[ranking.best],
       nested_tests: nested,
-      verdict: verdict({ by: spec.by, ranked, unranked, nested, significance: spec.significance }),
+      verdict: verdict({
+        by: spec.by,
+        ranked,
+        unranked,
+        nested,
+        significance: spec.significance,
+        ...(weights ? { weights } : {}),
+      }),
       criterion: LABELS[spec.by],
       k_convention: candidates[0].fit.statistics.kConvention,
       evidence_scale: EVIDENCE_SCALES[spec.by],
       criteria_scale: criteriaScale(candidates[0].fit.model.responseColumn, transformed),
       significance: spec.significance,
+      weighting_basis: weights ? weightingBasis(weights) : null,
     },
   };
+}
+
+/**
+ * Each fit's weights as written when they differ between the fits (null
+ * when all are weighted alike); refuses `by: loo` then.
+ */
+function differentWeights(
+  cell: string,
+  all: readonly Candidate[],
+  by: CompareSpec["by"],
+): { fit: string; weights: string | null }[] | null {
+  const first = all[0].fit.weights;
+  const odd = all.find((c) => !sameWeights(first, c.fit.weights));
+  if (odd === undefined) return null;
+  if (by === "loo") {
+    throw new CellError(
+      `Cannot compare "${cell}" by leave-one-out RMSE: fits "${
+        all[0].name
+      }" and "${odd.name}" are weighted differently, and each RMSE is weighted by its own fit's weights: rank them by aic, aicc or bic`,
+      ["by"],
+    );
+  }
+  return all.map((c) => ({ fit: c.name, weights: c.fit.weightsText ?? null }));
+}
+
+/** Nested F tests among fits of equal weights (an F test compares RSS of one variance model). */
+function nestedWithinWeights(all: readonly Candidate[]): NestedTest[] {
+  const groups: Candidate[][] = [];
+  for (const c of all) {
+    const g = groups.find((g) => sameWeights(g[0].fit.weights, c.fit.weights));
+    if (g) g.push(c);
+    else groups.push([c]);
+  }
+  if (groups.length === 1) return nestedTests(all);
+  const at = new Map(all.map((c, j) => [c.name, j]));
+  return groups.flatMap((g) => nestedTests(g)).sort((s, t) =>
+    at.get(s.smaller)! - at.get(t.smaller)! || at.get(s.larger)! - at.get(t.larger)!
+  );
 }
 
 function fitInput(ctx: RunContext, name: string, j: number): Fit {
@@ -123,6 +175,7 @@ function row(
     log_jacobian: c.scale.logJacobian,
     loo_method: loo.method,
     loo_folds: loo.folds,
+    weights_option: c.fit.weighting === "relative" ? c.fit.weightsText ?? null : null,
   };
 }
 

@@ -44,20 +44,20 @@ Deno.test("compare refuses different response columns and different response val
   );
 });
 
-Deno.test("compare refuses different weighting, different weights and different k conventions", () => {
-  const table = makeTable({ x, y });
+Deno.test("compare refuses known σ beside other weighting, different known σ and different k conventions", () => {
+  const table = makeTable({ x, y, sd: x.map((v) => 0.1 * v) });
   const plain = fitOf("plain", "y = a + b*x", table);
   refuses(
-    { plain, weighted: fitOf("weighted", "y = a + b*x", table, { weights: "1/x" }) },
-    'Cannot compare "cmp": fits "plain" and "weighted" are weighted differently: "plain" is unweighted, "weighted" is weighted by relative weights',
+    { plain, known: fitOf("known", "y = a + b*x", table, { known_sigma: "sd" }) },
+    'Cannot compare "cmp": fits "plain" and "known" are weighted differently: "plain" is unweighted, "known" is weighted by known standard deviations: known standard deviations fix the error scale that the other fit estimates',
     ["fits", 1],
   );
   refuses(
     {
-      w1: fitOf("w1", "y = a + b*x", table, { weights: "1/x" }),
-      w2: fitOf("w2", "y = a + b*x + c*x^2", table, { weights: "1/x^2" }),
+      s1: fitOf("s1", "y = a + b*x", table, { known_sigma: "sd" }),
+      s2: fitOf("s2", "y = a + b*x + c*x^2", table, { known_sigma: "2*sd^0.5" }),
     },
-    'Cannot compare "cmp": fits "w1" and "w2" have different weights in rows 2, 3, 4, 5, 6 and 4 more',
+    'Cannot compare "cmp": fits "s1" and "s2" have different known standard deviations in rows 1, 2, 3, 4, 5 and 5 more',
     ["fits", 1],
   );
   refuses(

@@ -13,6 +13,11 @@
  * - LOO RMSE has no published evidence scale and no weights; the verdict
  *   says so.
  *
+ * When the fits differ in their relative weights the verdict also states
+ * the basis of the comparison in plain words ({@link weightingBasis}): each
+ * fit's weights are its variance model, and its log-likelihood carries
+ * ½·Σ ln wᵢ (comparable.ts).
+ *
  * @module
  */
 import type { Criterion } from "./spec.ts";
@@ -49,6 +54,30 @@ export interface VerdictInput {
   unranked: string[];
   nested: readonly NestedTest[];
   significance: number;
+  /** Each fit's weights as written (null: unweighted), given when they differ between fits. */
+  weights?: readonly { fit: string; weights: string | null }[];
+}
+
+/**
+ * The basis of comparing fits that differ in their relative weights, in
+ * plain words.
+ *
+ * @param fits Each fit's `weights` as written, null for an unweighted fit.
+ * @returns One sentence.
+ * @example
+ * ```ts
+ * import { weightingBasis } from "./verdict.ts";
+ * const s = weightingBasis([{ fit: "line", weights: null }, { fit: "line_x2", weights: "1/x^2" }]);
+ * if (!s.includes("½·Σ ln wᵢ") || !s.includes('"line_x2" weights 1/x^2')) throw new Error(s);
+ * ```
+ */
+export function weightingBasis(fits: readonly { fit: string; weights: string | null }[]): string {
+  const each = fits.map((f) =>
+    f.weights === null ? `"${f.fit}" unweighted` : `"${f.fit}" weights ${f.weights}`
+  );
+  return `The fits differ in their weights (${
+    each.join(", ")
+  }): each fit's weights are read as its model of the variance, yᵢ ~ N(μᵢ, σ²/wᵢ) with one scale σ² estimated, so its Gaussian log-likelihood includes ½·Σ ln wᵢ (unchanged if every weight is multiplied by one constant) and AIC, AICc and BIC compare the weightings on the same rows and the same response; RSS, σ, R² and the leave-one-out RMSE are each on its own fit's weighted scale and are not compared`;
 }
 
 /**
@@ -87,6 +116,7 @@ export function verdict(v: VerdictInput): string {
   }
   const tests = v.nested.filter((t) => t.smaller === best.fit || t.larger === best.fit);
   if (tests.length > 0) parts.push(testsSentence(tests, v.significance));
+  if (v.weights !== undefined) parts.push(weightingBasis(v.weights));
   return parts.join(". ");
 }
 

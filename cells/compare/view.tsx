@@ -24,7 +24,7 @@ import { formatNumber, formatP } from "../shared/format.ts";
  * const html = renderToString(CompareView({ name: "shape", result: {
  *   by: "aicc", rows: [], preferred: null, nested_tests: [], verdict: "No fit can be ranked",
  *   criterion: "AICc", k_convention: "k = p + 1", evidence_scale: "Burnham & Anderson 2002",
- *   criteria_scale: "", significance: 0.05,
+ *   criteria_scale: "", significance: 0.05, weighting_basis: null,
  * } }));
  * if (!html.includes("No fit can be ranked")) throw new Error(html);
  * ```
@@ -54,6 +54,7 @@ export function CompareView({ name, result: r }: ViewProps<CompareResult>): VNod
         <li>Ranked by {r.criterion}; evidence scale: {r.evidence_scale}.</li>
         <li>Parameters counted by the criteria: {r.k_convention}.</li>
         <li>Scale: {r.criteria_scale}.</li>
+        {r.weighting_basis !== null && <li>Weights: {r.weighting_basis}.</li>}
         <li>{looNote(r.rows)}</li>
       </ul>
     </section>

@@ -26,6 +26,8 @@ export interface Fit extends CellOutput {
   weighting: Weighting;
   /** wᵢ of the rows used (1/σᵢ² for known standard deviations), or null. */
   weights: Float64Array | null;
+  /** The `weights` (or `known_sigma`) expression as written; absent for an unweighted fit. */
+  weightsText?: string;
   /** Parameter names, in the model's order. */
   parameters: string[];
   estimates: Float64Array;

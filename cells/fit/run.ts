@@ -70,6 +70,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
     );
   }
   const linear = isLinearIn(model.rhs, model.parameters);
+  const weightsText = spec.weights ?? spec.knownSigma;
   const solution = solveOrExplain(problem, table, linear);
   for (const w of model.warnings) ctx.warn(w.message);
   if (linear && Object.keys(spec.start).length > 0) {
@@ -94,6 +95,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
     weighted: weighted.weighting !== "none",
     weighting: weighted.weighting,
     weights: problem.weights ?? null,
+    ...(weightsText === undefined ? {} : { weightsText }),
     parameters: model.parameters,
     estimates: solution.estimates,
     unscaledCovariance: solution.unscaledCovariance,

@@ -5,7 +5,7 @@ import { fitKind } from "./mod.ts";
 import { makeTable, parseContext, runContext } from "./_fixtures_test.ts";
 import type { Table } from "../../kernel/contract/mod.ts";
 import type { Fit } from "./fit.ts";
-import { add, div, int, mul, type Q, q, sub, val } from "./_rational_test.ts";
+import { exactWls, int, q, val } from "./_rational_test.ts";
 
 function fit(name: string, model: string, table: Table, extra: Record<string, unknown> = {}) {
   const spec = fitKind.parse(parseContext(name, { on: "data", model, ...extra }));
@@ -27,32 +27,6 @@ function refuses(
     assert.deepEqual(e.path, path);
     return true;
   });
-}
-
-/**
- * Weighted least squares for y = a + b·x by the normal equations in exact
- * rationals (Draper & Smith, *Applied Regression Analysis*, 3rd ed., §9.2:
- * b = (S₀T₁ − S₁T₀)/D, a = (T₀ − bS₁)/S₀, D = S₀S₂ − S₁², Var b = σ²S₀/D,
- * Var a = σ²S₂/D with Sₖ = Σwxᵏ, Tₖ = Σwxᵏy; σ² = Σw r²/(n − 2)).
- */
-function exactWls(x: number[], y: number[], w: Q[]) {
-  let s0 = int(0), s1 = int(0), s2 = int(0), t0 = int(0), t1 = int(0);
-  x.forEach((xi, i) => {
-    s0 = add(s0, w[i]);
-    s1 = add(s1, mul(w[i], int(xi)));
-    s2 = add(s2, mul(w[i], int(xi * xi)));
-    t0 = add(t0, mul(w[i], int(y[i])));
-    t1 = add(t1, mul(w[i], int(xi * y[i])));
-  });
-  const d = sub(mul(s0, s2), mul(s1, s1));
-  const b = div(sub(mul(s0, t1), mul(s1, t0)), d);
-  const a = div(sub(t0, mul(b, s1)), s0);
-  let rss = int(0);
-  x.forEach((xi, i) => {
-    const r = sub(int(y[i]), add(a, mul(b, int(xi))));
-    rss = add(rss, mul(w[i], mul(r, r)));
-  });
-  return { a, b, rss, varA: div(s2, d), varB: div(s0, d) };
 }
 
 const X = [0, 1, 2, 3, 4], Y = [1, 3, 2, 5, 4];
