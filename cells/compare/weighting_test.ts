@@ -2,6 +2,7 @@ import assert from "node:assert/strict";
 import { CellError } from "../../kernel/errors.ts";
 import { compare, fitOf, makeTable } from "./_fixtures_test.ts";
 import { exactWls, int, type Q, q, val } from "../fit/_rational_test.ts";
+import { assertDigits as close } from "../fit/_fixtures_test.ts";
 
 // A calibration with proportional error (invented): concentrations 1…16, response ≈ 0.3 + 2x
 // with scatter growing with x. The classic question: no weights, 1/x or 1/x²?
@@ -20,12 +21,6 @@ const LN_2PI = Math.log(2 * Math.PI);
 function logL(w: Q[], halfSumLnW: number): number {
   const rss = val(exactWls(X, Y, w).rss);
   return -2.5 * (LN_2PI + Math.log(rss / 5) + 1) + halfSumLnW;
-}
-
-function close(got: number | null, want: number, digits: number, what: string) {
-  assert.ok(got !== null, `${what}: null`);
-  const err = Math.abs(got - want) / Math.max(1, Math.abs(want));
-  assert.ok(err <= 10 ** -digits, `${what}: ${got} vs ${want} (error ${err})`);
 }
 
 Deno.test("compare ranks a 1/x² calibration against 1/x and no weights by AICc, log L with ½Σ ln w", () => {

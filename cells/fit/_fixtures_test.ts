@@ -3,6 +3,7 @@
  *
  * @module
  */
+import assert from "node:assert/strict";
 import type {
   Column,
   DocSettings,
@@ -10,6 +11,8 @@ import type {
   RunContext,
   Table,
 } from "../../kernel/contract/mod.ts";
+import { fitKind } from "./mod.ts";
+import type { Fit } from "./fit.ts";
 
 export const SETTINGS: DocSettings = {
   title: "test",
@@ -91,4 +94,24 @@ export function runContext(
     progress: () => {},
     warnings,
   };
+}
+
+/** Parses and runs fit `name` of `model` on `table` (as cell "data"): its RUN-JSON result and warnings. */
+export function fitResult(
+  name: string,
+  model: string,
+  table: Table,
+  extra: Record<string, unknown> = {},
+) {
+  const spec = fitKind.parse(parseContext(name, { on: "data", model, ...extra }));
+  const ctx = runContext(name, "data", table);
+  const out = fitKind.run(spec, ctx) as Fit;
+  return { result: fitKind.summary(out, spec), warnings: ctx.warnings };
+}
+
+/** Asserts `got` agrees with `want` to `digits` significant digits (absolute when want is 0). */
+export function assertDigits(got: number | null, want: number, digits: number, what: string) {
+  assert.ok(got !== null, `${what}: null`);
+  const err = Math.abs(got - want) / (want === 0 ? 1 : Math.abs(want));
+  assert.ok(err <= 10 ** -digits, `${what}: ${got} vs ${want} (relative error ${err})`);
 }

@@ -1,22 +1,6 @@
 import assert from "node:assert/strict";
-import { fitKind } from "./mod.ts";
-import { makeTable, parseContext, runContext } from "./_fixtures_test.ts";
-import type { Table } from "../../kernel/contract/mod.ts";
-import type { Fit } from "./fit.ts";
+import { assertDigits as close, fitResult as fit, makeTable } from "./_fixtures_test.ts";
 import { dec, int, inverse, mul, type Q, sub, sum, times, val } from "./_rational_test.ts";
-
-function fit(name: string, model: string, table: Table, extra: Record<string, unknown> = {}) {
-  const spec = fitKind.parse(parseContext(name, { on: "data", model, ...extra }));
-  const ctx = runContext(name, "data", table);
-  const out = fitKind.run(spec, ctx) as Fit;
-  return { result: fitKind.summary(out, spec), warnings: ctx.warnings };
-}
-
-function close(got: number | null, want: number, digits: number, what: string) {
-  assert.ok(got !== null, `${what}: null`);
-  const err = Math.abs(got - want) / Math.abs(want);
-  assert.ok(err <= 10 ** -digits, `${what}: ${got} vs ${want} (relative error ${err})`);
-}
 
 // A quadratic with known σ: x = 0…6, σ = (1, ½, 1, 2, 1, ½, 1), so w = 1/σ² = (1, 4, 1, ¼, 1, 4, 1).
 const X = [0, 1, 2, 3, 4, 5, 6];

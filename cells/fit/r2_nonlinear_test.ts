@@ -1,22 +1,6 @@
 import assert from "node:assert/strict";
-import { fitKind } from "./mod.ts";
-import { makeTable, parseContext, runContext } from "./_fixtures_test.ts";
-import type { Table } from "../../kernel/contract/mod.ts";
-import type { Fit } from "./fit.ts";
+import { assertDigits as close, fitResult as fit, makeTable } from "./_fixtures_test.ts";
 import { dec, div, mul, sub, sum, val } from "./_rational_test.ts";
-
-function fit(name: string, model: string, table: Table, extra: Record<string, unknown> = {}) {
-  const spec = fitKind.parse(parseContext(name, { on: "data", model, ...extra }));
-  const ctx = runContext(name, "data", table);
-  const out = fitKind.run(spec, ctx) as Fit;
-  return { result: fitKind.summary(out, spec), warnings: ctx.warnings };
-}
-
-function close(got: number | null, want: number, digits: number, what: string) {
-  assert.ok(got !== null, `${what}: null`);
-  const err = Math.abs(got - want) / Math.abs(want);
-  assert.ok(err <= 10 ** -digits, `${what}: ${got} vs ${want} (relative error ${err})`);
-}
 
 /** Σwᵢ(yᵢ − ȳ_w)² of decimal data in exact rational arithmetic (wᵢ = 1 when not given). */
 function exactTss(y: string[], w?: string[]) {

@@ -1,15 +1,5 @@
 import assert from "node:assert/strict";
-import { fitKind } from "./mod.ts";
-import { makeTable, parseContext, runContext } from "./_fixtures_test.ts";
-import type { Table } from "../../kernel/contract/mod.ts";
-import type { Fit } from "./fit.ts";
-
-function fit(name: string, model: string, table: Table, extra: Record<string, unknown> = {}) {
-  const spec = fitKind.parse(parseContext(name, { on: "data", model, ...extra }));
-  const ctx = runContext(name, "data", table);
-  const out = fitKind.run(spec, ctx) as Fit;
-  return { result: fitKind.summary(out, spec), warnings: ctx.warnings };
-}
+import { fitResult as fit, makeTable } from "./_fixtures_test.ts";
 
 Deno.test("fitKind.summary() lists every row left out for a missing value in rows_missing", () => {
   // Seven rows lack y; the warning names five, rows_missing all seven (source row numbers,

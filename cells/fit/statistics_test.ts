@@ -2,17 +2,10 @@ import assert from "node:assert/strict";
 import { CellError } from "../../kernel/errors.ts";
 import { standardNormal, studentT } from "../../kernel/stats/mod.ts";
 import { fitKind } from "./mod.ts";
-import { makeTable, parseContext, runContext } from "./_fixtures_test.ts";
+import { fitResult as fit, makeTable, parseContext, runContext } from "./_fixtures_test.ts";
 import type { Table } from "../../kernel/contract/mod.ts";
 import type { Fit } from "./fit.ts";
 import { exactWls, int, q, val } from "./_rational_test.ts";
-
-function fit(name: string, model: string, table: Table, extra: Record<string, unknown> = {}) {
-  const spec = fitKind.parse(parseContext(name, { on: "data", model, ...extra }));
-  const ctx = runContext(name, "data", table);
-  const out = fitKind.run(spec, ctx) as Fit;
-  return { result: fitKind.summary(out, spec), warnings: ctx.warnings };
-}
 
 function refuses(
   options: Record<string, unknown>,
