@@ -73,14 +73,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
   const weightsText = spec.weights ?? spec.knownSigma;
   const solution = solveOrExplain(problem, table, linear);
   for (const w of model.warnings) ctx.warn(w.message);
-  if (linear && Object.keys(spec.start).length > 0) {
-    ctx.warn(`Start values of "${ctx.name}" are not used: the model is linear in its parameters`);
-  }
-  if (linear && spec.within !== undefined) {
-    ctx.warn(
-      `Ranges ("within") of "${ctx.name}" are not used: the model is linear in its parameters`,
-    );
-  }
+  if (linear) warnUnused(spec, ctx);
   const statistics = fitStatistics(problem, solution, {
     confidence: ctx.settings.confidence,
     weighting: weighted.weighting,
@@ -115,6 +108,18 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
     iterations: solution.iterations,
     ...(solution.atBound ? { atBound: solution.atBound } : {}),
   };
+}
+
+/** Start values and ranges mean nothing to a model linear in its parameters. */
+function warnUnused(spec: FitSpec, ctx: RunContext): void {
+  if (Object.keys(spec.start).length > 0) {
+    ctx.warn(`Start values of "${ctx.name}" are not used: the model is linear in its parameters`);
+  }
+  if (spec.within !== undefined) {
+    ctx.warn(
+      `Ranges ("within") of "${ctx.name}" are not used: the model is linear in its parameters`,
+    );
+  }
 }
 
 function tableInput(spec: FitSpec, ctx: RunContext): Table {
