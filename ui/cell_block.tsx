@@ -12,7 +12,7 @@ import { useLayoutEffect, useRef, useState } from "preact/hooks";
 import type { LiveBlock } from "../kernel/server/protocol.ts";
 import type { LiveStore } from "./store.ts";
 import { StateMark } from "./state_mark.tsx";
-import { formatMs } from "./format.ts";
+import { formatDuration } from "../cells/shared/format.ts";
 import { viewOf } from "../cells/pages.ts";
 import { GenericView } from "./generic_view.tsx";
 import { SourceListing } from "./source_listing.tsx";
@@ -168,7 +168,7 @@ function CellBlockOf(props: CellBlockProps): VNode {
         <StateMark state={cell.state} />
         {elapsed !== null && cell.state !== "queued" && (
           <span class="pl-cell-ms" title={cell.cached ? "reused: inputs unchanged" : "time taken"}>
-            {formatMs(elapsed)}
+            {formatDuration(elapsed)}
             {cell.cached ? " · reused" : ""}
           </span>
         )}

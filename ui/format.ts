@@ -1,27 +1,10 @@
 /**
- * Small words and numbers of the page: durations, ages, sizes.
+ * Small words of the page: how long ago, a file's name. Numbers, durations
+ * included, are formatted by cells/shared/format.ts, so they read alike in
+ * the blocks and around them.
  *
  * @module
  */
-
-/**
- * A duration for a cell header.
- *
- * @param ms Milliseconds.
- * @returns "0.4 ms", "12 ms", "1.3 s", "2 min 5 s".
- * @example
- * ```ts
- * import { formatMs } from "./format.ts";
- * if (formatMs(1340) !== "1.3 s" || formatMs(12.4) !== "12 ms") throw new Error("format");
- * ```
- */
-export function formatMs(ms: number): string {
-  if (ms < 10) return `${ms.toFixed(1)} ms`;
-  if (ms < 1000) return `${Math.round(ms)} ms`;
-  if (ms < 60_000) return `${(ms / 1000).toFixed(1)} s`;
-  const s = Math.round(ms / 1000);
-  return `${Math.floor(s / 60)} min ${s % 60} s`;
-}
 
 /**
  * How long ago something happened, in words.

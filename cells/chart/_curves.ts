@@ -9,14 +9,14 @@
  * f ± q·se_fit with q the t quantile t_{(1+c)/2; n−p} (the normal quantile
  * for fits with known standard deviations). For a linear model g is the
  * design row and this is the exact interval of the mean. A transformed
- * response is back-transformed end by end (monotone steps, `_inverse.ts`).
+ * response is back-transformed end by end (monotone steps, `responseInverse`
+ * of kernel/expr).
  *
  * @module
  */
-import { compile, derivative } from "../../kernel/expr/mod.ts";
+import { compile, derivative, type ResponseInverse } from "../../kernel/expr/mod.ts";
 import { standardNormal, studentT } from "../../kernel/stats/mod.ts";
 import type { Fit } from "../fit/fit.ts";
-import type { Inverse } from "./_inverse.ts";
 
 /**
  * `n` x values from `lo` to `hi`, equally spaced (in log space when `log`).
@@ -47,7 +47,7 @@ export function gridOver(lo: number, hi: number, n: number, log: boolean): Float
  * @param inverse Back-transform of the response.
  * @returns f(x; θ̂) back-transformed, NaN where undefined.
  */
-export function curveOn(fit: Fit, grid: Float64Array, inverse: Inverse): Float64Array {
+export function curveOn(fit: Fit, grid: Float64Array, inverse: ResponseInverse): Float64Array {
   const f = compile(fit.model.rhs, fit.model.columns, fit.parameters);
   const v = f(fit.model.columns.map(() => grid), fit.estimates, grid.length);
   return v.map(inverse);
@@ -106,7 +106,7 @@ export function bandOn(
   fit: Fit,
   grid: Float64Array,
   confidence: number,
-  inverse: Inverse,
+  inverse: ResponseInverse,
 ): { lo: Float64Array; hi: Float64Array; held: boolean } {
   const f = compile(fit.model.rhs, fit.model.columns, fit.parameters);
   const mean = f(fit.model.columns.map(() => grid), fit.estimates, grid.length);

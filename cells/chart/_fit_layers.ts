@@ -13,16 +13,16 @@
 import { CellError, type OptionPath } from "../../kernel/errors.ts";
 import { quotedList } from "../../kernel/linalg/mod.ts";
 import type { RunContext } from "../../kernel/contract/mod.ts";
+import { type ResponseInverse, responseInverse } from "../../kernel/expr/mod.ts";
 import type { Fit } from "../fit/fit.ts";
 import type { ChartSpec } from "./spec.ts";
-import { type Inverse, inverseOf } from "./_inverse.ts";
 
 /** A fit that passed the checks, with where it was named and how to undo its transform. */
 export interface DrawnFit {
   name: string;
   fit: Fit;
   path: OptionPath;
-  inverse: Inverse;
+  inverse: ResponseInverse;
   /** Whether the response is the bare y column. */
   plain: boolean;
 }
@@ -77,7 +77,7 @@ function checkFit(spec: ChartSpec, ctx: RunContext, name: string, path: OptionPa
       path,
     );
   }
-  const inverse = inverseOf(response, responseColumn);
+  const inverse = responseInverse(response, responseColumn);
   if ("reason" in inverse) {
     throw new CellError(`${cannot} on the scale of "${spec.y}": ${inverse.reason}`, path);
   }

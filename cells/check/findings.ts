@@ -24,7 +24,9 @@
  */
 import { fisherF } from "../../kernel/stats/mod.ts";
 import type { CheckResult, Finding } from "./result.ts";
-import { fmt, pText, rowList } from "./_format.ts";
+import { fmt } from "./_format.ts";
+import { formatPPhrase } from "../shared/format.ts";
+import { rowsInFull } from "../shared/rows.ts";
 
 type Base = Omit<CheckResult, "findings">;
 
@@ -86,7 +88,9 @@ function rowFindings(r: Base, add: Add): void {
     add(
       "determined-by-one-row",
       one.map((i) => r.rows[i]),
-      `${cap(rowList(one.map((i) => r.rows[i])))} ${one.length > 1 ? "have" : "has"} leverage 1: ${
+      `${cap(rowsInFull(one.map((i) => r.rows[i])))} ${
+        one.length > 1 ? "have" : "has"
+      } leverage 1: ${
         one.length > 1 ? "each" : "it"
       } alone determines a parameter (the fit passes through it exactly), so its studentized residuals, Cook's distance and DFFITS do not exist.`,
     );
@@ -105,9 +109,9 @@ function rowFindings(r: Base, add: Add): void {
           "externally studentized residuals",
           "beyond ±3 (common practice)",
         )
-        : `${cap(rowList(out.map((i) => r.rows[i])))} ${verb(out)} externally studentized residual${
-          out.length > 1 ? "s" : ""
-        } ${
+        : `${cap(rowsInFull(out.map((i) => r.rows[i])))} ${
+          verb(out)
+        } externally studentized residual${out.length > 1 ? "s" : ""} ${
           out.map((i) => fmt(r.studentized_external[i])).join(", ")
         } (beyond ±3, common practice).`,
     );
@@ -132,7 +136,7 @@ function rowFindings(r: Base, add: Add): void {
             "Cook's distance",
             rule,
           )
-          : `${cap(rowList(inf.map((i) => r.rows[i])))} ${verb(inf)} Cook's distance ${
+          : `${cap(rowsInFull(inf.map((i) => r.rows[i])))} ${verb(inf)} Cook's distance ${
             inf.map((i) => fmt(r.cooks_distance[i])).join(", ")
           } (> 4/n = ${fmt(4 / n)} and > the median of F(${p}, ${n - p}) = ${
             fmt(median)
@@ -155,7 +159,7 @@ function rowFindings(r: Base, add: Add): void {
           "leverage",
           `above 2p/n = ${fmt(lev, 2)} (common practice)`,
         )
-        : `${cap(rowList(high.map((i) => r.rows[i])))} ${verb(high)} leverage ${
+        : `${cap(rowsInFull(high.map((i) => r.rows[i])))} ${verb(high)} leverage ${
           high.map((i) => fmt(r.leverage[i], 2)).join(", ")
         } (> 2p/n = ${fmt(lev, 2)}, common practice).`,
     );
@@ -170,7 +174,7 @@ function testFindings(r: Base, add: Add): void {
       [],
       `Ramsey's RESET finds curvature the model misses: F = ${
         fmt(r.reset.f)
-      } on ${r.reset.df1} and ${r.reset.df2} df, ${pText(r.reset.p_value)} ${at}.`,
+      } on ${r.reset.df1} and ${r.reset.df2} df, ${formatPPhrase(r.reset.p_value)} ${at}.`,
     );
   }
   if (r.lack_of_fit && r.lack_of_fit.p_value < a) {
@@ -180,7 +184,7 @@ function testFindings(r: Base, add: Add): void {
       [],
       `The lack-of-fit test against replicate rows finds the model misses the mean: F = ${
         fmt(l.f)
-      } on ${l.df1} and ${l.df2} df, ${pText(l.p_value)} ${at}.`,
+      } on ${l.df1} and ${l.df2} df, ${formatPPhrase(l.p_value)} ${at}.`,
     );
   }
   if (r.runs && r.runs.z < 0 && r.runs.p_value < a) {
@@ -190,7 +194,7 @@ function testFindings(r: Base, add: Add): void {
       [],
       `Residual signs ${where} form ${r.runs.runs} runs where ${
         fmt(r.runs.expected)
-      } are expected (runs test, ${pText(r.runs.p_value)} ${at}).`,
+      } are expected (runs test, ${formatPPhrase(r.runs.p_value)} ${at}).`,
     );
   }
   if (r.breusch_pagan && r.breusch_pagan.p_value < a) {
@@ -200,7 +204,7 @@ function testFindings(r: Base, add: Add): void {
       [],
       `The residual variance changes with the predictors: Breusch–Pagan (${b.variant}) statistic ${
         fmt(b.statistic)
-      } on ${b.df} df, ${pText(b.p_value)} ${at}.`,
+      } on ${b.df} df, ${formatPPhrase(b.p_value)} ${at}.`,
     );
   }
   normality(r, add, at);
@@ -213,7 +217,7 @@ function testFindings(r: Base, add: Add): void {
       } where ${
         fmt(r.durbin_watson_test.expected)
       } is expected without correlation (one-sided, normal approximation, ${
-        pText(r.durbin_watson_test.p_value)
+        formatPPhrase(r.durbin_watson_test.p_value)
       } ${at}).`,
     );
   }
@@ -239,7 +243,7 @@ function normality(r: Base, add: Add, at: string): void {
         "non-normal",
         [],
         `The residuals do not look normal: Shapiro–Wilk W = ${fmt(r.shapiro_wilk.w, 4)}, ${
-          pText(r.shapiro_wilk.p_value)
+          formatPPhrase(r.shapiro_wilk.p_value)
         } ${at}.`,
       );
     }
@@ -248,7 +252,7 @@ function normality(r: Base, add: Add, at: string): void {
       "non-normal",
       [],
       `The residuals do not look normal: Jarque–Bera ${fmt(r.jarque_bera.statistic)}, ${
-        pText(r.jarque_bera.p_value)
+        formatPPhrase(r.jarque_bera.p_value)
       } ${at}.`,
     );
   }

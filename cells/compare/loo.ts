@@ -26,7 +26,7 @@ import { LEVERAGE_ONE_TOLERANCE, press } from "../../kernel/stats/leverage.ts";
 import { fitLeverage, refit } from "../fit/mod.ts";
 import type { Candidate } from "./comparable.ts";
 import { assignFolds } from "./_folds.ts";
-import { rowList } from "./_rows.ts";
+import { rowList } from "../shared/rows.ts";
 
 /** A leave-one-out RMSE and how it was obtained. */
 export interface LooResult {

@@ -15,16 +15,16 @@
  * variance of z, not the map y ↦ z.
  *
  * A Fit keeps the transformed response z, not the column itself, so the
- * column's values are recovered as yᵢ = g⁻¹(zᵢ) (`_inverse.ts`) and checked
- * by evaluating g again.
+ * column's values are recovered as yᵢ = g⁻¹(zᵢ) (`responseInverse`,
+ * kernel/expr/response_inverse.ts, with its domain policy) and checked by
+ * evaluating g again.
  *
  * @module
  */
-import { compile, derivative, type Expr } from "../../kernel/expr/mod.ts";
+import { compile, derivative, type Expr, responseInverse } from "../../kernel/expr/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
 import type { Fit } from "../fit/mod.ts";
-import { inverseOf } from "./_inverse.ts";
-import { rowList } from "./_rows.ts";
+import { rowList } from "../shared/rows.ts";
 
 /** Relative gap allowed between g(g⁻¹(z)) and z (common practice, no source). */
 const ROUND_TRIP_TOLERANCE = 1e-9;
@@ -72,8 +72,8 @@ export function originalScale(
     return { transformed: false, values: fit.y, logJacobian: 0, inverse: (z) => z };
   }
   const written = fit.responseText;
-  const inverse = inverseOf(response, responseColumn);
-  if (inverse === null) {
+  const inverse = responseInverse(response, responseColumn);
+  if ("reason" in inverse) {
     throw new CellError(
       `Cannot compare "${cell}": the response "${written}" cannot be undone to column "${responseColumn}": ` +
         "the criteria on the original scale need a one-to-one transform such as log(y), sqrt(y) or 1/y",

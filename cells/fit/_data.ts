@@ -15,7 +15,8 @@ import { quotedList } from "../../kernel/linalg/mod.ts";
 import type { NumberColumn, Table } from "../../kernel/contract/mod.ts";
 import type { FitSpec } from "./spec.ts";
 import type { FitProblem } from "./problem.ts";
-import { countRows, identifierOffset, rowList } from "./_offsets.ts";
+import { countRows, identifierOffset } from "./_offsets.ts";
+import { rowList } from "../shared/rows.ts";
 
 /**
  * Builds the problem a solver sees.

@@ -25,13 +25,6 @@ export function identifierOffset(e: Expr, name: string): number | undefined {
   }
 }
 
-/** `row 12` or `rows 12, 40, 41` (up to `limit` numbers, then `and 7 more`). */
-export function rowList(rows: readonly number[], limit = 5): string {
-  const shown = rows.slice(0, limit).join(", ");
-  const more = rows.length > limit ? ` and ${rows.length - limit} more` : "";
-  return `${rows.length === 1 ? "row" : "rows"} ${shown}${more}`;
-}
-
 /** `1 row` / `3 rows`. */
 export function countRows(k: number): string {
   return `${k} ${k === 1 ? "row" : "rows"}`;

@@ -21,7 +21,8 @@ import { quotedList } from "../../kernel/linalg/mod.ts";
 import type { NumberColumn, Table } from "../../kernel/contract/mod.ts";
 import type { FitSpec } from "./spec.ts";
 import type { FitProblem } from "./problem.ts";
-import { countRows, identifierOffset, rowList } from "./_offsets.ts";
+import { countRows, identifierOffset } from "./_offsets.ts";
+import { rowList } from "../shared/rows.ts";
 
 /** How the rows are weighted. */
 export type Weighting = "none" | "relative" | "absolute";
@@ -129,9 +130,7 @@ function refusal(
   text: string,
   bad: [number, number][],
 ): CellError {
-  const shown = bad.slice(0, 5).map(([r, x]) => `${r} (${x})`).join(", ");
-  const more = bad.length > 5 ? ` and ${bad.length - 5} more` : "";
-  const rows = `${bad.length === 1 ? "row" : "rows"} ${shown}${more}`;
+  const rows = rowList(bad.map(([r, x]) => `${r} (${x})`));
   const message = key === "weights"
     ? `weight "${text}" is negative, NaN or infinite in ${rows}: weights must be finite and at least 0`
     : `known standard deviation "${text}" is zero, negative, NaN or infinite in ${rows}: each must be finite and positive`;

@@ -34,7 +34,8 @@ import {
   scaledConditionNumber,
 } from "../../kernel/linalg/mod.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";
-import { identifierOffset, rowList } from "./_offsets.ts";
+import { identifierOffset } from "./_offsets.ts";
+import { rowList } from "../shared/rows.ts";
 import { notFinite } from "./_data.ts";
 import { rootWeights, unwhiten, whiten } from "./_weights.ts";
 import { solvePrecise, usePrecise } from "./_precise_linear.ts";

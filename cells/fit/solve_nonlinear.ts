@@ -37,7 +37,7 @@ import {
   polish,
 } from "../../kernel/optim/mod.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";
-import { rowList } from "./_offsets.ts";
+import { rowList } from "../shared/rows.ts";
 
 /** Correlation above which a pair of estimates is named in a warning (common practice, no source). */
 export const CORRELATION_WARNING = 0.95;

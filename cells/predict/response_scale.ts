@@ -11,18 +11,15 @@
  * scale (e.g. Draper & Smith, *Applied Regression Analysis*, 3rd ed., §13.2;
  * from memory). Standard errors stay on the model scale.
  *
- * g⁻¹ is found numerically, so any monotone transform the expression
- * language can write works: g is evaluated on a sign-symmetric logarithmic
- * grid y = 0, ±10^(k/4), k = −1200 … 1200; every pair of neighbouring grid
- * points where g − z changes sign is refined by bisection to adjacent
- * doubles, and a bracket is kept only when g there is within 1e-9·(1 + |z|)
- * of z (which discards the jump of g at a pole, as 1/y at 0). Exactly one
- * root is the answer; none or several (g not monotone, as y² over both
- * signs) give null.
+ * g⁻¹ is the expression language's one inverse of a response transform
+ * (`responseInverse`, kernel/expr/response_inverse.ts), with its domain
+ * policy: a value outside the range of g has no y (null here), an even
+ * power is undone by the root ≥ 0. A transform it cannot undo (the column
+ * used twice, `abs`, …) leaves every value null, with the reason.
  *
  * @module
  */
-import { compileScalar, type Model } from "../../kernel/expr/mod.ts";
+import { compileScalar, type Model, responseInverse } from "../../kernel/expr/mod.ts";
 
 /** How a fit's response relates to the column it is made of. */
 export interface ResponseScale {
@@ -34,17 +31,11 @@ export interface ResponseScale {
   transformed: boolean;
   /** g: column value → model scale. */
   forward(y: number): number;
-  /** g⁻¹: model scale → column value, or null when there is no unique value. */
+  /** g⁻¹: model scale → column value, or null when no finite value gives z. */
   inverse(z: number): number | null;
+  /** Why g has no inverse at all, or null when it has one. */
+  noInverse: string | null;
 }
-
-/** The grid of y values the inverse brackets roots on. */
-const GRID: Float64Array = (() => {
-  const pos: number[] = [];
-  for (let k = -1200; k <= 1200; k++) pos.push(10 ** (k / 4));
-  const neg = pos.map((v) => -v).reverse();
-  return Float64Array.from([-Number.MAX_VALUE, ...neg, 0, ...pos, Number.MAX_VALUE]);
-})();
 
 /**
  * The response scale of a model.
@@ -64,46 +55,17 @@ export function responseScale(model: Model): ResponseScale {
   const column = model.responseColumn;
   const transformed = !(model.response.op === "id" && model.response.name === column);
   const g = compileScalar(model.response, [column]);
-  const forward = (y: number) => g([y]);
+  const inv = responseInverse(model.response, column);
+  const noInverse = "reason" in inv ? inv.reason : null;
   return {
     written,
     column,
     transformed,
-    forward,
-    inverse: transformed ? (z) => invert(forward, z) : (z) => z,
+    forward: (y) => g([y]),
+    inverse: "reason" in inv ? () => null : (z) => {
+      const y = inv(z);
+      return Number.isFinite(y) ? y : null;
+    },
+    noInverse,
   };
-}
-
-function invert(g: (y: number) => number, z: number): number | null {
-  if (!Number.isFinite(z)) return null;
-  const roots: number[] = [];
-  let a = NaN, ga = NaN;
-  for (const b of GRID) {
-    const gb = g(b) - z;
-    if (!Number.isFinite(gb)) {
-      a = NaN;
-      continue;
-    }
-    if (gb === 0) roots.push(b);
-    else if (Number.isFinite(ga) && ga !== 0 && (ga < 0) !== (gb < 0)) {
-      const r = bisect(g, z, a, b, ga);
-      if (Math.abs(g(r) - z) <= 1e-9 * (1 + Math.abs(z))) roots.push(r);
-    }
-    a = b;
-    ga = gb;
-  }
-  return roots.length === 1 ? roots[0] : null;
-}
-
-/** Bisection on [a, b] (g(a) − z has sign of `ga`) until the midpoint is an end. */
-function bisect(g: (y: number) => number, z: number, a: number, b: number, ga: number): number {
-  for (let i = 0; i < 2200; i++) {
-    const mid = a + (b - a) / 2;
-    if (mid === a || mid === b) break;
-    const gm = g(mid) - z;
-    if (gm === 0) return mid;
-    if ((gm < 0) === (ga < 0)) [a, ga] = [mid, gm];
-    else b = mid;
-  }
-  return Math.abs(g(a) - z) <= Math.abs(g(b) - z) ? a : b;
 }

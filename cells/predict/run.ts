@@ -121,8 +121,9 @@ function predictAt(
     out.push(row);
   }
   if (unmapped) {
+    const why = scale.noInverse ?? `no finite "${scale.column}" gives them`;
     ctx.warn(
-      `Some values could not be back-transformed from "${scale.written}" to "${scale.column}" (no unique ${scale.column} gives them): they are null; see model_scale`,
+      `Some values could not be back-transformed from "${scale.written}" to "${scale.column}" (${why}): they are null; see model_scale`,
     );
   }
   return out;

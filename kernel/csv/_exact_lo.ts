@@ -5,24 +5,14 @@
  * Method: write the decimal as N / D (N = mantissa digits, D = 10^-k or 1)
  * and the double hi as mh · 2^eh (from its IEEE 754 bit fields), so the
  * residual N/D − hi is the exact fraction (N·2^s − mh·D·2^t) / (D·2^s) for
- * suitable shifts; it is then rounded to a double from a 64-bit quotient.
- * The quotient is truncated before the final rounding, so lo carries a
- * relative error of at most about 2^-52 — far below the 2^-53·|hi| it
- * corrects. Standard exact-rational technique (common practice, no source).
+ * suitable shifts (`dyadic` of `kernel/dd.ts` reads mh and eh); it is then
+ * rounded to a double from a 64-bit quotient. The quotient is truncated
+ * before the final rounding, so lo carries a relative error of at most about
+ * 2^-52 — far below the 2^-53·|hi| it corrects. Standard exact-rational technique (common practice, no source).
  *
  * @module
  */
-
-const scratch = new DataView(new ArrayBuffer(8));
-
-/** hi = mh · 2^eh exactly, for finite hi ≠ 0 (mh ≥ 0; sign separate). */
-function decompose(hi: number): [bigint, number] {
-  scratch.setFloat64(0, Math.abs(hi));
-  const bits = scratch.getBigUint64(0);
-  const be = Number(bits >> 52n);
-  const frac = bits & 0xfffffffffffffn;
-  return be === 0 ? [frac, -1074] : [frac | (1n << 52n), be - 1075];
-}
+import { dyadic } from "../dd.ts";
 
 function bitLength(x: bigint): number {
   return x.toString(2).length;
@@ -77,8 +67,7 @@ export function exactLo(text: string, hi: number): number {
   if (k >= 0) num *= 10n ** BigInt(k);
   else den = 10n ** BigInt(-k);
   if (hi === 0) return ratioToDouble(num, den);
-  const [mh, eh] = decompose(hi);
-  const hiNum = hi < 0 ? -mh : mh;
+  const [hiNum, eh] = dyadic(hi);
   // residual = num/den − hiNum·2^eh
   if (eh >= 0) {
     return ratioToDouble(num - hiNum * den * (1n << BigInt(eh)), den);

@@ -14,7 +14,8 @@
  *   - fast path, k ≥ 0: lo is the exact error of the product M·10^k, by
  *     Dekker's TwoProduct with Veltkamp's splitting (Dekker 1971, "A
  *     floating-point technique for extending the available precision",
- *     Numer. Math. 18, §5 mul12);
+ *     Numer. Math. 18, §5 mul12; `productError` of `kernel/dd.ts`; both
+ *     factors are below 2^996, so no scaling is needed);
  *   - fast path, k < 0: the remainder r = M − hi·10^|k| is an exact double
  *     (the remainder of a correctly rounded division is representable; Dekker
  *     1971 §5 div12 relies on it); it is computed exactly as (M − p) − e with
@@ -30,6 +31,7 @@
  *
  * @module
  */
+import { productError } from "../dd.ts";
 import { exactLo } from "./_exact_lo.ts";
 
 /** 10^0 … 10^22, each an exact double: 10^k = 5^k · 2^k and 5^22 < 2^53. */
@@ -43,21 +45,7 @@ const POW10: Float64Array = (() => {
   return p;
 })();
 
-/** Veltkamp's splitting constant 2^27 + 1 for binary64. */
-const SPLITTER = 134217729;
 const MAX_EXACT = 9007199254740991; // 2^53 − 1
-
-/**
- * The rounding error of fl(a·b): returns e with a·b = p + e exactly, p = fl(a·b).
- * Dekker 1971 mul12 with Veltkamp splitting; valid while |a|, |b| < 2^996.
- */
-function twoProductError(a: number, b: number, p: number): number {
-  let c = SPLITTER * a;
-  const ah = c - (c - a), al = a - ah;
-  c = SPLITTER * b;
-  const bh = c - (c - b), bl = b - bh;
-  return ((ah * bh - p) + ah * bl + al * bh) + al * bl;
-}
 
 /** Options of {@link DecimalParser}. */
 export interface DecimalParserOptions {
@@ -190,13 +178,13 @@ export class DecimalParser {
     if (k >= 0) {
       const p = POW10[k];
       hi = m * p;
-      if (this.wantLo) lo = twoProductError(m, p, hi);
+      if (this.wantLo) lo = productError(m, p, hi);
     } else {
       const p = POW10[-k];
       hi = m / p;
       if (this.wantLo) {
         const ph = hi * p;
-        const r = (m - ph) - twoProductError(hi, p, ph);
+        const r = (m - ph) - productError(hi, p, ph);
         lo = r / p;
       }
     }

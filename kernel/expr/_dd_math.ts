@@ -6,7 +6,8 @@
  * Sources:
  * - TwoSum (Knuth, *TAOCP* vol. 2, §4.2.2), FastTwoSum and TwoProduct by
  *   Veltkamp splitting (Dekker 1971, "A floating-point technique for
- *   extending the available precision", Numer. Math. 18).
+ *   extending the available precision", Numer. Math. 18), from their one
+ *   home `kernel/dd.ts`.
  * - Addition (accurate two-TwoSum form), multiplication, division (three
  *   partial quotients), square root (one Newton step from 1/√hi) and exp
  *   (reduction by ln 2 and by 2⁹, Taylor series, squaring back) as in the QD
@@ -30,89 +31,15 @@
  *
  * @module
  */
+import { addDD as add, divDD as div, mulDD as mul, productError, sqrtDD as sqrt } from "../dd.ts";
 
 /** Holds one double-double result: `[hi, lo]`. */
 export type Out = Float64Array;
 
-const SPLITTER = 134217729; // 2^27 + 1
-const SPLIT_LIMIT = 2 ** 996;
-
-/** a·b = p + e exactly: returns e given p = fl(a·b) (|a|, |b| ≤ 2^996). */
-export function productError(a: number, b: number, p: number): number {
-  let c = SPLITTER * a;
-  const ah = c - (c - a), al = a - ah;
-  c = SPLITTER * b;
-  const bh = c - (c - b), bl = b - bh;
-  return ((ah * bh - p) + ah * bl + al * bh) + al * bl;
-}
-
-/** Normalises hi + lo into r, with lo = 0 when hi is not finite. */
-function put(r: Out, s: number, e: number): void {
-  const h = s + e;
-  r[0] = h;
-  r[1] = Number.isFinite(h) ? e - (h - s) : 0;
-}
-
-/** r = a + b. */
-export function add(ah: number, al: number, bh: number, bl: number, r: Out): void {
-  let s = ah + bh;
-  if (!Number.isFinite(s)) return void (r[0] = s, r[1] = 0);
-  let v = s - ah;
-  const e = (ah - (s - v)) + (bh - v);
-  let t = al + bl;
-  v = t - al;
-  const f = (al - (t - v)) + (bl - v);
-  const s1 = s + (e + t);
-  const e1 = (e + t) - (s1 - s);
-  s = s1 + (e1 + f);
-  t = (e1 + f) - (s - s1);
-  r[0] = s;
-  r[1] = Number.isFinite(s) ? t : 0;
-}
-
-/** r = a·b. */
-export function mul(ah: number, al: number, bh: number, bl: number, r: Out): void {
-  const p = ah * bh;
-  if (!Number.isFinite(p)) return void (r[0] = p, r[1] = 0);
-  if (Math.abs(ah) > SPLIT_LIMIT || Math.abs(bh) > SPLIT_LIMIT) {
-    // Scale one factor down by 2^−64 (exact) so the split cannot overflow.
-    const big = Math.abs(ah) > SPLIT_LIMIT;
-    const k = 2 ** -64;
-    mul(big ? ah * k : ah, big ? al * k : al, big ? bh : bh * k, big ? bl : bl * k, r);
-    return void (r[0] *= 2 ** 64, r[1] *= 2 ** 64);
-  }
-  put(r, p, productError(ah, bh, p) + (ah * bl + al * bh));
-}
+// + − × ÷ √ on parts are the home's (kernel/dd.ts), under the names this file's routines use.
+export { add, div, mul, sqrt };
 
 const T = new Float64Array(2);
-
-/** r = a/b (±Infinity or NaN as doubles would give). */
-export function div(ah: number, al: number, bh: number, bl: number, r: Out): void {
-  const q1 = ah / bh;
-  if (!Number.isFinite(q1) || q1 === 0) return void (r[0] = q1, r[1] = 0);
-  mul(bh, bl, q1, 0, T);
-  add(ah, al, -T[0], -T[1], T);
-  const rh = T[0], rl = T[1];
-  const q2 = rh / bh;
-  mul(bh, bl, q2, 0, T);
-  add(rh, rl, -T[0], -T[1], T);
-  const q3 = T[0] / bh;
-  const s = q1 + q2;
-  add(s, q2 - (s - q1), q3, 0, r);
-}
-
-/** r = √a (NaN below 0). */
-export function sqrt(ah: number, al: number, r: Out): void {
-  if (ah <= 0 || !Number.isFinite(ah)) {
-    return void (r[0] = ah === 0 ? 0 : ah === Infinity ? Infinity : NaN, r[1] = 0);
-  }
-  const x = 1 / Math.sqrt(ah);
-  const ax = ah * x;
-  const e = productError(ax, ax, ax * ax);
-  add(ah, al, -(ax * ax), -e, T);
-  const d = T[0] * x * 0.5;
-  put(r, ax, d);
-}
 
 /** r = a^k for an integer k, by binary powering (exact products in DD). */
 export function powInt(ah: number, al: number, k: number, r: Out): void {

@@ -7,6 +7,7 @@
  *  Expr ──simplify / derivative / format / freeNames / isLinearIn
  *  Expr ──compile (row loop) / compileScalar──▶ JavaScript function
  *  Expr ──compileDD──▶ row-wise evaluator in double-double (hi + lo arrays)
+ *  response ──responseInverse──▶ y = g⁻¹(z) for a transformed response
  * ```
  *
  * Functions: `exp log log10 sqrt abs sin cos tan atan tanh` (one argument),
@@ -55,3 +56,4 @@ export { compile, type Compiled } from "./compile.ts";
 export { compileScalar } from "./compile_scalar.ts";
 export { compileDD, type CompiledDD } from "./compile_dd.ts";
 export { isLinearIn } from "./is_linear_in.ts";
+export { type NoInverse, type ResponseInverse, responseInverse } from "./response_inverse.ts";

@@ -40,6 +40,7 @@ export {
   ddSumOfSquares,
   type DDVector,
 } from "./dd_least_squares.ts";
+// Double-double building blocks live in kernel/dd.ts; offered here as before for the solvers.
 export {
   type DD,
   dd,
@@ -51,4 +52,4 @@ export {
   split,
   twoProduct,
   twoSum,
-} from "./dd.ts";
+} from "../dd.ts";

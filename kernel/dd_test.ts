@@ -1,6 +1,19 @@
 import assert from "node:assert/strict";
-import { type DD, ddAdd, ddDiv, ddMul, ddSqrt, split, twoProduct, twoSum } from "./dd.ts";
-import { seededRandom } from "../random.ts";
+import {
+  type DD,
+  ddAdd,
+  ddDiv,
+  ddMul,
+  ddSqrt,
+  dyadic,
+  fastSumError,
+  productError,
+  split,
+  sumError,
+  twoProduct,
+  twoSum,
+} from "./dd.ts";
+import { seededRandom } from "./random.ts";
 
 // ---------------------------------------------------------------------------
 // Exact dyadic rationals m·2^e (every double is one) for reference values.
@@ -9,14 +22,9 @@ interface Exact {
   m: bigint;
   e: number;
 }
-const F = new Float64Array(1), U = new BigUint64Array(F.buffer);
 function exact(x: number): Exact {
-  F[0] = x;
-  const bits = U[0];
-  const sign = bits >> 63n ? -1n : 1n;
-  const be = Number((bits >> 52n) & 0x7ffn);
-  const frac = bits & ((1n << 52n) - 1n);
-  return be === 0 ? { m: sign * frac, e: -1074 } : { m: sign * (frac | (1n << 52n)), e: be - 1075 };
+  const [m, e] = dyadic(x);
+  return { m, e };
 }
 function add(a: Exact, b: Exact): Exact {
   const e = Math.min(a.e, b.e);
@@ -27,6 +35,7 @@ function mul(a: Exact, b: Exact): Exact {
 }
 const exactDD = (x: DD) => add(exact(x[0]), exact(x[1]));
 const isZero = (a: Exact) => a.m === 0n;
+const neg = (a: Exact): Exact => ({ m: -a.m, e: a.e });
 /** |a − b| / |b| as a double (b ≠ 0). */
 function relErr(a: Exact, b: Exact): number {
   const d = add(a, { m: -b.m, e: b.e });
@@ -61,6 +70,31 @@ Deno.test("twoSum() and twoProduct() are error-free: s + e equals a + b, p + e e
   // Large operands go through the pre-scaling path.
   const p = twoProduct(2 ** 1000 * 1.5, 1 + 2 ** -40);
   assert.equal(relErr(exactDD(p), mul(exact(2 ** 1000 * 1.5), exact(1 + 2 ** -40))), 0);
+});
+
+Deno.test("sumError(), fastSumError() and productError() give the exact error of s and p", () => {
+  // Same theorems (Knuth TAOCP vol. 2 §4.2.2; Dekker 1971), checked in exact integers.
+  const sumExact = (a: number, b: number, s: number, e: number) =>
+    isZero(add(add(exact(s), exact(e)), neg(add(exact(a), exact(b)))));
+  for (let k = 0; k < 2000; k++) {
+    const a = sample(), b = sample();
+    assert.ok(sumExact(a, b, a + b, sumError(a, b, a + b)), `sum ${a} ${b}`);
+    const [big, small] = Math.abs(a) >= Math.abs(b) ? [a, b] : [b, a];
+    assert.ok(sumExact(big, small, a + b, fastSumError(big, small, a + b)), `fast ${a} ${b}`);
+    const p = a * b, e = productError(a, b, p);
+    assert.ok(
+      isZero(add(add(exact(p), exact(e)), neg(mul(exact(a), exact(b))))),
+      `product ${a} ${b}`,
+    );
+  }
+});
+
+Deno.test("dyadic() reads the exact value m·2^e of normal and subnormal doubles", () => {
+  // Exact arithmetic: 0.1 is 0x1.999999999999ap−4 = 7205759403792794·2^−56 in binary64; 2^−1074 is
+  // the least subnormal.
+  assert.deepEqual(dyadic(0.1), [7205759403792794n, -56]);
+  assert.deepEqual(dyadic(-(2 ** -1074)), [-1n, -1074]);
+  assert.deepEqual(dyadic(0), [0n, -1074]);
 });
 
 Deno.test("split() gives halves that add up exactly and fit in 26 bits", () => {
