@@ -18,6 +18,13 @@
  * - read off the micro-benchmarks: a 1,000,000 × 10 linear fit on the fast
  *   double path, a 10,000 × 10 fit on the double-double path, and nonlinear
  *   fits per second for y = a·exp(−b·x) + c with n = 100.
+ * - `worker_startup`: the compute worker from `new Worker` to its first
+ *   answers (`ready`, target under 100 ms; `first_run`, a three-row table),
+ *   and `plumb_run_cold`: a whole `plumb run` of the demo as a new process,
+ *   target under 500 ms; min/median/max (test/bench/startup.ts).
+ *
+ * `deno task bench --startup` measures only the two start-up figures and
+ * prints them (a few seconds; bench-report.json is left as it is).
  *
  * @module
  */
@@ -26,6 +33,7 @@ import { Session } from "../../kernel/session/session.ts";
 import { fakeRegistry } from "../../kernel/session/testdata/fake_kinds.ts";
 import { VERSION } from "../../kernel/version.ts";
 import { updateLatency } from "../e2e/latency_bench.ts";
+import { startupFigures } from "./startup.ts";
 
 const root = new URL("../../", import.meta.url);
 
@@ -124,8 +132,14 @@ function fromBenches(benches: Bench[]) {
   };
 }
 
-// The browser figures first: the ingest below leaves this process with a heap of
-// hundreds of MB whose collection would run beside the page and the server.
+if (Deno.args.includes("--startup")) {
+  console.log(JSON.stringify(await startupFigures(root), null, 2));
+  Deno.exit(0);
+}
+
+// The start-up figures and the browser figures first: the ingest below leaves this
+// process with a heap of hundreds of MB whose collection would run beside them.
+const startup = await startupFigures(root);
 const updateTop = await updateLatency();
 const updateCharts = await updateLatency(20, "charts");
 const benches = (await microBenches()) as Bench[];
@@ -139,6 +153,7 @@ const report = {
     schedule_chain_200: await scheduleChain(),
     update_latency: updateTop,
     update_latency_charts_in_view: updateCharts,
+    ...startup,
     ...fromBenches(benches),
   },
   benches,
