@@ -71,8 +71,14 @@ export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
     vif: varianceInflation(design, fit.parameters, weights),
     condition_number: conditionNumber(design, weights),
     durbin_watson: dw?.statistic ?? null,
-    durbin_watson_test: dw &&
-      { expected: dw.expected, variance: dw.variance, z: dw.z, p_value: dw.p_value },
+    durbin_watson_test: dw && {
+      expected: dw.expected,
+      variance: dw.variance,
+      z: dw.z,
+      p_value: dw.p_value,
+      p_value_negative: dw.p_value_negative,
+      distribution: dw.distribution,
+    },
     breusch_pagan: breuschPagan(residuals, design, weights, spec.varianceTest),
     shapiro_wilk: n >= 3 && n <= 5000 && spread(we) ? shapiroWilk(we) : null,
     jarque_bera: jarqueBera(we),

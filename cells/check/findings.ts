@@ -13,9 +13,10 @@
  * | curvature             | RESET p < α, lack-of-fit p < α, or too few sign runs in x order     |
  * | non-constant-variance | Breusch–Pagan p < α                                                 |
  * | non-normal            | Shapiro–Wilk p < α (Jarque–Bera when n is outside 3..5000)          |
- * | autocorrelation       | Durbin–Watson p < α against positive correlation (normal approx.,   |
- * |                       | exact moments),                                                     |
- * |                       | or too few sign runs in row order (several predictors)              |
+ * | autocorrelation       | Durbin–Watson p < α against positive correlation (exact law under   |
+ * |                       | the fit's design), or too few sign runs in row order                 |
+ * | alternation           | Durbin–Watson p < α against negative correlation, or too many sign  |
+ * |                       | runs in row order (neighbouring residuals alternate in sign)        |
  * | collinearity          | VIF > 10                                                            |
  *
  * α is the check's `significance` (default 0.05).
@@ -187,12 +188,13 @@ function testFindings(r: Base, add: Add): void {
       } on ${l.df1} and ${l.df2} df, ${formatPPhrase(l.p_value)} ${at}.`,
     );
   }
-  if (r.runs && r.runs.z < 0 && r.runs.p_value < a) {
+  if (r.runs && r.runs.p_value < a && (r.runs.z < 0 || r.runs.order !== "x")) {
     const where = r.runs.order === "x" ? "in order of the predictor" : "in row order";
+    const few = r.runs.z < 0;
     add(
-      r.runs.order === "x" ? "curvature" : "autocorrelation",
+      !few ? "alternation" : r.runs.order === "x" ? "curvature" : "autocorrelation",
       [],
-      `Residual signs ${where} form ${r.runs.runs} runs where ${
+      `Residual signs ${where} form ${few ? "too few" : "too many"} runs: ${r.runs.runs} where ${
         fmt(r.runs.expected)
       } are expected (runs test, ${formatPPhrase(r.runs.p_value)} ${at}).`,
     );
@@ -208,19 +210,7 @@ function testFindings(r: Base, add: Add): void {
     );
   }
   normality(r, add, at);
-  if (r.durbin_watson_test && r.durbin_watson_test.p_value < a) {
-    add(
-      "autocorrelation",
-      [],
-      `Neighbouring residuals in row order are positively correlated: Durbin–Watson ${
-        fmt(r.durbin_watson)
-      } where ${
-        fmt(r.durbin_watson_test.expected)
-      } is expected without correlation (one-sided, normal approximation, ${
-        formatPPhrase(r.durbin_watson_test.p_value)
-      } ${at}).`,
-    );
-  }
+  durbinWatsonFindings(r, add, at, a);
   const vif = Object.entries(r.vif).filter(([, v]) => v === null || v > 10);
   if (vif.length) {
     add(
@@ -264,4 +254,34 @@ function verb(rows: number[]): string {
 
 function cap(s: string): string {
   return s[0].toUpperCase() + s.slice(1);
+}
+
+/** Durbin–Watson in either direction: d low (positive correlation) or high (alternation). */
+function durbinWatsonFindings(
+  r: Base,
+  add: Add,
+  at: string,
+  a: number,
+): void {
+  const t = r.durbin_watson_test;
+  if (!t) return;
+  const law = t.distribution === "exact" ? "exact law for this design" : "beta approximation";
+  const says = (p: number) =>
+    `Durbin–Watson ${fmt(r.durbin_watson)} where ${fmt(t.expected)} is expected without ` +
+    `correlation (one-sided, ${law}, ${formatPPhrase(p)} ${at})`;
+  if (t.p_value < a) {
+    add(
+      "autocorrelation",
+      [],
+      `Neighbouring residuals in row order are positively correlated: ${says(t.p_value)}.`,
+    );
+  } else if (t.p_value_negative < a) {
+    add(
+      "alternation",
+      [],
+      `Neighbouring residuals in row order alternate in sign (negative correlation): ${
+        says(t.p_value_negative)
+      }.`,
+    );
+  }
 }

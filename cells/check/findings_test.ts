@@ -59,3 +59,41 @@ Deno.test("findingsOf() summarises many flagged rows: the count, the rule and th
   );
   match(f[0].message, /row 1 \(0\.06\), row 2 \(0\.059\), .*row 8 \(0\.056\)\.$/);
 });
+
+Deno.test("findingsOf() reports alternation from Durbin–Watson's upper tail and too many runs", () => {
+  // Invented values: d = 3.1 with P(d ≥ 3.1) = 0.004 under the exact law; 19 sign runs where
+  // 11 are expected (two-sided p 0.003) in row order.
+  const r = {
+    ...base(Array(20).fill(0.1), Array(20).fill(0)),
+    durbin_watson: 3.1,
+    durbin_watson_test: {
+      expected: 2.05,
+      variance: 0.17,
+      z: 2.5,
+      p_value: 0.996,
+      p_value_negative: 0.004,
+      distribution: "exact" as const,
+    },
+    runs: {
+      runs: 19,
+      expected: 11,
+      z: 3,
+      p_value: 0.003,
+      positive: 10,
+      negative: 10,
+      order: "rows" as const,
+    },
+  };
+  const f = findingsOf(r);
+  deepEqual(f.map((x) => x.code), ["alternation"], "one finding, its two sentences joined");
+  match(f[0].message, /too many runs: 19 where 11 are expected/);
+  match(f[0].message, /alternate in sign \(negative correlation\): Durbin–Watson 3\.1 .*exact law/);
+  // The lower tail alone makes the positive-correlation finding, not alternation.
+  const low = {
+    ...r,
+    runs: null,
+    durbin_watson: 1.1,
+    durbin_watson_test: { ...r.durbin_watson_test, p_value: 0.004, p_value_negative: 0.996 },
+  };
+  deepEqual(findingsOf(low).map((x) => x.code), ["autocorrelation"]);
+});

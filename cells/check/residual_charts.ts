@@ -27,7 +27,7 @@ import { fitColor, INK } from "../shared/palette.ts";
 import { stackPanels } from "../../ui/charts/_svg.ts";
 import { densityRect } from "../../ui/charts/_density.ts";
 import { density, densityDomains, max } from "../shared/density.ts";
-import { type CheckChartInput, type CheckDensity, DENSE_ROWS, quantileDensity } from "./density.ts";
+import { type CheckChartInput, DENSE_ROWS, quantileDensity } from "./density.ts";
 import type { ChartBins } from "../shared/chart_data.ts";
 
 export { type CheckChartInput, type CheckDensity, checkDensity, DENSE_ROWS } from "./density.ts";

@@ -19,6 +19,7 @@ export interface Finding {
     | "non-constant-variance"
     | "non-normal"
     | "autocorrelation"
+    | "alternation"
     | "collinearity";
   rows: number[];
   message: string;
@@ -43,7 +44,19 @@ export interface CheckResult {
   vif: Record<string, number | null>;
   condition_number: number | null;
   durbin_watson: number | null;
-  durbin_watson_test: { expected: number; variance: number; z: number; p_value: number } | null;
+  /**
+   * The null law of d under this design: `p_value` = P(d ≤ observed) (positive
+   * correlation), `p_value_negative` = P(d ≥ observed) (alternation; addition),
+   * `distribution` "exact" (Imhof 1961) or "beta" (Durbin & Watson 1971; addition).
+   */
+  durbin_watson_test: {
+    expected: number;
+    variance: number;
+    z: number;
+    p_value: number;
+    p_value_negative: number;
+    distribution: "exact" | "beta";
+  } | null;
   breusch_pagan: {
     variant: "koenker" | "original";
     statistic: number;

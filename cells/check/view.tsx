@@ -56,14 +56,18 @@ function testRows(r: CheckResult): TestRow[] {
     {
       name: "Durbin–Watson",
       statistic: fmt(r.durbin_watson),
-      p: r.durbin_watson_test?.p_value ?? null,
-      rule: `${a}, one-sided (normal approx.)`,
+      p: r.durbin_watson_test
+        ? Math.min(r.durbin_watson_test.p_value, r.durbin_watson_test.p_value_negative)
+        : null,
+      rule: `${a}, the smaller one-sided p (${
+        r.durbin_watson_test?.distribution === "beta" ? "beta approx." : "exact"
+      })`,
     },
     {
       name: `Runs (${r.runs?.order === "x" ? "x order" : "row order"})`,
       statistic: r.runs ? String(r.runs.runs) : "—",
       p: r.runs?.p_value ?? null,
-      rule: `too few, ${a}`,
+      rule: r.runs?.order === "x" ? `too few, ${a}` : `too few or too many, ${a}`,
     },
     {
       name: "RESET (ŷ², ŷ³)",

@@ -51,7 +51,7 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
   summary: (out, _spec, leaveOut) => summarizeFit(out, leaveOut),
   line: (r) => `${r.model} · n ${r.n} · R² ${formatR2(r.r2)} · σ ${formatNumber(r.sigma, 3)}`,
   options: FIT_OPTIONS,
-  page: { omit: ["fitted", "residuals", "rows"] },
+  page: { omit: ["fitted", "residuals", "rows", "rows_missing"] },
   template: fitTemplate,
 };
 

@@ -42,6 +42,8 @@ export const tableKind: CellKind<TableSpec, TableOutput, TableResult> = {
   files: (spec) => (spec.from === null ? [] : [{ path: spec.from, option: ["from"] }]),
   run: runTable,
   summary: (out) => summarizeTable(out),
+  // Every kept row with a missing value: up to one entry a row, which no view reads.
+  page: { omit: ["rows_missing"] },
   line: tableLine,
   options: TABLE_OPTIONS,
   columns: (r) => r.columns.map(({ name, type, unit }) => ({ name, type, unit })),

@@ -225,8 +225,13 @@ Deno.test("check cell tells Anscombe's four equal lines apart", async () => {
     assert.equal(fit.r2.toFixed(2), "0.67", `${name} R²`);
   }
   const codes = (s: string) => got[s].check.findings.map((f: { code: string }) => f.code);
-  // I: a straight line with scatter; nothing alarming.
-  assert.deepEqual(codes("I"), [], JSON.stringify(got.I.check.findings));
+  // I: a straight line with scatter; nothing alarming about the line. In this file's row
+  // order (vega-datasets; not a sequence in time) neighbouring residuals alternate in sign:
+  // d = 3.21 (Anscombe's data; the statistic is the reference check's definition), which the
+  // exact law for this design puts at P(d ≥ 3.21) ≈ 0.012, so the alternation finding is
+  // raised, and only it.
+  assert.deepEqual(codes("I"), ["alternation"], JSON.stringify(got.I.check.findings));
+  assert.equal(got.I.check.durbin_watson.toFixed(2), "3.21");
   // II: an exact parabola; the curvature is found.
   assert.ok(codes("II").includes("curvature"), JSON.stringify(got.II.check.findings));
   // III: a line with one point off it (x = 13, y = 12.74, source row 3).

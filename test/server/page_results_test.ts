@@ -33,7 +33,7 @@ Deno.test("Session with page: true gets a fit's result without its per-row array
     equal(f.state, "current");
     const result = f.result as Record<string, unknown>;
     ok(!("residuals" in result) && !("fitted" in result) && !("rows" in result));
-    deepEqual(f.omitted, ["fitted", "residuals", "rows"]);
+    deepEqual(f.omitted, ["fitted", "residuals", "rows", "rows_missing"]);
     ok(typeof result.r2 === "number");
   });
   await withSession(false, async (s) => {
