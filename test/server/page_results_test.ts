@@ -51,7 +51,7 @@ Deno.test("Session with page: true keeps a field an inline value names, without 
     deepEqual(r.ran, []);
     let f = fitOf(r);
     equal((f.result as { residuals: number[] }).residuals.length, 4);
-    deepEqual(f.omitted, ["fitted", "rows"]);
+    deepEqual(f.omitted, ["fitted", "rows", "rows_missing"]);
     equal(s.runs.get("f"), 1);
     r = await s.run(DOC);
     deepEqual(r.ran, []);
