@@ -7,6 +7,7 @@
  * @module
  */
 import type { CellOutput } from "../../kernel/contract/mod.ts";
+import type { DurbinWatsonTest } from "../../kernel/stats/mod.ts";
 
 /** One finding: a code, the source rows it concerns, a plain sentence with evidence and threshold. */
 export interface Finding {
@@ -49,14 +50,7 @@ export interface CheckResult {
    * correlation), `p_value_negative` = P(d ≥ observed) (alternation; addition),
    * `distribution` "exact" (Imhof 1961) or "beta" (Durbin & Watson 1971; addition).
    */
-  durbin_watson_test: {
-    expected: number;
-    variance: number;
-    z: number;
-    p_value: number;
-    p_value_negative: number;
-    distribution: "exact" | "beta";
-  } | null;
+  durbin_watson_test: Omit<DurbinWatsonTest, "statistic"> | null;
   breusch_pagan: {
     variant: "koenker" | "original";
     statistic: number;

@@ -149,6 +149,33 @@ export async function serve(
   return { url, origin: u.origin, token: u.searchParams.get("token") ?? "", dir, doc, close };
 }
 
+/**
+ * Serves a copy of an example and opens a browser on nothing yet; closes both after `fn`,
+ * whatever it throws.
+ *
+ * @param example The folder under `examples/`.
+ * @param docName The document's file name in it.
+ * @param fn The test body, given the server and the browser.
+ * @param prepare Changes to the copy before the server starts.
+ */
+export async function withServedBrowser(
+  example: string,
+  docName: string,
+  fn: (served: Served, b: Session) => Promise<void>,
+  prepare?: (dir: string) => void | Promise<void>,
+): Promise<void> {
+  let served: Served | null = null;
+  let b: Session | null = null;
+  try {
+    served = await serve(example, docName, prepare);
+    b = await openBrowser();
+    await fn(served, b);
+  } finally {
+    await b?.close();
+    await served?.close();
+  }
+}
+
 /** A headless browser with its own profile. */
 export interface Session {
   browser: Browser;

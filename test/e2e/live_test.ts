@@ -13,11 +13,9 @@ import type { RunMessage } from "../../kernel/server/protocol.ts";
 import {
   allCurrent,
   ARTIFACTS,
-  openBrowser,
-  serve,
-  type Served,
   type Session,
   skipWithoutBrowser,
+  withServedBrowser,
 } from "./_harness.ts";
 
 const ignore = skipWithoutBrowser("live workspace");
@@ -103,13 +101,10 @@ Deno.test({
   sanitizeOps: false,
   sanitizeResources: false,
   async fn(t) {
-    let served: Served | null = null;
-    let b: Session | null = null;
-    try {
-      served = await serve("fade", "fade.md", (dir) => {
-        Deno.writeTextFileSync(`${dir}/fade.md`, SIDE, { append: true });
-      });
-      b = await openBrowser();
+    const addSide = (dir: string) => {
+      Deno.writeTextFileSync(`${dir}/fade.md`, SIDE, { append: true });
+    };
+    await withServedBrowser("fade", "fade.md", async (served, b) => {
       const { page } = b;
       const s = served;
 
@@ -248,9 +243,6 @@ Deno.test({
           deepEqual(b!.errors.filter((e) => !e.includes("409")), []);
         },
       );
-    } finally {
-      await b?.close();
-      await served?.close();
-    }
+    }, addSide);
   },
 });

@@ -9,14 +9,7 @@
  */
 import { deepEqual, equal, ok } from "node:assert/strict";
 import { registry } from "../../cells/mod.ts";
-import {
-  allCurrent,
-  openBrowser,
-  serve,
-  type Served,
-  type Session,
-  skipWithoutBrowser,
-} from "./_harness.ts";
+import { allCurrent, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
 
 const ignore = skipWithoutBrowser("add-cell templates");
 
@@ -31,11 +24,7 @@ Deno.test({
   sanitizeOps: false,
   sanitizeResources: false,
   async fn(t) {
-    let served: Served | null = null;
-    let b: Session | null = null;
-    try {
-      served = await serve("fade", "fade.md");
-      b = await openBrowser();
+    await withServedBrowser("fade", "fade.md", async (served, b) => {
       const { page } = b;
       await page.goto(served.url);
       await allCurrent(page);
@@ -89,9 +78,6 @@ Deno.test({
         });
       }
       deepEqual(b.errors, [], "no console errors");
-    } finally {
-      await b?.close();
-      await served?.close();
-    }
+    });
   },
 });
