@@ -15,7 +15,12 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import type { InlineData } from "./spec.ts";
+
+/** Inline data: column names and one list of values per row. */
+export interface InlineData {
+  columns: string[];
+  rows: (number | string | null)[][];
+}
 
 function columnNames(v: unknown): string[] {
   if (!Array.isArray(v) || v.length === 0) {

@@ -31,11 +31,8 @@ import { parseInline } from "./_parse_inline.ts";
 import { parseDerive, parseWhere } from "./_parse_derive.ts";
 import { checkFromPath, parseDecimalOption, parseDelimiter } from "./_parse_source.ts";
 
-/** Inline data: column names and one list of values per row. */
-export interface InlineData {
-  columns: string[];
-  rows: (number | string | null)[][];
-}
+import type { InlineData } from "./_parse_inline.ts";
+export type { InlineData };
 
 /** A `table` cell's normalised options (plain JSON: hashed into the cache key). */
 export interface TableSpec {

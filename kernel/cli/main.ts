@@ -12,24 +12,11 @@
  *
  * @module
  */
-import type { Registry } from "../contract/mod.ts";
+import type { Product } from "./product.ts";
 import { runCommand } from "./run.ts";
 import { serveCommand } from "./serve.ts";
 
-/**
- * What the command line is given by its entry point (the product's is
- * `cells/main.ts`): the kernel knows no kind, so the kinds come from outside.
- */
-export interface Product {
-  /** The compute faces. */
-  registry: Registry;
-  /** The compute worker's entry module (imports the same registry). */
-  workerUrl: URL;
-  /** The entry module itself, which `serve` relaunches with narrowed permissions. */
-  mainUrl: URL;
-  /** The live page's entry module, which `serve` bundles for the browser. */
-  pageUrl: URL;
-}
+export type { Product };
 
 const USAGE = `Plumb: fit models to measurements and judge them
 

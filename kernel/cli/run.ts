@@ -7,7 +7,7 @@ import { dirname } from "node:path";
 import { VERSION } from "../version.ts";
 import { type RunReport, Session } from "../session/session.ts";
 import { formatHuman } from "./format_human.ts";
-import type { Product } from "./main.ts";
+import type { Product } from "./product.ts";
 
 /**
  * The RUN-JSON object of a run (../shared/RUN-JSON.md).

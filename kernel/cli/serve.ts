@@ -21,7 +21,7 @@ import { fileURLToPath as fromFileUrl } from "node:url";
 import { buildBundle, type Bundle, canBundle } from "../server/bundle.ts";
 import { narrowedFlags } from "../server/permissions.ts";
 import { startServer } from "../server/server.ts";
-import type { Product } from "./main.ts";
+import type { Product } from "./product.ts";
 
 const REPO = fromFileUrl(new URL("../../", import.meta.url)).replace(/\/$/, "");
 const USAGE = "Usage: plumb serve <document.md> [--port N] [--host H]";

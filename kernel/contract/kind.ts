@@ -25,7 +25,7 @@
  */
 import type { CellOutput, FileData, FileRef, InputRef, OutputType } from "./values.ts";
 import type { DocSettings } from "./settings.ts";
-import type { OptionDecls } from "./options.ts";
+import type { OptionDecls } from "./option_decl.ts";
 
 /** What `parse` gets: one cell's options and ways to report about them. */
 export interface ParseContext {

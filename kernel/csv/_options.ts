@@ -5,7 +5,24 @@
  * @module
  */
 import { DelimitedError } from "./delimited_error.ts";
-import type { ReadDelimitedOptions } from "./read_delimited.ts";
+
+/** Options of {@link readDelimited}. */
+export interface ReadDelimitedOptions {
+  /** The file's name as the user wrote it, for messages (and `.tsv` detection). */
+  name?: string;
+  /** Field delimiter, one ASCII character; default "\t" for `.tsv`/`.tab`, ";" with a decimal comma, else ",". */
+  delimiter?: string;
+  /** Decimal separator, "." (default) or ",". */
+  decimal?: "." | ",";
+  /** Markers of a missing value besides the empty field; default `["NA", "NaN"]`. */
+  missing?: readonly string[];
+  /** Declared column types, by header name. */
+  types?: Readonly<Record<string, "number" | "text">>;
+  /** Keep decimal corrections while rows × number columns ≤ this; default 4,000,000. */
+  loLimit?: number;
+  /** Called now and then with the fraction of the work done. */
+  onProgress?: (fraction: number) => void;
+}
 
 /** The reader's default missing-value markers (besides the empty field). */
 export const DEFAULT_MISSING: readonly string[] = ["NA", "NaN"];

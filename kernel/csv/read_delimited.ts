@@ -36,23 +36,8 @@ import { NumberPass, TextPass } from "./_passes.ts";
 import { type FieldSink, Scanner } from "./_scanner.ts";
 import { checkHeader, checkTypes, decideTypes } from "./_typing.ts";
 
-/** Options of {@link readDelimited}. */
-export interface ReadDelimitedOptions {
-  /** The file's name as the user wrote it, for messages (and `.tsv` detection). */
-  name?: string;
-  /** Field delimiter, one ASCII character; default "\t" for `.tsv`/`.tab`, ";" with a decimal comma, else ",". */
-  delimiter?: string;
-  /** Decimal separator, "." (default) or ",". */
-  decimal?: "." | ",";
-  /** Markers of a missing value besides the empty field; default `["NA", "NaN"]`. */
-  missing?: readonly string[];
-  /** Declared column types, by header name. */
-  types?: Readonly<Record<string, "number" | "text">>;
-  /** Keep decimal corrections while rows × number columns ≤ this; default 4,000,000. */
-  loLimit?: number;
-  /** Called now and then with the fraction of the work done. */
-  onProgress?: (fraction: number) => void;
-}
+import type { ReadDelimitedOptions } from "./_options.ts";
+export type { ReadDelimitedOptions };
 
 /** A number column read from text. Missing values are NaN. */
 export interface NumberData {
