@@ -113,14 +113,25 @@ export function generate(e: Expr, resolve: (node: IdNode) => Resolved, hoist: bo
     const a = children(n).map(emit);
     let code: string;
     if (n.op === "neg") code = `(- ${a[0]})`;
-    else if (n.op === "call") code = fn(n).js(a);
-    else if (n.op === "^") code = `Math.pow(${a[0]}, ${a[1]})`;
+    else if (n.op === "call") {
+      const info = fn(n);
+      code = info.js(info.namedArgs ? a.map((c, i) => bind(n.args[i], c)) : a);
+    } else if (n.op === "^") code = `Math.pow(${a[0]}, ${a[1]})`;
     else code = `(${a[0]} ${n.op} ${a[1]})`;
     const invariant = hoist && !varies.get(n);
     if (count.get(k)! < 2 && !invariant) return code;
     const name = `${invariant ? "h" : "t"}${named.size}`;
     (invariant ? pre : body).push(`const ${name} = ${code};`);
     named.set(k, name);
+    return name;
+  };
+  /** A name for the value of `n` (whose code is `code`), so code that repeats it computes it once. */
+  const bind = (n: Expr, code: string): string => {
+    if (/^[\w$.]+$/.test(code) || /^\(-[\w.+-]+\)$/.test(code)) return code; // a name or a number
+    const invariant = hoist && !varies.get(n);
+    const name = `${invariant ? "h" : "t"}${named.size}`;
+    (invariant ? pre : body).push(`const ${name} = ${code};`);
+    named.set(key.get(n)!, name);
     return name;
   };
   const result = emit(e);

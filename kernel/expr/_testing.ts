@@ -38,6 +38,8 @@ const REF_FUNCTIONS: Record<string, (...a: number[]) => number> = {
   max: Math.max,
   sign: Math.sign,
   ifpos: (c, t, f) => (c > 0 ? t : f),
+  powlog: (u, v) => (u === 0 && v > 0 ? 0 : u ** v * Math.log(u)),
+  zmul: (a, b) => (a === 0 ? 0 : a * b),
 };
 
 /** Evaluates `e` by walking the tree; `env` gives every identifier but `pi` and `e`. */

@@ -27,7 +27,9 @@
  * Semantics follow {@link compile}: `x^k` with an integer k is binary
  * powering in double-double (exact products, so `x^3` is x·x·x to 32
  * digits); other powers are e^(k·ln x), NaN for negative x; `log` of a
- * negative number is NaN; nothing throws. Number literals are taken as the
+ * negative number is NaN; the internal `powlog` and `zmul` keep the limits
+ * of functions.ts (0 at u = 0, 0 where the first factor is 0); nothing
+ * throws. Number literals are taken as the
  * double they parse to (exact for integers and binary fractions such as 0.5;
  * `0.1` carries the 1e−17 error of its double).
  *
@@ -76,6 +78,17 @@ const less = (ah: number, al: number, bh: number, bl: number) => ah < bh || (ah 
 const pick = (r: Float64Array, h: number, l: number) => (r[0] = h, r[1] = l);
 const nan = (r: Float64Array) => (r[0] = NaN, r[1] = 0);
 
+const P = new Float64Array(2);
+
+/** uᵛ·ln u, 0 at u = 0 for v > 0 (its limit; see derivative.ts). */
+function powlog(uh: number, ul: number, vh: number, vl: number, r: Float64Array): void {
+  if (uh === 0 && (vh > 0 || (vh === 0 && vl > 0))) return void (r[0] = 0, r[1] = 0);
+  D.pow(uh, ul, vh, vl, P);
+  const ph = P[0], pl = P[1];
+  D.log(uh, ul, P);
+  D.mul(ph, pl, P[0], P[1], r);
+}
+
 const BINARY: Record<string, Binary> = {
   "+": D.add,
   "-": (ah, al, bh, bl, r) => D.add(ah, al, -bh, -bl, r),
@@ -83,6 +96,8 @@ const BINARY: Record<string, Binary> = {
   "/": D.div,
   "^": D.pow,
   pow: D.pow,
+  powlog,
+  zmul: (ah, al, bh, bl, r) => (ah === 0 ? (r[0] = 0, r[1] = 0) : D.mul(ah, al, bh, bl, r)),
   min: (ah, al, bh, bl, r) =>
     Number.isNaN(ah) || Number.isNaN(bh)
       ? nan(r)

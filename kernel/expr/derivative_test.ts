@@ -1,5 +1,13 @@
 import assert from "node:assert/strict";
-import { derivative, format, freeNames, parseExpression } from "./mod.ts";
+import {
+  compile,
+  compileDD,
+  compileScalar,
+  derivative,
+  format,
+  freeNames,
+  parseExpression,
+} from "./mod.ts";
 import { close, evaluate, rng } from "./_testing.ts";
 
 // Expressions and the box each variable is drawn from (chosen so every
@@ -34,6 +42,9 @@ const CASES: [string, Record<string, Box>][] = [
   ["log(a)*x/(1 + b*x)", { a: "pos", b: "pos", x: "pos" }],
   ["exp(-(x - m)^2/(2*s^2))/(s*sqrt(2*pi))", { x: "any", m: "any", s: "pos" }],
   ["10^(a - b*x) + pow(x, b)", { a: "small", b: "small", x: "pos" }],
+  ["exp(-k*t^n)", { k: "pos", t: "pos", n: "pos" }],
+  ["(t/l)^k + sqrt(a*t)", { t: "pos", l: "pos", k: "pos", a: "pos" }],
+  ["exp(-b/t) + exp(n*log(t))", { b: "pos", t: "pos", n: "small" }],
 ];
 
 Deno.test("derivative() agrees with central finite differences at random points", () => {
@@ -72,13 +83,13 @@ Deno.test("derivative() gives readable simplified forms", () => {
     ["q0 - a*sqrt(cycle)", "a", "-sqrt(cycle)"],
     ["q0 - a*sqrt(cycle)", "q0", "1"],
     ["q0 - a*cycle^b", "a", "-cycle^b"],
-    ["q0 - a*cycle^b", "b", "-a * cycle^b * log(cycle)"],
+    ["q0 - a*cycle^b", "b", "-a * powlog(cycle, b)"],
     ["a*exp(-b*x)", "a", "exp(-b * x)"],
     ["a*exp(-b*x)", "b", "-a * exp(-b * x) * x"],
     ["a*x^2 + b*x + c", "x", "2 * a * x + b"],
     ["a + b*log(x)", "b", "log(x)"],
     ["e^(k*t)", "k", "e^(k * t) * t"],
-    ["x^x", "x", "x^x * (log(x) + 1)"],
+    ["x^x", "x", "powlog(x, x) + x * x^(x - 1)"],
     ["1/x", "x", "-1 / x^2"],
     ["sqrt(x)", "x", "1 / (2 * sqrt(x))"],
     ["cos(w*t)", "w", "-sin(w * t) * t"],
@@ -104,4 +115,52 @@ Deno.test("derivative() writes abs, min and max with sign and ifpos", () => {
 Deno.test("derivative() treats pi and e as constants", () => {
   assert.equal(format(derivative(parseExpression("pi*e*x"), "e")), "0");
   assert.equal(format(derivative(parseExpression("pi*e*x"), "x")), "pi * e");
+});
+
+Deno.test("derivative() takes the limits at a predictor's zero where the textbook form is 0·∞", () => {
+  // Each value at t = 0 is the limit of the derivative as t → 0⁺, by the limit rule named beside
+  // it; all four compilers (tree walk, compile, compileScalar, compileDD) must give it.
+  const cases: [string, string, Record<string, number>, number, string][] = [
+    // −k·e^(−k tⁿ)·tⁿ ln t → 0: tⁿ ln t → 0 for n > 0 (L'Hôpital on ln t / t^(−n): −tⁿ/n → 0).
+    ["exp(-k*t^n)", "n", { k: 0.7, n: 1.5 }, 0, "t^n ln t → 0"],
+    ["exp(-k*t^n)", "n", { k: 0.7, n: 0.5 }, 0, "t^n ln t → 0"],
+    // −tⁿ·e^(−k tⁿ) = 0 at t = 0 exactly (0ⁿ = 0 for n > 0).
+    ["exp(-k*t^n)", "k", { k: 0.7, n: 0.5 }, 0, "0^n = 0"],
+    // (t/l)^k is 0 for every l at t = 0, so its l-derivative is exactly 0 even for k < 1
+    // (where the chain rule's (t/l)^(k−1) is infinite).
+    ["(t/l)^k", "l", { l: 2, k: 0.5 }, 0, "identically 0 in l"],
+    ["(t/l)^k", "k", { l: 2, k: 0.5 }, 0, "u^k ln u → 0"],
+    // sqrt(a·t) is 0 for every a at t = 0: derivative exactly 0.
+    ["sqrt(a*t)", "a", { a: 3 }, 0, "identically 0 in a"],
+    // e^(−b/t)/t → 0 (s = 1/t: s·e^(−bs) → 0 as s → ∞), and e^(n ln t)·ln t = tⁿ ln t → 0.
+    ["exp(-b/t)", "b", { b: 2 }, 0, "e^(−b/t)/t → 0"],
+    ["exp(n*log(t))", "n", { n: 0.5 }, 0, "t^n ln t → 0"],
+  ];
+  for (const [text, name, env, limit, rule] of cases) {
+    const e = parseExpression(text);
+    const d = derivative(e, name);
+    const names = [...Object.keys(env)];
+    const all = { ...env, t: 0 };
+    const what = `d/d${name} ${text} at t = 0 (${rule}): ${format(d)}`;
+    // === rather than Object.is: the sign of a zero derivative does not matter.
+    const v = evaluate(d, all);
+    assert.ok(v === limit, `${what}: ${v}`);
+    const c = compile(d, ["t"], names)([[0]], names.map((k) => env[k]), 1)[0];
+    assert.ok(c === limit, `${what} (compile): ${c}`);
+    const sc = compileScalar(d, ["t", ...names])([0, ...names.map((k) => env[k])]);
+    assert.ok(sc === limit, `${what} (compileScalar): ${sc}`);
+    const dd = compileDD(d, ["t"], names)([[0]], [null], names.map((k) => env[k]), null, 1);
+    assert.ok(dd.hi[0] + dd.lo[0] === limit, `${what} (compileDD): ${dd.hi[0]}`);
+  }
+});
+
+Deno.test("derivative() keeps NaN and infinity where the derivative truly is not finite", () => {
+  // ∂/∂n tⁿ at t = 0 for n ≤ 0 has no finite limit (tⁿ ln t → −∞), and ∂/∂a sqrt(a) at a = 0
+  // is infinite (1/(2√a)): the limits above are taken only where they exist.
+  const at = (text: string, name: string, env: Record<string, number>) =>
+    evaluate(derivative(parseExpression(text), name), env);
+  assert.equal(at("t^n", "n", { t: 0, n: -0.5 }), -Infinity);
+  assert.equal(at("t^n", "n", { t: 0, n: 0 }), -Infinity);
+  assert.equal(at("sqrt(a)", "a", { a: 0 }), Infinity);
+  assert.ok(Number.isNaN(at("t^n", "n", { t: -1, n: 0.5 })));
 });

@@ -13,6 +13,11 @@
  * - `sign(x)`: -1, 0 or 1 (`Math.sign`), the derivative of `abs`.
  * - `ifpos(c, t, f)`: `t` when `c > 0`, otherwise `f` (also when `c` is NaN),
  *   the derivative of `min` and `max`.
+ * - `powlog(u, v)`: uᵛ·ln u, with its limit 0 at u = 0 for v > 0 (where the
+ *   product would be 0·(−∞) = NaN): ∂(uᵛ)/∂v (derivative.ts).
+ * - `zmul(a, b)`: a·b, but 0 where a is 0 even when b is infinite or NaN:
+ *   the chain rule's product du·g(u) when g is singular where du vanishes,
+ *   as `(t/l)^k` at t = 0 (derivative.ts).
  *
  * Semantics are IEEE double arithmetic through `Math`: `log(-1)` is NaN,
  * `exp(1000)` is Infinity; nothing throws.
@@ -32,6 +37,8 @@ export interface FunctionInfo {
   evaluate: (...args: number[]) => number;
   /** JavaScript source for a call, given the source of each argument. */
   js: (args: readonly string[]) => string;
+  /** True when `js` repeats an argument: the code generator then computes each argument once. */
+  namedArgs?: boolean;
 }
 
 function math(name: string, arity: number, fn: (...a: number[]) => number, internal = false) {
@@ -45,6 +52,8 @@ function math(name: string, arity: number, fn: (...a: number[]) => number, inter
 }
 
 const ifpos = (c: number, t: number, f: number) => (c > 0 ? t : f);
+const powlog = (u: number, v: number) => (u === 0 && v > 0 ? 0 : Math.pow(u, v) * Math.log(u));
+const zmul = (a: number, b: number) => (a === 0 ? 0 : a * b);
 
 const ENTRIES: FunctionInfo[] = [
   math("exp", 1, Math.exp),
@@ -67,6 +76,22 @@ const ENTRIES: FunctionInfo[] = [
     internal: true,
     evaluate: ifpos,
     js: (a) => `(${a[0]} > 0 ? ${a[1]} : ${a[2]})`,
+  },
+  {
+    name: "powlog",
+    arity: 2,
+    internal: true,
+    evaluate: powlog,
+    js: ([u, v]) => `(${u} === 0 && ${v} > 0 ? 0 : Math.pow(${u}, ${v}) * Math.log(${u}))`,
+    namedArgs: true,
+  },
+  {
+    name: "zmul",
+    arity: 2,
+    internal: true,
+    evaluate: zmul,
+    js: ([a, b]) => `(${a} === 0 ? 0 : ${a} * ${b})`,
+    namedArgs: true,
   },
 ];
 
