@@ -15,7 +15,12 @@
  * covariance (no standard error) and a warning. Failures are explained: the
  * model not finite at the start (rows), no convergence (iterations, last RSS,
  * gradient norm, parameters running away), a singular Jacobian at the
- * solution (which parameters are not identifiable).
+ * solution (which parameters are not identifiable). A model or derivative
+ * that is not finite is explained by its innermost term that is not, with the
+ * rows and the values of its columns there (`log(t) is not finite at rows 1,
+ * 12 (t = 0)`); start values are blamed only when that term uses a parameter.
+ * Derivatives keep their limits at a predictor's zero (kernel/expr
+ * derivative.ts), so `exp(-k*t^n)` fits rows with t = 0.
  *
  * @module
  */
@@ -37,7 +42,7 @@ import {
   polish,
 } from "../../kernel/optim/mod.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";
-import { rowList } from "../shared/rows.ts";
+import { notFiniteError, notFinitePhrase, singularError } from "./_offsets.ts";
 
 /** Correlation above which a pair of estimates is named in a warning (common practice, no source). */
 export const CORRELATION_WARNING = 0.95;
@@ -81,7 +86,7 @@ export function solveNonlinear(problem: FitProblem): FitSolution {
   const wjac = jac.map((v, k) => v * fns.sqrtW[k % problem.n]);
   const free = params.map((_, j) => j).filter((j) => !atBound[j]);
   const cov = freeCovariance(problem.n, p, wjac, free);
-  if (cov.unidentifiable.length > 0) throw singular(problem, cov.unidentifiable);
+  if (cov.unidentifiable.length > 0) throw singularError(problem, cov.unidentifiable, wjac);
   warnCorrelated(problem, cov.unscaled);
   warnAtBound(problem, atBound, x, lower);
   const design = params.map((_, j) => jac.slice(j * problem.n, (j + 1) * problem.n));
@@ -168,27 +173,9 @@ function fromStart(
   lower: Float64Array,
   upper: Float64Array,
 ): LmderResult {
-  const f = fns.f(x0);
-  const bad: number[] = [];
-  for (let i = 0; i < problem.n; i++) if (!Number.isFinite(f[i])) bad.push(problem.rows[i]);
-  if (bad.length > 0) {
-    throw new CellError(
-      `Cannot fit "${problem.name}": the model is not finite at the start values (${
-        startText(problem, x0)
-      }) in ${rowList(bad)}: choose other start values`,
-      ["start"],
-    );
-  }
-  const r = lmder(fns.problem, x0, { lower, upper });
-  if (r.info === "jacobian-not-finite" && r.iterations === 0) {
-    throw new CellError(
-      `Cannot fit "${problem.name}": the model's derivatives are not finite at the start values (${
-        startText(problem, x0)
-      }): choose other start values`,
-      ["start"],
-    );
-  }
-  return r;
+  const nf = fns.notFinite(x0);
+  if (nf !== null) throw notFiniteError(problem, nf, startText(problem, x0));
+  return lmder(fns.problem, x0, { lower, upper });
 }
 
 function searchStarts(
@@ -203,6 +190,8 @@ function searchStarts(
   const r = multiStart(fns.problem, x0, { seed, lower, upper, project: fns.project });
   const missing = params.filter((_, j) => Number.isNaN(x0[j]));
   if (r === null) {
+    const nf = fns.notFinite(x0.map((v, j) => Number.isNaN(v) ? clamp(1, lower[j], upper[j]) : v));
+    if (nf !== null && !nf.usesParameters) throw notFiniteError(problem, nf, null);
     throw new CellError(
       `Cannot fit "${problem.name}": no start values found for ${
         quotedList(missing)
@@ -217,6 +206,8 @@ function searchStarts(
   );
   return r;
 }
+
+const clamp = (v: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, v));
 
 function startText(problem: FitProblem, x: Float64Array): string {
   return problem.model.parameters.map((k, j) => `${k} = ${x[j]}`).join(", ");
@@ -247,7 +238,12 @@ function notConverged(
     Math.abs(run.x[j]) > 1e6 ||
     (Number.isFinite(x0[j]) && x0[j] !== 0 && Math.abs(run.x[j] / x0[j]) >= 1e3)
   );
-  const why = run.info === "jacobian-not-finite"
+  const nf = run.info === "jacobian-not-finite" ? fns.notFinite(run.x) : null;
+  const why = nf !== null
+    ? `the model's derivative by "${nf.derivativeBy}" became non-finite: ${
+      notFinitePhrase(nf, problem)
+    }`
+    : run.info === "jacobian-not-finite"
     ? "the model's derivatives became non-finite"
     : run.info === "maxfev"
     ? `the limit of ${run.nfev} model evaluations was reached`
@@ -262,18 +258,6 @@ function notConverged(
       fmt(run.fnorm ** 2)
     }, gradient norm ${fmt(g)}${runaway}`,
     Object.keys(problem.start).length > 0 ? ["start"] : ["model"],
-  );
-}
-
-function singular(problem: FitProblem, idx: number[]): CellError {
-  const names = idx.map((j) => problem.model.parameters[j]);
-  return new CellError(
-    `Cannot fit "${problem.name}": the Jacobian is singular at the solution: ${quotedList(names)} ${
-      names.length === 1 ? "is" : "are"
-    } not identifiable from these data (${
-      names.length === 1 ? "its" : "their"
-    } effect on the model is a combination of the other parameters')`,
-    ["model"],
   );
 }
 

@@ -35,13 +35,13 @@ const xs = [0, 1, 2, 3, 4, 5, 6, 7];
 // Invented data: 3·exp(−0.4x) + 0.5 with a fixed wiggle as "noise" (no source needed).
 const ys = xs.map((v, i) => 3 * Math.exp(-0.4 * v) + 0.5 + 0.01 * Math.sin(3 * i + 1));
 
-Deno.test("solveNonlinear() refuses a model that overflows at the start, naming the rows", () => {
+Deno.test("solveNonlinear() refuses a model that overflows at the start, naming the term and rows", () => {
   const p = problemOf("y = a*exp(b*x)", [0, 1, 2, 3], [1, 2, 3, 4], { start: { a: 1, b: 1000 } });
   assert.throws(() => solveNonlinear(p), (e: unknown) => {
     assert.ok(e instanceof CellError);
     assert.equal(
       e.message,
-      'Cannot fit "f": the model is not finite at the start values (a = 1, b = 1000) in rows 2, 3, 4: choose other start values',
+      'Cannot fit "f": exp(b * x) is not finite at rows 2, 3, 4 (x = 1, 2, 3) for the start values (a = 1, b = 1000): choose other start values',
     );
     return true;
   });
@@ -166,3 +166,62 @@ for (
     assert.ok(Math.abs(sol.rss / s.residual_sum_of_squares - 1) < 1e-6);
   });
 }
+
+// Invented data with two rows at t = 0 (rows 1 and 12): a stretched exponential and a noise-free
+// copy, for issue 10 item 3 (power laws in a predictor that includes zero).
+const ts = [0, 0.5, 1, 1.5, 2, 3, 4, 5, 6, 8, 10, 0];
+const decay = ts.map((v, i) => Math.exp(-0.7 * v ** 1.5) + 0.002 * Math.sin(3 * i + 1));
+
+Deno.test("solveNonlinear() fits y = exp(-k*t^n) from the true parameters with t = 0 rows", () => {
+  // Before: "the model's derivatives are not finite at the start values (k = 0.7, n = 1.5)",
+  // since ∂/∂n = −k·tⁿ·ln t·e^(−k tⁿ) was 0·(−∞) = NaN at t = 0; its limit is 0 (tⁿ ln t → 0
+  // for n > 0, L'Hôpital), which the derivative now takes.
+  for (const n of [1.5, 0.6]) {
+    const y = ts.map((v) => Math.exp(-0.7 * v ** n));
+    const p = problemOf("y = exp(-k*x^n)", ts, y, { start: { k: 0.7, n } });
+    const s = solveNonlinear(p);
+    // Noise-free data: the true parameters are the exact solution (RSS 0).
+    assert.ok(Math.abs(s.estimates[0] - 0.7) < 1e-12 && Math.abs(s.estimates[1] - n) < 1e-12);
+    // Column of J at the t = 0 rows: 0 for both parameters (0ⁿ = 0; tⁿ ln t → 0).
+    assert.ok(s.design[0][0] === 0 && s.design[1][0] === 0 && s.design[1][11] === 0);
+  }
+  const noisy = solveNonlinear(
+    problemOf("y = exp(-k*x^n)", ts, decay, { start: { k: 0.7, n: 1.5 } }),
+  );
+  assert.ok(noisy.converged && Math.abs(noisy.estimates[1] - 1.5) < 0.05, `${noisy.estimates}`);
+  // Without start values the multi-start search reaches the same fit.
+  const found = solveNonlinear(problemOf("y = exp(-k*x^n)", ts, decay));
+  assert.ok(Math.abs(found.estimates[1] - noisy.estimates[1]) < 1e-8, `${found.estimates}`);
+});
+
+Deno.test("solveNonlinear() names the term and rows that are not finite, not the start values", () => {
+  const p = problemOf("y = a*exp(-k*x) + b*log(x)", ts, decay, { start: { a: 1, k: 1, b: 0 } });
+  assert.throws(() => solveNonlinear(p), (e: unknown) => {
+    assert.ok(e instanceof CellError);
+    assert.equal(
+      e.message,
+      'Cannot fit "f": log(x) is not finite at rows 1, 12 (x = 0): leave those rows out or change the model',
+    );
+    assert.deepEqual(e.path, ["model"]);
+    assert.equal(e.offset, "y = a*exp(-k*x) + b*".length);
+    return true;
+  });
+  // The same without start values (every multi-start sample fails on those rows).
+  assert.throws(
+    () => solveNonlinear(problemOf("y = a*exp(-k*x) + b*log(x)", ts, decay)),
+    { message: /^Cannot fit "f": log\(x\) is not finite at rows 1, 12 \(x = 0\)/ },
+  );
+  // A derivative: ∂/∂c of a·√(x − c) is infinite where x = c; other start values can help.
+  const q = problemOf("y = a*sqrt(x - c)", [1, 2, 3, 4, 5], [0, 1, 1.4, 1.7, 2], {
+    start: { a: 1, c: 1 },
+  });
+  assert.throws(() => solveNonlinear(q), (e: unknown) => {
+    assert.ok(e instanceof CellError);
+    assert.equal(
+      e.message,
+      'Cannot fit "f": the model\'s derivative by "c" is not finite for the start values (a = 1, c = 1): 1 / (2 * sqrt(x - c)) is not finite at row 1 (x = 1): choose other start values',
+    );
+    assert.deepEqual(e.path, ["start"]);
+    return true;
+  });
+});

@@ -7,14 +7,17 @@
  *  Expr ──simplify / derivative / format / freeNames / isLinearIn
  *  Expr ──compile (row loop) / compileScalar──▶ JavaScript function
  *  Expr ──compileDD──▶ row-wise evaluator in double-double (hi + lo arrays)
+ *  Expr ──nonFiniteTerm──▶ the innermost part not finite, and its rows
  *  response ──responseInverse──▶ y = g⁻¹(z) for a transformed response
  * ```
  *
  * Functions: `exp log log10 sqrt abs sin cos tan atan tanh` (one argument),
  * `pow min max` (two); constants `pi e`; operators `+ - * / ^` with `^`
  * right-associative and binding tighter than unary minus. Derivatives are
- * written with two internal functions, `sign` and `ifpos` (see
- * derivative.ts). New functions are added to the table in functions.ts.
+ * written with four internal functions, `sign`, `ifpos`, `powlog` and
+ * `zmul` (see derivative.ts: the last two keep the limits at a predictor's
+ * zero). New functions are added to the table in functions.ts.
+ * {@link nonFiniteTerm} finds the part of a tree that is not finite, and where.
  *
  * Shorthands, on the right side of a model only (`_shorthands.ts`), expand
  * into explicit terms in {@link parseModel}:
@@ -56,4 +59,5 @@ export { compile, type Compiled } from "./compile.ts";
 export { compileScalar } from "./compile_scalar.ts";
 export { compileDD, type CompiledDD } from "./compile_dd.ts";
 export { isLinearIn } from "./is_linear_in.ts";
+export { type NonFiniteTerm, nonFiniteTerm } from "./non_finite_term.ts";
 export { type NoInverse, type ResponseInverse, responseInverse } from "./response_inverse.ts";

@@ -43,4 +43,9 @@ export {
 export { covar, type Covariance } from "./covar.ts";
 export { polish, type Polished, type PolishProblem } from "./polish.ts";
 export { multiStart, type MultiStartOptions, type MultiStartResult } from "./multi_start.ts";
-export { type ModelData, type ModelFunctions, modelFunctions } from "./model_functions.ts";
+export {
+  type ModelData,
+  type ModelFunctions,
+  modelFunctions,
+  type NotFinite,
+} from "./model_functions.ts";

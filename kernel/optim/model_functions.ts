@@ -16,9 +16,12 @@ import {
   type Compiled,
   compileDD,
   derivative,
+  type Expr,
+  format,
   freeNames,
   isLinearIn,
   type Model,
+  nonFiniteTerm,
 } from "../expr/mod.ts";
 import type { LeastSquaresProblem } from "./lmder.ts";
 import type { PolishProblem } from "./polish.ts";
@@ -45,6 +48,22 @@ export interface ModelData {
   weights?: Float64Array | null;
 }
 
+/** Where the model, or else one of its derivatives, is not finite at θ (for messages). */
+export interface NotFinite {
+  /** The parameter whose derivative is not finite; absent when the model itself is not. */
+  derivativeBy?: string;
+  /** The innermost subexpression that is not finite there, as text (`log(t)`). */
+  term: string;
+  /** Its position in the model's text (meaningful when `derivativeBy` is absent). */
+  start: number;
+  /** Row indexes (0-based, ascending) where it is not finite. */
+  rows: number[];
+  /** The columns the subexpression uses. */
+  columns: string[];
+  /** Whether it uses a parameter (so other start values could help). */
+  usesParameters: boolean;
+}
+
 /** What the optimizer and the polishing call. */
 export interface ModelFunctions {
   /** F = √w·(f − y) and √w·∂f/∂θ (weighted rows; w = 1 without weights). */
@@ -64,6 +83,8 @@ export interface ModelFunctions {
   project?: (x: Float64Array) => boolean;
   /** ‖Jᵀ(y − f)‖ at θ. */
   gradientNorm(x: Float64Array): number;
+  /** Where f, or else ∂f/∂θ, is not finite at θ; null when both are finite at every row. */
+  notFinite(x: Float64Array): NotFinite | null;
 }
 
 /**
@@ -86,9 +107,8 @@ export function modelFunctions(data: ModelData): ModelFunctions {
   const { model, n, columns, y } = data;
   const params = model.parameters, p = params.length;
   const fc = compile(model.rhs, model.columns, params);
-  const dc: Compiled[] = params.map((k) =>
-    compile(derivative(model.rhs, k), model.columns, params)
-  );
+  const trees = params.map((k) => derivative(model.rhs, k));
+  const dc: Compiled[] = trees.map((d) => compile(d, model.columns, params));
   const jac = (x: Float64Array, out: Float64Array) => {
     for (let j = 0; j < p; j++) dc[j](columns, x, n, out.subarray(j * n, (j + 1) * n));
   };
@@ -136,7 +156,28 @@ export function modelFunctions(data: ModelData): ModelFunctions {
       }
       return Math.sqrt(s);
     },
+    notFinite: (x) => whereNotFinite(data, trees, x),
   };
+}
+
+/** The model, then each derivative in parameter order: the first not finite somewhere. */
+function whereNotFinite(data: ModelData, trees: Expr[], x: Float64Array): NotFinite | null {
+  const { model, n, columns } = data;
+  const params = model.parameters;
+  const look = [model.rhs, ...trees];
+  for (let k = 0; k < look.length; k++) {
+    const bad = nonFiniteTerm(look[k], model.columns, params, columns, x, n);
+    if (bad === null) continue;
+    return {
+      ...(k > 0 ? { derivativeBy: params[k - 1] } : {}),
+      term: format(bad.term),
+      start: bad.term.start,
+      rows: bad.rows,
+      columns: model.columns.filter((c) => bad.names.has(c)),
+      usesParameters: params.some((p) => bad.names.has(p)),
+    };
+  }
+  return null;
 }
 
 /** y − f(θ): in double-double from the printed data when corrections exist, else in double. */
