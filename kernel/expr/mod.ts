@@ -7,7 +7,6 @@
  *  Expr ──simplify / derivative / format / freeNames / isLinearIn
  *  Expr ──compile (row loop) / compileScalar──▶ JavaScript function
  *  Expr ──compileDD──▶ row-wise evaluator in double-double (hi + lo arrays)
- *  Expr ──nonFiniteTerm──▶ the innermost part not finite, and its rows
  *  response ──responseInverse──▶ y = g⁻¹(z) for a transformed response
  * ```
  *
@@ -17,7 +16,6 @@
  * written with four internal functions, `sign`, `ifpos`, `powlog` and
  * `zmul` (see derivative.ts: the last two keep the limits at a predictor's
  * zero). New functions are added to the table in functions.ts.
- * {@link nonFiniteTerm} finds the part of a tree that is not finite, and where.
  *
  * Shorthands, on the right side of a model only (`_shorthands.ts`), expand
  * into explicit terms in {@link parseModel}:
@@ -59,5 +57,4 @@ export { compile, type Compiled } from "./compile.ts";
 export { compileScalar } from "./compile_scalar.ts";
 export { compileDD, type CompiledDD } from "./compile_dd.ts";
 export { isLinearIn } from "./is_linear_in.ts";
-export { type NonFiniteTerm, nonFiniteTerm } from "./non_finite_term.ts";
 export { type NoInverse, type ResponseInverse, responseInverse } from "./response_inverse.ts";

@@ -21,7 +21,6 @@ import {
   freeNames,
   isLinearIn,
   type Model,
-  nonFiniteTerm,
 } from "../expr/mod.ts";
 import type { LeastSquaresProblem } from "./lmder.ts";
 import type { PolishProblem } from "./polish.ts";
@@ -160,13 +159,50 @@ export function modelFunctions(data: ModelData): ModelFunctions {
   };
 }
 
+/**
+ * The innermost subexpression of `e` that is not finite at rows where `e` is not: descend into
+ * the first operand not finite at some of those rows, keeping only them, and stop at the node
+ * whose operands are all finite there (it made the NaN or infinity: `log(0)`, `exp(1000)`).
+ * Common practice, no source. The error path only: each node visited is compiled once.
+ */
+function innermostNotFinite(
+  e: Expr,
+  columns: readonly string[],
+  params: readonly string[],
+  cols: readonly ArrayLike<number>[],
+  values: ArrayLike<number>,
+  n: number,
+): { term: Expr; rows: number[]; names: Set<string> } | null {
+  const at = (node: Expr) => compile(node, columns, params)(cols, values, n);
+  const bad = (v: Float64Array, rows: readonly number[]) =>
+    rows.filter((i) => !Number.isFinite(v[i]));
+  const rows = bad(at(e), Array.from({ length: n }, (_, i) => i));
+  if (rows.length === 0) return null;
+  let node = e, where = rows;
+  for (;;) {
+    const next = operands(node).map((o) => ({ o, rows: bad(at(o), where) }))
+      .find((c) => c.rows.length > 0);
+    if (next === undefined) break;
+    node = next.o;
+    where = next.rows;
+  }
+  return { term: node, rows: where, names: freeNames(node) };
+}
+
+function operands(e: Expr): Expr[] {
+  if (e.op === "num" || e.op === "id") return [];
+  if (e.op === "neg") return [e.arg];
+  if (e.op === "call") return e.args;
+  return [e.left, e.right];
+}
+
 /** The model, then each derivative in parameter order: the first not finite somewhere. */
 function whereNotFinite(data: ModelData, trees: Expr[], x: Float64Array): NotFinite | null {
   const { model, n, columns } = data;
   const params = model.parameters;
   const look = [model.rhs, ...trees];
   for (let k = 0; k < look.length; k++) {
-    const bad = nonFiniteTerm(look[k], model.columns, params, columns, x, n);
+    const bad = innermostNotFinite(look[k], model.columns, params, columns, x, n);
     if (bad === null) continue;
     return {
       ...(k > 0 ? { derivativeBy: params[k - 1] } : {}),

@@ -49,3 +49,26 @@ Deno.test("modelFunctions().notFinite() names the model's term, else a derivativ
   assert.deepEqual(d?.rows, [0]); // t = c: ∂/∂c = a/(2√(t − c)) is infinite
   assert.equal(d?.usesParameters, true);
 });
+
+Deno.test("modelFunctions().notFinite() names the innermost term: the exp that overflows, the division by 0", () => {
+  const at = (text: string, x: number[]) => {
+    const fns = modelFunctions({
+      model: parseModel(text, ["t", "y"]),
+      n: 4,
+      columns: [Float64Array.from([0, 1, 2, 0])],
+      y: new Float64Array(4),
+    });
+    const r = fns.notFinite(Float64Array.from(x));
+    return r === null ? null : { term: r.term, rows: r.rows, uses: r.usesParameters };
+  };
+  assert.deepEqual(at("y = a*exp(b*t)", [1, 1000]), {
+    term: "exp(b * t)",
+    rows: [1, 2],
+    uses: true,
+  });
+  // Parameters in order of appearance: b = 2, a = 1, so t − a = 0 at row index 1.
+  assert.deepEqual(at("y = b/(t - a)", [2, 1]), { term: "b / (t - a)", rows: [1], uses: true });
+  // t·log(t) is 0·(−∞) in the model itself: the model has no limit, its log is named.
+  assert.deepEqual(at("y = a*t*log(t)", [1]), { term: "log(t)", rows: [0, 3], uses: false });
+  assert.equal(at("y = a*exp(-b*t)", [1, 1]), null);
+});
