@@ -32,13 +32,31 @@
  *   10,000-row fits of test/e2e/latency_bench.ts (κ 4 to 86): estimates,
  *   covariance and RSS agree with the double-double ones to 13–15 digits
  *   (10 on a slope whose value is near zero);
- * - beyond 2e7 the double path alone, whatever the conditioning.
+ * - every other problem takes the double QR and then refines its solution
+ *   (`refineLeastSquares`, kernel/linalg: Björck 1967, residuals in
+ *   double-double from the same data as printed), one or two passes over
+ *   the data. That keeps the double path's speed and the certified digits
+ *   at any number of rows: NIST StRD sets replicated to 20,000 rows gave
+ *   Wampler4 7.0, Wampler5 5.0 and Norris 12.5 digits on the double path
+ *   alone, and at 1,000,000 rows Filip 4.8–6.5, Wampler4 5.9–6.3 and
+ *   Longley 9.4 (before the blocked sums of kernel/linalg/_householder.ts);
+ *   refined, 14 or more (test/reference/strd_linear_test.ts; the
+ *   `certified_million` figure of `deno task bench`). The covariance then
+ *   comes from the double R̃, accurate to about κ·u·√n relative.
  *
  * @module
  */
-import { compileDD, type Expr } from "../../kernel/expr/mod.ts";
-import { ddLeastSquares, ddSumOfSquares, twoSum } from "../../kernel/linalg/mod.ts";
-import type { FitProblem } from "./problem.ts";
+import {
+  ddLeastSquares,
+  type DDRows,
+  ddSumOfSquares,
+  factorOfQR,
+  type LeastSquaresFit,
+  refineLeastSquares,
+  type TriangularFactor,
+} from "../../kernel/linalg/mod.ts";
+import { sumError } from "../../kernel/dd.ts";
+import type { DDColumn } from "./_dd_design.ts";
 
 /** Largest n·p² solved in double-double (10,000 rows × 10 terms is 1e6). */
 export const PRECISE_WORK_LIMIT = 2e7;
@@ -72,22 +90,32 @@ export function usePrecise(n: number, p: number, kappa: number): boolean {
   return work <= PRECISE_WORK_LIMIT && !(kappa <= PRECISE_CONDITION);
 }
 
-/** Results of the double-double path, rounded to doubles. */
+/** Results of a precise path (double-double solve or refinement), rounded to doubles. */
 export interface PreciseLinear {
   estimates: Float64Array;
+  /** Low parts of the estimates (estimate + lo to about 32 digits). */
+  estimatesLo: Float64Array;
   unscaledCovariance: Float64Array;
   fitted: Float64Array;
   residuals: Float64Array;
   rss: number;
   /** TSS from the response in double-double (centred with an intercept); unweighted fits only. */
   tss: number | undefined;
+  /** The triangular factor of the solve (double-double on the double-double path). */
+  factor: TriangularFactor;
+}
+
+/** The response in double-double and the target y − f(x; 0) (the response less any offset). */
+export interface DDResponse {
+  y: DDColumn;
+  target: DDColumn;
 }
 
 /**
- * Solves the problem again in double-double.
+ * Solves the problem again in double-double (`ddLeastSquares`).
  *
- * @param problem The fit problem (with `lo` corrections where the table kept them).
- * @param terms The design terms ∂f/∂θ_j.
+ * @param design The design as printed, in double-double.
+ * @param dd The response and target in double-double.
  * @param order The pivot order of the double factorization (full rank).
  * @param root √w per row for a weighted fit, else null.
  * @param hasIntercept Whether a constant is in the span of the design.
@@ -95,49 +123,82 @@ export interface PreciseLinear {
  *   (the caller keeps the double solution).
  */
 export function solvePrecise(
-  problem: FitProblem,
-  terms: readonly Expr[],
+  design: readonly DDColumn[],
+  dd: DDResponse,
   order: Int32Array,
   root: Float64Array | null,
   hasIntercept: boolean,
 ): PreciseLinear | null {
-  const { model, n } = problem;
-  const params = model.parameters;
-  const zeros = new Float64Array(params.length);
-  const hi = problem.columns;
-  const lo = problem.lo?.columns ?? hi.map(() => null);
-  const design = terms.map((t) => compileDD(t, model.columns, params)(hi, lo, zeros, null, n));
-  const resp = problem.lo?.response;
-  const y = resp
-    ? compileDD(model.response, [model.responseColumn], [])([resp.hi], [resp.lo], [], null, n)
-    : { hi: problem.y, lo: null };
-  // target = y − f(x; 0): the response less the part of the model free of parameters
-  const f0 = compileDD(model.rhs, model.columns, params)(hi, lo, zeros, null, n);
-  const target = { hi: new Float64Array(n), lo: new Float64Array(n) };
-  for (let i = 0; i < n; i++) {
-    const [s, e] = twoSum(y.hi[i], -f0.hi[i]);
-    const l = e + ((y.lo === null ? 0 : y.lo[i]) - f0.lo[i]);
-    target.hi[i] = s + l;
-    target.lo[i] = l - (target.hi[i] - s);
+  if (!design.every((d) => finite(d.hi)) || !finite(dd.target.hi) || !finite(dd.y.hi)) {
+    return null;
   }
-  const finite = (v: Float64Array) => {
-    for (let i = 0; i < v.length; i++) if (!Number.isFinite(v[i])) return false;
-    return true;
-  };
-  if (!design.every((d) => finite(d.hi)) || !finite(target.hi) || !finite(y.hi)) return null;
-  const ls = ddLeastSquares(design, target, order, root);
-  // fitted = y − r, so residuals = y − fitted exactly as the double path
-  const fitted = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const [s, e] = twoSum(y.hi[i], -ls.residuals[i]);
-    fitted[i] = s + (e + ((y.lo === null ? 0 : y.lo[i]) - ls.residualsLo[i]));
-  }
+  const ls = ddLeastSquares(design, dd.target, order, root);
   return {
     estimates: ls.coefficients,
+    estimatesLo: ls.coefficientsLo,
     unscaledCovariance: ls.unscaledCovariance,
-    fitted,
+    ...fromResiduals(dd.y, ls.residuals, ls.residualsLo, root, hasIntercept),
     residuals: ls.residuals,
     rss: ls.rss + ls.rssLo,
-    tss: root === null ? ddSumOfSquares(y, hasIntercept) : undefined,
+    factor: ls.factor,
   };
+}
+
+/**
+ * Refines the double solution against the data as printed (`refineLeastSquares`).
+ *
+ * @param ls The double solution of the (whitened) problem.
+ * @param rows The design's rows as printed, in double-double.
+ * @param dd The response and target in double-double.
+ * @param root √w per row for a weighted fit, else null.
+ * @param hasIntercept Whether a constant is in the span of the design.
+ * @returns The refined solution, or null when refinement does not apply
+ *   (the caller keeps the double solution).
+ */
+export function solveRefined(
+  ls: LeastSquaresFit,
+  rows: DDRows,
+  dd: DDResponse,
+  root: Float64Array | null,
+  hasIntercept: boolean,
+): PreciseLinear | null {
+  if (!finite(dd.target.hi) || !finite(dd.y.hi)) return null;
+  // The double solution's fitted values and residuals are not used: its arrays are the work space.
+  const r = refineLeastSquares(ls, rows, dd.target, root, [ls.qty, ls.residuals, ls.fitted]);
+  if (r === null) return null;
+  return {
+    estimates: r.coefficients,
+    estimatesLo: r.coefficientsLo,
+    unscaledCovariance: ls.unscaledCovariance,
+    ...fromResiduals(dd.y, r.residuals, r.residualsLo, root, hasIntercept, ls.fitted),
+    residuals: r.residuals,
+    rss: r.rss + r.rssLo,
+    factor: factorOfQR(ls.qr, ls.scale),
+  };
+}
+
+/**
+ * fitted = y − r in double-double (so residuals = y − fitted exactly as the
+ * double path), into `out` when given, and TSS.
+ */
+function fromResiduals(
+  y: DDColumn,
+  residuals: Float64Array,
+  residualsLo: Float64Array,
+  root: Float64Array | null,
+  hasIntercept: boolean,
+  out?: Float64Array,
+) {
+  const n = residuals.length;
+  const fitted = out ?? new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const s = y.hi[i] - residuals[i], e = sumError(y.hi[i], -residuals[i], s);
+    fitted[i] = s + (e + ((y.lo === null ? 0 : y.lo[i]) - residualsLo[i]));
+  }
+  return { fitted, tss: root === null ? ddSumOfSquares(y, hasIntercept) : undefined };
+}
+
+function finite(v: Float64Array): boolean {
+  for (let i = 0; i < v.length; i++) if (!Number.isFinite(v[i])) return false;
+  return true;
 }

@@ -4,11 +4,11 @@
  *
  * @module
  */
-import type { QRFactorization } from "../../kernel/linalg/mod.ts";
 import type { Model } from "../../kernel/expr/mod.ts";
 import type { CellOutput } from "../../kernel/contract/mod.ts";
 import type { FitStatistics } from "./_statistics.ts";
 import type { Weighting } from "./_weighting.ts";
+import type { DesignFactor } from "./problem.ts";
 
 /** A fitted model with everything downstream cells need to judge and use it. */
 export interface Fit extends CellOutput {
@@ -49,8 +49,12 @@ export interface Fit extends CellOutput {
   rowsMissing?: Int32Array;
   /** Design (linear) or Jacobian (nonlinear) columns, one per parameter. */
   design: Float64Array[];
-  /** Linear fits: the full-rank QR of the (√w-scaled) design the solver factored (FitSolution). */
-  designQR?: QRFactorization;
+  /**
+   * Linear fits: the full-rank QR of the (√w-scaled) design the solver
+   * factored, with the solve's triangular factor and, on the precise paths,
+   * the estimates' low parts (FitSolution, {@link DesignFactor}).
+   */
+  designQR?: DesignFactor;
   /** The parameter-free part of a linear model per row, or null. */
   offset: Float64Array | null;
   /** Whether a constant is in the span of the design (R² centred). */

@@ -14,7 +14,7 @@
  *
  * @module
  */
-import type { QRFactorization } from "../../kernel/linalg/mod.ts";
+import type { DDVector, QRFactorization, TriangularFactor } from "../../kernel/linalg/mod.ts";
 import type { Model } from "../../kernel/expr/mod.ts";
 
 /** What a solver is given. */
@@ -100,8 +100,10 @@ export interface FitSolution {
    * Linear fits: the pivoted Householder QR of the (√w-scaled,
    * column-equilibrated) design the solver factored, of full rank; its Q
    * spans the design's column space (fit_leverage.ts `fitBasis` uses it).
+   * It also carries the solve's triangular factor, through which prediction
+   * variances and leverages are read (see {@link DesignFactor}).
    */
-  designQR?: QRFactorization;
+  designQR?: DesignFactor;
   /** The part of the model free of parameters, evaluated per row (linear only; null when zero). */
   offset: Float64Array | null;
   /**
@@ -115,4 +117,24 @@ export interface FitSolution {
    * and columns of `unscaledCovariance` are then NaN: no standard error.
    */
   atBound?: boolean[];
+}
+
+/**
+ * What a linear solver keeps of its solve for the quantities derived from
+ * the fit (prediction variances gᵀ(XᵀWX)⁻¹g and leverages, through R̃: see
+ * kernel/linalg `inverseGramForms`), beside the double QR of the design.
+ *
+ * ```
+ *  path            triangular          estimatesLo   designDD
+ *  double-double   R̃ in double-double  yes           the design as printed (hi + lo)
+ *  refined double  R̃ of the double QR  yes           —
+ * ```
+ */
+export interface DesignFactor extends QRFactorization {
+  /** R̃ of the solve that gave the estimates, with its pivot order and column scales. */
+  triangular: TriangularFactor;
+  /** Low parts of the estimates (estimate + lo to about 32 digits), when the solve gave them. */
+  estimatesLo?: Float64Array;
+  /** The unweighted design as the double-double solve factored it (hi + lo per term). */
+  designDD?: DDVector[];
 }

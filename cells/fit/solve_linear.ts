@@ -25,26 +25,47 @@
  * @module
  */
 import { compile, derivative, type Expr, format } from "../../kernel/expr/mod.ts";
+import { compileDD } from "../../kernel/expr/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
 import {
   type AliasedColumn,
+  factorOfQR,
   inColumnSpace,
   leastSquares,
+  type LeastSquaresFit,
   quotedList,
   scaledConditionNumber,
 } from "../../kernel/linalg/mod.ts";
-import type { FitProblem, FitSolution } from "./problem.ts";
+import type { DesignFactor, FitProblem, FitSolution } from "./problem.ts";
 import { identifierOffset } from "./_offsets.ts";
 import { rowList } from "../shared/rows.ts";
 import { notFinite } from "./_data.ts";
 import { rootWeights, unwhiten, whiten } from "./_weights.ts";
-import { solvePrecise, usePrecise } from "./_precise_linear.ts";
+import {
+  type DDResponse,
+  type PreciseLinear,
+  solvePrecise,
+  solveRefined,
+  usePrecise,
+} from "./_precise_linear.ts";
+import { type DDColumn, ddDesign, ddRows, printedColumns, printedResponse } from "./_dd_design.ts";
+
+/** Options of {@link solveLinear}. */
+export interface SolveLinearOptions {
+  /**
+   * Refine the double path's solution against the data as printed (default
+   * true). False gives the plain double path, for comparison in
+   * `deno task bench`; the double-double path is taken either way.
+   */
+  refine?: boolean;
+}
 
 /**
  * Fits a linear-in-parameters model by QR least squares.
  *
  * @param problem The rows used, the transformed response and the model; the
  *   model must be linear in its parameters (`isLinearIn`).
+ * @param options Whether the double path is refined (default: it is).
  * @returns Estimates, unscaled covariance (XᵀX)⁻¹, fitted values and residuals.
  * @throws {CellError} At the model when a term is not finite on some rows or
  *   when the terms are linearly dependent (naming the aliased ones).
@@ -60,41 +81,40 @@ import { solvePrecise, usePrecise } from "./_precise_linear.ts";
  * if (Math.abs(s.estimates[1] - 2) > 1e-14) throw new Error("slope 2");
  * ```
  */
-export function solveLinear(problem: FitProblem): FitSolution {
-  const { model, n } = problem;
+export function solveLinear(problem: FitProblem, options: SolveLinearOptions = {}): FitSolution {
+  const { model } = problem;
   const params = model.parameters;
-  const zeros = new Float64Array(params.length);
-  const evalAt = (e: Expr) => compile(e, model.columns, params)(problem.columns, zeros, n);
   const terms = params.map((p) => derivative(model.rhs, p));
   const design = terms.map((t, j) =>
-    checked(problem, evalAt(t), `term "${format(t)}" of parameter "${params[j]}"`, params[j])
+    checked(
+      problem,
+      evaluate(problem, t),
+      `term "${format(t)}" of parameter "${params[j]}"`,
+      params[j],
+    )
   );
-  const offset = offsetOf(problem, evalAt(model.rhs));
+  const offset = offsetOf(problem);
   const target = offset ? problem.y.map((v, i) => v - offset[i]) : problem.y;
   // Weighted: the whitened problem √W·X, √W·y (see FitProblem.weights).
   const root = rootWeights(problem.weights);
   const ls = root
     ? leastSquares(whiten(design, root), whiten([target], root)[0], params)
     : leastSquares(design, target, params);
-  if (!ls.fullRank) {
-    const first = ls.aliasing[0];
-    throw new CellError(
-      `Cannot fit "${problem.name}": ${
-        ls.aliasing.map((a) => aliasPhrase(a, terms, params)).join("; ")
-      }`,
-      ["model"],
-      identifierOffset(model.rhs, first.name),
-    );
-  }
-  const hasIntercept = inColumnSpace(ls.qr, root ?? new Float64Array(n).fill(1));
+  if (!ls.fullRank) throw aliased(problem, ls.aliasing, terms);
+  const hasIntercept = interceptIn(design, ls, root);
   const kappa = scaledConditionNumber(ls.qr);
   warnCollinear(problem, kappa);
-  // Small problems, and ill-conditioned medium ones, are solved again in
-  // double-double from the data as printed (the rule: _precise_linear.ts).
-  const precise = usePrecise(n, params.length, kappa)
-    ? solvePrecise(problem, terms, ls.qr.perm, root, hasIntercept)
-    : null;
-  // What both paths share: the design as evaluated and the double QR of it.
+  // Small problems, and ill-conditioned medium ones, are solved again in double-double from the
+  // data as printed; the others are refined against the same data (the rule: _precise_linear.ts).
+  const cols = printedColumns(problem);
+  let dd: DDColumn[] | null = null, precise: PreciseLinear | null = null;
+  if (usePrecise(problem.n, params.length, kappa)) {
+    dd = ddDesign(problem, terms, cols);
+    precise = solvePrecise(dd, ddResponse(problem, cols, offset), ls.qr.perm, root, hasIntercept);
+  } else if (options.refine !== false) {
+    const rows = ddRows(problem, terms, cols);
+    precise = solveRefined(ls, rows, ddResponse(problem, cols, offset), root, hasIntercept);
+  }
   const common = {
     method: "linear" as const,
     hasIntercept,
@@ -102,20 +122,90 @@ export function solveLinear(problem: FitProblem): FitSolution {
     converged: true,
     iterations: 1,
     design,
-    designQR: ls.qr,
     offset,
   };
-  if (precise !== null) return { ...common, ...precise };
+  if (precise !== null) {
+    const { factor, estimatesLo, ...rest } = precise;
+    const designQR: DesignFactor = {
+      ...ls.qr,
+      triangular: factor,
+      estimatesLo,
+      ...(factor.rLo !== null && dd !== null ? { designDD: dd } : {}),
+    };
+    return { ...common, ...rest, designQR };
+  }
   const part = root ? unwhiten(ls.fitted, root) : ls.fitted;
   const fitted = offset ? part.map((v, i) => v + offset[i]) : part;
   return {
     ...common,
+    designQR: { ...ls.qr, triangular: factorOfQR(ls.qr, ls.scale) },
     estimates: ls.coefficients,
     unscaledCovariance: ls.unscaledCovariance,
     fitted,
     residuals: root ? unwhiten(ls.residuals, root) : ls.residuals,
     rss: ls.rss,
   };
+}
+
+/** A term evaluated in double on the rows used. */
+function evaluate(problem: FitProblem, e: Expr): Float64Array {
+  const { model, n } = problem;
+  const zeros = new Float64Array(model.parameters.length);
+  return compile(e, model.columns, model.parameters)(problem.columns, zeros, n);
+}
+
+/** The response and the target y − f(x; 0) in double-double. */
+function ddResponse(
+  problem: FitProblem,
+  cols: readonly DDColumn[],
+  offset: Float64Array | null,
+): DDResponse {
+  const { model, n } = problem;
+  const y = printedResponse(problem);
+  if (offset === null) return { y, target: y };
+  const zeros = new Float64Array(model.parameters.length);
+  const f0 = compileDD(model.rhs, model.columns, model.parameters)(
+    cols.map((c) => c.hi),
+    cols.map((c) => c.lo),
+    zeros,
+    null,
+    n,
+  );
+  const target = { hi: new Float64Array(n), lo: new Float64Array(n) };
+  for (let i = 0; i < n; i++) {
+    const s = y.hi[i] - f0.hi[i];
+    const l = (y.hi[i] - (s + f0.hi[i])) + ((y.lo === null ? 0 : y.lo[i]) - f0.lo[i]);
+    target.hi[i] = s + l;
+    target.lo[i] = l - (target.hi[i] - s);
+  }
+  return { y, target };
+}
+
+/**
+ * Whether a constant lies in the span of the design (R² is then centred):
+ * at once when a term is constant, else from the QR (a constant is in the
+ * span of X exactly when √w is in the span of √W·X).
+ */
+function interceptIn(
+  design: readonly Float64Array[],
+  ls: LeastSquaresFit,
+  root: Float64Array | null,
+): boolean {
+  const constant = (c: Float64Array) => c[0] !== 0 && c.every((v) => v === c[0]);
+  if (design.some(constant)) return true;
+  return inColumnSpace(ls.qr, root ?? new Float64Array(ls.n).fill(1));
+}
+
+/** The refusal naming the aliased terms, located at the first one. */
+function aliased(problem: FitProblem, aliasing: AliasedColumn[], terms: Expr[]): CellError {
+  const params = problem.model.parameters;
+  return new CellError(
+    `Cannot fit "${problem.name}": ${
+      aliasing.map((a) => aliasPhrase(a, terms, params)).join("; ")
+    }`,
+    ["model"],
+    identifierOffset(problem.model.rhs, aliasing[0].name),
+  );
 }
 
 /**
@@ -147,8 +237,15 @@ function checked(problem: FitProblem, v: Float64Array, what: string, param: stri
   return v;
 }
 
-/** The offset f(x; 0), or null when it is zero on every row. */
-function offsetOf(problem: FitProblem, v: Float64Array): Float64Array | null {
+/**
+ * The offset f(x; 0), or null when it is zero on every row: at once, without
+ * evaluating, when every additive term of the model has a parameter as a
+ * factor (as `polynomial()` and `linear()` expand to).
+ */
+function offsetOf(problem: FitProblem): Float64Array | null {
+  const { model } = problem;
+  if (vanishesAtZero(model.rhs, model.parameters)) return null;
+  const v = evaluate(problem, model.rhs);
   if (v.every((x) => x === 0)) return null;
   const bad = notFinite(v, problem.rows);
   if (bad.length > 0) {
@@ -161,6 +258,25 @@ function offsetOf(problem: FitProblem, v: Float64Array): Float64Array | null {
     );
   }
   return v;
+}
+
+/** Whether e is 0 when every parameter is 0, by its form (every term has a parameter factor). */
+function vanishesAtZero(e: Expr, params: readonly string[]): boolean {
+  switch (e.op) {
+    case "+":
+    case "-":
+      return vanishesAtZero(e.left, params) && vanishesAtZero(e.right, params);
+    case "neg":
+      return vanishesAtZero(e.arg, params);
+    case "*":
+      return vanishesAtZero(e.left, params) || vanishesAtZero(e.right, params);
+    case "/":
+      return vanishesAtZero(e.left, params);
+    case "id":
+      return params.includes(e.name);
+    default:
+      return false;
+  }
 }
 
 /** `column "x3" is a linear combination of "x1" and "x2"`, or the same for general terms. */

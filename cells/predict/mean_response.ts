@@ -7,14 +7,26 @@
  * Regression*, 1989, §5.1 for the linearised nonlinear case; section numbers
  * from memory):
  *
- * - ŷ₀ = f(x₀; θ̂).
- * - se_fit² = g₀ᵀ·Cov(θ̂)·g₀ with g₀ = ∂f/∂θ at (x₀, θ̂), from the symbolic
- *   derivative of the model. For a model linear in θ, g₀ is the design row
- *   x₀ and this is the exact s²·x₀ᵀ(XᵀX)⁻¹x₀; for a nonlinear model it is
- *   the delta method (first-order), so the intervals are approximate.
- *   Cov(θ̂) is the fit's covariance: s²(XᵀWX)⁻¹, or (XᵀWX)⁻¹ unscaled with
- *   known standard deviations. A parameter held at a bound (NaN covariance
- *   row) contributes no variance: it is treated as fixed.
+ * - ŷ₀ = f(x₀; θ̂); for a linear fit solved in double-double (or refined),
+ *   in double-double from the estimates' ~32 digits (`preciseAt`,
+ *   cells/fit/fit_factor.ts), since a polynomial in raw calendar years sums
+ *   terms some 10¹⁰ times larger than ŷ₀.
+ * - se_fit² = s²·g₀ᵀ(XᵀWX)⁻¹g₀ with g₀ = ∂f/∂θ at (x₀, θ̂), from the symbolic
+ *   derivative of the model (s² = 1 with known standard deviations). For a
+ *   model linear in θ, g₀ is the design row x₀ and this is exact; for a
+ *   nonlinear model, with X the Jacobian at the solution, it is the delta
+ *   method (first-order), so the intervals are approximate. The form is
+ *   read through the fit's own triangular factor as ‖R̃⁻ᵀg̃₀‖² in the
+ *   solver's scaled, pivoted coordinates (kernel/linalg `inverseGramForms`;
+ *   Björck, *Numerical Methods for Least Squares Problems*, 1996, ch. 1–2,
+ *   from memory), in double-double when the fit was solved in double-double:
+ *   never as g₀ᵀ·Cov·g₀, whose terms of alternating sign gave a standard
+ *   error of 0 at x = 1950 (exact 1.6715) and 150.9 at 2025 (exact 9.318)
+ *   for a degree-5 polynomial in raw years (mean_response_test.ts). A
+ *   parameter held at a bound is left out of the factor: it contributes no
+ *   variance, it is treated as fixed.
+ * - A covariance C passed in (a robust one, `interval_settings.ts`) is used
+ *   as g₀ᵀ·C·g₀, its held parameters (NaN rows) again adding nothing.
  * - Mean response: ŷ₀ ± q·se_fit. New observation: ŷ₀ ± q·√(se_fit² + s₀²),
  *   where s₀² is the variance of the new observation (see
  *   `interval_settings.ts`).
@@ -24,7 +36,9 @@
  * @module
  */
 import { compile, derivative, simplify } from "../../kernel/expr/mod.ts";
+import { inverseGramForms } from "../../kernel/linalg/mod.ts";
 import type { Fit } from "../fit/mod.ts";
+import { fitFactor, preciseAt } from "../fit/fit_factor.ts";
 
 /** f(x; θ̂) and ∂f/∂θ at θ̂ over columns of points (one array per model column). */
 export interface ModelAtEstimates {
@@ -72,11 +86,16 @@ export interface MeanResponse {
 /**
  * Mean response and its standard error at `n` points.
  *
- * @param fit The fit (its covariance is `statistics.covariance`).
+ * @param fit The fit (its factor, or its covariance when it has no design).
  * @param model The compiled model (see {@link modelAtEstimates}).
  * @param cols The points, one array per column of `fit.model.columns`.
  * @param n The number of points.
- * @returns ŷ₀ and √(g₀ᵀ Cov g₀) per point.
+ * @param covariance Optional covariance C of the estimates (p×p,
+ *   column-major like `fit.statistics.covariance`) used as g₀ᵀ·C·g₀, e.g.
+ *   a heteroscedasticity-consistent one; the fit's own
+ *   `statistics.covariance` (the same array) counts as not given.
+ * @returns ŷ₀ and se_fit per point (NaN where the model or a used
+ *   derivative is not finite).
  * @example
  * ```ts
  * import { parseModel } from "../../kernel/expr/mod.ts";
@@ -89,6 +108,8 @@ export interface MeanResponse {
  * } as unknown as Fit;
  * const r = meanResponse(fit, modelAtEstimates(fit), [[1]], 1);
  * if (r.seFit[0] !== Math.sqrt(5)) throw new Error("1 + 1²·4");
+ * const hc = meanResponse(fit, modelAtEstimates(fit), [[1]], 1, Float64Array.of(4, 0, 0, 0));
+ * if (hc.seFit[0] !== 2) throw new Error("a given covariance: 1·4");
  * ```
  */
 export function meanResponse(
@@ -96,13 +117,30 @@ export function meanResponse(
   model: ModelAtEstimates,
   cols: readonly ArrayLike<number>[],
   n: number,
+  covariance?: Float64Array,
 ): MeanResponse {
-  const estimate = model.value(cols, n);
-  const g = model.gradient(cols, n);
-  const cov = fit.statistics.covariance, p = fit.parameters.length;
-  // Held parameters (NaN variance) are fixed: they add nothing to the variance.
-  const free = fit.parameters.map((_, j) => Number.isFinite(cov[j + j * p]))
-    .map((ok, j) => (ok ? j : -1)).filter((j) => j >= 0);
+  const given = covariance !== undefined && covariance !== fit.statistics.covariance;
+  // A fit without its design (built by hand) has only its covariance to offer.
+  if (given || fit.design === undefined || fit.design.length === 0) {
+    const estimate = model.value(cols, n);
+    return {
+      estimate,
+      seFit: quadraticForm(covariance ?? fit.statistics.covariance, model.gradient(cols, n), n),
+    };
+  }
+  const precise = preciseAt(fit, cols, n);
+  const estimate = precise?.estimate ?? model.value(cols, n);
+  const g = precise?.gradient ?? model.gradient(cols, n).map((hi) => ({ hi, lo: null }));
+  const forms = inverseGramForms(fitFactor(fit), g, n);
+  const st = fit.statistics;
+  const s2 = st.covarianceScaled ? (st.sigma ?? NaN) ** 2 : 1;
+  return { estimate, seFit: forms.map((v) => Math.sqrt(s2 * v)) };
+}
+
+/** √(gᵀ·C·g) per point over the parameters with a finite variance (held ones add nothing). */
+function quadraticForm(cov: Float64Array, g: Float64Array[], n: number): Float64Array {
+  const p = g.length;
+  const free = g.map((_, j) => j).filter((j) => Number.isFinite(cov[j + j * p]));
   const seFit = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     let v = 0;
@@ -115,5 +153,5 @@ export function meanResponse(
     seFit[i] = Math.sqrt(Math.max(0, v));
     if (free.some((j) => !Number.isFinite(g[j][i]))) seFit[i] = NaN;
   }
-  return { estimate, seFit };
+  return seFit;
 }

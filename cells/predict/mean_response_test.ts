@@ -1,6 +1,7 @@
 import assert from "node:assert/strict";
 import { standardNormal, studentT } from "../../kernel/stats/mod.ts";
 import { fitOf, predict } from "./_fixtures_test.ts";
+import { exactPolynomial, RESPONSES, YEARS } from "../fit/_raw_years_test.ts";
 
 // Anscombe (1973), The American Statistician 27:17–21, data set I (as printed in the paper).
 const X = [10, 8, 13, 9, 11, 14, 6, 4, 12, 7, 5];
@@ -122,7 +123,8 @@ Deno.test("predictKind.run() uses s²/w₀ for a new observation of a relatively
   const fit = fitOf({ x, y, w }, "y = a + b*x", { weights: "w" });
   const s = fit.statistics.sigma!, t = studentT(5).quantile(0.975);
   for (const w0 of [1, 4]) {
-    const { result } = predict(fit, { at: { x: 3 }, ...(w0 === 1 ? {} : { weight: w0 }) });
+    // A weights column cannot be evaluated at a new point: w₀ is given (new_observation.ts).
+    const { result } = predict(fit, { at: { x: 3 }, weight: w0 });
     const p = result.at[0];
     // PI half-width q·√(se_fit² + s²/w₀) (Draper & Smith ch. 9; from memory).
     const half = t * Math.sqrt(p.se_fit! ** 2 + s * s / w0);
@@ -170,3 +172,38 @@ Deno.test("predictKind.run() takes level over the document's confidence", () => 
   const t = studentT(9).quantile(0.995);
   close(own.at[0].ci![1] - own.at[0].estimate!, t * own.at[0].se_fit!, 1e-12, "99 %");
 });
+
+/** Relative error, or absolute where the exact value is 0. */
+const relErr = (got: number, want: number) =>
+  Math.abs(got - want) / (want === 0 ? 1 : Math.abs(want));
+
+for (const degree of [3, 5]) {
+  Deno.test(`predictKind.run() keeps 12 digits on a degree-${degree} polynomial in raw calendar years`, () => {
+    // Exact rational arithmetic (BigInt fractions, ../fit/_raw_years_test.ts): x = 1900 … 2020
+    // not centred, invented two-decimal responses. Before: se_fit 0 at 1950 (exact 1.6715) and
+    // 150.9 at 2025 (exact 9.318) for degree 5, 2.8e-5 relative off for degree 3 (gᵀ·Cov·g).
+    const exact = exactPolynomial(degree);
+    const fit = fitOf({ x: YEARS, y: RESPONSES }, `y = polynomial(x, ${degree})`);
+    const worst = { estimate: 0, se: 0, seFit: 0, ci: 0, pi: 0 };
+    fit.estimates.forEach((b, j) => {
+      worst.estimate = Math.max(worst.estimate, relErr(b, exact.estimates[j]));
+      worst.se = Math.max(worst.se, relErr(fit.statistics.stdErrors[j]!, exact.stdErrors[j]));
+    });
+    const points = [1900, 1950, 1987, 2020, 2025];
+    const { result } = predict(fit, { at: { x: points } });
+    const t = studentT(YEARS.length - degree - 1).quantile(0.975);
+    points.forEach((x0, i) => {
+      const p = result.at[i], e = exact.at(x0);
+      const se = Math.sqrt(e.variance), sePred = Math.sqrt(e.variance + exact.s2);
+      worst.estimate = Math.max(worst.estimate, relErr(p.estimate!, e.estimate));
+      worst.seFit = Math.max(worst.seFit, relErr(p.se_fit!, se));
+      worst.ci = Math.max(worst.ci, relErr(p.ci![0], e.estimate - t * se));
+      worst.ci = Math.max(worst.ci, relErr(p.ci![1], e.estimate + t * se));
+      worst.pi = Math.max(worst.pi, relErr(p.pi![0], e.estimate - t * sePred));
+      worst.pi = Math.max(worst.pi, relErr(p.pi![1], e.estimate + t * sePred));
+    });
+    for (const [what, err] of Object.entries(worst)) {
+      assert.ok(err <= 1e-12, `degree ${degree}, ${what}: relative error ${err.toExponential(2)}`);
+    }
+  });
+}

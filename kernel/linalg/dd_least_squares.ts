@@ -24,6 +24,7 @@
  * @module
  */
 import * as K from "./_dd_kernels.ts";
+import type { TriangularFactor } from "./triangular_factor.ts";
 
 /** A vector as hi + lo parts (a null lo: the values are exact doubles). */
 export interface DDVector {
@@ -46,6 +47,8 @@ export interface DDLeastSquaresFit {
   rssLo: number;
   /** (XᵀX)⁻¹ rounded to doubles, p×p column-major, original order and units. */
   unscaledCovariance: Float64Array;
+  /** R̃ in double-double with its pivot order and scales, for gᵀ(XᵀX)⁻¹g (`triangular_factor.ts`). */
+  factor: TriangularFactor;
 }
 
 /**
@@ -103,7 +106,27 @@ export function ddLeastSquares(
     coefficientsLo: bl,
     ...out,
     unscaledCovariance: covariance(ah, al, m, p, order, scale),
+    factor: factorOf(ah, al, m, p, order, scale),
   };
+}
+
+/** The leading p×p block of the factored matrix (R̃, hi and lo) with its order and scales. */
+function factorOf(
+  ah: Float64Array,
+  al: Float64Array,
+  m: number,
+  p: number,
+  order: ArrayLike<number>,
+  scale: number[],
+): TriangularFactor {
+  const r = new Float64Array(p * p), rLo = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) {
+    for (let i = 0; i <= j; i++) {
+      r[i + j * p] = ah[i + j * m];
+      rLo[i + j * p] = al[i + j * m];
+    }
+  }
+  return { p, order: Int32Array.from(order), scale: Float64Array.from(scale), r, rLo };
 }
 
 function checkSizes(columns: readonly DDVector[], m: number, order: ArrayLike<number>): void {
@@ -293,40 +316,4 @@ function covariance(
     }
   }
   return cov;
-}
-
-/**
- * Σ(vᵢ − v̄)² (centred) or Σvᵢ² in double-double, rounded to a double:
- * the total sum of squares of a fit's R² from the response as printed.
- * The mean is formed in double-double first (two passes; no cancellation
- * beyond the data's own 32 digits).
- *
- * @param v The values, hi + lo.
- * @param centred Subtract the mean first.
- * @returns The sum of squares (0 for a constant v when centred).
- * @example
- * ```ts
- * import { ddSumOfSquares } from "./dd_least_squares.ts";
- * if (ddSumOfSquares({ hi: [1, 2, 3], lo: null }, true) !== 2) throw new Error("unexpected");
- * ```
- */
-export function ddSumOfSquares(v: DDVector, centred: boolean): number {
-  const m = v.hi.length;
-  let mh = 0, ml = 0;
-  if (centred && m > 0) {
-    for (let i = 0; i < m; i++) {
-      K.add(mh, ml, v.hi[i], v.lo === null ? 0 : v.lo[i]);
-      mh = K.OUT[0], ml = K.OUT[1];
-    }
-    K.div(mh, ml, m, 0);
-    mh = K.OUT[0], ml = K.OUT[1];
-  }
-  let sh = 0, sl = 0;
-  for (let i = 0; i < m; i++) {
-    K.add(v.hi[i], v.lo === null ? 0 : v.lo[i], -mh, -ml);
-    K.mul(K.OUT[0], K.OUT[1], K.OUT[0], K.OUT[1]);
-    K.add(sh, sl, K.OUT[0], K.OUT[1]);
-    sh = K.OUT[0], sl = K.OUT[1];
-  }
-  return sh + sl;
 }

@@ -62,6 +62,8 @@ export interface LeastSquaresFit extends LeastSquaresBase {
   residuals: Float64Array;
   /** (XᵀX)⁻¹, p×p column-major (symmetric), original order and units. */
   unscaledCovariance: Float64Array;
+  /** Qᵀy, m long: its last m − p entries give the residual as Q·(0, (Qᵀy)₂) (`refine_least_squares.ts`). */
+  qty: Float64Array;
   /** Always empty for a full-rank fit. */
   aliased: string[];
   aliasing: AliasedColumn[];
@@ -110,7 +112,8 @@ export function leastSquares(
     const aliasing = findAliasing(scaledDesign(columns, scale, m), m, p, scale, names, qr);
     return { ...base, fullRank: false, aliased: aliasing.map((a) => a.name), aliasing };
   }
-  const coefficients = solveCoefficients(qr, scale, y);
+  const qty = applyQt(qr, y);
+  const coefficients = solveCoefficients(qr, scale, qty);
   const fitted = evaluate(columns, coefficients, m);
   const residuals = new Float64Array(m);
   let rss = 0;
@@ -127,6 +130,7 @@ export function leastSquares(
     fitted,
     residuals,
     unscaledCovariance,
+    qty,
     aliased: [],
     aliasing: [],
   };
@@ -168,9 +172,8 @@ function checkProblem(
 function solveCoefficients(
   qr: QRFactorization,
   scale: Float64Array,
-  y: Float64Array,
+  z: Float64Array,
 ): Float64Array {
-  const z = applyQt(qr, y);
   const g = solveR(qr, z, qr.n);
   const beta = new Float64Array(qr.n);
   for (let k = 0; k < qr.n; k++) beta[qr.perm[k]] = g[k] * scale[qr.perm[k]];

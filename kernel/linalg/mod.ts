@@ -21,7 +21,7 @@ export {
   type QRFactorization,
   type QROptions,
 } from "./householder_qr.ts";
-export { applyQ, applyQt } from "./apply_qt.ts";
+export { applyQ, applyQInPlace, applyQt, applyQtInPlace } from "./apply_qt.ts";
 export { invertR, solveR } from "./solve_r.ts";
 export { singularValues } from "./singular_values.ts";
 export { scaledConditionNumber } from "./scaled_condition.ts";
@@ -34,12 +34,15 @@ export {
   type LeastSquaresRefusal,
   type LeastSquaresResult,
 } from "./least_squares.ts";
+export { ddLeastSquares, type DDLeastSquaresFit, type DDVector } from "./dd_least_squares.ts";
+export { ddSumOfSquares } from "./dd_sum_of_squares.ts";
+export { factorOfQR, inverseGramForms, type TriangularFactor } from "./triangular_factor.ts";
 export {
-  ddLeastSquares,
-  type DDLeastSquaresFit,
-  ddSumOfSquares,
-  type DDVector,
-} from "./dd_least_squares.ts";
+  type DDRows,
+  type RefinedLeastSquares,
+  refineLeastSquares,
+  ROW_BLOCK,
+} from "./refine_least_squares.ts";
 // Double-double building blocks live in kernel/dd.ts; offered here as before for the solvers.
 export {
   type DD,

@@ -3,11 +3,14 @@
  *
  * Method: Belsley, Kuh & Welsch, *Regression Diagnostics* (1980), §2.1, and
  * Cook & Weisberg, *Residuals and Influence in Regression* (1982), §2.1: with
- * the thin QR factorization X·P = Q₁·R, H = Q₁·Q₁ᵀ, so hᵢ = Σₖ Q₁[i, k]².
+ * the thin QR factorization X·P = Q₁·R, H = Q₁·Q₁ᵀ, so hᵢ = Σₖ Q₁[i, k]², the
+ * squared length of row i of Q₁ = X·P·R⁻¹, i.e. hᵢ = ‖R⁻ᵀ·Pᵀxᵢ‖²: one
+ * forward substitution per row through the triangular factor
+ * (kernel/linalg `inverseGramForms`), never (XᵀX)⁻¹ formed explicitly.
  * The factorization is Householder QR with column pivoting
- * (kernel/linalg `householderQR`); the columns of Q₁ are Q·eₖ (`applyQ`),
- * never (XᵀX)⁻¹ formed explicitly. Only the first `rank` columns of Q enter,
- * so an aliased column does not count twice.
+ * (kernel/linalg `householderQR`); only its leading `rank` block enters, so
+ * an aliased column does not count twice. (`hatValuesOf` still sums the
+ * squares of given columns of Q₁, for a caller that has them.)
  *
  * Weighted fits use √W·X (Cook & Weisberg 1982, §2.3 from memory for the
  * section): hᵢ is then the leverage of row i in the weighted problem, and
@@ -24,7 +27,7 @@
  *
  * @module
  */
-import { orthonormalBasis } from "./_orthonormal_basis.ts";
+import { factorOfQR, householderQR, inverseGramForms } from "../linalg/mod.ts";
 
 /** 1 − h below this counts as a leverage of exactly 1 (common practice, no source). */
 export const LEVERAGE_ONE_TOLERANCE = 1e-10;
@@ -50,7 +53,23 @@ export function hatValues(
   weights: Float64Array | null,
 ): Float64Array {
   const n = checkDesign(design, weights);
-  return hatValuesOf(orthonormalBasis(design, weights), n);
+  const p = design.length;
+  // √W·X with unit-length columns (H does not change with column scales; the rank decision
+  // then does not depend on units), factored with pivoting.
+  const root = weights === null ? null : weights.map(Math.sqrt);
+  const scale = new Float64Array(p), a = new Float64Array(n * p);
+  design.forEach((c, j) => {
+    let ss = 0;
+    for (let i = 0; i < n; i++) {
+      a[i + j * n] = root === null ? c[i] : c[i] * root[i];
+      ss += a[i + j * n] ** 2;
+    }
+    const norm = Math.sqrt(ss);
+    scale[j] = norm > 0 && Number.isFinite(norm) ? 1 / norm : 1;
+    for (let i = 0; i < n; i++) a[i + j * n] *= scale[j];
+  });
+  const factor = factorOfQR(householderQR(a, n, p), scale);
+  return inverseGramForms(factor, design.map((hi) => ({ hi, lo: null })), n, root);
 }
 
 /**
