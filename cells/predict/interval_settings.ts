@@ -1,27 +1,38 @@
 /**
  * What the intervals of a `predict` cell rest on: the level, the reference
- * distribution and its quantile, and the variance s₀² of a new observation.
+ * distribution and its quantile, and the variance of a new observation
+ * (`new_observation.ts`: s², s²/w₀ or σ₀², per point).
  *
- * - Unweighted fits: s₀² = s²/m, s the residual standard error and m the
- *   number of new observations averaged (`replicates`, default 1).
- * - Relative weights (wᵢ ∝ 1/σᵢ², covariance rescaled by s²): a new
- *   observation of weight w₀ has variance s²/w₀, so s₀² = s²/(w₀·m). We
- *   take w₀ = 1 unless the option `weight` gives it: the weights' scale is
- *   the user's, and w₀ = 1 is what a weight-free reading of s means.
- * - Known standard deviations (absolute): s₀² = σ₀²/m with σ₀ from the
- *   option `sigma`; without it the new observation's variance is unknown
- *   and prediction intervals are null, with a warning.
- * - Quantile: t(1 − α/2; n − p), or z(1 − α/2) with known standard
- *   deviations (the covariance is not estimated, so no t).
+ * Quantile: t(1 − α/2; n − p), or z(1 − α/2) with known standard deviations
+ * (the covariance is not estimated, so no t). The same quantile serves the
+ * fit's own covariance and a robust one (common practice for HC standard
+ * errors in linear models, e.g. MacKinnon & White 1985; from memory).
  *
- * (Draper & Smith, *Applied Regression Analysis*, 3rd ed., §1.4 and ch. 9
- * for weights; from memory.)
+ * (Draper & Smith, *Applied Regression Analysis*, 3rd ed., §1.4; from memory.)
+ *
+ * The covariance of the estimates behind se_fit ({@link predictCovariance}):
+ * the fit's own (s²(XᵀWX)⁻¹, or (XᵀWX)⁻¹ with known standard deviations),
+ * or with `robust:` a heteroscedasticity-consistent ("sandwich") covariance,
+ * HC0 (White 1980, Econometrica 48:817–838) or HC1–HC3 (MacKinnon & White
+ * 1985, J. Econometrics 29:305–325), from kernel/stats `robustCovariance`
+ * on the fit's design (the Jacobian at the solution for a nonlinear fit),
+ * residuals, hat values and weights. A parameter held at a bound is fixed:
+ * the sandwich is formed over the free parameters only (their design
+ * columns and their block of the unscaled covariance), and the held rows
+ * and columns are NaN, as in the fit's own covariance.
  *
  * @module
  */
-import { standardNormal, studentT } from "../../kernel/stats/mod.ts";
-import type { Fit } from "../fit/mod.ts";
+import {
+  hatValues,
+  type HCType,
+  robustCovariance,
+  standardNormal,
+  studentT,
+} from "../../kernel/stats/mod.ts";
+import { type Fit, fitLeverage } from "../fit/mod.ts";
 import type { PredictSpec } from "./spec.ts";
+import { type NewObservation, newObservation } from "./new_observation.ts";
 
 /** Level, quantile and new-observation variance of a `predict` cell. */
 export interface IntervalSettings {
@@ -30,10 +41,10 @@ export interface IntervalSettings {
   q: number;
   /** The reference distribution in words, e.g. "t(18)" or "normal". */
   distribution: string;
-  /** Variance of the new observation(s) s₀², or null when unknown. */
-  newVariance: number | null;
-  /** How s₀² was obtained, in words. */
-  statement: string;
+  /** Residual degrees of freedom n − p; Infinity with known standard deviations (σ not estimated). */
+  df: number;
+  /** The variance of a new observation at a point. */
+  newObservation: NewObservation;
 }
 
 /**
@@ -51,7 +62,8 @@ export interface IntervalSettings {
  * import type { Fit } from "../fit/mod.ts";
  * const fit = { weighting: "none", statistics: { sigma: 2, dfResidual: 10 } } as unknown as Fit;
  * const s = intervalSettings(fit, { fit: "line", at: null, solve: null }, 0.95, () => {});
- * if (s.newVariance !== 4 || s.distribution !== "t(10)") throw new Error(JSON.stringify(s));
+ * const v = s.newObservation.at([], 1, [NaN]).variance[0];
+ * if (v !== 4 || s.distribution !== "t(10)") throw new Error(JSON.stringify(s));
  * ```
  */
 export function intervalSettings(
@@ -61,46 +73,76 @@ export function intervalSettings(
   warn: (m: string) => void,
 ): IntervalSettings {
   const level = spec.level ?? confidence;
-  const m = spec.replicates ?? 1;
   const absolute = fit.weighting === "absolute";
   const df = fit.statistics.dfResidual;
   const ref = absolute ? standardNormal : studentT(df);
-  const q = ref.upperQuantile((1 - level) / 2);
-  const s = fit.statistics.sigma ?? NaN;
-  const of = m === 1 ? "a new observation" : `the mean of ${m} new observations`;
-  if (spec.weight !== undefined && fit.weighting !== "relative") {
-    warn(`Option "weight" is not used: fit "${spec.fit}" has no relative weights`);
-  }
-  if (spec.sigma !== undefined && !absolute) {
-    warn(`Option "sigma" is not used: fit "${spec.fit}" has no known standard deviations`);
-  }
-  let newVariance: number | null, statement: string;
-  if (absolute) {
-    if (spec.sigma === undefined) {
-      newVariance = null;
-      statement = "unknown: give the σ of a new observation with the option sigma";
-      warn(
-        `Prediction intervals are not given: fit "${spec.fit}" has known standard deviations per row, so the variance of a new observation is unknown: give it with the option sigma`,
-      );
-    } else {
-      newVariance = spec.sigma * spec.sigma / m;
-      statement = `σ₀²/m for ${of}, σ₀ = ${spec.sigma} (option sigma)`;
-    }
-  } else if (fit.weighting === "relative") {
-    const w0 = spec.weight ?? 1;
-    newVariance = s * s / (w0 * m);
-    statement = `s²/(w₀·m) for ${of} of weight w₀ = ${w0}${
-      spec.weight === undefined ? " (the default; option weight)" : " (option weight)"
-    }`;
-  } else {
-    newVariance = s * s / m;
-    statement = `s²/m for ${of}, s the residual standard error`;
-  }
   return {
     level,
-    q,
+    q: ref.upperQuantile((1 - level) / 2),
     distribution: absolute ? "normal" : `t(${df})`,
-    newVariance: newVariance !== null && Number.isFinite(newVariance) ? newVariance : null,
-    statement,
+    df: absolute ? Infinity : df,
+    newObservation: newObservation(fit, spec, warn),
+  };
+}
+
+/** The covariance used and what it is, in words. */
+export interface PredictCovariance {
+  /** p×p column-major, as `fit.statistics.covariance`. */
+  covariance: Float64Array;
+  /** RUN-JSON `covariance` of a predict result, e.g. "the fit's: s²(XᵀWX)⁻¹". */
+  statement: string;
+}
+
+const HC_WORDS: Record<HCType, string> = {
+  hc0: "HC0 (White 1980): ωᵢ = eᵢ²",
+  hc1: "HC1 (MacKinnon & White 1985): ωᵢ = n/(n − p)·eᵢ²",
+  hc2: "HC2 (MacKinnon & White 1985): ωᵢ = eᵢ²/(1 − hᵢ)",
+  hc3: "HC3 (MacKinnon & White 1985): ωᵢ = eᵢ²/(1 − hᵢ)²",
+};
+
+/**
+ * The covariance for the mean response.
+ *
+ * @param fit The fit predicted from.
+ * @param robust The HC estimator, or undefined for the fit's own covariance.
+ * @returns The covariance and its statement.
+ * @example
+ * ```ts
+ * import { predictCovariance } from "./interval_settings.ts";
+ * import type { Fit } from "../fit/mod.ts";
+ * const fit = { weighting: "none", statistics: { covariance: Float64Array.of(2) } } as unknown as Fit;
+ * if (predictCovariance(fit, undefined).covariance[0] !== 2) throw new Error("the fit's own");
+ * ```
+ */
+export function predictCovariance(fit: Fit, robust: HCType | undefined): PredictCovariance {
+  if (robust === undefined) {
+    const own = fit.weighting === "absolute"
+      ? "(XᵀWX)⁻¹ with W the known 1/σᵢ² (not rescaled)"
+      : fit.weighting === "relative"
+      ? "s²(XᵀWX)⁻¹"
+      : "s²(XᵀX)⁻¹";
+    const x = fit.method === "linear" ? "" : ", X the Jacobian at the estimates";
+    return { covariance: fit.statistics.covariance, statement: `the fit's: ${own}${x}` };
+  }
+  const p = fit.parameters.length;
+  const free = fit.parameters.map((_, j) => j).filter((j) => !fit.atBound?.[j]);
+  const design = free.map((j) => fit.design[j]);
+  const bread = new Float64Array(free.length * free.length);
+  free.forEach((j, a) =>
+    free.forEach((k, b) => bread[a + b * free.length] = fit.unscaledCovariance[j + k * p])
+  );
+  const h = free.length === p ? fitLeverage(fit) : hatValues(design, fit.weights);
+  const r = robustCovariance(design, fit.residuals, h, bread, fit.weights, robust);
+  const covariance = new Float64Array(p * p).fill(NaN);
+  free.forEach((j, a) =>
+    free.forEach((k, b) => covariance[j + k * p] = r.covariance[a + b * free.length])
+  );
+  const x = fit.method === "linear" ? "X the design" : "X the Jacobian at the estimates";
+  const w = fit.weights === null ? "" : ", rows scaled by √wᵢ";
+  return {
+    covariance,
+    statement: `heteroscedasticity-consistent ${
+      HC_WORDS[robust]
+    }: (XᵀWX)⁻¹(Σ ωᵢ xᵢxᵢᵀ)(XᵀWX)⁻¹, ${x}${w}`,
   };
 }

@@ -10,7 +10,11 @@
  * Interval, for a new single observation y₀ (or the mean of m,
  * `replicates`): the set of x whose prediction band contains z₀,
  *
- *     (z₀ − f(x))² ≤ q²·(se_fit(x)² + s₀²).
+ *     (z₀ − f(x))² ≤ q²·(se_fit(x)² + s₀²(x)),
+ *
+ * s₀²(x) the variance of the new observation(s) (`new_observation.ts`: it
+ * changes along x with weights such as 1/x²) and se_fit from the cell's
+ * covariance (the fit's, or a robust one: `interval_settings.ts`).
  *
  * - Straight line f = α + βx (method "fieller"): with V the covariance of
  *   (α̂, β̂) the set is A·x² + B·x + C ≤ 0,
@@ -20,7 +24,9 @@
  *   only when A > 0, i.e. g = q²V_ββ/β̂² < 1 (the slope is significantly
  *   nonzero at this level); otherwise it is the whole line or two half-lines,
  *   and we give null with a warning. The general V covers weights, fits
- *   without an intercept and any parameterisation of the line.
+ *   without an intercept and any parameterisation of the line. It needs s₀²
+ *   constant in x: a straight line whose new observation's variance varies
+ *   with x (weights 1/x²) takes the prediction band below.
  * - Other models (method "prediction-band"): the same set found numerically,
  *   walking out from x̂₀ in 400 steps to each end of the band range and
  *   bisecting where the band stops containing z₀; the interval is the
@@ -61,7 +67,16 @@ export interface InverseContext {
   range: [number, number];
   /** How far the interval ends are looked for (contains `range`). */
   bandRange: [number, number];
+  /** The covariance of the estimates (p×p column-major): the fit's or a robust one. */
+  covariance: Float64Array;
   warn(m: string): void;
+}
+
+/** s₀²(x)/m, the variance of the new observation(s) giving y₀ at x (NaN where unknown). */
+export interface NewVariance {
+  at(x: number): number;
+  /** Whether it is the same at every x. */
+  constant: boolean;
 }
 
 /**
@@ -71,6 +86,7 @@ export interface InverseContext {
  * @param z0 The response on the model scale.
  * @param shown y₀ as written, for messages.
  * @param path The option holding y₀, for errors.
+ * @param s0 The variance of the new observation(s) along x.
  * @returns x̂₀, its interval and the method.
  * @throws {CellError} When no x in the search range gives y₀, several do, or
  *   the straight line is flat.
@@ -80,11 +96,22 @@ export function inversePrediction(
   z0: number,
   shown: string,
   path: OptionPath,
+  s0: NewVariance,
 ): InversePrediction {
   const line = straightLine(c);
-  if (line !== null) return fieller(c, line, z0, shown, path);
-  const x = uniqueRoot(c, z0, shown, path);
-  return { x, ci: bandInterval(c, z0, x, shown), method: "prediction-band" };
+  if (line !== null && s0.constant) return fieller(c, line, z0, shown, path, s0.at(0));
+  if (line !== null) flat(c, line.beta, shown, path);
+  const x = line !== null ? (z0 - line.alpha) / line.beta : uniqueRoot(c, z0, shown, path);
+  return { x, ci: bandInterval(c, z0, x, shown, s0), method: "prediction-band" };
+}
+
+/** Refuses a straight line of slope 0 (or not finite). */
+function flat(c: InverseContext, beta: number, shown: string, path: OptionPath): void {
+  if (beta !== 0 && Number.isFinite(beta)) return;
+  throw new CellError(
+    `Cannot solve ${shown} in predict "${c.name}": the fitted line of "${c.fitName}" has slope ${beta}, so no single x gives it`,
+    path,
+  );
 }
 
 /** α̂, β̂ and their covariance when f is affine in its one column, else null. */
@@ -99,7 +126,7 @@ function straightLine(c: InverseContext) {
   });
   const x0 = at(0), x1 = at(1);
   const gb = x1.g.map((v, j) => v - x0.g[j]);
-  const cov = c.fit.statistics.covariance, p = c.fit.parameters.length;
+  const cov = c.covariance, p = c.fit.parameters.length;
   const form = (u: number[], v: number[]) => {
     let s = 0;
     for (let j = 0; j < p; j++) {
@@ -124,16 +151,11 @@ function fieller(
   z0: number,
   shown: string,
   path: OptionPath,
+  s0: number,
 ): InversePrediction {
-  if (l.beta === 0 || !Number.isFinite(l.beta)) {
-    throw new CellError(
-      `Cannot solve ${shown} in predict "${c.name}": the fitted line of "${c.fitName}" has slope ${l.beta}, so no single x gives it`,
-      path,
-    );
-  }
+  flat(c, l.beta, shown, path);
   const x = (z0 - l.alpha) / l.beta;
-  const s0 = c.settings.newVariance;
-  if (s0 === null) return { x, ci: null, method: "fieller" };
+  if (Number.isNaN(s0)) return { x, ci: null, method: "fieller" };
   const q2 = c.settings.q * c.settings.q, d = z0 - l.alpha;
   const A = l.beta * l.beta - q2 * l.vbb;
   const B = -2 * (l.beta * d + q2 * l.vab);
@@ -176,14 +198,13 @@ function uniqueRoot(c: InverseContext, z0: number, shown: string, path: OptionPa
   return roots[0];
 }
 
-function bandInterval(c: InverseContext, z0: number, x: number, shown: string) {
-  const s0 = c.settings.newVariance;
-  if (s0 === null) return null;
+function bandInterval(c: InverseContext, z0: number, x: number, shown: string, s0: NewVariance) {
+  if (Number.isNaN(s0.at(x))) return null;
   const q2 = c.settings.q * c.settings.q;
   const h = (t: number) => {
-    const m = meanResponse(c.fit, c.model, [[t]], 1);
+    const m = meanResponse(c.fit, c.model, [[t]], 1, c.covariance);
     const r = z0 - m.estimate[0];
-    return r * r - q2 * (m.seFit[0] * m.seFit[0] + s0);
+    return r * r - q2 * (m.seFit[0] * m.seFit[0] + s0.at(t));
   };
   const [a, b] = c.bandRange;
   const lo = firstExit(h, x, a, 400), hi = firstExit(h, x, b, 400);

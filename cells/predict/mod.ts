@@ -14,8 +14,12 @@
  * that yields a response value, with a Fieller interval for straight lines
  * and an inverted prediction band otherwise (`inverse_prediction.ts`).
  * Transformed responses are reported back-transformed to the original scale
- * (`response_scale.ts`). Warnings: extrapolation beyond the fitted range,
- * points where the model is not finite.
+ * (`response_scale.ts`), with the mean of y by two labelled estimates for a
+ * log response (`log_mean.ts`). A new observation's variance follows the
+ * fit's weights or known σ at the point (`new_observation.ts`); `robust:`
+ * uses a heteroscedasticity-consistent covariance (`interval_settings.ts`).
+ * Warnings: extrapolation beyond the fitted range, points where the model is
+ * not finite, weights that cannot be had at a point.
  *
  * @example
  * ```ts
@@ -66,7 +70,8 @@ export const predictKind: CellKind<PredictSpec, Predictions, PredictResult> = {
  * ```ts
  * import { predictLine } from "./mod.ts";
  * const line = predictLine({ fit: "line", level: 0.95, at: [], solve: [], response: "y",
- *   scale: "", se_scale: "", distribution: "t(3)", new_observation: "", mean_method: "" });
+ *   scale: "", se_scale: "", distribution: "t(3)", new_observation: "", weight_source: "",
+ *   covariance: "", robust: null, mean_method: "" });
  * if (!line.startsWith("from line")) throw new Error(line);
  * ```
  */

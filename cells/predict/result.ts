@@ -2,14 +2,24 @@
  * The RUN-JSON `result` of a predict cell (RUN-JSON.md, `predict`) and the
  * `Predictions` output that carries it.
  *
+ * RUN-JSON Additions: per point `se_prediction`. Per point `unit` is not
+ * given yet: the fit does not carry its table's column units.
+ *
  * Our additions to the documented shape (extend, never rename): `response`,
- * `scale`, `se_scale`, `distribution`, `new_observation`, `mean_method`,
- * per point `extrapolated` and (transformed responses) `model_scale`, per
- * inverse prediction `method`, `interval_for` and `extrapolated`.
+ * `scale`, `se_scale`, `distribution`, `new_observation`, `weight_source`,
+ * `covariance`, `robust`, `mean_method`, for transformed responses
+ * `estimate_is`; per point `extrapolated`, `weight` or `sigma` (weighted
+ * fits), for transformed responses `model_scale`, for log responses
+ * `mean_estimates`; per inverse prediction `method`, `interval_for` and
+ * `extrapolated`.
  *
  * @module
  */
 import type { CellOutput } from "../../kernel/contract/mod.ts";
+import type { HCType } from "../../kernel/stats/mod.ts";
+import type { MeanEstimate } from "./log_mean.ts";
+
+export type { MeanEstimate };
 
 /** One prediction point. Values that do not exist (the model is not finite there) are null. */
 export interface PredictPointResult {
@@ -23,8 +33,20 @@ export interface PredictPointResult {
   ci: [number, number] | null;
   /** Interval for a new observation at `level`; null when its variance is unknown. */
   pi: [number, number] | null;
+  /**
+   * RUN-JSON Addition: standard error of a new observation (of the mean of
+   * `replicates` m), √(se_fit² + s₀²/m), on the model scale (`se_scale`);
+   * null when s₀² is unknown.
+   */
+  se_prediction: number | null;
+  /** Our addition, fits with relative weights: the new observation's weight w₀ (null: unknown). */
+  weight?: number | null;
+  /** Our addition, fits with known σ: the new observation's σ₀ (null: unknown). */
+  sigma?: number | null;
   /** Our addition: whether any predictor lies outside the fitted range. */
   extrapolated: boolean;
+  /** Our addition, log responses: labelled estimates of the mean of y (`estimate` is its median). */
+  mean_estimates?: MeanEstimate[];
   /** Our addition, transformed responses only: the same values on the model scale. */
   model_scale?: {
     estimate: number | null;
@@ -65,6 +87,14 @@ export interface PredictResult {
   distribution: string;
   /** Our addition: the variance used for a new observation, in words. */
   new_observation: string;
+  /** Our addition: where a new observation's weight or σ comes from, in words. */
+  weight_source: string;
+  /** Our addition: the covariance of the estimates behind se_fit, in words. */
+  covariance: string;
+  /** Our addition: the heteroscedasticity-consistent estimator used (option robust), or null. */
+  robust: HCType | null;
+  /** Our addition, transformed responses: what `estimate` estimates on the original scale. */
+  estimate_is?: string;
   /** Our addition: how se_fit was computed, in words. */
   mean_method: string;
 }

@@ -2,35 +2,45 @@
  * Running a predict cell: fit + points → {@link Predictions}.
  *
  * ```
- *  inputs[fit] ─pointsOf─▶ points ─meanResponse─▶ ŷ, se_fit ─± q·se─▶ ci, pi (model scale)
- *                                       responseScale ─g⁻¹─▶ reporting scale
- *  solve values ─g─▶ z₀ ─inversePrediction─▶ x̂₀ and its interval
+ *  inputs[fit] ─pointsOf─▶ points ─meanResponse(cov)─▶ ŷ, se_fit ─± q·se─▶ ci
+ *        │                   └─newObservation─▶ s₀² ─√(se_fit² + s₀²/m)─▶ se_prediction, pi
+ *        └─predictCovariance─▶ cov (the fit's, or robust HC0–HC3)
+ *                                       responseScale ─g⁻¹─▶ reporting scale (+ log means)
+ *  solve values ─g─▶ z₀ ─inversePrediction─▶ x̂₀ and its interval   (solve_all.ts)
  * ```
  *
  * A transformed response (`log(y) = …`) is reported on the original scale
  * of its column: estimate and interval ends back-transformed through g⁻¹
- * (`response_scale.ts`), standard errors on the model scale, and the
- * model-scale values kept in `model_scale`.
+ * (`response_scale.ts`; the estimate is then the median of y), standard
+ * errors on the model scale, and the model-scale values kept in
+ * `model_scale`. For a log response the mean of y is given too, by two
+ * labelled estimates (`log_mean.ts`).
  *
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import { didYouMean } from "../../kernel/suggest.ts";
 import type { RunContext } from "../../kernel/contract/mod.ts";
 import type { Fit } from "../fit/mod.ts";
 import type { PredictSpec } from "./spec.ts";
 import type { Predictions, PredictPointResult, PredictResult } from "./result.ts";
 import { meanResponse, type ModelAtEstimates, modelAtEstimates } from "./mean_response.ts";
-import { type IntervalSettings, intervalSettings } from "./interval_settings.ts";
+import { type IntervalSettings, intervalSettings, predictCovariance } from "./interval_settings.ts";
 import { type ResponseScale, responseScale } from "./response_scale.ts";
-import { type InverseContext, inversePrediction } from "./inverse_prediction.ts";
-import { type Points, pointsOf, quoted } from "./_points.ts";
-import { formatNumber } from "../shared/format.ts";
+import { fittedRanges, outside, pointsOf, warnExtrapolation } from "./_points.ts";
+import { invalidValueMessage } from "./new_observation.ts";
+import { logBase, type LogMeanContext, logMeans } from "./log_mean.ts";
+import { solveAll } from "./solve_all.ts";
 
-/** Share of the fitted x range added on each side for the root search of `solve`. */
-export const ROOT_MARGIN = 0.1;
-/** Share of the fitted x range added on each side when looking for interval ends. */
-export const BAND_MARGIN = 1;
+export { BAND_MARGIN, ROOT_MARGIN } from "./solve_all.ts";
+
+/** What predicting at points and solving share. */
+interface Shared {
+  fit: Fit;
+  model: ModelAtEstimates;
+  settings: IntervalSettings;
+  scale: ResponseScale;
+  covariance: Float64Array;
+}
 
 /**
  * Predicts from the spec's fit.
@@ -46,9 +56,20 @@ export function runPredict(spec: PredictSpec, ctx: RunContext): Predictions {
   const fit = fitInput(spec, ctx);
   const settings = intervalSettings(fit, spec, ctx.settings.confidence, ctx.warn);
   const scale = responseScale(fit.model);
-  const model = modelAtEstimates(fit);
-  const at = spec.at === null ? [] : predictAt(ctx, spec, fit, model, settings, scale);
-  const solve = spec.solve === null ? [] : solveAll(ctx, spec, fit, model, settings, scale);
+  const cov = predictCovariance(fit, spec.robust);
+  const s: Shared = {
+    fit,
+    model: modelAtEstimates(fit),
+    settings,
+    scale,
+    covariance: cov.covariance,
+  };
+  const at = spec.at === null ? [] : predictAt(ctx, spec, s);
+  const solve = spec.solve === null ? [] : solveAll(ctx, spec, s);
+  const obs = settings.newObservation;
+  const robustNote = spec.robust !== undefined && fit.weighting !== "absolute"
+    ? "; s² is the fit's residual variance also with robust covariance (common practice, no source)"
+    : "";
   const result: PredictResult = {
     fit: spec.fit,
     level: settings.level,
@@ -60,12 +81,28 @@ export function runPredict(spec: PredictSpec, ctx: RunContext): Predictions {
       : "response as written",
     se_scale: scale.transformed ? `model (${scale.written})` : "response as written",
     distribution: settings.distribution,
-    new_observation: settings.statement,
-    mean_method: fit.method === "linear"
-      ? "exact: model linear in its parameters, se² = gᵀ·Cov·g with g the design row"
-      : "delta method: se² = gᵀ·Cov·g with g = ∂f/∂θ at the estimates (first order, approximate)",
+    new_observation: obs.statement + robustNote,
+    weight_source: obs.source,
+    covariance: cov.statement,
+    robust: spec.robust ?? null,
+    mean_method: meanMethod(fit, spec.robust !== undefined),
+    ...(scale.transformed ? { estimate_is: estimateIs(fit, scale) } : {}),
   };
   return { type: "Predictions", result };
+}
+
+function meanMethod(fit: Fit, robust: boolean): string {
+  const form = robust
+    ? "se² = gᵀ·C·g with C the robust covariance"
+    : "se² = s²·‖R⁻ᵀg‖² through the fit's own triangular factor";
+  return fit.method === "linear"
+    ? `exact: model linear in its parameters, ${form}, g the design row`
+    : `delta method: ${form}, g = ∂f/∂θ at the estimates (first order, approximate)`;
+}
+
+function estimateIs(fit: Fit, scale: ResponseScale): string {
+  const log = logBase(fit.model) !== null ? "; its mean is in mean_estimates" : "";
+  return `the median of ${scale.column} (g⁻¹ of the model-scale prediction, for errors symmetric on the model scale)${log}`;
 }
 
 function fitInput(spec: PredictSpec, ctx: RunContext): Fit {
@@ -76,49 +113,86 @@ function fitInput(spec: PredictSpec, ctx: RunContext): Fit {
   return f as Fit;
 }
 
-function predictAt(
-  ctx: RunContext,
-  spec: PredictSpec,
-  fit: Fit,
-  model: ModelAtEstimates,
-  s: IntervalSettings,
-  scale: ResponseScale,
-): PredictPointResult[] {
+function predictAt(ctx: RunContext, spec: PredictSpec, sh: Shared): PredictPointResult[] {
+  const { fit, settings: s, scale } = sh;
   const pts = pointsOf(ctx.name, spec, fit);
   warnExtrapolation(ctx, spec, fit, pts);
-  const m = meanResponse(fit, model, pts.cols, pts.n);
-  const cols = fit.model.columns;
+  const ranges = fittedRanges(fit);
+  const mr = meanResponse(fit, sh.model, pts.cols, pts.n, sh.covariance);
+  const obs = s.newObservation;
+  // The response column's value standing in at each point (for a weight such as 1/y²): its prediction.
+  const yhat = mr.estimate.map((z) => (scale.transformed ? scale.inverse(z) ?? NaN : z));
+  const nw = obs.at(pts.cols, pts.n, yhat);
+  const c = logBase(fit.model);
+  const lm: LogMeanContext | null = c === null ? null : { fit, c, q: s.q, df: s.df };
   const out: PredictPointResult[] = [];
-  let unmapped = false;
+  const invalid: number[] = [];
   for (let i = 0; i < pts.n; i++) {
-    const x = Object.fromEntries(cols.map((c, j) => [c, pts.cols[j][i]]));
-    const est = m.estimate[i], se = m.seFit[i];
+    const x = Object.fromEntries(fit.model.columns.map((col, j) => [col, pts.cols[j][i]]));
+    const est = mr.estimate[i], se = mr.seFit[i];
+    const own = obs.kind === null ? {} : { [obs.kind]: finiteOrNull(nw.value[i]) };
     if (!Number.isFinite(est) || !Number.isFinite(se)) {
       ctx.warn(
         `The model of "${spec.fit}" is not finite at point ${i + 1} (${
           shownPoint(x)
         }): estimate ${est}, so no prediction is given there`,
       );
-      out.push({ x, estimate: null, se_fit: null, ci: null, pi: null, extrapolated: false });
+      out.push({
+        x,
+        estimate: null,
+        se_fit: null,
+        ci: null,
+        pi: null,
+        se_prediction: null,
+        ...own,
+        extrapolated: false,
+      });
       continue;
     }
-    const ci: [number, number] = [est - s.q * se, est + s.q * se];
-    const sp = s.newVariance === null ? null : Math.sqrt(se * se + s.newVariance);
-    const pi: [number, number] | null = sp === null ? null : [est - s.q * sp, est + s.q * sp];
-    const row: PredictPointResult = {
-      x,
-      estimate: est,
-      se_fit: se,
-      ci,
-      pi,
-      extrapolated: outside(fit, pts, i).length > 0,
-    };
-    if (scale.transformed) {
-      const e = scale.inverse(est), c = mapInterval(scale, ci), p = pi && mapInterval(scale, pi);
-      unmapped ||= e === null || c === null || (pi !== null && p === null);
-      Object.assign(row, { estimate: e, ci: c, pi: p, model_scale: { estimate: est, ci, pi } });
-    }
+    if (obs.kind !== null && obs.known && Number.isNaN(nw.variance[i])) invalid.push(i);
+    const row = pointRow(x, est, se, nw.variance[i] / obs.m, s.q);
+    Object.assign(row, own, { extrapolated: outside(ranges, pts, i) });
+    if (lm !== null) row.mean_estimates = logMeans(lm, est, se, nw.variance[i]);
     out.push(row);
+  }
+  if (invalid.length > 0) {
+    ctx.warn(invalidValueMessage(obs, invalid.map((i) => i + 1), invalid.map((i) => nw.value[i])));
+  }
+  if (scale.transformed) backTransform(ctx, scale, out);
+  return out;
+}
+
+/** One point on the model scale: ŷ ± q·se_fit and ŷ ± q·√(se_fit² + s₀²/m). */
+function pointRow(
+  x: Record<string, number>,
+  est: number,
+  se: number,
+  newVariance: number,
+  q: number,
+): PredictPointResult {
+  const sp = finiteOrNull(Math.sqrt(se * se + newVariance));
+  return {
+    x,
+    estimate: est,
+    se_fit: se,
+    ci: [est - q * se, est + q * se],
+    pi: sp === null ? null : [est - q * sp, est + q * sp],
+    se_prediction: sp,
+    extrapolated: false,
+  };
+}
+
+/** Estimates and interval ends through g⁻¹, the model-scale values kept in `model_scale`. */
+function backTransform(ctx: RunContext, scale: ResponseScale, rows: PredictPointResult[]) {
+  let unmapped = false;
+  for (const row of rows) {
+    if (row.estimate === null) continue;
+    const { estimate: est, ci, pi } = row;
+    const e = scale.inverse(est),
+      ce = ci && mapInterval(scale, ci),
+      p = pi && mapInterval(scale, pi);
+    unmapped ||= e === null || ce === null || (pi !== null && p === null);
+    Object.assign(row, { estimate: e, ci: ce, pi: p, model_scale: { estimate: est, ci, pi } });
   }
   if (unmapped) {
     const why = scale.noInverse ?? `no finite "${scale.column}" gives them`;
@@ -126,7 +200,10 @@ function predictAt(
       `Some values could not be back-transformed from "${scale.written}" to "${scale.column}" (${why}): they are null; see model_scale`,
     );
   }
-  return out;
+}
+
+function finiteOrNull(v: number): number | null {
+  return Number.isFinite(v) ? v : null;
 }
 
 function mapInterval(scale: ResponseScale, [a, b]: [number, number]): [number, number] | null {
@@ -137,109 +214,4 @@ function mapInterval(scale: ResponseScale, [a, b]: [number, number]): [number, n
 
 function shownPoint(x: Record<string, number>): string {
   return Object.entries(x).map(([c, v]) => `${c} = ${v}`).join(", ");
-}
-
-/** The fitted range of each model column. */
-function fittedRanges(fit: Fit): [number, number][] {
-  return fit.columns.map((v) => {
-    let lo = Infinity, hi = -Infinity;
-    for (const x of v) if (!Number.isNaN(x)) [lo, hi] = [Math.min(lo, x), Math.max(hi, x)];
-    return [lo, hi];
-  });
-}
-
-/** Indexes of the columns where point i lies outside the fitted range. */
-function outside(fit: Fit, pts: Points, i: number): number[] {
-  const r = fittedRanges(fit);
-  return r.map(([lo, hi], j) => (pts.cols[j][i] < lo || pts.cols[j][i] > hi ? j : -1))
-    .filter((j) => j >= 0);
-}
-
-function warnExtrapolation(ctx: RunContext, spec: PredictSpec, fit: Fit, pts: Points) {
-  fittedRanges(fit).forEach(([lo, hi], j) => {
-    const bad: number[] = [];
-    for (let i = 0; i < pts.n; i++) if (pts.cols[j][i] < lo || pts.cols[j][i] > hi) bad.push(i);
-    if (bad.length === 0) return;
-    const values = [...new Set(bad.map((i) => pts.cols[j][i]))].join(", ");
-    ctx.warn(
-      `Extrapolation: "${fit.model.columns[j]}" = ${values} (${
-        bad.length === 1 ? "point" : "points"
-      } ${
-        bad.map((i) => i + 1).join(", ")
-      }) lies outside the range fitted by "${spec.fit}", [${lo}, ${hi}]`,
-    );
-  });
-}
-
-function solveAll(
-  ctx: RunContext,
-  spec: PredictSpec,
-  fit: Fit,
-  model: ModelAtEstimates,
-  settings: IntervalSettings,
-  scale: ResponseScale,
-) {
-  const { response, values } = spec.solve!;
-  const modelScale = scale.transformed && response === scale.written;
-  if (response !== scale.column && !modelScale) {
-    const names = scale.transformed ? [scale.column, scale.written] : [scale.column];
-    throw new CellError(
-      `Cannot solve for "${response}" in predict "${ctx.name}": the response of fit "${spec.fit}" is ${
-        quoted(names)
-      }${didYouMean(response, names)}`,
-      ["solve", response],
-    );
-  }
-  if (fit.model.columns.length !== 1) {
-    throw new CellError(
-      `Cannot solve in predict "${ctx.name}": inverse prediction needs a fit with one predictor column, and "${spec.fit}" has ${fit.model.columns.length} (${
-        quoted(fit.model.columns)
-      })`,
-      ["solve"],
-    );
-  }
-  const col = fit.model.columns[0];
-  const [lo, hi] = fittedRanges(fit)[0];
-  const width = hi > lo ? hi - lo : Math.max(Math.abs(lo), 1);
-  const c: InverseContext = {
-    name: ctx.name,
-    fit,
-    fitName: spec.fit,
-    model,
-    settings,
-    range: spec.search ?? [lo - ROOT_MARGIN * width, hi + ROOT_MARGIN * width],
-    bandRange: spec.search ?? [lo - BAND_MARGIN * width, hi + BAND_MARGIN * width],
-    warn: ctx.warn,
-  };
-  const m = spec.replicates ?? 1;
-  return values.map((y0, k) => {
-    const path = ["solve", response, ...(values.length > 1 ? [k] : [])];
-    const shown = `"${response}" = ${y0}`;
-    const z0 = modelScale ? y0 : scale.forward(y0);
-    if (!Number.isFinite(z0)) {
-      throw new CellError(
-        `Cannot solve ${shown} in predict "${ctx.name}": "${scale.written}" is not finite there`,
-        path,
-      );
-    }
-    const r = inversePrediction(c, z0, shown, path);
-    const extrapolated = r.x < lo || r.x > hi;
-    if (extrapolated) {
-      ctx.warn(
-        `Extrapolation: ${shown} is solved by "${col}" = ${
-          formatNumber(r.x, 6)
-        }, outside the range fitted by "${spec.fit}", [${lo}, ${hi}]`,
-      );
-    }
-    return {
-      y: { [response]: y0 },
-      x: { [col]: r.x },
-      ci: r.ci,
-      method: r.method,
-      interval_for: m === 1
-        ? "a new single observation of the response"
-        : `the mean of ${m} new observations of the response`,
-      extrapolated,
-    };
-  });
 }

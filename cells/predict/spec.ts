@@ -6,9 +6,12 @@
  * at: { cycle: [500, 1000] }     # values per predictor column, lists paired element by element
  * solve: { capacity: 2000 }      # inverse prediction: which x gives this response (one predictor)
  * level: 0.9                     # interval level (default: the document's confidence)
- * weight: 2                      # relative weight of a new observation (fits with weights; default 1)
- * sigma: 1.5                     # σ of a new observation (fits with known_sigma; no default)
+ * weight: [1, 0.25]             # relative weight of a new observation, one or one per point
+ *                                # (fits with weights; default: the fit's weights expression there)
+ * sigma: 1.5                     # σ of a new observation, one or one per point
+ *                                # (fits with known_sigma; default: the fit's known_sigma there)
  * replicates: 3                  # new observations averaged, for prediction intervals (default 1)
+ * robust: hc3                    # heteroscedasticity-consistent covariance for se_fit (optional)
  * search: [0, 2000]              # x range searched by solve (default: fitted range ± 10 %)
  * ```
  *
@@ -26,7 +29,13 @@ import {
   type OptionDecls,
   type ParseContext,
   readCellName,
+  readChoice,
 } from "../../kernel/contract/mod.ts";
+import type { HCType } from "../../kernel/stats/mod.ts";
+import { perPoint } from "./_per_point.ts";
+
+/** The heteroscedasticity-consistent estimators `robust` accepts. */
+export const HC_TYPES: readonly HCType[] = ["hc0", "hc1", "hc2", "hc3"];
 
 /** A `predict` cell's normalised options (plain JSON: hashed into the cache key). */
 export interface PredictSpec {
@@ -38,14 +47,16 @@ export interface PredictSpec {
   solve: { response: string; values: number[] } | null;
   /** Interval level, when given (else the document's confidence). */
   level?: number;
-  /** Relative weight w₀ of a new observation, when given. */
-  weight?: number;
-  /** Standard deviation σ₀ of a new observation, when given. */
-  sigma?: number;
+  /** Relative weight w₀ of a new observation, when given: one for all, or one per point. */
+  weight?: number[];
+  /** Standard deviation σ₀ of a new observation, when given: one for all, or one per point. */
+  sigma?: number[];
   /** Number of new observations averaged, when given. */
   replicates?: number;
   /** The x range searched by `solve`, when given. */
   search?: [number, number];
+  /** Heteroscedasticity-consistent covariance for the mean response, when given. */
+  robust?: HCType;
 }
 
 /** Options a `predict` cell understands, each declared once. */
@@ -63,12 +74,13 @@ export const PREDICT_OPTIONS: OptionDecls = {
   level: { type: "number", doc: "interval level in (0, 1) (default the document's confidence)" },
   weight: {
     type: "number",
-    doc: "relative weight of a new observation, for fits with weights",
-    default: 1,
+    doc:
+      "relative weight of a new observation, one or a list with one per point, for fits with weights (default the fit's weights expression at the point)",
   },
   sigma: {
     type: "number",
-    doc: "standard deviation of a new observation, for fits with known_sigma",
+    doc:
+      "standard deviation of a new observation, one or a list with one per point, for fits with known_sigma (default the fit's known_sigma at the point)",
   },
   replicates: {
     type: "whole number",
@@ -79,6 +91,11 @@ export const PREDICT_OPTIONS: OptionDecls = {
     type: "list",
     doc: "the x range [low, high] that solve searches (default the fitted range ± 10 %)",
   },
+  robust: {
+    type: "choice",
+    doc: "heteroscedasticity-consistent covariance for the mean response's standard error",
+    choices: HC_TYPES,
+  },
 };
 
 /**
@@ -88,8 +105,9 @@ export const PREDICT_OPTIONS: OptionDecls = {
  * @returns The spec.
  * @throws {CellError} For an unknown option, a missing or bad `fit`, neither
  *   `at` nor `solve`, a value that is not a finite number, lists of unequal
- *   length in `at`, a `solve` without exactly one response, or a bad
- *   `level`, `weight`, `sigma`, `replicates` or `search`.
+ *   length in `at`, a `solve` without exactly one response, a bad
+ *   `level`, `weight`, `sigma` (or a list of them that does not match the
+ *   points), `replicates`, `search` or `robust`.
  * @example
  * ```ts
  * import { parsePredictSpec } from "./spec.ts";
@@ -113,8 +131,10 @@ export function parsePredictSpec(ctx: ParseContext): PredictSpec {
     );
   }
   const level = optionalNumber(ctx, "level", (v) => v > 0 && v < 1, "a level in (0, 1)");
-  const weight = optionalNumber(ctx, "weight", (v) => v > 0, "a positive weight");
-  const sigma = optionalNumber(ctx, "sigma", (v) => v > 0, "a positive standard deviation");
+  const counts = { at: at === null ? 0 : pointCount(at), solve: solve?.values.length ?? 0 };
+  const weight = perPoint(ctx, "weight", "a positive weight", counts);
+  const sigma = perPoint(ctx, "sigma", "a positive standard deviation", counts);
+  const robust = readChoice(ctx, "robust", HC_TYPES);
   const replicates = optionalNumber(
     ctx,
     "replicates",
@@ -131,7 +151,13 @@ export function parsePredictSpec(ctx: ParseContext): PredictSpec {
     ...(sigma === undefined ? {} : { sigma }),
     ...(replicates === undefined ? {} : { replicates }),
     ...(search === undefined ? {} : { search }),
+    ...(robust === null ? {} : { robust }),
   };
+}
+
+/** The number of points `at` gives: its longest list (lists are paired; one value serves all). */
+export function pointCount(at: Record<string, number[]>): number {
+  return Math.max(1, ...Object.values(at).map((v) => v.length));
 }
 
 function isMapping(v: unknown): v is Record<string, unknown> {

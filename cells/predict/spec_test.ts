@@ -128,3 +128,23 @@ Deno.test("predictKind.line() and the view show points and inverse predictions",
   assert.ok(html.includes("fieller") && html.includes("new observation"), html);
   assert.equal((html.match(/<tr>/g) ?? []).length, 2 + 3, "two header rows, two points, one solve");
 });
+
+Deno.test("the view labels the median, the two means, se_prediction and the weight used", () => {
+  const x = [1, 2, 3, 4, 5, 6], y = [2.9, 7.1, 21.5, 52.0, 160.3, 398.0];
+  const { result } = predict(fitOf({ x, y }, "log(y) = a + b*x", { weights: "1/x^2" }), {
+    at: { x: [2, 4] },
+  });
+  const html = renderToString(predictPage.view({ name: "eol", result }));
+  for (
+    const text of [
+      "Estimate (median)",
+      "Mean, lognormal (95% interval)",
+      "Mean, Duan smearing",
+      "Std. error, new observation (model (log(y)))",
+      "Weight w₀",
+      "its weight: the fit's weights expression &quot;1/x^2&quot; at the point",
+      "covariance: the fit's: s²(XᵀWX)⁻¹",
+    ]
+  ) assert.ok(html.includes(text), `${text} in ${html}`);
+  assert.equal((html.match(/<tr>/g) ?? []).length, 1 + 2, "one header row, two points");
+});

@@ -1,15 +1,17 @@
 /**
  * The predict cell's view: a table of points (predictor values, estimate,
- * standard error, interval for the mean response, interval for a new
- * observation) and a table of inverse predictions (response value, the x
- * that gives it, its interval and the method). Plain markup, shared by the
- * live page and the static record.
+ * standard errors of the mean response and of a new observation, the new
+ * observation's weight or σ for weighted fits, interval for the mean
+ * response, interval for a new observation, and for a log response the two
+ * labelled estimates of the mean of y) and a table of inverse predictions
+ * (response value, the x that gives it, its interval and the method). Plain
+ * markup, shared by the live page and the static record.
  *
  * @module
  */
 import type { VNode } from "preact";
 import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
-import type { PredictResult } from "./result.ts";
+import type { PredictPointResult, PredictResult } from "./result.ts";
 import { formatInterval, formatNumber } from "../shared/format.ts";
 
 /**
@@ -24,8 +26,10 @@ import { formatInterval, formatNumber } from "../shared/format.ts";
  * const html = renderToString(PredictView({ name: "eol", result: {
  *   fit: "line", level: 0.95, response: "y", scale: "response as written",
  *   se_scale: "response as written", distribution: "t(8)", new_observation: "s²/m",
- *   mean_method: "exact",
- *   at: [{ x: { x: 2 }, estimate: 5, se_fit: 0.1, ci: [4.8, 5.2], pi: [4, 6], extrapolated: false }],
+ *   weight_source: "none: the fit is unweighted", covariance: "the fit's: s²(XᵀX)⁻¹",
+ *   robust: null, mean_method: "exact",
+ *   at: [{ x: { x: 2 }, estimate: 5, se_fit: 0.1, ci: [4.8, 5.2], pi: [4, 6],
+ *     se_prediction: 0.44, extrapolated: false }],
  *   solve: [{ y: { y: 5 }, x: { x: 2 }, ci: [1.5, 2.5], method: "fieller",
  *     interval_for: "a new single observation of the response", extrapolated: false }],
  * } }));
@@ -35,22 +39,34 @@ import { formatInterval, formatNumber } from "../shared/format.ts";
 export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNode {
   const level = `${formatNumber(100 * r.level, 4)}%`;
   const columns = r.at.length > 0 ? Object.keys(r.at[0].x) : [];
+  const own = r.at.some((p) => "weight" in p)
+    ? "weight"
+    : r.at.some((p) => "sigma" in p)
+    ? "sigma"
+    : null;
+  const means = r.at.find((p) => p.mean_estimates)?.mean_estimates ?? [];
   return (
     <section class="plumb-predict" aria-label={`Predictions ${name}`}>
       <p class="plumb-predict-basis">
         From fit <code>{r.fit}</code>, response <code>{r.response}</code> on the {r.scale}{" "}
-        scale; intervals at {level} from {r.distribution}; a new observation's variance:{" "}
-        {r.new_observation}.
+        scale; intervals at {level} from {r.distribution}; covariance:{" "}
+        {r.covariance}; a new observation's variance: {r.new_observation}
+        {own === null ? "" : `; its ${own}: ${r.weight_source}`}.
+        {r.estimate_is ? ` Estimate: ${r.estimate_is}.` : ""}
+        {means.map((m) => ` Mean (${m.method}): ${m.label}.`).join("")}
       </p>
       {r.at.length > 0 && (
         <table class="plumb-predict-points">
           <thead>
             <tr>
               {columns.map((c) => <th scope="col" key={c}>{c}</th>)}
-              <th scope="col">Estimate</th>
+              <th scope="col">{r.estimate_is ? "Estimate (median)" : "Estimate"}</th>
               <th scope="col">Std. error ({r.se_scale})</th>
+              <th scope="col">Std. error, new observation ({r.se_scale})</th>
+              {own && <th scope="col">{own === "weight" ? "Weight w₀" : "σ₀"}</th>}
               <th scope="col">{level} mean response</th>
               <th scope="col">{level} new observation</th>
+              {means.map((m) => <th scope="col" key={m.method}>{meanHeader(m.method, level)}</th>)}
             </tr>
           </thead>
           <tbody>
@@ -64,8 +80,11 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
                 ))}
                 <td>{formatNumber(p.estimate, 6)}</td>
                 <td>{formatNumber(p.se_fit, 3)}</td>
+                <td>{formatNumber(p.se_prediction, 3)}</td>
+                {own && <td>{formatNumber(ownValue(p, own), 4)}</td>}
                 <td>{formatInterval(p.ci)}</td>
                 <td>{formatInterval(p.pi)}</td>
+                {means.map((m, k) => <td key={m.method}>{meanCell(p, k)}</td>)}
               </tr>
             ))}
           </tbody>
@@ -95,6 +114,22 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
       )}
     </section>
   );
+}
+
+function ownValue(p: PredictPointResult, own: "weight" | "sigma"): number | null {
+  return p[own] ?? null;
+}
+
+function meanHeader(method: string, level: string): string {
+  return method === "lognormal" ? `Mean, lognormal (${level} interval)` : "Mean, Duan smearing";
+}
+
+function meanCell(p: PredictPointResult, k: number): string {
+  const m = p.mean_estimates?.[k];
+  if (m === undefined) return "—";
+  return m.ci === null
+    ? formatNumber(m.estimate, 6)
+    : `${formatNumber(m.estimate, 6)} ${formatInterval(m.ci)}`;
 }
 
 function entries(v: Record<string, number>): string {
