@@ -54,24 +54,7 @@ export function solveAll(
 ): PredictSolveResult[] {
   const { fit, scale } = s;
   const { response, values } = spec.solve!;
-  const modelScale = scale.transformed && response === scale.written;
-  if (response !== scale.column && !modelScale) {
-    const names = scale.transformed ? [scale.column, scale.written] : [scale.column];
-    throw new CellError(
-      `Cannot solve for "${response}" in predict "${ctx.name}": the response of fit "${spec.fit}" is ${
-        quoted(names)
-      }${didYouMean(response, names)}`,
-      ["solve", response],
-    );
-  }
-  if (fit.model.columns.length !== 1) {
-    throw new CellError(
-      `Cannot solve in predict "${ctx.name}": inverse prediction needs a fit with one predictor column, and "${spec.fit}" has ${fit.model.columns.length} (${
-        quoted(fit.model.columns)
-      })`,
-      ["solve"],
-    );
-  }
+  const modelScale = checkSolvable(ctx.name, spec, fit, scale);
   const col = fit.model.columns[0];
   const [lo, hi] = fittedRanges(fit)[0];
   const width = hi > lo ? hi - lo : Math.max(Math.abs(lo), 1);
@@ -131,4 +114,28 @@ export function solveAll(
       extrapolated,
     };
   });
+}
+
+/** Whether y₀ is written on the model scale; refuses a response that is not the fit's or a fit of several predictors. */
+function checkSolvable(name: string, spec: PredictSpec, fit: Fit, scale: ResponseScale): boolean {
+  const { response } = spec.solve!;
+  const modelScale = scale.transformed && response === scale.written;
+  if (response !== scale.column && !modelScale) {
+    const names = scale.transformed ? [scale.column, scale.written] : [scale.column];
+    throw new CellError(
+      `Cannot solve for "${response}" in predict "${name}": the response of fit "${spec.fit}" is ${
+        quoted(names)
+      }${didYouMean(response, names)}`,
+      ["solve", response],
+    );
+  }
+  if (fit.model.columns.length !== 1) {
+    throw new CellError(
+      `Cannot solve in predict "${name}": inverse prediction needs a fit with one predictor column, and "${spec.fit}" has ${fit.model.columns.length} (${
+        quoted(fit.model.columns)
+      })`,
+      ["solve"],
+    );
+  }
+  return modelScale;
 }
