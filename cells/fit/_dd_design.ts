@@ -117,16 +117,20 @@ export function ddRows(
   cols: readonly DDColumn[],
 ): DDRows {
   const { model, n } = problem;
-  const maxAbs = new Map<number, number>();
-  const largest = (c: number) => {
-    if (!maxAbs.has(c)) {
-      let a = 0;
+  const scans = new Map<number, { largest: number; integers: boolean }>();
+  const scan = (c: number) => {
+    if (!scans.has(c)) {
+      let a = 0, integers = cols[c].lo === null;
       const v = cols[c].hi;
-      for (let i = 0; i < v.length; i++) a = Math.max(a, Math.abs(v[i]));
-      maxAbs.set(c, a);
+      for (let i = 0; i < v.length; i++) {
+        a = Math.max(a, Math.abs(v[i]));
+        if (integers && !Number.isInteger(v[i])) integers = false;
+      }
+      scans.set(c, { largest: a, integers });
     }
-    return maxAbs.get(c)!;
+    return scans.get(c)!;
   };
+  const largest = (c: number) => scan(c).largest;
   const plans = terms.map((t) => {
     const m = monomialOf(t, model.columns);
     // TwoProduct's splitting overflows above about 2^996 (kernel/dd.ts): such terms go to compileDD.
@@ -144,7 +148,19 @@ export function ddRows(
       n,
     ) as DDColumn;
   });
-  return new MonomialRows(cols, plans);
+  // Whole numbers whose every power used stays below 2^53 have exact double powers (Wampler's x).
+  const exact = new Set<number>();
+  for (const m of plans) {
+    if (!("powers" in m)) continue;
+    for (const [c, k] of m.powers) {
+      if (scan(c).integers && scan(c).largest ** k < 2 ** 53) exact.add(c);
+    }
+  }
+  for (const m of plans) {
+    if (!("powers" in m)) continue;
+    for (const [c, k] of m.powers) if (!(scan(c).largest ** k < 2 ** 53)) exact.delete(c);
+  }
+  return new MonomialRows(cols, plans, exact);
 }
 
 /**
@@ -162,6 +178,8 @@ class MonomialRows implements DDRows {
   constructor(
     private readonly data: readonly DDColumn[],
     private readonly plans: (Monomial | DDColumn)[],
+    /** Columns whose powers are exact in double (whole numbers, powers below 2^53). */
+    private readonly exact: ReadonlySet<number>,
   ) {
     const top = new Map<number, number>();
     for (const m of plans) {
@@ -188,7 +206,9 @@ class MonomialRows implements DDRows {
     lo: (ArrayLike<number> | null)[],
   ): void {
     const len = end - start;
-    for (const [c, pw] of this.#powers) powersOf(this.data[c], start, len, pw.hi, pw.lo);
+    for (const [c, pw] of this.#powers) {
+      powersOf(this.data[c], start, len, pw.hi, this.exact.has(c) ? null : pw.lo);
+    }
     this.plans.forEach((m, j) => {
       if (!("powers" in m)) {
         hi[j] = m.hi.subarray(start, end);
@@ -198,7 +218,8 @@ class MonomialRows implements DDRows {
       const own = this.#own[j];
       if (own === null) {
         const [[c, k]] = m.powers;
-        hi[j] = this.#powers.get(c)!.hi[k], lo[j] = this.#powers.get(c)!.lo[k];
+        hi[j] = this.#powers.get(c)!.hi[k];
+        lo[j] = this.exact.has(c) ? null : this.#powers.get(c)!.lo[k];
         return;
       }
       own.hi.fill(m.coef, 0, len), own.lo.fill(0, 0, len);
@@ -211,17 +232,28 @@ class MonomialRows implements DDRows {
   }
 }
 
-/** x^0 … x^top of rows start … start + len − 1 of x, x^k = x^(k−1)·x (Dekker's mul2). */
+/**
+ * x^0 … x^top of rows start … start + len − 1 of x, x^k = x^(k−1)·x (Dekker's
+ * mul2); with pl null, in double (for whole numbers whose powers are exact).
+ */
 function powersOf(
   x: DDColumn,
   start: number,
   len: number,
   ph: Float64Array[],
-  pl: Float64Array[],
+  pl: Float64Array[] | null,
 ): void {
-  ph[0].fill(1, 0, len), pl[0].fill(0, 0, len);
+  ph[0].fill(1, 0, len);
   const xh = x.hi.subarray(start, start + len);
   const xl = x.lo === null ? null : x.lo.subarray(start, start + len);
+  if (pl === null) {
+    for (let k = 1; k < ph.length; k++) {
+      const a = ph[k - 1], b = ph[k];
+      for (let i = 0; i < len; i++) b[i] = a[i] * xh[i];
+    }
+    return;
+  }
+  pl[0].fill(0, 0, len);
   for (let k = 1; k < ph.length; k++) {
     ph[k].set(ph[k - 1].subarray(0, len)), pl[k].set(pl[k - 1].subarray(0, len));
     mulInto(ph[k], pl[k], xh, xl, len);

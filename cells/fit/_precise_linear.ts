@@ -49,13 +49,12 @@
 import {
   ddLeastSquares,
   type DDRows,
-  ddSumOfSquares,
   factorOfQR,
   type LeastSquaresFit,
   refineLeastSquares,
   type TriangularFactor,
 } from "../../kernel/linalg/mod.ts";
-import { sumError } from "../../kernel/dd.ts";
+import { ddAdd, ddDiv, ddMul, productError, sumError } from "../../kernel/dd.ts";
 import type { DDColumn } from "./_dd_design.ts";
 
 /** Largest n·p² solved in double-double (10,000 rows × 10 terms is 1e6). */
@@ -162,9 +161,9 @@ export function solveRefined(
   root: Float64Array | null,
   hasIntercept: boolean,
 ): PreciseLinear | null {
-  if (!finite(dd.target.hi) || !finite(dd.y.hi)) return null;
+  // (A response or target that is not finite makes the refinement's residuals so: it returns null.)
   // The double solution's fitted values and residuals are not used: its arrays are the work space.
-  const r = refineLeastSquares(ls, rows, dd.target, root, [ls.qty, ls.residuals, ls.fitted]);
+  const r = refineLeastSquares(ls, rows, dd.target, root, { reuse: true });
   if (r === null) return null;
   return {
     estimates: r.coefficients,
@@ -179,7 +178,10 @@ export function solveRefined(
 
 /**
  * fitted = y − r in double-double (so residuals = y − fitted exactly as the
- * double path), into `out` when given, and TSS.
+ * double path), into `out` when given, and, for an unweighted fit, TSS from
+ * the response as printed: with an intercept Σy² − (Σy)²/n from the two sums
+ * in double-double (the one pass loses about (1 + ȳ²/s²)·2⁻¹⁰⁴ relative,
+ * far below a double's resolution for any data a fit meets), else Σy².
  */
 function fromResiduals(
   y: DDColumn,
@@ -189,13 +191,27 @@ function fromResiduals(
   hasIntercept: boolean,
   out?: Float64Array,
 ) {
-  const n = residuals.length;
+  const n = residuals.length, yl = y.lo;
   const fitted = out ?? new Float64Array(n);
+  let sh = 0, sl = 0, qh = 0, ql = 0;
   for (let i = 0; i < n; i++) {
-    const s = y.hi[i] - residuals[i], e = sumError(y.hi[i], -residuals[i], s);
-    fitted[i] = s + (e + ((y.lo === null ? 0 : y.lo[i]) - residualsLo[i]));
+    const a = y.hi[i], b = yl === null ? 0 : yl[i];
+    const s = a - residuals[i], e = sumError(a, -residuals[i], s);
+    fitted[i] = s + (e + (b - residualsLo[i]));
+    // Σy and Σy² with every rounding error carried (Dot2, Ogita, Rump & Oishi 2005)
+    const t = sh + a;
+    sl += sumError(sh, a, t) + b;
+    sh = t;
+    const q = a * a, u = qh + q;
+    ql += sumError(qh, q, u) + (productError(a, a, q) + 2 * a * b);
+    qh = u;
   }
-  return { fitted, tss: root === null ? ddSumOfSquares(y, hasIntercept) : undefined };
+  if (root !== null) return { fitted, tss: undefined };
+  if (!hasIntercept) return { fitted, tss: qh + ql };
+  // TSS = Σy² − (Σy)²/n in double-double
+  const mean = ddDiv(ddAdd([sh, 0], [sl, 0]), [n, 0]);
+  const tss = ddAdd([qh, ql], ddMul(ddMul(mean, [-n, 0]), mean));
+  return { fitted, tss: tss[0] + tss[1] };
 }
 
 function finite(v: Float64Array): boolean {

@@ -107,13 +107,14 @@ export function solveLinear(problem: FitProblem, options: SolveLinearOptions = {
   // Small problems, and ill-conditioned medium ones, are solved again in double-double from the
   // data as printed; the others are refined against the same data (the rule: _precise_linear.ts).
   const cols = printedColumns(problem);
-  let dd: DDColumn[] | null = null, precise: PreciseLinear | null = null;
+  let dd: DDColumn[] | null = null, precise: PreciseLinear | null = null, spent = false;
   if (usePrecise(problem.n, params.length, kappa)) {
     dd = ddDesign(problem, terms, cols);
     precise = solvePrecise(dd, ddResponse(problem, cols, offset), ls.qr.perm, root, hasIntercept);
   } else if (options.refine !== false) {
     const rows = ddRows(problem, terms, cols);
     precise = solveRefined(ls, rows, ddResponse(problem, cols, offset), root, hasIntercept);
+    spent = true; // the refinement worked in ls.fitted and ls.residuals
   }
   const common = {
     method: "linear" as const,
@@ -134,17 +135,35 @@ export function solveLinear(problem: FitProblem, options: SolveLinearOptions = {
     };
     return { ...common, ...rest, designQR };
   }
-  const part = root ? unwhiten(ls.fitted, root) : ls.fitted;
+  const part = spent
+    ? product(design, ls.coefficients)
+    : root
+    ? unwhiten(ls.fitted, root)
+    : ls.fitted;
   const fitted = offset ? part.map((v, i) => v + offset[i]) : part;
+  const residuals = spent
+    ? target.map((v, i) => v - part[i])
+    : root
+    ? unwhiten(ls.residuals, root)
+    : ls.residuals;
   return {
     ...common,
     designQR: { ...ls.qr, triangular: factorOfQR(ls.qr, ls.scale) },
     estimates: ls.coefficients,
     unscaledCovariance: ls.unscaledCovariance,
     fitted,
-    residuals: root ? unwhiten(ls.residuals, root) : ls.residuals,
+    residuals,
     rss: ls.rss,
   };
+}
+
+/** X·β on the original scale (the double solution's fitted values less any offset). */
+function product(design: readonly Float64Array[], beta: Float64Array): Float64Array {
+  const out = new Float64Array(design[0].length);
+  design.forEach((c, j) => {
+    for (let i = 0; i < out.length; i++) out[i] += beta[j] * c[i];
+  });
+  return out;
 }
 
 /** A term evaluated in double on the rows used. */

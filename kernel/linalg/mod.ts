@@ -41,6 +41,7 @@ export {
   type DDRows,
   type RefinedLeastSquares,
   refineLeastSquares,
+  type RefineOptions,
   ROW_BLOCK,
 } from "./refine_least_squares.ts";
 // Double-double building blocks live in kernel/dd.ts; offered here as before for the solvers.

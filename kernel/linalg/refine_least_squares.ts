@@ -21,8 +21,12 @@
  * ```
  *
  * The start is the QR solution with r = Q·(0, (Qᵀb)₂) (Björck's first step:
- * r ⟂ range(Q₁) to working precision; r = b − A·x₀ instead would make the
- * first correction a semi-normal step, whose error grows with κ², not κ).
+ * r ⟂ range(Q₁) to working precision). r = b − A·x₀ instead makes the first
+ * correction a semi-normal step (Björck 1987, "Stability analysis of the
+ * method of seminormal equations", Linear Algebra Appl. 88/89; from
+ * memory), whose rate grows with κ², not κ: that start, the double
+ * solution's own residual and no product with Q, is taken when κ²·u·c(m)
+ * is small enough for one step (Wampler4, Longley; not Filip).
  * f and g are computed in double-double from A and b as hi + lo pairs; each
  * step then reduces the error by about κ·u·c(m), with c(m) the growth of the
  * factorization's backward error with the rows ({@link growth}).
@@ -94,15 +98,13 @@ export interface RefinedLeastSquares {
  * Refines the double QR solution of min ‖W(b − A·x)‖₂ (W = diag(rowScale)).
  *
  * @param ls The double solution of the whitened problem: its pivoted QR of
- *   W·A·S, the scales S, the coefficients and Qᵀ(W·b) (`leastSquares`).
+ *   W·A·S, the scales S, the coefficients, Qᵀ(W·b) and its residuals
+ *   (`leastSquares`).
  * @param a A, unweighted, as hi + lo (the data as printed): its columns, or
  *   its rows on demand.
  * @param y b, unweighted, as hi + lo.
  * @param rowScale wᵢ per row (√ of a weight), exact doubles; null for none.
- * @param work Optional three m-long arrays to work in (overwritten; the
- *   first two become the unweighted residuals' hi and lo parts when the
- *   problem has no row scales), e.g. the double solution's spent `qty`,
- *   `residuals` and `fitted`.
+ * @param options Whether the solution's own arrays may be overwritten.
  * @returns The refined solution, or null when refinement cannot converge
  *   (see the module notes) or meets a value that is not finite.
  * @example
@@ -119,28 +121,33 @@ export interface RefinedLeastSquares {
  * ```
  */
 export function refineLeastSquares(
-  ls: Pick<LeastSquaresFit, "qr" | "scale" | "coefficients" | "qty">,
+  ls: Pick<LeastSquaresFit, "qr" | "scale" | "coefficients" | "qty" | "residuals" | "fitted">,
   a: DDRows | readonly DDVector[],
   y: DDVector,
   rowScale: ArrayLike<number> | null,
-  work?: readonly [Float64Array, Float64Array, Float64Array],
+  options: RefineOptions = {},
 ): RefinedLeastSquares | null {
   const { qr } = ls, m = qr.m, p = qr.n;
-  const rate = SAFETY * scaledConditionNumber(qr) * 2 ** -53 * growth(m);
+  const kappa = scaledConditionNumber(qr), uc = SAFETY * 2 ** -53 * growth(m);
+  const rate = kappa * uc;
   if (!(rate < 0.5) || qr.rank < p) return null;
-  // Björck's start: x₀ from the QR, r₀ = Q·(0, (Qᵀb)₂). Work vectors: the solution's own
-  // m-long arrays when offered (already touched: see the module notes), else new ones.
-  const rh = work?.[0] ?? new Float64Array(m), rl = work?.[1] ?? new Float64Array(m);
-  const f = work?.[2] ?? new Float64Array(m);
-  rh.set(ls.qty);
-  rh.fill(0, 0, p);
-  rl.fill(0);
-  const s: State = {
-    xh: ls.coefficients.slice(),
-    xl: new Float64Array(p),
-    rh: applyQInPlace(qr, rh),
-    rl,
-  };
+  // The solution's own m-long arrays are the work space when offered (already touched: see
+  // the module notes), else new ones.
+  const own = options.reuse === true;
+  const f = own ? ls.fitted : new Float64Array(m);
+  // Start: x₀ from the QR. r₀ = the double residual b − A·x₀ when a first semi-normal step
+  // (rate κ²·u·c(m)) converges at once, else Björck's r₀ = Q·(0, (Qᵀb)₂).
+  const cheap = kappa * kappa * uc < CHEAP_START;
+  let rh: Float64Array;
+  if (cheap) rh = own ? ls.residuals : ls.residuals.slice();
+  else {
+    rh = own ? ls.residuals : new Float64Array(m);
+    rh.set(ls.qty);
+    rh.fill(0, 0, p);
+    applyQInPlace(qr, rh);
+  }
+  const rl = own ? ls.qty.fill(0) : new Float64Array(m);
+  const s: State = { xh: ls.coefficients.slice(), xl: new Float64Array(p), rh, rl };
   const rows = "block" in a ? a : columnRows(a);
   const data: Data = { rows, y, w: rowScale, p };
   const corrections: number[] = [];
@@ -150,11 +157,24 @@ export function refineLeastSquares(
     const c = correct(ls, s, f, g);
     if (!Number.isFinite(c)) return null;
     corrections.push(c);
-    if (rate * c <= TARGET) break;
+    if ((step === 0 && cheap ? kappa * rate : rate) * c <= TARGET) break;
     if (step > 0 && c > 0.5 * corrections[step - 1]) break;
   }
   return { ...finish(data, s), coefficients: s.xh, coefficientsLo: s.xl, corrections };
 }
+
+/** Options of {@link refineLeastSquares}. */
+export interface RefineOptions {
+  /**
+   * Work in the solution's own m-long arrays (`qty`, `residuals`, `fitted`),
+   * overwriting them; without a row scale the residuals returned are two of
+   * them. Default false.
+   */
+  reuse?: boolean;
+}
+
+/** Largest estimated rate κ²·u·c(m) of a semi-normal first step for which r₀ is the double residual. */
+const CHEAP_START = 1e-3;
 
 /** Estimated error left after a step, relative to the coefficient, below which steps stop. */
 const TARGET = 1e-15;

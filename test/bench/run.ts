@@ -18,6 +18,13 @@
  * - read off the micro-benchmarks: a 1,000,000 × 10 linear fit on the fast
  *   double path, a 10,000 × 10 fit on the double-double path, and nonlinear
  *   fits per second for y = a·exp(−b·x) + c with n = 100.
+ * - `certified_million`: NIST StRD Filip, Wampler4 and Longley replicated
+ *   to about 1,000,000 rows, fitted on the certified path (the double QR
+ *   refined against the data as printed) and on the double path alone:
+ *   worst LRE of the estimates against the certificate (target 12 or more)
+ *   and time, certified against double (target within 1.5×), each fit in a
+ *   new process, medians of three; also both in one warm process
+ *   (test/bench/certified_million.ts).
  * - `worker_startup`: the compute worker from `new Worker` to its first
  *   answers (`ready`, target under 100 ms; `first_run`, a three-row table),
  *   and `plumb_run_cold`: a whole `plumb run` of the demo as a new process,
@@ -34,6 +41,7 @@ import { fakeRegistry } from "../../kernel/session/testdata/fake_kinds.ts";
 import { VERSION } from "../../kernel/version.ts";
 import { updateLatency } from "../e2e/latency_bench.ts";
 import { startupFigures } from "./startup.ts";
+import { certifiedMillion } from "./certified_million.ts";
 
 const root = new URL("../../", import.meta.url);
 
@@ -143,6 +151,7 @@ const startup = await startupFigures(root);
 const updateTop = await updateLatency();
 const updateCharts = await updateLatency(20, "charts");
 const benches = (await microBenches()) as Bench[];
+const certified = await certifiedMillion();
 const report = {
   plumb: VERSION,
   deno: Deno.version.deno,
@@ -154,6 +163,7 @@ const report = {
     update_latency: updateTop,
     update_latency_charts_in_view: updateCharts,
     ...startup,
+    certified_million: certified,
     ...fromBenches(benches),
   },
   benches,
