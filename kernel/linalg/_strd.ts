@@ -9,6 +9,7 @@
  *
  * @module
  */
+import { parseDecimal } from "../csv/mod.ts";
 
 /** The shared reference folder, `../shared/reference/` beside the repository. */
 export const REFERENCE_DIR = new URL("../../../shared/reference/", import.meta.url);
@@ -20,6 +21,8 @@ export interface StrdSet {
   columns: string[];
   /** One Float64Array per column. */
   data: Float64Array[];
+  /** Per column, each number as printed less its double (kernel/csv `parseDecimal`). */
+  lo: Float64Array[];
   parameters: { name: string; estimate: number; std_dev: number }[];
   residual_sum_of_squares: number;
   residual_std_dev: number;
@@ -74,17 +77,19 @@ export async function loadStrd(name: string, base: URL = REFERENCE_DIR): Promise
   const lines = new TextDecoder().decode(bytes).split("\n");
   const rows = lines.slice(set.data.first_line - 1, set.data.last_line)
     .map((l) => l.trim()).filter((l) => l !== "")
-    .map((l) => l.split(/\s+/).map(Number));
+    .map((l) => l.split(/\s+/).map((t) => parseDecimal(t)));
   if (rows.length !== set.data.n_rows) {
     throw new Error(
       `Reference file "${set.file}": ${rows.length} rows, expected ${set.data.n_rows}`,
     );
   }
-  const data = set.data.columns.map((_, j) => Float64Array.from(rows, (r) => r[j]));
+  const data = set.data.columns.map((_, j) => Float64Array.from(rows, (r) => r[j][0]));
+  const lo = set.data.columns.map((_, j) => Float64Array.from(rows, (r) => r[j][1]));
   return {
     name,
     columns: set.data.columns,
     data,
+    lo,
     parameters: set.parameters,
     residual_sum_of_squares: set.residual_sum_of_squares,
     residual_std_dev: set.residual_std_dev,
