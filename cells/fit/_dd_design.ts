@@ -9,10 +9,11 @@
  * `linear()` expand to) are evaluated here, the powers of each column by
  * successive double-double products shared by every term (x² = x·x,
  * x³ = x²·x, …; Dekker 1971 mul2 as kernel/dd.ts `mulDD`); any other term by
- * kernel/expr `compileDD`, node by node. Measured on 1,000,000 rows of
- * polynomial(x, 10) (this machine): about 90 ms here against about 500 ms
- * term by term with `compileDD`, and 165 ms for the double design by
- * `compile`.
+ * kernel/expr `compileDD`, node by node. The columns are kept whole, for the
+ * double-double path (n·p² ≤ 2e7, `_precise_linear.ts`); the refinement at
+ * larger sizes reads rows a block at a time instead (`_dd_rows.ts`).
+ * Measured on 1,000,000 rows of polynomial(x, 10) (this machine): 70–80 ms
+ * here against about 500 ms term by term with `compileDD`.
  *
  * ```
  *  x (hi, lo) ─·x─▶ x² ─·x─▶ x³ … x¹⁰      one pass per power, shared by the terms
@@ -23,8 +24,7 @@
  * @module
  */
 import { compileDD, type Expr } from "../../kernel/expr/mod.ts";
-import { fastSumError, mulDD, productError } from "../../kernel/dd.ts";
-import { type DDRows, ROW_BLOCK } from "../../kernel/linalg/mod.ts";
+import { mulDD, productError } from "../../kernel/dd.ts";
 import type { FitProblem } from "./problem.ts";
 import { printedLo } from "./_printed_lo.ts";
 
@@ -98,186 +98,8 @@ export function ddDesign(
   });
 }
 
-/**
- * The design's rows in double-double on demand, for refinement at scale
- * (kernel/linalg `refineLeastSquares`): monomial terms from their columns'
- * powers, computed row by row; any other term evaluated once by `compileDD`
- * and read. A million rows of polynomial(x, 10) keep no low parts (80 MB,
- * about 200 ms to allocate and touch) for the price of nine double-double
- * products a row in each refinement pass.
- *
- * @param problem The fit problem (model, n).
- * @param terms ∂f/∂θ_j per parameter.
- * @param cols The columns as printed ({@link printedColumns}).
- * @returns The row source.
- */
-export function ddRows(
-  problem: FitProblem,
-  terms: readonly Expr[],
-  cols: readonly DDColumn[],
-): DDRows {
-  const { model, n } = problem;
-  const scans = new Map<number, { largest: number; integers: boolean }>();
-  const scan = (c: number) => {
-    if (!scans.has(c)) {
-      let a = 0, integers = cols[c].lo === null;
-      const v = cols[c].hi;
-      for (let i = 0; i < v.length; i++) {
-        a = Math.max(a, Math.abs(v[i]));
-        if (integers && !Number.isInteger(v[i])) integers = false;
-      }
-      scans.set(c, { largest: a, integers });
-    }
-    return scans.get(c)!;
-  };
-  const largest = (c: number) => scan(c).largest;
-  const plans = terms.map((t) => {
-    const m = monomialOf(t, model.columns);
-    // TwoProduct's splitting overflows above about 2^996 (kernel/dd.ts): such terms go to compileDD.
-    const safe = m !== null &&
-      [...m.powers].every(([c, k]) =>
-        (k <= 1 && Math.abs(m.coef) <= 1) || largest(c) ** k * Math.abs(m.coef) < 2 ** 900
-      );
-    if (safe) return m!;
-    const zeros = new Float64Array(model.parameters.length);
-    return compileDD(t, model.columns, model.parameters)(
-      cols.map((c) => c.hi),
-      cols.map((c) => c.lo),
-      zeros,
-      null,
-      n,
-    ) as DDColumn;
-  });
-  // Whole numbers whose every power used stays below 2^53 have exact double powers (Wampler's x).
-  const exact = new Set<number>();
-  for (const m of plans) {
-    if (!("powers" in m)) continue;
-    for (const [c, k] of m.powers) {
-      if (scan(c).integers && scan(c).largest ** k < 2 ** 53) exact.add(c);
-    }
-  }
-  for (const m of plans) {
-    if (!("powers" in m)) continue;
-    for (const [c, k] of m.powers) if (!(scan(c).largest ** k < 2 ** 53)) exact.delete(c);
-  }
-  return new MonomialRows(cols, plans, exact);
-}
-
-/**
- * Blocks of rows of monomials (each column's powers x, x², … computed once
- * per block, column by column, into buffers reused from block to block;
- * each term then a power, or a product of powers) and of terms kept as
- * columns (views).
- */
-class MonomialRows implements DDRows {
-  /** Powers x^1 … x^top of each used column, hi and lo, one block long. */
-  readonly #powers = new Map<number, { hi: Float64Array[]; lo: Float64Array[] }>();
-  /** A buffer per term that is a product or a multiple of powers. */
-  readonly #own: ({ hi: Float64Array; lo: Float64Array } | null)[];
-
-  constructor(
-    private readonly data: readonly DDColumn[],
-    private readonly plans: (Monomial | DDColumn)[],
-    /** Columns whose powers are exact in double (whole numbers, powers below 2^53). */
-    private readonly exact: ReadonlySet<number>,
-  ) {
-    const top = new Map<number, number>();
-    for (const m of plans) {
-      if ("powers" in m) {
-        for (const [c, k] of m.powers) top.set(c, Math.max(top.get(c) ?? 0, k));
-      }
-    }
-    const buf = () => new Float64Array(ROW_BLOCK);
-    for (const [c, k] of top) {
-      this.#powers.set(c, {
-        hi: Array.from({ length: k + 1 }, buf),
-        lo: Array.from({ length: k + 1 }, buf),
-      });
-    }
-    this.#own = plans.map((m) =>
-      "powers" in m && !(m.coef === 1 && m.powers.size === 1) ? { hi: buf(), lo: buf() } : null
-    );
-  }
-
-  block(
-    start: number,
-    end: number,
-    hi: ArrayLike<number>[],
-    lo: (ArrayLike<number> | null)[],
-  ): void {
-    const len = end - start;
-    for (const [c, pw] of this.#powers) {
-      powersOf(this.data[c], start, len, pw.hi, this.exact.has(c) ? null : pw.lo);
-    }
-    this.plans.forEach((m, j) => {
-      if (!("powers" in m)) {
-        hi[j] = m.hi.subarray(start, end);
-        lo[j] = m.lo === null ? null : m.lo.subarray(start, end);
-        return;
-      }
-      const own = this.#own[j];
-      if (own === null) {
-        const [[c, k]] = m.powers;
-        hi[j] = this.#powers.get(c)!.hi[k];
-        lo[j] = this.exact.has(c) ? null : this.#powers.get(c)!.lo[k];
-        return;
-      }
-      own.hi.fill(m.coef, 0, len), own.lo.fill(0, 0, len);
-      for (const [c, k] of m.powers) {
-        const pw = this.#powers.get(c)!;
-        mulInto(own.hi, own.lo, pw.hi[k], pw.lo[k], len);
-      }
-      hi[j] = own.hi, lo[j] = own.lo;
-    });
-  }
-}
-
-/**
- * x^0 … x^top of rows start … start + len − 1 of x, x^k = x^(k−1)·x (Dekker's
- * mul2); with pl null, in double (for whole numbers whose powers are exact).
- */
-function powersOf(
-  x: DDColumn,
-  start: number,
-  len: number,
-  ph: Float64Array[],
-  pl: Float64Array[] | null,
-): void {
-  ph[0].fill(1, 0, len);
-  const xh = x.hi.subarray(start, start + len);
-  const xl = x.lo === null ? null : x.lo.subarray(start, start + len);
-  if (pl === null) {
-    for (let k = 1; k < ph.length; k++) {
-      const a = ph[k - 1], b = ph[k];
-      for (let i = 0; i < len; i++) b[i] = a[i] * xh[i];
-    }
-    return;
-  }
-  pl[0].fill(0, 0, len);
-  for (let k = 1; k < ph.length; k++) {
-    ph[k].set(ph[k - 1].subarray(0, len)), pl[k].set(pl[k - 1].subarray(0, len));
-    mulInto(ph[k], pl[k], xh, xl, len);
-  }
-}
-
-/** a ← a·b element by element in double-double, for values in range (no scaling; see ddRows). */
-function mulInto(
-  ah: Float64Array,
-  al: Float64Array,
-  bh: Float64Array,
-  bl: Float64Array | null,
-  len: number,
-): void {
-  for (let i = 0; i < len; i++) {
-    const h = ah[i], l = al[i], b = bh[i], lb = bl === null ? 0 : bl[i];
-    const q = h * b, e = productError(h, b, q) + (h * lb + l * b), t = q + e;
-    ah[i] = t;
-    al[i] = fastSumError(q, e, t);
-  }
-}
-
 /** c·Π x_col^k: the coefficient (an exact double) and the whole powers of columns. */
-interface Monomial {
+export interface Monomial {
   coef: number;
   powers: Map<number, number>;
 }
@@ -286,7 +108,7 @@ interface Monomial {
 const MAX_POWER = 64;
 
 /** The term as a monomial in the columns, or null when it is not one. */
-function monomialOf(e: Expr, columns: readonly string[]): Monomial | null {
+export function monomialOf(e: Expr, columns: readonly string[]): Monomial | null {
   switch (e.op) {
     case "num":
       return { coef: e.value, powers: new Map() };

@@ -24,20 +24,18 @@
  *
  * @module
  */
-import { compile, derivative, type Expr, format } from "../../kernel/expr/mod.ts";
-import { compileDD } from "../../kernel/expr/mod.ts";
+import { compile, compileDD, derivative, type Expr, format } from "../../kernel/expr/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
 import {
-  type AliasedColumn,
   factorOfQR,
   inColumnSpace,
   leastSquares,
   type LeastSquaresFit,
-  quotedList,
   scaledConditionNumber,
 } from "../../kernel/linalg/mod.ts";
 import type { DesignFactor, FitProblem, FitSolution } from "./problem.ts";
 import { identifierOffset } from "./_offsets.ts";
+import { aliased } from "./_aliased_terms.ts";
 import { rowList } from "../shared/rows.ts";
 import { notFinite } from "./_data.ts";
 import { rootWeights, unwhiten, whiten } from "./_weights.ts";
@@ -48,7 +46,8 @@ import {
   solveRefined,
   usePrecise,
 } from "./_precise_linear.ts";
-import { type DDColumn, ddDesign, ddRows, printedColumns, printedResponse } from "./_dd_design.ts";
+import { type DDColumn, ddDesign, printedColumns, printedResponse } from "./_dd_design.ts";
+import { ddRows } from "./_dd_rows.ts";
 
 /** Options of {@link solveLinear}. */
 export interface SolveLinearOptions {
@@ -215,18 +214,6 @@ function interceptIn(
   return inColumnSpace(ls.qr, root ?? new Float64Array(ls.n).fill(1));
 }
 
-/** The refusal naming the aliased terms, located at the first one. */
-function aliased(problem: FitProblem, aliasing: AliasedColumn[], terms: Expr[]): CellError {
-  const params = problem.model.parameters;
-  return new CellError(
-    `Cannot fit "${problem.name}": ${
-      aliasing.map((a) => aliasPhrase(a, terms, params)).join("; ")
-    }`,
-    ["model"],
-    identifierOffset(problem.model.rhs, aliasing[0].name),
-  );
-}
-
 /**
  * Condition index above which the terms are called nearly collinear: Belsley,
  * Kuh & Welsch (1980, ch. 3) read indexes of 30 to 100 as moderate to strong
@@ -296,35 +283,4 @@ function vanishesAtZero(e: Expr, params: readonly string[]): boolean {
     default:
       return false;
   }
-}
-
-/** `column "x3" is a linear combination of "x1" and "x2"`, or the same for general terms. */
-function aliasPhrase(a: AliasedColumn, terms: Expr[], params: readonly string[]): string {
-  const idx = (name: string) => params.indexOf(name);
-  const termOf = (name: string) => format(terms[idx(name)]);
-  const isColumn = (name: string) => terms[idx(name)].op === "id";
-  const all = [a.name, ...a.of];
-  const relation = a.of.length === 0
-    ? "is zero in every row used"
-    : a.of.length === 1
-    ? "is a multiple of"
-    : "is a linear combination of";
-  if (all.every(isColumn)) {
-    const list = a.of.length === 0 ? "" : ` ${quotedList(a.of.map(termOf))}`;
-    return `column "${
-      termOf(a.name)
-    }" ${relation}${list}, so parameter "${a.name}" cannot be estimated`;
-  }
-  const list = a.of.length === 0
-    ? ""
-    : ` the ${a.of.length === 1 ? "term" : "terms"} of ${
-      joinAnd(a.of.map((p) => `"${p}" (${termOf(p)})`))
-    }`;
-  return `the term of parameter "${a.name}" (${termOf(a.name)}) ${relation}${list}`;
-}
-
-function joinAnd(items: string[]): string {
-  return items.length <= 1
-    ? items.join("")
-    : `${items.slice(0, -1).join(", ")} and ${items[items.length - 1]}`;
 }

@@ -88,7 +88,7 @@ export function factorOfQR(qr: QRFactorization, scale: Float64Array): Triangular
  * const one = [1, 1, 1], x = [1, 2, 3];
  * const f = factorOfQR(householderQR(new Float64Array([...one, ...x]), 3, 2), Float64Array.of(1, 1));
  * const h = inverseGramForms(f, [{ hi: one, lo: null }, { hi: x, lo: null }], 3);
- * if (Math.abs(h[1] - 1 / 3) > 1e-15 || Math.abs(h[0] - 5 / 6) > 1e-15) throw new Error(String(h));
+ * if (Math.abs(h[1] - 1 / 3) > 1e-14 || Math.abs(h[0] - 5 / 6) > 1e-14) throw new Error(String(h));
  * ```
  */
 export function inverseGramForms(
