@@ -1,9 +1,14 @@
 /**
- * The double-double path of the linear solver: the design, the response and
- * the offset evaluated in double-double from the data as printed (the
- * table's decimal corrections), then QR least squares in double-double
- * (`ddLeastSquares`, kernel/linalg) in the pivot order of the double
- * factorization.
+ * The precise paths of the linear solver, both from the data as printed
+ * (the table's decimal corrections, or `_printed_lo.ts` where it kept none):
+ *
+ * - the double-double solve: the design, response and offset evaluated in
+ *   double-double, then QR least squares in double-double (`ddLeastSquares`,
+ *   kernel/linalg) in the pivot order of the double factorization; its R̃
+ *   is kept in double-double for prediction variances and leverages;
+ * - the refinement of the double solution (`refineLeastSquares`, kernel/
+ *   linalg: Björck 1967, the augmented system's residuals in double-double,
+ *   the design's rows computed again per pass, `_dd_rows.ts`).
  *
  * Why: NIST StRD's certified values are exact for the data as printed. Data
  * rounded to doubles already move Filip's or Wampler5's estimates in the
@@ -25,24 +30,24 @@
  * - larger problems up to n·p² ≤ {@link PRECISE_WORK_LIMIT} (2e7, ~0.3 s):
  *   only when the design is ill-conditioned, scaled condition number (unit
  *   columns, kernel/linalg `scaledConditionNumber`) above
- *   {@link PRECISE_CONDITION}. Below it the double QR's error, of order
- *   ε·κ plus ε·κ²·‖r‖/(‖X‖‖θ‖) (Golub & Van Loan, *Matrix Computations*,
- *   4th ed., §5.3.8; from memory for the section), stays near 1e−12
- *   relative, far below any data's own rounding. Measured on the six
- *   10,000-row fits of test/e2e/latency_bench.ts (κ 4 to 86): estimates,
- *   covariance and RSS agree with the double-double ones to 13–15 digits
- *   (10 on a slope whose value is near zero);
- * - every other problem takes the double QR and then refines its solution
- *   (`refineLeastSquares`, kernel/linalg: Björck 1967, residuals in
- *   double-double from the same data as printed), one or two passes over
- *   the data. That keeps the double path's speed and the certified digits
- *   at any number of rows: NIST StRD sets replicated to 20,000 rows gave
- *   Wampler4 7.0, Wampler5 5.0 and Norris 12.5 digits on the double path
- *   alone, and at 1,000,000 rows Filip 4.8–6.5, Wampler4 5.9–6.3 and
- *   Longley 9.4 (before the blocked sums of kernel/linalg/_householder.ts);
- *   refined, 14 or more (test/reference/strd_linear_test.ts; the
- *   `certified_million` figure of `deno task bench`). The covariance then
- *   comes from the double R̃, accurate to about κ·u·√n relative.
+ *   {@link PRECISE_CONDITION}: there its R̃ (the covariance, prediction
+ *   variances and leverages) in double-double matters, the double R̃'s
+ *   relative error being of order κ·u;
+ * - every other problem takes the double QR and then refines its solution,
+ *   one or two passes over the data. The double QR's error, of order
+ *   u·κ + u·κ²·‖r‖/(‖X‖‖θ‖) (Golub & Van Loan, *Matrix Computations*, 4th
+ *   ed., §5.3.8; from memory for the section), grows with the rows: NIST
+ *   StRD sets replicated to 20,000 rows gave Wampler4 7.0, Wampler5 5.0 and
+ *   Norris 12.5 digits on the double path alone, and at 1,000,000 rows
+ *   Filip 4.8–6.5, Wampler4 5.9–6.3 and Longley 9.4; refined, 14.3 or more
+ *   (test/reference/strd_linear_test.ts; `certified_million` of
+ *   `deno task bench`: 1.1–1.3 times the double path's time in a new
+ *   process, 1.2–1.45 in a warm one). Measured on
+ *   10,000 rows (the fits of test/e2e/latency_bench.ts): 0.4–1.5 ms more a
+ *   fit, 8 ms with a log term (double-double log is the dearest). The
+ *   covariance then comes from the double R̃, accurate to about κ·u·c(m)
+ *   relative: at 1,000,000 rows the standard errors of Filip (κ 5e9) keep
+ *   7.6 digits, of Wampler4 and Longley 13.6 or more.
  *
  * @module
  */

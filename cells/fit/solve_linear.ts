@@ -15,7 +15,13 @@
  * (`usePrecise` in `_precise_linear.ts`, costs from kernel/linalg/qr_bench.ts),
  * the problem is then solved again in double-double from the data as
  * printed, and those estimates, residuals, RSS, TSS and covariance are
- * returned.
+ * returned; otherwise the double solution is refined against the same data
+ * (Björck 1967; `solveRefined`), and its estimates, residuals, RSS and TSS
+ * returned with the double covariance. Either way the solution keeps its
+ * triangular factor (`designQR.triangular`), through which prediction
+ * variances and leverages are read (fit_factor.ts), and the estimates' low
+ * parts. The parameter-free part f(x; 0) is not evaluated when every term of
+ * the model has a parameter factor (it is then 0).
  *
  * ```
  *  capacity = q0 - a*sqrt(cycle)      X = [ 1 | -sqrt(cycle) ],  offset = 0
