@@ -1,6 +1,6 @@
 /**
  * The precise paths of the linear solver, both from the data as printed
- * (the table's decimal corrections, or `_printed_lo.ts` where it kept none):
+ * (the table's decimal corrections, or `printedLo` of `_dd_design.ts` where it kept none):
  *
  * - the double-double solve: the design, response and offset evaluated in
  *   double-double, then QR least squares in double-double (`ddLeastSquares`,
@@ -54,12 +54,13 @@
 import {
   ddLeastSquares,
   type DDRows,
+  ddSumOfSquares,
   factorOfQR,
   type LeastSquaresFit,
   refineLeastSquares,
   type TriangularFactor,
 } from "../../kernel/linalg/mod.ts";
-import { ddAdd, ddDiv, ddMul, productError, sumError } from "../../kernel/dd.ts";
+import { sumError } from "../../kernel/dd.ts";
 import type { DDColumn } from "./_dd_design.ts";
 
 /** Largest n·p² solved in double-double (10,000 rows × 10 terms is 1e6). */
@@ -183,10 +184,8 @@ export function solveRefined(
 
 /**
  * fitted = y − r in double-double (so residuals = y − fitted exactly as the
- * double path), into `out` when given, and, for an unweighted fit, TSS from
- * the response as printed: with an intercept Σy² − (Σy)²/n from the two sums
- * in double-double (the one pass loses about (1 + ȳ²/s²)·2⁻¹⁰⁴ relative,
- * far below a double's resolution for any data a fit meets), else Σy².
+ * double path), into `out` when given, and, for an unweighted fit, TSS in
+ * double-double from the response as printed (`ddSumOfSquares`).
  */
 function fromResiduals(
   y: DDColumn,
@@ -198,25 +197,11 @@ function fromResiduals(
 ) {
   const n = residuals.length, yl = y.lo;
   const fitted = out ?? new Float64Array(n);
-  let sh = 0, sl = 0, qh = 0, ql = 0;
   for (let i = 0; i < n; i++) {
-    const a = y.hi[i], b = yl === null ? 0 : yl[i];
-    const s = a - residuals[i], e = sumError(a, -residuals[i], s);
-    fitted[i] = s + (e + (b - residualsLo[i]));
-    // Σy and Σy² with every rounding error carried (Dot2, Ogita, Rump & Oishi 2005)
-    const t = sh + a;
-    sl += sumError(sh, a, t) + b;
-    sh = t;
-    const q = a * a, u = qh + q;
-    ql += sumError(qh, q, u) + (productError(a, a, q) + 2 * a * b);
-    qh = u;
+    const a = y.hi[i], s = a - residuals[i], e = sumError(a, -residuals[i], s);
+    fitted[i] = s + (e + ((yl === null ? 0 : yl[i]) - residualsLo[i]));
   }
-  if (root !== null) return { fitted, tss: undefined };
-  if (!hasIntercept) return { fitted, tss: qh + ql };
-  // TSS = Σy² − (Σy)²/n in double-double
-  const mean = ddDiv(ddAdd([sh, 0], [sl, 0]), [n, 0]);
-  const tss = ddAdd([qh, ql], ddMul(ddMul(mean, [-n, 0]), mean));
-  return { fitted, tss: tss[0] + tss[1] };
+  return { fitted, tss: root === null ? ddSumOfSquares(y, hasIntercept) : undefined };
 }
 
 function finite(v: Float64Array): boolean {

@@ -1,18 +1,31 @@
 /**
- * The leverage of a fit's rows, computed once per fit output: compare (PRESS
- * for the leave-one-out RMSE) and check (studentized residuals, Cook's
- * distance, DFFITS, HC2/HC3) all read the hat values of the same fit, and
- * the worker keeps one fit output per content key, so a WeakMap keyed by
- * that object shares one computation between them.
+ * A fit's triangular factor and what is read through it, each computed once
+ * per fit output (the worker keeps one fit output per content key, so a
+ * WeakMap keyed by that object shares the work): compare (PRESS for the
+ * leave-one-out RMSE), check (studentized residuals, Cook's distance,
+ * DFFITS, HC2/HC3) and predict (prediction variances) read the same fit.
  *
- * Method: hᵢ = ‖R̃⁻ᵀx̃ᵢ‖², x̃ᵢ row i of √W·X (Belsley, Kuh & Welsch,
- * *Regression Diagnostics* (1980), §2.1: hᵢ is the squared length of row i
- * of Q₁), through the fit's own triangular factor (`fit_factor.ts`): in
- * double-double from the design as printed when the fit was solved in
- * double-double, so that leverages carry the fit's digits. Computed through
- * the columns of Q, as before, they differed from exact rational arithmetic
- * by 2.6e−7 relative on a degree-5 polynomial in raw calendar years
- * (cells/fit/fit_leverage_test.ts); now by less than 1e−13.
+ * Method: every quadratic form gᵀ(XᵀWX)⁻¹g of the fit is ‖R̃⁻ᵀg̃‖², with R̃
+ * the triangular factor of √W·X (or √W·J, J the Jacobian at the solution of
+ * a nonlinear fit) in the solver's own scaled, pivoted coordinates
+ * (kernel/linalg `inverseGramForms`; Björck, *Numerical Methods for Least
+ * Squares Problems*, SIAM 1996, ch. 1–2, from memory for the chapters):
+ *
+ * - the factor (`fitFactor`): linear fits keep the one of the solve that
+ *   gave their estimates (`designQR.triangular`), double-double when the fit
+ *   was solved in double-double; nonlinear fits, the pivoted Householder QR
+ *   of √W·J over the parameters not held at a bound, in double (Seber &
+ *   Wild, *Nonlinear Regression*, 1989, §5.1, the linearised variance; from
+ *   memory for the section): a held parameter adds nothing to any variance;
+ * - leverage (`fitLeverage`): hᵢ = ‖R̃⁻ᵀx̃ᵢ‖², x̃ᵢ row i of √W·X, the squared
+ *   length of row i of Q₁ (Belsley, Kuh & Welsch, *Regression Diagnostics*,
+ *   1980, §2.1), in double-double from the design as printed when the fit
+ *   was solved in double-double. Computed through the columns of Q, as
+ *   before, they differed from exact rational arithmetic by 1.8e−7 relative
+ *   on a degree-5 polynomial in raw calendar years (fit_leverage_test.ts);
+ *   now by less than 1e−13;
+ * - the model at new points (`preciseAt`): for a linear fit whose estimates
+ *   carry ~32 digits, f(x₀; θ̂) and the design rows in double-double.
  *
  * `fitBasis` (Q₁ itself, for the Durbin–Watson law and compare's nesting
  * checks) is unchanged: a projection needs Q₁, not its row lengths.
@@ -21,9 +34,17 @@
  */
 import { checkDesign } from "../../kernel/stats/leverage.ts";
 import { orthonormalBasis } from "../../kernel/stats/_orthonormal_basis.ts";
-import { applyQ, inverseGramForms, type QRFactorization } from "../../kernel/linalg/mod.ts";
+import { compileDD, derivative } from "../../kernel/expr/mod.ts";
+import {
+  applyQ,
+  type DDVector,
+  factorOfQR,
+  householderQR,
+  inverseGramForms,
+  type QRFactorization,
+  type TriangularFactor,
+} from "../../kernel/linalg/mod.ts";
 import type { Fit } from "./fit.ts";
-import { fitFactor } from "./fit_factor.ts";
 
 const remembered = new WeakMap<object, Float64Array>();
 const bases = new WeakMap<object, Float64Array[]>();
@@ -96,4 +117,107 @@ function basisOf(f: QRFactorization): Float64Array[] {
     out.push(applyQ(f, e));
   }
   return out;
+}
+
+/** The parts of a fit the factor is read from. */
+export type FactorSource = Pick<Fit, "design" | "weights" | "designQR" | "atBound">;
+
+const factors = new WeakMap<object, TriangularFactor>();
+
+/**
+ * The fit's triangular factor (see the module notes), remembered per fit.
+ *
+ * @param fit The fit output (design or Jacobian, weights, the solver's factor).
+ * @returns R̃ with its pivot order and column scales; its order lists only
+ *   the columns it covers (the free parameters, to the numerical rank).
+ * @example
+ * ```ts
+ * import { fitFactor } from "./fit_leverage.ts";
+ * import { inverseGramForms } from "../../kernel/linalg/mod.ts";
+ * // Straight line through x = 1, 2, 3: leverage of x = 2 is 1/3 (hand computation).
+ * const one = new Float64Array([1, 1, 1]), x = new Float64Array([1, 2, 3]);
+ * const f = fitFactor({ design: [one, x], weights: null });
+ * const h = inverseGramForms(f, [{ hi: [1], lo: null }, { hi: [2], lo: null }], 1);
+ * if (Math.abs(h[0] - 1 / 3) > 1e-15) throw new Error(String(h));
+ * ```
+ */
+export function fitFactor(fit: FactorSource): TriangularFactor {
+  let f = factors.get(fit);
+  if (f === undefined) {
+    const own = fit.designQR;
+    f = own !== undefined && own.m === fit.design[0]?.length ? own.triangular : factorOf(fit);
+    factors.set(fit, f);
+  }
+  return f;
+}
+
+/** The factor of √W·X over the free columns, each scaled by a power of two (as the solver does). */
+function factorOf(fit: FactorSource): TriangularFactor {
+  const p = fit.design.length, n = fit.design[0].length;
+  const free = fit.design.map((_, j) => j).filter((j) => !(fit.atBound?.[j] ?? false));
+  const scale = new Float64Array(p).fill(1);
+  const a = new Float64Array(n * free.length);
+  free.forEach((j, k) => {
+    const c = fit.design[j], o = k * n;
+    let ss = 0;
+    for (let i = 0; i < n; i++) {
+      a[o + i] = fit.weights === null ? c[i] : c[i] * Math.sqrt(fit.weights[i]);
+      ss += a[o + i] * a[o + i];
+    }
+    const norm = Math.sqrt(ss);
+    if (norm > 0 && Number.isFinite(norm)) scale[j] = 2 ** -(Math.floor(Math.log2(norm)) + 1);
+    for (let i = 0; i < n; i++) a[o + i] *= scale[j];
+  });
+  const local = factorOfQR(
+    householderQR(a, n, free.length),
+    Float64Array.from(free, (j) => scale[j]),
+  );
+  // Back to the design's own column numbers.
+  return { ...local, order: local.order.map((k) => free[k]), scale };
+}
+
+/** The model at points in double-double: ŷ from the estimates' hi + lo, and the design rows. */
+export interface PreciseAt {
+  estimate: Float64Array;
+  gradient: DDVector[];
+}
+
+const compiled = new WeakMap<
+  object,
+  { rhs: ReturnType<typeof compileDD>; terms: ReturnType<typeof compileDD>[] }
+>();
+
+/**
+ * For a linear fit whose solve gave its estimates to about 32 digits (the
+ * double-double or refined paths), the mean response f(x₀; θ̂) and the
+ * design rows ∂f/∂θ at the points, in double-double; null for any other fit.
+ * The points are taken as exact doubles.
+ *
+ * @param fit The fit.
+ * @param cols The points, one array per column of `fit.model.columns`.
+ * @param n The number of points.
+ * @returns ŷ₀ rounded to doubles and the rows as hi + lo, or null.
+ */
+export function preciseAt(
+  fit: Pick<Fit, "method" | "model" | "estimates" | "designQR">,
+  cols: readonly ArrayLike<number>[],
+  n: number,
+): PreciseAt | null {
+  const lo = fit.designQR?.estimatesLo;
+  if (fit.method !== "linear" || lo === undefined) return null;
+  const { model } = fit;
+  let c = compiled.get(fit);
+  if (c === undefined) {
+    const at = (e: Parameters<typeof compileDD>[0]) =>
+      compileDD(e, model.columns, model.parameters);
+    c = { rhs: at(model.rhs), terms: model.parameters.map((q) => at(derivative(model.rhs, q))) };
+    compiled.set(fit, c);
+  }
+  const nulls = cols.map(() => null);
+  const zeros = new Float64Array(model.parameters.length);
+  const y = c.rhs(cols, nulls, fit.estimates, lo, n);
+  return {
+    estimate: y.hi.map((h, i) => h + y.lo[i]),
+    gradient: c.terms.map((t) => t(cols, nulls, zeros, null, n)),
+  };
 }

@@ -1,7 +1,7 @@
 import assert from "node:assert/strict";
 import { dyadic } from "../../kernel/dd.ts";
 import { dec, type Q, q, sub, val } from "./_rational_test.ts";
-import { printedLo } from "./_printed_lo.ts";
+import { printedLo } from "./_dd_design.ts";
 
 /** A double's exact value as a fraction, from its IEEE 754 fields (kernel/dd.ts `dyadic`). */
 function exact(v: number): Q {

@@ -19,7 +19,7 @@
  * (Björck 1967; `solveRefined`), and its estimates, residuals, RSS and TSS
  * returned with the double covariance. Either way the solution keeps its
  * triangular factor (`designQR.triangular`), through which prediction
- * variances and leverages are read (fit_factor.ts), and the estimates' low
+ * variances and leverages are read (fit_leverage.ts), and the estimates' low
  * parts. The parameter-free part f(x; 0) is not evaluated when every term of
  * the model has a parameter factor (it is then 0).
  *

@@ -9,7 +9,7 @@
  *
  * - ŷ₀ = f(x₀; θ̂); for a linear fit solved in double-double (or refined),
  *   in double-double from the estimates' ~32 digits (`preciseAt`,
- *   cells/fit/fit_factor.ts), since a polynomial in raw calendar years sums
+ *   cells/fit/fit_leverage.ts), since a polynomial in raw calendar years sums
  *   terms some 10¹⁰ times larger than ŷ₀.
  * - se_fit² = s²·g₀ᵀ(XᵀWX)⁻¹g₀ with g₀ = ∂f/∂θ at (x₀, θ̂), from the symbolic
  *   derivative of the model (s² = 1 with known standard deviations). For a
@@ -38,7 +38,7 @@
 import { compile, derivative, simplify } from "../../kernel/expr/mod.ts";
 import { inverseGramForms } from "../../kernel/linalg/mod.ts";
 import type { Fit } from "../fit/mod.ts";
-import { fitFactor, preciseAt } from "../fit/fit_factor.ts";
+import { fitFactor, preciseAt } from "../fit/fit_leverage.ts";
 
 /** f(x; θ̂) and ∂f/∂θ at θ̂ over columns of points (one array per model column). */
 export interface ModelAtEstimates {

@@ -1,6 +1,5 @@
 import assert from "node:assert/strict";
-import { ddLeastSquares, type DDVector } from "./dd_least_squares.ts";
-import { ddSumOfSquares } from "./dd_sum_of_squares.ts";
+import { ddLeastSquares, ddSumOfSquares, type DDVector } from "./dd_least_squares.ts";
 import { leastSquares } from "./least_squares.ts";
 import { seededRandom } from "../random.ts";
 

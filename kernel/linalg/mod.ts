@@ -34,8 +34,12 @@ export {
   type LeastSquaresRefusal,
   type LeastSquaresResult,
 } from "./least_squares.ts";
-export { ddLeastSquares, type DDLeastSquaresFit, type DDVector } from "./dd_least_squares.ts";
-export { ddSumOfSquares } from "./dd_sum_of_squares.ts";
+export {
+  ddLeastSquares,
+  type DDLeastSquaresFit,
+  ddSumOfSquares,
+  type DDVector,
+} from "./dd_least_squares.ts";
 export { factorOfQR, inverseGramForms, type TriangularFactor } from "./triangular_factor.ts";
 export {
   type DDRows,

@@ -22,7 +22,8 @@
  *
  * A factor from the double-double solver keeps R̃ as hi + lo pairs; the forms
  * are then computed in double-double from g given as hi + lo (kernels of
- * `_dd_kernels.ts`), and are as accurate as the fit itself.
+ * `_dd_kernels.ts`), and are as accurate as the fit itself. The double-double
+ * solver's own R̃ and its covariance R̃⁻¹R̃⁻ᵀ are read out here too.
  *
  * @module
  */
@@ -159,4 +160,108 @@ function formsDD(
     out[i] = K.OUT[0] + K.OUT[1];
   }
   return out;
+}
+
+// The double-double solver's factor and covariance (used by `dd_least_squares.ts`): R̃⁻¹ column by
+// column as LAPACK DTRTRI, then (XᵀX)⁻¹ = S·P·R̃⁻¹R̃⁻ᵀ·Pᵀ·S (Golub & Van Loan, *Matrix
+// Computations*, 4th ed., §3.1 and §5.3.3), each step in double-double.
+
+/**
+ * The leading p×p block of a matrix factored in double-double (R̃, hi and
+ * lo) with its pivot order and scales, as a {@link TriangularFactor}.
+ *
+ * @param ah The factored m×(p+…) matrix's hi parts, column-major (R̃ on and above the diagonal).
+ * @param al Its lo parts.
+ * @param m Rows.
+ * @param p Order of R̃.
+ * @param order The pivot order.
+ * @param scale The column scales, by original column.
+ * @returns The factor (rLo set).
+ * @example
+ * ```ts
+ * import { ddFactorOf } from "./triangular_factor.ts";
+ * const f = ddFactorOf(Float64Array.of(2, 0), Float64Array.of(1e-20, 0), 2, 1, [0], [1]);
+ * if (f.r[0] !== 2 || f.rLo![0] !== 1e-20) throw new Error("R̃ = 2 + 1e−20");
+ * ```
+ */
+export function ddFactorOf(
+  ah: Float64Array,
+  al: Float64Array,
+  m: number,
+  p: number,
+  order: ArrayLike<number>,
+  scale: ArrayLike<number>,
+): TriangularFactor {
+  const r = new Float64Array(p * p), rLo = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) {
+    for (let i = 0; i <= j; i++) {
+      r[i + j * p] = ah[i + j * m];
+      rLo[i + j * p] = al[i + j * m];
+    }
+  }
+  return { p, order: Int32Array.from(order), scale: Float64Array.from(scale), r, rLo };
+}
+
+/**
+ * (XᵀX)⁻¹ from R̃⁻¹R̃⁻ᵀ in double-double (DTRTRI, then the product), undoing
+ * the pivot order and the scales, rounded to doubles.
+ *
+ * @param ah The factored matrix's hi parts, column-major (R̃ on and above the diagonal).
+ * @param al Its lo parts.
+ * @param m Rows.
+ * @param p Order of R̃.
+ * @param order The pivot order.
+ * @param scale The column scales, by original column.
+ * @returns (XᵀX)⁻¹, p×p column-major, original order and units.
+ * @example
+ * ```ts
+ * import { ddCovariance } from "./triangular_factor.ts";
+ * // R̃ = 2 for a column scaled by 1/2: (XᵀX)⁻¹ = (1/2)²/2² = 1/16
+ * if (ddCovariance(Float64Array.of(2, 0), Float64Array.of(0, 0), 2, 1, [0], [0.5])[0] !== 1 / 16) {
+ *   throw new Error("1/16");
+ * }
+ * ```
+ */
+export function ddCovariance(
+  ah: Float64Array,
+  al: Float64Array,
+  m: number,
+  p: number,
+  order: ArrayLike<number>,
+  scale: ArrayLike<number>,
+): Float64Array {
+  // R⁻¹ column by column: X[j,j] = 1/R[j,j]; X[i,j] = −(Σ_{l=i+1..j} R[i,l]·X[l,j])/R[i,i].
+  const xh = new Float64Array(p * p), xl = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) {
+    K.div(1, 0, ah[j + j * m], al[j + j * m]);
+    xh[j + j * p] = K.OUT[0];
+    xl[j + j * p] = K.OUT[1];
+    for (let i = j - 1; i >= 0; i--) {
+      let sh = 0, sl = 0;
+      for (let l = i + 1; l <= j; l++) {
+        K.mul(ah[i + l * m], al[i + l * m], xh[l + j * p], xl[l + j * p]);
+        K.add(sh, sl, K.OUT[0], K.OUT[1]);
+        sh = K.OUT[0], sl = K.OUT[1];
+      }
+      K.div(-sh, -sl, ah[i + i * m], al[i + i * m]);
+      xh[i + j * p] = K.OUT[0];
+      xl[i + j * p] = K.OUT[1];
+    }
+  }
+  const cov = new Float64Array(p * p);
+  for (let i = 0; i < p; i++) {
+    for (let j = i; j < p; j++) {
+      let sh = 0, sl = 0;
+      for (let l = j; l < p; l++) {
+        K.mul(xh[i + l * p], xl[i + l * p], xh[j + l * p], xl[j + l * p]);
+        K.add(sh, sl, K.OUT[0], K.OUT[1]);
+        sh = K.OUT[0], sl = K.OUT[1];
+      }
+      const a = order[i], b = order[j];
+      const v = (sh + sl) * scale[a] * scale[b];
+      cov[a + b * p] = v;
+      cov[b + a * p] = v;
+    }
+  }
+  return cov;
 }

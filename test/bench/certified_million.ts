@@ -10,7 +10,7 @@
  * into one CSV and read by the table kind (Filip and Wampler4 keep the
  * table's decimal corrections at 2,000,000 numbers; Longley's 7,000,000 are
  * over the table's limit, and the fit recovers them from the doubles,
- * cells/fit/_printed_lo.ts). Time is the fit's own work on the table's
+ * cells/fit/_dd_design.ts `printedLo`). Time is the fit's own work on the table's
  * columns (`buildProblem`, `solveLinear`, `fitStatistics`), each run in a
  * new process as `plumb run` computes a fit (cold code, memory not yet
  * touched), the median of three runs of each path, the paths alternating;
