@@ -102,12 +102,13 @@ export function ddLeastSquares(
     bl[j] = gl[k] * s;
   }
   const out = residualsOf(columns, y, bh, bl, m, w);
+  const r = ddFactorOf(ah, al, m, p, order, scale);
   return {
     coefficients: bh,
     coefficientsLo: bl,
     ...out,
-    unscaledCovariance: ddCovariance(ah, al, m, p, order, scale),
-    factor: ddFactorOf(ah, al, m, p, order, scale),
+    unscaledCovariance: ddCovariance(r),
+    factor: r,
   };
 }
 

@@ -206,30 +206,18 @@ export function ddFactorOf(
  * (XᵀX)⁻¹ from R̃⁻¹R̃⁻ᵀ in double-double (DTRTRI, then the product), undoing
  * the pivot order and the scales, rounded to doubles.
  *
- * @param ah The factored matrix's hi parts, column-major (R̃ on and above the diagonal).
- * @param al Its lo parts.
- * @param m Rows.
- * @param p Order of R̃.
- * @param order The pivot order.
- * @param scale The column scales, by original column.
+ * @param f A double-double factor (`rLo` set; e.g. from {@link ddFactorOf}).
  * @returns (XᵀX)⁻¹, p×p column-major, original order and units.
  * @example
  * ```ts
- * import { ddCovariance } from "./triangular_factor.ts";
+ * import { ddCovariance, ddFactorOf } from "./triangular_factor.ts";
  * // R̃ = 2 for a column scaled by 1/2: (XᵀX)⁻¹ = (1/2)²/2² = 1/16
- * if (ddCovariance(Float64Array.of(2, 0), Float64Array.of(0, 0), 2, 1, [0], [0.5])[0] !== 1 / 16) {
- *   throw new Error("1/16");
- * }
+ * const f = ddFactorOf(Float64Array.of(2, 0), Float64Array.of(0, 0), 2, 1, [0], [0.5]);
+ * if (ddCovariance(f)[0] !== 1 / 16) throw new Error("1/16");
  * ```
  */
-export function ddCovariance(
-  ah: Float64Array,
-  al: Float64Array,
-  m: number,
-  p: number,
-  order: ArrayLike<number>,
-  scale: ArrayLike<number>,
-): Float64Array {
+export function ddCovariance(f: TriangularFactor): Float64Array {
+  const { p, order, scale, r: ah } = f, al = f.rLo!, m = p;
   // R⁻¹ column by column: X[j,j] = 1/R[j,j]; X[i,j] = −(Σ_{l=i+1..j} R[i,l]·X[l,j])/R[i,i].
   const xh = new Float64Array(p * p), xl = new Float64Array(p * p);
   for (let j = 0; j < p; j++) {
