@@ -22,3 +22,20 @@ import { formatNumber } from "../shared/format.ts";
 export function fmt(x: number | null, sig = 3): string {
   return formatNumber(x, sig);
 }
+
+/**
+ * A variance inflation factor as the check's findings and view both show it:
+ * three significant digits, "infinite" for null (the term is a combination
+ * of the others to working precision).
+ *
+ * @param v The VIF or null.
+ * @returns The text.
+ * @example
+ * ```ts
+ * import { fmtVif } from "./_format.ts";
+ * if (fmtVif(null) !== "infinite" || fmtVif(12.345) !== "12.3") throw new Error(fmtVif(12.345));
+ * ```
+ */
+export function fmtVif(v: number | null): string {
+  return v === null ? "infinite" : formatNumber(v, 3);
+}

@@ -4,20 +4,28 @@
  * ```
  *  Fit ─ design (or Jacobian), weights, residuals
  *   ├─ fitLeverage (once per fit) ─┬─ studentized (internal, external) ─ Cook's D, DFFITS
- *   │                              ├─ PRESS, robust covariance (option)
- *   ├─ VIF, condition number, Durbin–Watson, Breusch–Pagan, RESET (on the design)
+ *   │                              └─ PRESS
+ *   ├─ fitFactor ─ robust covariance, t, p, intervals (option; robust.ts)
+ *   ├─ VIF, condition number, Durbin–Watson, RESET (on the design)
+ *   ├─ Breusch–Pagan (on the design; on 1 and ŷ for a nonlinear fit)
  *   ├─ Shapiro–Wilk, Jarque–Bera (on √w·e), runs (signs in x order), lack of fit (replicates)
  *   └─ findings (findings.ts)
  * ```
  *
- * Weighted fits use √wᵢ-scaled residuals and design throughout; nonlinear
- * fits use the Jacobian at the solution (Fit.design holds it), so the
- * leverage and tests are those of the linearised problem.
+ * Weighted fits use √wᵢ-scaled residuals and design throughout. Nonlinear
+ * fits use the Jacobian at the solution (Fit.design holds it) over the
+ * parameters not held at a bound, so leverage, VIF (uncentred unless a
+ * Jacobian column is constant) and the condition number are those of the
+ * problem linearised at the estimates: local quantities. Breusch–Pagan
+ * regresses their squared residuals on the fitted values instead (Cook &
+ * Weisberg 1983; kernel/stats `breuschPaganOnFitted`): the Jacobian's
+ * columns are derivatives, not predictors the variance might follow.
  *
  * @module
  */
 import {
   breuschPagan,
+  breuschPaganOnFitted,
   conditionNumber,
   cooksDistance,
   dffits,
@@ -26,16 +34,17 @@ import {
   lackOfFit,
   press,
   ramseyReset,
-  robustCovariance,
   shapiroWilk,
   signRuns,
   studentizedResiduals,
   varianceInflation,
+  vifForm,
 } from "../../kernel/stats/mod.ts";
 import { type Fit, fitBasis, fitLeverage } from "../fit/mod.ts";
 import type { CheckSpec } from "./spec.ts";
 import type { CheckResult } from "./result.ts";
 import { findingsOf } from "./findings.ts";
+import { robustOf } from "./robust.ts";
 import { plainArray } from "../../kernel/arrays.ts";
 
 /**
@@ -43,9 +52,10 @@ import { plainArray } from "../../kernel/arrays.ts";
  *
  * @param fit The fit to judge.
  * @param spec The check's options.
+ * @param level The level of robust intervals (the document's confidence).
  * @returns The result, findings included.
  */
-export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
+export function diagnose(fit: Fit, spec: CheckSpec, level: number): CheckResult {
   const { design, weights, residuals } = fit;
   const n = residuals.length, p = design.length;
   const h = fitLeverage(fit);
@@ -53,6 +63,7 @@ export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
   const we = weights ? residuals.map((e, i) => e * Math.sqrt(weights[i])) : residuals;
   const loo = press(residuals, h, weights);
   const dw = durbinWatsonTest(residuals, design, weights, fitBasis(fit));
+  const free = freeColumns(fit);
   const base: Omit<CheckResult, "findings"> = {
     fit: spec.fit,
     n,
@@ -68,8 +79,9 @@ export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
     studentized_external: st.external,
     cooks_distance: cooksDistance(st.internal, h, p),
     dffits: dffits(st.external, h),
-    vif: varianceInflation(design, fit.parameters, weights),
-    condition_number: conditionNumber(design, weights),
+    vif: varianceInflation(free.design, free.names, weights),
+    vif_form: vifForm(free.design),
+    condition_number: conditionNumber(free.design, weights),
     durbin_watson: dw?.statistic ?? null,
     durbin_watson_test: dw && {
       expected: dw.expected,
@@ -79,7 +91,7 @@ export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
       p_value_negative: dw.p_value_negative,
       distribution: dw.distribution,
     },
-    breusch_pagan: breuschPagan(residuals, design, weights, spec.varianceTest),
+    breusch_pagan: varianceTest(fit, spec),
     shapiro_wilk: n >= 3 && n <= 5000 && spread(we) ? shapiroWilk(we) : null,
     jarque_bera: jarqueBera(we),
     reset: ramseyReset(residuals, fit.fitted, design, weights),
@@ -87,7 +99,7 @@ export function diagnose(fit: Fit, spec: CheckSpec): CheckResult {
     lack_of_fit: lofOf(fit, p),
     press: loo.press,
     loo_rmse: loo.looRmse,
-    robust: spec.robust === null ? null : robustOf(fit, h, spec.robust),
+    robust: spec.robust === null ? null : robustOf(fit, spec.robust, level),
   };
   return { ...base, findings: findingsOf(base) };
 }
@@ -132,20 +144,20 @@ function lofOf(fit: Fit, p: number): CheckResult["lack_of_fit"] {
   };
 }
 
-function robustOf(
-  fit: Fit,
-  h: Float64Array,
-  type: "hc0" | "hc1" | "hc2" | "hc3",
-): CheckResult["robust"] {
-  const r = robustCovariance(
-    fit.design,
-    fit.residuals,
-    h,
-    fit.unscaledCovariance,
-    fit.weights,
-    type,
-  );
-  const std_errors: Record<string, number | null> = {};
-  fit.parameters.forEach((name, j) => std_errors[name] = r.stdErrors[j]);
-  return { type, std_errors };
+/** The design (or Jacobian) columns and names of the parameters not held at a bound. */
+function freeColumns(fit: Fit): { design: Float64Array[]; names: string[] } {
+  const keep = fit.parameters.map((_, j) => !(fit.atBound?.[j] ?? false));
+  return {
+    design: fit.design.filter((_, j) => keep[j]),
+    names: fit.parameters.filter((_, j) => keep[j]),
+  };
+}
+
+/** Breusch–Pagan on the design (linear fits) or on 1 and ŷ (nonlinear fits). */
+function varianceTest(fit: Fit, spec: CheckSpec): CheckResult["breusch_pagan"] {
+  const onFitted = fit.method === "nonlinear";
+  const t = onFitted
+    ? breuschPaganOnFitted(fit.residuals, fit.fitted, fit.weights, spec.varianceTest)
+    : breuschPagan(fit.residuals, fit.design, fit.weights, spec.varianceTest);
+  return t && { ...t, regressors: onFitted ? "fitted" : "design" };
 }

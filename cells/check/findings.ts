@@ -11,7 +11,7 @@
  * | influential           | Cook's D > 4/n and > F(0.5; p, n − p), the median of F             |
  * | high-leverage         | h > 2p/n (Belsley, Kuh & Welsch 1980, §2.1), rows with h = 1 aside  |
  * | curvature             | RESET p < α, lack-of-fit p < α, or too few sign runs in x order     |
- * | non-constant-variance | Breusch–Pagan p < α                                                 |
+ * | non-constant-variance | Breusch–Pagan p < α (on ŷ for a nonlinear fit)                      |
  * | non-normal            | Shapiro–Wilk p < α (Jarque–Bera when n is outside 3..5000)          |
  * | autocorrelation       | Durbin–Watson p < α against positive correlation (exact law under   |
  * |                       | the fit's design), or too few sign runs in row order                 |
@@ -19,13 +19,15 @@
  * |                       | runs in row order (neighbouring residuals alternate in sign)        |
  * | collinearity          | VIF > 10                                                            |
  *
- * α is the check's `significance` (default 0.05).
+ * α is the check's `significance` (default 0.05). For a nonlinear fit the
+ * leverage and VIF findings say that these come from the Jacobian at the
+ * estimates: local, linearised quantities.
  *
  * @module
  */
 import { fisherF } from "../../kernel/stats/mod.ts";
 import type { CheckResult, Finding } from "./result.ts";
-import { fmt } from "./_format.ts";
+import { fmt, fmtVif } from "./_format.ts";
 import { formatPPhrase } from "../shared/format.ts";
 import { rowsInFull } from "../shared/rows.ts";
 
@@ -147,6 +149,7 @@ function rowFindings(r: Base, add: Add): void {
   }
   const lev = 2 * p / n;
   const high = lev < 1 ? pick(r, (i) => r.leverage[i] > lev && 1 - r.leverage[i] >= 1e-10) : [];
+  const local = r.method === "nonlinear" ? `; ${LINEARISED}` : "";
   if (high.length) {
     add(
       "high-leverage",
@@ -158,11 +161,11 @@ function rowFindings(r: Base, add: Add): void {
           (i) => r.leverage[i],
           (i) => fmt(r.leverage[i], 2),
           "leverage",
-          `above 2p/n = ${fmt(lev, 2)} (common practice)`,
+          `above 2p/n = ${fmt(lev, 2)} (common practice${local})`,
         )
         : `${cap(rowsInFull(high.map((i) => r.rows[i])))} ${verb(high)} leverage ${
           high.map((i) => fmt(r.leverage[i], 2)).join(", ")
-        } (> 2p/n = ${fmt(lev, 2)}, common practice).`,
+        } (> 2p/n = ${fmt(lev, 2)}, common practice${local}).`,
     );
   }
 }
@@ -201,28 +204,38 @@ function testFindings(r: Base, add: Add): void {
   }
   if (r.breusch_pagan && r.breusch_pagan.p_value < a) {
     const b = r.breusch_pagan;
+    const [what, on] = b.regressors === "fitted"
+      ? ["the fitted values", ", on ŷ"]
+      : ["the predictors", ""];
     add(
       "non-constant-variance",
       [],
-      `The residual variance changes with the predictors: Breusch–Pagan (${b.variant}) statistic ${
+      `The residual variance changes with ${what}: Breusch–Pagan (${b.variant}${on}) statistic ${
         fmt(b.statistic)
       } on ${b.df} df, ${formatPPhrase(b.p_value)} ${at}.`,
     );
   }
   normality(r, add, at);
   durbinWatsonFindings(r, add, at, a);
+  collinearity(r, add);
+}
+
+/** Said of leverage and VIF of a nonlinear fit. */
+const LINEARISED = "from the Jacobian at the estimates, a local, linearised measure";
+
+function collinearity(r: Base, add: Add): void {
   const vif = Object.entries(r.vif).filter(([, v]) => v === null || v > 10);
-  if (vif.length) {
-    add(
-      "collinearity",
-      [],
-      `The terms of ${
-        vif.map(([k]) => `"${k}"`).join(", ")
-      } are nearly combinations of the others: VIF ${
-        vif.map(([, v]) => v === null ? "infinite" : fmt(v)).join(", ")
-      } (> 10, common practice).`,
-    );
-  }
+  if (vif.length === 0) return;
+  const names = vif.map(([k]) => `"${k}"`).join(", ");
+  const values = vif.map(([, v]) => fmtVif(v)).join(", ");
+  const form = r.vif_form === "uncentred" ? "uncentred, the model has no intercept; " : "";
+  add(
+    "collinearity",
+    [],
+    r.method === "nonlinear"
+      ? `At the estimates the model's derivatives by ${names} are nearly combinations of the others: VIF ${values} (${form}${LINEARISED}; > 10, common practice).`
+      : `The terms of ${names} are nearly combinations of the others: VIF ${values} (${form}> 10, common practice).`,
+  );
 }
 
 function normality(r: Base, add: Add, at: string): void {

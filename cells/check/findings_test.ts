@@ -1,5 +1,7 @@
 import { deepEqual, equal, match } from "node:assert/strict";
+import { renderToString } from "preact-render-to-string";
 import { findingsOf } from "./findings.ts";
+import { CheckView } from "./view.tsx";
 
 /** A check result with every test absent, for the per-row findings (invented values). */
 function base(leverage: number[], external: number[]) {
@@ -20,6 +22,7 @@ function base(leverage: number[], external: number[]) {
     cooks_distance: leverage.map(() => 0),
     dffits: leverage.map(() => 0),
     vif: {},
+    vif_form: "centred" as const,
     condition_number: 1,
     durbin_watson: null,
     durbin_watson_test: null,
@@ -96,4 +99,24 @@ Deno.test("findingsOf() reports alternation from Durbin–Watson's upper tail an
     durbin_watson_test: { ...r.durbin_watson_test, p_value: 0.004, p_value_negative: 0.996 },
   };
   deepEqual(findingsOf(low).map((x) => x.code), ["autocorrelation"]);
+});
+
+Deno.test("findingsOf() and the view say the same of a VIF that is infinite, and what it means for a nonlinear fit", () => {
+  // Invented values. Before, the finding said "infinite" and the view's line "—" for one null.
+  const r = {
+    ...base(Array(20).fill(0.1), Array(20).fill(0)),
+    method: "nonlinear" as const,
+    vif: { a: null, b: 12.3 },
+    vif_form: "uncentred" as const,
+  };
+  const f = findingsOf(r);
+  deepEqual(f.map((x) => x.code), ["collinearity"]);
+  equal(
+    f[0].message,
+    'At the estimates the model\'s derivatives by "a", "b" are nearly combinations of the others: VIF infinite, 12.3 (uncentred, the model has no intercept; from the Jacobian at the estimates, a local, linearised measure; > 10, common practice).',
+  );
+  const html = renderToString(CheckView({ name: "judge", result: { ...r, findings: f } }));
+  match(html, /VIF \(uncentred\) a infinite, b 12\.3/);
+  match(html, /come from the Jacobian at the estimates: local, linearised quantities/);
+  match(html, /the variance actually inflated/);
 });

@@ -46,7 +46,7 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
         ["fit"],
       );
     }
-    return { type: "Diagnostics", result: diagnose(fit, spec) };
+    return { type: "Diagnostics", result: diagnose(fit, spec, ctx.settings.confidence) };
   },
   summary: (out) => out.result,
   line: lineOf,

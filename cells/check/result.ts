@@ -2,7 +2,11 @@
  * The `check` cell's output value and its RUN-JSON result
  * (../shared/RUN-JSON.md, `check`). Fields beyond RUN-JSON's list are
  * extensions: the rows, fitted values and residuals the residual charts need,
- * the Durbin–Watson test, the order of the runs test, robust standard errors.
+ * the Durbin–Watson test, the order of the runs test, the VIF's form, what
+ * Breusch–Pagan regressed on, robust inference.
+ *
+ * For a nonlinear fit the design is the Jacobian at the estimates: leverage,
+ * VIF and condition number are local, linearised quantities there.
  *
  * @module
  */
@@ -42,7 +46,13 @@ export interface CheckResult {
   studentized_external: (number | null)[];
   cooks_distance: (number | null)[];
   dffits: (number | null)[];
+  /** By parameter (none for the intercept, nor for a parameter held at a bound); null: infinite. */
   vif: Record<string, number | null>;
+  /**
+   * Addition: "centred" (the design has an intercept: 1/(1 − R²) about the mean) or
+   * "uncentred" (no intercept, e.g. a nonlinear fit's Jacobian: (XᵀX)ⱼⱼ·((XᵀX)⁻¹)ⱼⱼ).
+   */
+  vif_form: "centred" | "uncentred";
   condition_number: number | null;
   durbin_watson: number | null;
   /**
@@ -58,6 +68,11 @@ export interface CheckResult {
     p_value: number;
     f: number | null;
     f_p_value: number | null;
+    /**
+     * Addition: what e² was regressed on, "design" (the model's design, linear fits) or
+     * "fitted" (1 and ŷ, df 1: nonlinear fits, whose Jacobian columns are not predictors).
+     */
+    regressors: "design" | "fitted";
   } | null;
   shapiro_wilk: { w: number; p_value: number } | null;
   jarque_bera: { statistic: number; p_value: number; skewness: number; kurtosis: number } | null;
@@ -80,8 +95,26 @@ export interface CheckResult {
   } | null;
   press: number | null;
   loo_rmse: number | null;
-  /** Heteroscedasticity-consistent standard errors by parameter (option `robust`), or null. */
-  robust: { type: "hc0" | "hc1" | "hc2" | "hc3"; std_errors: Record<string, number | null> } | null;
+  /**
+   * Heteroscedasticity-consistent inference (option `robust`), or null: standard errors by
+   * parameter and the additions below (null entries where a value does not exist).
+   */
+  robust: {
+    type: "hc0" | "hc1" | "hc2" | "hc3";
+    std_errors: Record<string, number | null>;
+    /** Addition: the interval level (the document's confidence). */
+    level: number;
+    /** Addition: degrees of freedom of the t reference (the fit's n − p). */
+    df: number;
+    /** Addition: θ̂/se by parameter. */
+    t: Record<string, number | null>;
+    /** Addition: two-sided p-values from t(df). */
+    p_value: Record<string, number | null>;
+    /** Addition: θ̂ ± t(1 − α/2; df)·se by parameter. */
+    ci: Record<string, [number, number] | null>;
+    /** Addition: the HC covariance, p × p in the fit's parameter order. */
+    covariance: (number | null)[][];
+  } | null;
   findings: Finding[];
 }
 

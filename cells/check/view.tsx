@@ -11,7 +11,7 @@
 import type { VNode } from "preact";
 import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import type { CheckResult } from "./result.ts";
-import { fmt } from "./_format.ts";
+import { fmt, fmtVif } from "./_format.ts";
 import { DrawnFigure } from "../../ui/charts/mod.ts";
 import {
   type CheckChartInput,
@@ -48,7 +48,9 @@ function testRows(r: CheckResult): TestRow[] {
       rule: "shown only",
     },
     {
-      name: `Breusch–Pagan (${bp?.variant ?? "koenker"})`,
+      name: `Breusch–Pagan (${bp?.variant ?? "koenker"}${
+        bp?.regressors === "fitted" ? ", on ŷ" : ""
+      })`,
       statistic: fmt(bp?.statistic ?? null),
       p: bp?.p_value ?? null,
       rule: a,
@@ -84,6 +86,42 @@ function testRows(r: CheckResult): TestRow[] {
   ];
 }
 
+/** The robust (sandwich) inference: one row per parameter. */
+function RobustTable({ robust: b }: { robust: NonNullable<CheckResult["robust"]> }): VNode {
+  const pct = `${fmt(100 * b.level, 4)}%`;
+  return (
+    <table class="plumb-check-robust">
+      <caption>
+        Robust inference ({b.type.toUpperCase()}; White 1980, MacKinnon &amp; White 1985), t on{" "}
+        {b.df} df
+      </caption>
+      <thead>
+        <tr>
+          <th scope="col">Parameter</th>
+          <th scope="col">Robust SE</th>
+          <th scope="col">t</th>
+          <th scope="col">p</th>
+          <th scope="col">{pct} interval</th>
+        </tr>
+      </thead>
+      <tbody>
+        {Object.entries(b.std_errors).map(([k, se]) => {
+          const ci = b.ci?.[k] ?? null;
+          return (
+            <tr key={k}>
+              <th scope="row">{k}</th>
+              <td>{fmt(se, 4)}</td>
+              <td>{fmt(b.t?.[k] ?? null)}</td>
+              <td>{fmt(b.p_value?.[k] ?? null, 2)}</td>
+              <td>{ci ? `${fmt(ci[0], 4)} to ${fmt(ci[1], 4)}` : "—"}</td>
+            </tr>
+          );
+        })}
+      </tbody>
+    </table>
+  );
+}
+
 /**
  * Renders a check result.
  *
@@ -96,7 +134,7 @@ function testRows(r: CheckResult): TestRow[] {
  * const html = renderToString(CheckView({ name: "judge", result: {
  *   fit: "line", n: 3, p: 2, method: "linear", weighted: false, significance: 0.05, rows: [], fitted: [],
  *   residuals: [], leverage: [], studentized_internal: [], studentized_external: [], cooks_distance: [],
- *   dffits: [], vif: {}, condition_number: 2, durbin_watson: null, durbin_watson_test: null,
+ *   dffits: [], vif: {}, vif_form: "centred", condition_number: 2, durbin_watson: null, durbin_watson_test: null,
  *   breusch_pagan: null, shapiro_wilk: null, jarque_bera: null, reset: null, runs: null, lack_of_fit: null,
  *   press: null, loo_rmse: null, robust: null, findings: [],
  * } }));
@@ -151,17 +189,18 @@ export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
         Condition number {fmt(r.condition_number)} · PRESS {fmt(r.press)} · leave-one-out RMSE{" "}
         {fmt(r.loo_rmse)}
         {Object.keys(r.vif).length > 0 &&
-          ` · VIF ${Object.entries(r.vif).map(([k, v]) => `${k} ${fmt(v)}`).join(", ")}`}
+          ` · VIF${r.vif_form === "uncentred" ? " (uncentred)" : ""} ${
+            Object.entries(r.vif).map(([k, v]) => `${k} ${fmtVif(v)}`).join(", ")
+          }`}
       </p>
-      {r.robust && (
-        <p class="plumb-check-robust">
-          Robust standard errors ({r.robust.type.toUpperCase()}, MacKinnon &amp; White 1985):{" "}
-          {Object.entries(r.robust.std_errors).map(([k, v]) => `${k} ${fmt(v, 4)}`).join(", ")}
-        </p>
-      )}
+      {r.robust && <RobustTable robust={r.robust} />}
       <p class="plumb-check-note">
         Thresholds are common practice (leverage &gt; 2p/n, |studentized| &gt; 3, Cook's D &gt; 4/n
         and &gt; F(0.5; p, n−p), VIF &gt; 10); tests at the check's significance level.
+        {r.vif_form === "uncentred" &&
+          " Without an intercept the VIF is uncentred, (XᵀX)ⱼⱼ·((XᵀX)⁻¹)ⱼⱼ: the variance actually inflated (Belsley 1984)."}
+        {r.method === "nonlinear" &&
+          " For this nonlinear fit, leverage, VIF and the condition number come from the Jacobian at the estimates: local, linearised quantities that describe the model near these estimates only; Breusch–Pagan regresses e² on the fitted values."}
       </p>
     </section>
   );

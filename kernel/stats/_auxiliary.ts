@@ -2,7 +2,8 @@
  * Auxiliary least-squares regressions for the diagnostics (VIF, Breusch–Pagan,
  * RESET): kernel/linalg `leastSquares` (pivoted Householder QR, never the
  * normal equations), with R² centred on a given constant column (the
- * √w-scaled column of ones for weighted problems).
+ * √w-scaled column of ones for weighted problems), or uncentred (about zero)
+ * for the variance inflation of a design without an intercept.
  *
  * @module
  */
@@ -11,7 +12,7 @@ import { leastSquares } from "../linalg/mod.ts";
 /** Sums of an auxiliary regression. */
 export interface Auxiliary {
   rss: number;
-  /** ‖y − c·(cᵀy/cᵀc)‖², the total sum of squares about the constant column c. */
+  /** ‖y − c·(cᵀy/cᵀc)‖², the total sum of squares about the constant column c (‖y‖² uncentred). */
   tss: number;
   /** 1 − rss/tss (NaN when tss = 0). */
   r2: number;
@@ -23,15 +24,22 @@ export interface Auxiliary {
  * @param columns Regressor columns (include the constant column yourself).
  * @param y The response.
  * @param constant The constant column c for the centred TSS (default all ones).
- * @returns RSS, centred TSS and R², or null for a rank-deficient design.
+ * @param uncentred True for the TSS about zero, ‖y‖² (then `constant` is not read).
+ * @returns RSS, TSS and R², or null for a rank-deficient design.
  */
 export function auxiliaryRegression(
   columns: readonly Float64Array[],
   y: Float64Array,
   constant: Float64Array | null = null,
+  uncentred = false,
 ): Auxiliary | null {
   const fit = leastSquares(columns, y, columns.map((_, j) => `column ${j + 1}`));
   if (!fit.fullRank) return null;
+  if (uncentred) {
+    let tss = 0;
+    for (let i = 0; i < y.length; i++) tss += y[i] * y[i];
+    return { rss: fit.rss, tss, r2: 1 - fit.rss / tss };
+  }
   let cy = 0, cc = 0;
   for (let i = 0; i < y.length; i++) {
     const c = constant ? constant[i] : 1;

@@ -16,7 +16,17 @@
  *
  * A design without a constant column gets one. For a weighted fit eᵢ is
  * √wᵢ·eᵢ (constant variance under the model) regressed on the unweighted
- * design; for a nonlinear fit the design is the Jacobian at the solution.
+ * design.
+ *
+ * On the fitted values ({@link breuschPaganOnFitted}): the auxiliary
+ * regression of eᵢ² on 1 and ŷᵢ, df = 1, for models whose design is not a
+ * set of predictors: the Jacobian columns of a nonlinear model are
+ * derivatives, and a funnel (spread growing with the mean) is what one
+ * looks for. This is Cook & Weisberg's score test with the variance a
+ * function of the fitted values (1983, "Diagnostics for heteroscedasticity
+ * in regression", Biometrika 70:1–10; from memory), the default of common
+ * software (R's car::ncvTest; common practice, no source beyond it), here in
+ * either form, Koenker's studentized by default.
  *
  * @module
  */
@@ -66,7 +76,7 @@ export function breuschPagan(
   if (design.some((c) => c.length !== n)) {
     throw new RangeError(`Cannot run Breusch–Pagan: design columns are not ${n} rows long`);
   }
-  const e2 = residuals.map((e, i) => e * e * (weights ? weights[i] : 1));
+  const e2 = squaredResiduals(residuals, weights);
   const k = constantColumn(design);
   const cols = k >= 0 ? [...design] : [new Float64Array(n).fill(1), ...design];
   const q = cols.length;
@@ -87,4 +97,41 @@ export function breuschPagan(
     f: Number.isFinite(f) ? f : null,
     f_p_value: Number.isFinite(f) ? fisherF(df, n - q).upper(f) : null,
   };
+}
+
+/** wᵢ·eᵢ² (eᵢ² unweighted). */
+function squaredResiduals(residuals: Float64Array, weights: Float64Array | null): Float64Array {
+  return residuals.map((e, i) => e * e * (weights ? weights[i] : 1));
+}
+
+/**
+ * Breusch–Pagan test of the residuals against the fitted values: eᵢ² (wᵢeᵢ²
+ * when weighted) regressed on 1 and ŷᵢ, χ²(1); see the module notes.
+ *
+ * @param residuals eᵢ per row (unweighted).
+ * @param fitted ŷᵢ per row.
+ * @param weights wᵢ per row, or null.
+ * @param variant "koenker" (default) or "original".
+ * @returns As {@link breuschPagan}, df 1; null when ŷ is constant or every residual 0.
+ * @throws {RangeError} When the lengths differ.
+ * @example
+ * ```ts
+ * import { breuschPaganOnFitted } from "./breusch_pagan.ts";
+ * // e² = 1, 1, 4, 4 against ŷ = 1, 2, 3, 4: R² = 0.8 (Sxy² = 36, Sxx = 5, Syy = 9), n·R² = 3.2.
+ * const bp = breuschPaganOnFitted(new Float64Array([1, -1, 2, -2]), new Float64Array([1, 2, 3, 4]), null)!;
+ * if (bp.df !== 1 || Math.abs(bp.statistic - 3.2) > 1e-14) throw new Error(String(bp.statistic));
+ * ```
+ */
+export function breuschPaganOnFitted(
+  residuals: Float64Array,
+  fitted: Float64Array,
+  weights: Float64Array | null,
+  variant: BreuschPaganVariant = "koenker",
+): BreuschPagan | null {
+  return breuschPagan(
+    residuals,
+    [new Float64Array(fitted.length).fill(1), fitted],
+    weights,
+    variant,
+  );
 }

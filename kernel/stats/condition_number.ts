@@ -8,7 +8,10 @@
  * the number reflects the units of the columns (and includes the intercept
  * column), as Belsley, Kuh & Welsch (1980, §3.2) describe before they
  * recommend scaling. For a weighted fit the rows are scaled by √wᵢ: that is
- * the matrix the fit factors.
+ * the matrix the fit factors. For a nonlinear fit the check passes the
+ * Jacobian at the estimates (the free parameters' columns): the number is
+ * then the conditioning of the problem linearised there, a local quantity
+ * that depends on the parameters' units as a design's does on its columns'.
  *
  * @module
  */

@@ -39,7 +39,7 @@ export { orthonormalBasis } from "./_orthonormal_basis.ts";
 export { type StudentizedResiduals, studentizedResiduals } from "./studentized_residuals.ts";
 export { cooksDistance } from "./cooks_distance.ts";
 export { dffits } from "./dffits.ts";
-export { varianceInflation } from "./variance_inflation.ts";
+export { varianceInflation, type VifForm, vifForm } from "./variance_inflation.ts";
 export { conditionNumber } from "./condition_number.ts";
 export {
   durbinWatson,
@@ -48,10 +48,21 @@ export {
   EXACT_DF as DURBIN_WATSON_EXACT_DF,
 } from "./durbin_watson.ts";
 export { durbinWatsonCdf } from "./durbin_watson_exact.ts";
-export { type BreuschPagan, breuschPagan, type BreuschPaganVariant } from "./breusch_pagan.ts";
+export {
+  type BreuschPagan,
+  breuschPagan,
+  breuschPaganOnFitted,
+  type BreuschPaganVariant,
+} from "./breusch_pagan.ts";
 export { type ShapiroWilk, shapiroWilk } from "./shapiro_wilk.ts";
 export { type JarqueBera, jarqueBera } from "./jarque_bera.ts";
 export { type SignRuns, signRuns } from "./sign_runs.ts";
 export { ramseyReset, type Reset } from "./ramsey_reset.ts";
 export { type LackOfFit, lackOfFit } from "./lack_of_fit.ts";
-export { type HCType, type RobustCovariance, robustCovariance } from "./robust_covariance.ts";
+export {
+  type FactorSandwich,
+  type HCType,
+  type RobustCovariance,
+  robustCovariance,
+  robustCovarianceOfFactor,
+} from "./robust_covariance.ts";
