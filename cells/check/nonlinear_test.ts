@@ -120,3 +120,19 @@ Deno.test("check of a nonlinear fit: VIF, leverage and condition number of the J
     lev && /from the Jacobian at the estimates, a local, linearised measure/.test(lev.message),
   );
 });
+
+Deno.test("check of a nonlinear fit: a parameter held at a bound has no VIF and no robust variance", () => {
+  // Invented data; b ends on its upper limit 0.01, so only "a" varies (its column alone: VIF 1).
+  const fit = fitOf({ x: X.slice(0, 8), y: V.slice(0, 8) }, "y = a*x^b", {
+    start: { a: 9, b: 0.005 },
+    within: { b: [null, 0.01] },
+  });
+  assert.deepEqual(fit.atBound, [false, true]);
+  const r = check(fit, { robust: "hc3" });
+  assert.deepEqual(r.vif, { a: 1 });
+  const b = r.robust!;
+  assert.equal(b.std_errors.b, null);
+  assert.equal(b.ci.b, null);
+  assert.deepEqual(b.covariance[1], [null, null]);
+  assert.ok(b.std_errors.a! > 0);
+});
