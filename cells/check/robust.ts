@@ -17,9 +17,9 @@
  *
  * @module
  */
-import { type HCType, robustCovarianceOfFactor, studentT } from "../../kernel/stats/mod.ts";
+import { type HCType, studentT } from "../../kernel/stats/mod.ts";
 import type { Fit } from "../fit/mod.ts";
-import { fitFactor } from "../fit/fit_leverage.ts";
+import { fitRobust } from "../fit/mod.ts";
 import type { CheckResult } from "./result.ts";
 
 /**
@@ -50,15 +50,7 @@ export function robustOf(
   type: HCType,
   level: number,
 ): NonNullable<CheckResult["robust"]> {
-  const factor = fitFactor(fit);
-  const dd = factor.rLo !== null ? fit.designQR?.designDD : undefined;
-  const r = robustCovarianceOfFactor({
-    factor,
-    columns: dd ?? fit.design.map((hi) => ({ hi, lo: null })),
-    residuals: fit.residuals,
-    weights: fit.weights,
-    type,
-  });
+  const r = fitRobust(fit, type);
   const p = fit.parameters.length, df = fit.statistics.dfResidual;
   const ref = studentT(df), q = ref.upperQuantile((1 - level) / 2);
   const out: NonNullable<CheckResult["robust"]> = {

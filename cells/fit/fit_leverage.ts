@@ -34,6 +34,11 @@
  */
 import { checkDesign } from "../../kernel/stats/leverage.ts";
 import { orthonormalBasis } from "../../kernel/stats/_orthonormal_basis.ts";
+import {
+  type HCType,
+  type RobustCovariance,
+  robustCovarianceOfFactor,
+} from "../../kernel/stats/robust_covariance.ts";
 import { compileDD, derivative } from "../../kernel/expr/mod.ts";
 import {
   applyQ,
@@ -220,4 +225,30 @@ export function preciseAt(
     estimate: y.hi.map((h, i) => h + y.lo[i]),
     gradient: c.terms.map((t) => t(cols, nulls, zeros, null, n)),
   };
+}
+
+/**
+ * The fit's heteroscedasticity-consistent covariance (HC0–HC3) through its
+ * own triangular factor (kernel/stats `robustCovarianceOfFactor`): the
+ * design as printed in double-double when the fit was solved so, the free
+ * parameters only (held ones get NaN rows and columns). Its `middle` gives
+ * robust variances of any gᵀθ̂ through the same factor (`inverseGramForms`).
+ *
+ * @param fit The fit output.
+ * @param type The estimator.
+ * @returns The covariance, standard errors and the middle.
+ */
+export function fitRobust(
+  fit: FactorSource & Pick<Fit, "residuals">,
+  type: HCType,
+): RobustCovariance {
+  const factor = fitFactor(fit);
+  const dd = factor.rLo !== null ? fit.designQR?.designDD : undefined;
+  return robustCovarianceOfFactor({
+    factor,
+    columns: dd ?? fit.design.map((hi) => ({ hi, lo: null })),
+    residuals: fit.residuals,
+    weights: fit.weights,
+    type,
+  });
 }

@@ -37,7 +37,7 @@ export type { Fit } from "./fit.ts";
 export type { FitParameterResult, FitResult } from "./result.ts";
 export type { FitProblem, FitSolution } from "./problem.ts";
 export { refit, refitProblem } from "./refit.ts";
-export { fitBasis, fitLeverage } from "./fit_leverage.ts";
+export { fitBasis, fitFactor, fitLeverage, fitRobust, preciseAt } from "./fit_leverage.ts";
 
 /** The `fit` kind record. */
 export const fitKind: CellKind<FitSpec, Fit, FitResult> = {

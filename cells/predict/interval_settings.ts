@@ -14,23 +14,18 @@
  * the fit's own (s²(XᵀWX)⁻¹, or (XᵀWX)⁻¹ with known standard deviations),
  * or with `robust:` a heteroscedasticity-consistent ("sandwich") covariance,
  * HC0 (White 1980, Econometrica 48:817–838) or HC1–HC3 (MacKinnon & White
- * 1985, J. Econometrics 29:305–325), from kernel/stats `robustCovariance`
- * on the fit's design (the Jacobian at the solution for a nonlinear fit),
- * residuals, hat values and weights. A parameter held at a bound is fixed:
- * the sandwich is formed over the free parameters only (their design
- * columns and their block of the unscaled covariance), and the held rows
- * and columns are NaN, as in the fit's own covariance.
+ * 1985, J. Econometrics 29:305–325), through the fit's own triangular factor
+ * (cells/fit `fitRobust`, kernel/stats `robustCovarianceOfFactor`) on the
+ * fit's design (the Jacobian at the solution for a nonlinear fit),
+ * residuals and weights, with its middle for the mean response's variance
+ * (`mean_response.ts`). A parameter held at a bound is fixed: the sandwich
+ * is formed over the free parameters only, and the held rows and columns
+ * are NaN, as in the fit's own covariance.
  *
  * @module
  */
-import {
-  hatValues,
-  type HCType,
-  robustCovariance,
-  standardNormal,
-  studentT,
-} from "../../kernel/stats/mod.ts";
-import { type Fit, fitLeverage } from "../fit/mod.ts";
+import { type HCType, standardNormal, studentT } from "../../kernel/stats/mod.ts";
+import { type Fit, fitRobust } from "../fit/mod.ts";
 import type { PredictSpec } from "./spec.ts";
 import { type NewObservation, newObservation } from "./new_observation.ts";
 
@@ -89,6 +84,8 @@ export function intervalSettings(
 export interface PredictCovariance {
   /** p×p column-major, as `fit.statistics.covariance`. */
   covariance: Float64Array;
+  /** A robust covariance's middle in the fit factor's coordinates (`mean_response.ts`), else null. */
+  middle: Float64Array | null;
   /** RUN-JSON `covariance` of a predict result, e.g. "the fit's: s²(XᵀWX)⁻¹". */
   statement: string;
 }
@@ -122,25 +119,18 @@ export function predictCovariance(fit: Fit, robust: HCType | undefined): Predict
       ? "s²(XᵀWX)⁻¹"
       : "s²(XᵀX)⁻¹";
     const x = fit.method === "linear" ? "" : ", X the Jacobian at the estimates";
-    return { covariance: fit.statistics.covariance, statement: `the fit's: ${own}${x}` };
+    return {
+      covariance: fit.statistics.covariance,
+      middle: null,
+      statement: `the fit's: ${own}${x}`,
+    };
   }
-  const p = fit.parameters.length;
-  const free = fit.parameters.map((_, j) => j).filter((j) => !fit.atBound?.[j]);
-  const design = free.map((j) => fit.design[j]);
-  const bread = new Float64Array(free.length * free.length);
-  free.forEach((j, a) =>
-    free.forEach((k, b) => bread[a + b * free.length] = fit.unscaledCovariance[j + k * p])
-  );
-  const h = free.length === p ? fitLeverage(fit) : hatValues(design, fit.weights);
-  const r = robustCovariance(design, fit.residuals, h, bread, fit.weights, robust);
-  const covariance = new Float64Array(p * p).fill(NaN);
-  free.forEach((j, a) =>
-    free.forEach((k, b) => covariance[j + k * p] = r.covariance[a + b * free.length])
-  );
+  const r = fitRobust(fit, robust);
   const x = fit.method === "linear" ? "X the design" : "X the Jacobian at the estimates";
   const w = fit.weights === null ? "" : ", rows scaled by √wᵢ";
   return {
-    covariance,
+    covariance: r.covariance,
+    middle: r.middle ?? null,
     statement: `heteroscedasticity-consistent ${
       HC_WORDS[robust]
     }: (XᵀWX)⁻¹(Σ ωᵢ xᵢxᵢᵀ)(XᵀWX)⁻¹, ${x}${w}`,

@@ -69,6 +69,8 @@ export interface InverseContext {
   bandRange: [number, number];
   /** The covariance of the estimates (p×p column-major): the fit's or a robust one. */
   covariance: Float64Array;
+  /** A robust covariance's middle in the fit factor's coordinates (`mean_response.ts`), else null. */
+  middle: Float64Array | null;
   warn(m: string): void;
 }
 
@@ -202,7 +204,7 @@ function bandInterval(c: InverseContext, z0: number, x: number, shown: string, s
   if (Number.isNaN(s0.at(x))) return null;
   const q2 = c.settings.q * c.settings.q;
   const h = (t: number) => {
-    const m = meanResponse(c.fit, c.model, [[t]], 1, c.covariance);
+    const m = meanResponse(c.fit, c.model, [[t]], 1, c.covariance, c.middle);
     const r = z0 - m.estimate[0];
     return r * r - q2 * (m.seFit[0] * m.seFit[0] + s0.at(t));
   };

@@ -25,8 +25,12 @@
  *   for a degree-5 polynomial in raw years (mean_response_test.ts). A
  *   parameter held at a bound is left out of the factor: it contributes no
  *   variance, it is treated as fixed.
- * - A covariance C passed in (a robust one, `interval_settings.ts`) is used
- *   as g₀ᵀ·C·g₀, its held parameters (NaN rows) again adding nothing.
+ * - A robust (sandwich) variance (`interval_settings.ts`) is read through the
+ *   same factor: z̃ᵀ·M·z̃ with R̃ᵀz̃ = g̃₀ and M = Σ ωᵢ·zᵢzᵢᵀ the sandwich's
+ *   middle in the factor's orthonormal coordinates (kernel/stats
+ *   `robustCovarianceOfFactor`), never g₀ᵀ·C·g₀ with the HC covariance C
+ *   formed: on the degree-5 polynomial in raw years that lost all digits
+ *   (robust_test.ts). A fit without its design (built by hand) uses C.
  * - Mean response: ŷ₀ ± q·se_fit. New observation: ŷ₀ ± q·√(se_fit² + s₀²),
  *   where s₀² is the variance of the new observation (see
  *   `interval_settings.ts`).
@@ -38,7 +42,7 @@
 import { compile, derivative, simplify } from "../../kernel/expr/mod.ts";
 import { inverseGramForms } from "../../kernel/linalg/mod.ts";
 import type { Fit } from "../fit/mod.ts";
-import { fitFactor, preciseAt } from "../fit/fit_leverage.ts";
+import { fitFactor, preciseAt } from "../fit/mod.ts";
 
 /** f(x; θ̂) and ∂f/∂θ at θ̂ over columns of points (one array per model column). */
 export interface ModelAtEstimates {
@@ -91,9 +95,12 @@ export interface MeanResponse {
  * @param cols The points, one array per column of `fit.model.columns`.
  * @param n The number of points.
  * @param covariance Optional covariance C of the estimates (p×p,
- *   column-major like `fit.statistics.covariance`) used as g₀ᵀ·C·g₀, e.g.
- *   a heteroscedasticity-consistent one; the fit's own
- *   `statistics.covariance` (the same array) counts as not given.
+ *   column-major like `fit.statistics.covariance`), e.g. a
+ *   heteroscedasticity-consistent one; the fit's own `statistics.covariance`
+ *   (the same array) counts as not given. Used as g₀ᵀ·C·g₀ only when the
+ *   fit has no design or no `middle` is given.
+ * @param middle The middle of C in the fit factor's coordinates (see the
+ *   module notes), with which a given C is read through the factor.
  * @returns ŷ₀ and se_fit per point (NaN where the model or a used
  *   derivative is not finite).
  * @example
@@ -118,10 +125,11 @@ export function meanResponse(
   cols: readonly ArrayLike<number>[],
   n: number,
   covariance?: Float64Array,
+  middle?: Float64Array | null,
 ): MeanResponse {
   const given = covariance !== undefined && covariance !== fit.statistics.covariance;
   // A fit without its design (built by hand) has only its covariance to offer.
-  if (given || fit.design === undefined || fit.design.length === 0) {
+  if ((given && !middle) || fit.design === undefined || fit.design.length === 0) {
     const estimate = model.value(cols, n);
     return {
       estimate,
@@ -131,9 +139,9 @@ export function meanResponse(
   const precise = preciseAt(fit, cols, n);
   const estimate = precise?.estimate ?? model.value(cols, n);
   const g = precise?.gradient ?? model.gradient(cols, n).map((hi) => ({ hi, lo: null }));
-  const forms = inverseGramForms(fitFactor(fit), g, n);
+  const forms = inverseGramForms(fitFactor(fit), g, n, null, given ? middle! : null);
   const st = fit.statistics;
-  const s2 = st.covarianceScaled ? (st.sigma ?? NaN) ** 2 : 1;
+  const s2 = given || !st.covarianceScaled ? 1 : (st.sigma ?? NaN) ** 2;
   return { estimate, seFit: forms.map((v) => Math.sqrt(s2 * v)) };
 }
 

@@ -2,7 +2,8 @@ import assert from "node:assert/strict";
 import { studentT } from "../../kernel/stats/mod.ts";
 import { fitOf, predict } from "./_fixtures_test.ts";
 import { add, dec, exact, exactFit, int, mul, type Q, sub, sum, val } from "./_exact_test.ts";
-import { inverse } from "../fit/_rational_test.ts";
+import { inverse, q, times } from "../fit/_rational_test.ts";
+import { RESPONSES, YEARS } from "../fit/_raw_years_test.ts";
 
 // Invented data whose spread grows with x.
 const X = [1, 2, 3, 4, 5, 6, 7];
@@ -89,3 +90,28 @@ Deno.test("predict robust: solve uses the robust covariance in Fieller's interva
     close((10 - a - b * x) ** 2, t * t * (exactRobust("hc3", x, null) + s * s), 1e-9, `end ${x}`);
   }
 });
+
+for (const type of ["hc0", "hc3"] as const) {
+  Deno.test(`predict robust: ${type} se_fit keeps 12 digits on a degree-5 polynomial in raw calendar years`, () => {
+    // Exact rational arithmetic (BigInt fractions): v = (XᵀX)⁻¹g₀, se² = Σ ωᵢ·(xᵢᵀv)²
+    // (the sandwich gᵀ(XᵀX)⁻¹(Σ ωᵢxᵢxᵢᵀ)(XᵀX)⁻¹g; White 1980, MacKinnon & White 1985).
+    const degree = 5, p = degree + 1;
+    const row = (x: number): Q[] => Array.from({ length: p }, (_, k) => q(BigInt(x) ** BigInt(k)));
+    const rows = YEARS.map(row), y = RESPONSES.map((v) => dec(String(v)));
+    const f = exactFit(rows, y, null);
+    const fit = fitOf({ x: YEARS, y: RESPONSES }, `y = polynomial(x, ${degree})`);
+    const at = [1950, 2025];
+    const got = predict(fit, { at: { x: at }, robust: type }).result.at;
+    at.forEach((x0, k) => {
+      const v = times(f.bread, row(x0));
+      const se2 = sum(rows.map((r, i) => {
+        const e2 = mul(f.residuals[i], f.residuals[i]);
+        const gap = sub(int(1), f.form(f.bread, r));
+        const omega = type === "hc0" ? e2 : mul(e2, inverse([[mul(gap, gap)]])[0][0]);
+        const b = sum(r.map((c, j) => mul(c, v[j])));
+        return mul(omega, mul(b, b));
+      }));
+      close(got[k].se_fit! ** 2, val(se2), 1e-12, `${type} se_fit² at ${x0}`);
+    });
+  });
+}

@@ -40,6 +40,7 @@ interface Shared {
   settings: IntervalSettings;
   scale: ResponseScale;
   covariance: Float64Array;
+  middle: Float64Array | null;
 }
 
 /**
@@ -63,6 +64,7 @@ export function runPredict(spec: PredictSpec, ctx: RunContext): Predictions {
     settings,
     scale,
     covariance: cov.covariance,
+    middle: cov.middle,
   };
   const at = spec.at === null ? [] : predictAt(ctx, spec, s);
   const solve = spec.solve === null ? [] : solveAll(ctx, spec, s);
@@ -93,7 +95,7 @@ export function runPredict(spec: PredictSpec, ctx: RunContext): Predictions {
 
 function meanMethod(fit: Fit, robust: boolean): string {
   const form = robust
-    ? "se² = gᵀ·C·g with C the robust covariance"
+    ? "se² = zᵀ·M·z with Rᵀz = g through the fit's own triangular factor, M the robust covariance's middle Σ ωᵢ·qᵢqᵢᵀ (qᵢ row i of Q)"
     : "se² = s²·‖R⁻ᵀg‖² through the fit's own triangular factor";
   return fit.method === "linear"
     ? `exact: model linear in its parameters, ${form}, g the design row`
@@ -118,7 +120,7 @@ function predictAt(ctx: RunContext, spec: PredictSpec, sh: Shared): PredictPoint
   const pts = pointsOf(ctx.name, spec, fit);
   warnExtrapolation(ctx, spec, fit, pts);
   const ranges = fittedRanges(fit);
-  const mr = meanResponse(fit, sh.model, pts.cols, pts.n, sh.covariance);
+  const mr = meanResponse(fit, sh.model, pts.cols, pts.n, sh.covariance, sh.middle);
   const obs = s.newObservation;
   // The response column's value standing in at each point (for a weight such as 1/y²): its prediction.
   const yhat = mr.estimate.map((z) => (scale.transformed ? scale.inverse(z) ?? NaN : z));

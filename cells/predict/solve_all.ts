@@ -34,6 +34,8 @@ export interface SolveInputs {
   scale: ResponseScale;
   /** The covariance of the estimates (the fit's or a robust one). */
   covariance: Float64Array;
+  /** A robust covariance's middle in the fit factor's coordinates, else null. */
+  middle: Float64Array | null;
 }
 
 /**
@@ -67,6 +69,7 @@ export function solveAll(
     range: spec.search ?? [lo - ROOT_MARGIN * width, hi + ROOT_MARGIN * width],
     bandRange: spec.search ?? [lo - BAND_MARGIN * width, hi + BAND_MARGIN * width],
     covariance: s.covariance,
+    middle: s.middle,
     warn: ctx.warn,
   };
   const obs = s.settings.newObservation, m = obs.m;

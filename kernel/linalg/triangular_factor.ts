@@ -79,6 +79,11 @@ export function factorOfQR(qr: QRFactorization, scale: Float64Array): Triangular
  * @param count Number of points.
  * @param rowScale Optional multiplier of each point (√wᵢ for the leverage of
  *   a weighted fit), taken as an exact double.
+ * @param middle Optional symmetric M (f.p × f.p, column-major, pivot order):
+ *   the forms are then z̃ᵀ·M·z̃ instead of ‖z̃‖², e.g. a robust variance with
+ *   M the sandwich's middle in the factor's orthonormal coordinates
+ *   (kernel/stats `robustCovarianceOfFactor`); z̃ is solved as always and the
+ *   product taken in double from its rounded value.
  * @returns The forms, NaN where some used gᵢ is not finite.
  * @throws {RangeError} When a used column has fewer than `count` entries.
  * @example
@@ -97,6 +102,7 @@ export function inverseGramForms(
   g: readonly DDVector[],
   count: number,
   rowScale: ArrayLike<number> | null = null,
+  middle: Float64Array | null = null,
 ): Float64Array {
   for (let k = 0; k < f.p; k++) {
     const c = g[f.order[k]];
@@ -106,7 +112,20 @@ export function inverseGramForms(
       );
     }
   }
-  return f.rLo === null ? formsDouble(f, g, count, rowScale) : formsDD(f, g, count, rowScale);
+  return f.rLo === null
+    ? formsDouble(f, g, count, rowScale, middle)
+    : formsDD(f, g, count, rowScale, middle);
+}
+
+/** z̃ᵀ·M·z̃ over the first p entries (M symmetric, p×p column-major). */
+function middleForm(z: Float64Array, m: Float64Array, p: number): number {
+  let s = 0;
+  for (let b = 0; b < p; b++) {
+    let t = 0;
+    for (let a = 0; a < p; a++) t += m[a + b * p] * z[a];
+    s += z[b] * t;
+  }
+  return s;
 }
 
 /** The forms in double: z = R̃⁻ᵀg̃ by forward substitution, then Σz². */
@@ -115,6 +134,7 @@ function formsDouble(
   g: readonly DDVector[],
   count: number,
   w: ArrayLike<number> | null,
+  middle: Float64Array | null,
 ): Float64Array {
   const { p, r, order, scale } = f;
   const out = new Float64Array(count), z = new Float64Array(p);
@@ -128,7 +148,7 @@ function formsDouble(
       z[k] = s / r[k + k * p];
       ss += z[k] * z[k];
     }
-    out[i] = ss;
+    out[i] = middle === null ? ss : middleForm(z, middle, p);
   }
   return out;
 }
@@ -139,6 +159,7 @@ function formsDD(
   g: readonly DDVector[],
   count: number,
   w: ArrayLike<number> | null,
+  middle: Float64Array | null,
 ): Float64Array {
   const { p, r, order, scale } = f;
   const rl = f.rLo!;
@@ -155,6 +176,11 @@ function formsDD(
       K.div(K.OUT[0], K.OUT[1], r[k + k * p], rl[k + k * p]);
       zh[k] = K.OUT[0];
       zl[k] = K.OUT[1];
+    }
+    if (middle !== null) {
+      for (let k = 0; k < p; k++) zh[k] += zl[k];
+      out[i] = middleForm(zh, middle, p);
+      continue;
     }
     K.dot(0, 0, zh, zl, 0, zh, zl, 0, p);
     out[i] = K.OUT[0] + K.OUT[1];

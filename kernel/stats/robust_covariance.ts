@@ -42,6 +42,14 @@ export interface RobustCovariance {
   covariance: Float64Array;
   /** √diag, null where not finite (HC2/HC3 with a leverage of 1, a parameter at a bound). */
   stdErrors: (number | null)[];
+  /**
+   * Through the factor only: the middle M = Σ ωᵢ·zᵢzᵢᵀ in the factor's own
+   * orthonormal coordinates (zᵢ = R̃⁻ᵀg̃ᵢ, row i of Q₁; q×q column-major,
+   * pivot order), so that the robust variance of gᵀθ̂ is z̃ᵀ·M·z̃ with
+   * R̃ᵀz̃ = g̃ (kernel/linalg `inverseGramForms` with `middle`). Its entries
+   * are bounded by maxᵢ ωᵢ (‖zᵢ‖² = hᵢ ≤ 1): no (XᵀX)⁻¹ enters.
+   */
+  middle?: Float64Array;
 }
 
 /**
@@ -174,17 +182,21 @@ export function robustCovarianceOfFactor(s: FactorSandwich): RobustCovariance {
   }
   const solve: RowSolve = f.rLo === null ? rowDouble : rowDD;
   const y = new Float64Array(q), w = new Float64Array(3 * q);
-  const acc = new Float64Array(q * q);
+  const acc = new Float64Array(q * q), middle = new Float64Array(q * q);
   for (let i = 0; i < n; i++) {
     const sw = weights ? Math.sqrt(weights[i]) : 1;
     const h = solve(f, columns, i, sw, y, w);
     const omega = omegaOf(type, (sw * residuals[i]) ** 2, h, n, q);
     if (omega === 0) continue;
     for (let b = 0; b < q; b++) {
-      const ob = omega * y[b];
-      for (let a = 0; a <= b; a++) acc[a + b * q] += ob * y[a];
+      const ob = omega * y[b], oz = omega * w[b];
+      for (let a = 0; a <= b; a++) {
+        acc[a + b * q] += ob * y[a];
+        middle[a + b * q] += oz * w[a]; // w[0…q) holds zᵢ (hi parts) after the solve
+      }
     }
   }
+  for (let b = 0; b < q; b++) for (let a = 0; a < b; a++) middle[b + a * q] = middle[a + b * q];
   const covariance = new Float64Array(p * p).fill(NaN);
   for (let b = 0; b < q; b++) {
     for (let a = 0; a <= b; a++) {
@@ -196,7 +208,7 @@ export function robustCovarianceOfFactor(s: FactorSandwich): RobustCovariance {
     const v = covariance[j + j * p];
     return Number.isFinite(v) && v >= 0 ? Math.sqrt(v) : null;
   });
-  return { type, covariance, stdErrors };
+  return { type, covariance, stdErrors, middle };
 }
 
 /**
