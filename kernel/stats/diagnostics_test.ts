@@ -7,8 +7,8 @@ import { varianceInflation } from "./variance_inflation.ts";
 import { conditionNumber } from "./condition_number.ts";
 import { breuschPagan } from "./breusch_pagan.ts";
 import { ramseyReset } from "./ramsey_reset.ts";
-import { robustCovariance } from "./robust_covariance.ts";
-import { hatValues } from "./leverage.ts";
+import { robustCovarianceOfFactor } from "./robust_covariance.ts";
+import { factorOfQR, householderQR, inverseGramForms } from "../linalg/mod.ts";
 
 const f = (...v: number[]) => new Float64Array(v);
 
@@ -82,15 +82,20 @@ Deno.test("ramseyReset() is null when ŷ takes two values (ŷ², ŷ³ add nothin
   assert.equal(ramseyReset(f(1, -1, 0.5, -0.5, 0, 0), fitted, [one, x], null), null);
 });
 
-Deno.test("robustCovariance() HC0 of a slope equals White's hand formula", () => {
+Deno.test("robustCovarianceOfFactor() HC0 of a slope equals White's hand formula", () => {
   // Var(b) = Σ(xᵢ − x̄)²eᵢ²/Sxx² for a straight line (White 1980; hand computation).
   const x = [1, 2, 3, 4, 5], e = f(0.3, -0.5, 0.1, 0.6, -0.5);
   const one = new Float64Array(5).fill(1), xs = new Float64Array(x);
-  const sxx = 10, c = new Float64Array([(1 / 5) + 9 / sxx, -3 / sxx, -3 / sxx, 1 / sxx]);
-  const h = hatValues([one, xs], null);
-  const r = robustCovariance([one, xs], e, h, c, null, "hc0");
+  const factor = factorOfQR(householderQR(new Float64Array([...one, ...xs]), 5, 2), f(1, 1));
+  const columns = [{ hi: one, lo: null }, { hi: xs, lo: null }];
+  const of = (type: "hc0" | "hc3") =>
+    robustCovarianceOfFactor({ factor, columns, residuals: e, weights: null, type });
+  const r = of("hc0"), sxx = 10;
   const want = x.reduce((a, v, i) => a + (v - 3) ** 2 * e[i] ** 2, 0) / sxx ** 2;
   assert.ok(Math.abs(r.covariance[3] - want) < 1e-15);
-  const r3 = robustCovariance([one, xs], e, h, c, null, "hc3");
-  assert.ok(r3.stdErrors[1]! > r.stdErrors[1]!);
+  assert.ok(of("hc3").stdErrors[1]! > r.stdErrors[1]!);
+  // The middle in Q's coordinates gives the slope's variance back through R̃: zᵀMz, R̃ᵀz = (0, 1).
+  const g = [{ hi: [0], lo: null }, { hi: [1], lo: null }];
+  const v = inverseGramForms(factor, g, 1, null, r.middle!)[0];
+  assert.ok(Math.abs(v - want) < 1e-15 * want, `${v} vs ${want}`);
 });

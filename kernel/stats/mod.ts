@@ -63,6 +63,5 @@ export {
   type FactorSandwich,
   type HCType,
   type RobustCovariance,
-  robustCovariance,
   robustCovarianceOfFactor,
 } from "./robust_covariance.ts";
