@@ -88,6 +88,7 @@ export function Editor(props: EditorProps): VNode {
         <Conflict
           name={props.name}
           conflict={conflict}
+          yours={text}
           onTakeDisk={(body) => {
             setText(body);
             setBase(conflict.diskVersion);
@@ -108,6 +109,8 @@ export function Editor(props: EditorProps): VNode {
 function Conflict(props: {
   name: string;
   conflict: ConflictResponse;
+  /** The text being edited (the server does not send it back). */
+  yours: string;
   onTakeDisk(body: string): void;
   onKeepMine(): void;
 }): VNode {
@@ -119,6 +122,7 @@ function Conflict(props: {
         Nothing was written. Compare the two versions of <code>{props.name}</code>{" "}
         and choose; saving again after “keep editing mine” replaces the disk's version of this cell.
       </p>
+      {props.conflict.note !== undefined && <p>{props.conflict.note}</p>}
       <div class="pl-conflict-sides">
         <figure>
           <figcaption>On disk now</figcaption>
@@ -126,7 +130,7 @@ function Conflict(props: {
         </figure>
         <figure>
           <figcaption>Yours</figcaption>
-          <pre class="pl-conflict-yours">{props.conflict.yours}</pre>
+          <pre class="pl-conflict-yours">{props.yours}</pre>
         </figure>
       </div>
       <div class="pl-editor-bar">

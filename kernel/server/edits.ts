@@ -46,8 +46,33 @@ export interface Edited {
 const cellsIn = (doc: ParsedDocument): CellBlock[] =>
   doc.blocks.filter((b): b is CellBlock => b.type === "cell");
 
-function cellNamed(doc: ParsedDocument, name: unknown): CellBlock {
-  if (typeof name !== "string") throw new EditError(`"name" must be text: got ${name}`, 400);
+/**
+ * Names a JSON value's type for a message, never calling its methods (a
+ * `toString` sent as data must not run or throw).
+ */
+const describe = (v: unknown): string =>
+  v === undefined
+    ? "nothing"
+    : v === null
+    ? "null"
+    : Array.isArray(v)
+    ? "a list"
+    : typeof v === "object"
+    ? "an object"
+    : typeof v === "string"
+    ? `"${v}"`
+    : String(v);
+
+/** The field's value as text, or a 400 naming the field and what came instead. */
+function text(field: string, v: unknown): string {
+  if (typeof v !== "string") {
+    throw new EditError(`"${field}" must be text: got ${describe(v)}`, 400);
+  }
+  return v;
+}
+
+function cellNamed(doc: ParsedDocument, value: unknown, field = "name"): CellBlock {
+  const name = text(field, value);
   const all = cellsIn(doc);
   const cell = all.find((c) => c.name === name);
   if (!cell) {
@@ -83,9 +108,9 @@ function guarded(write: () => string): string {
  */
 export function saveCell(source: string, name: unknown, body: unknown): Edited {
   const doc = parseDocument(source);
-  cellNamed(doc, name);
-  if (typeof body !== "string") throw new EditError(`"body" must be text: got ${body}`, 400);
-  return { source: guarded(() => replaceCellBody(doc, name as string, body)) };
+  const cell = cellNamed(doc, name);
+  const next = text("body", body);
+  return { source: guarded(() => replaceCellBody(doc, cell.name, next)) };
 }
 
 /**
@@ -113,18 +138,15 @@ export function newCell(
 ): Edited {
   const doc = parseDocument(source);
   const all = cellsIn(doc);
-  const { kind, name } = req;
-  if (typeof kind !== "string") throw new EditError(`"kind" must be text: got ${kind}`, 400);
-  if (typeof name !== "string") throw new EditError(`"name" must be text: got ${name}`, 400);
+  const kind = text("kind", req.kind);
+  const name = text("name", req.name);
   if (registry.size > 0 && !registry.has(kind)) {
     throw new EditError(`Unknown cell kind "${kind}"${didYouMean(kind, registry.keys())}`, 400);
   }
-  if (req.body !== undefined && typeof req.body !== "string") {
-    throw new EditError(`"body" must be text: got ${req.body}`, 400);
-  }
+  if (req.body !== undefined) text("body", req.body);
   const index = req.after === null || req.after === undefined
     ? all.length - 1
-    : all.indexOf(cellNamed(doc, req.after));
+    : all.indexOf(cellNamed(doc, req.after, "after"));
   const at = index === -1 && all.length === 0 ? { offset: source.length } : index;
   const body = (req.body as string | undefined) ?? templateFor(kind, registry, doc, resultOf);
   return { source: guarded(() => insertCell(doc, at, kind, name, body)) };
@@ -158,7 +180,7 @@ export function deleteCell(source: string, name: unknown): Edited {
  * since the delete), after a named cell, or at the end (null).
  *
  * @param source The document text.
- * @param text The removed text (one cell, as returned by {@link deleteCell}).
+ * @param removed The removed text (one cell, as returned by {@link deleteCell}).
  * @param at An offset, a cell name, or null.
  * @returns The new text.
  * @throws {EditError} 400 when `text` is not one cell or the offset is not a line start between blocks.
@@ -171,9 +193,9 @@ export function deleteCell(source: string, name: unknown): Edited {
  * }
  * ```
  */
-export function restoreCell(source: string, text: unknown, at: unknown): Edited {
-  if (typeof text !== "string") throw new EditError(`"text" must be text: got ${text}`, 400);
-  const parsed = cellsIn(parseDocument(text.trim() + "\n"));
+export function restoreCell(source: string, removed: unknown, at: unknown): Edited {
+  const cell = text("text", removed);
+  const parsed = cellsIn(parseDocument(cell.trim() + "\n"));
   if (parsed.length !== 1 || parsed[0].error) {
     throw new EditError(`Cannot restore: "text" must hold exactly one closed cell`, 400);
   }
@@ -184,7 +206,10 @@ export function restoreCell(source: string, text: unknown, at: unknown): Edited 
     if (!Number.isInteger(at) || !between && !lineStartInProse(doc, at) || inside) {
       throw new EditError(`Cannot restore at offset ${at}: not a line start between blocks`, 400);
     }
-    return { source: source.slice(0, at) + text + source.slice(at) };
+    return { source: source.slice(0, at) + cell + source.slice(at) };
+  }
+  if (at !== null && at !== undefined && typeof at !== "string") {
+    throw new EditError(`"at" must be an offset, a cell name or null: got ${describe(at)}`, 400);
   }
   const { kind, name, body } = parsed[0];
   return newCell(source, { after: at, kind, name, body }, new Map());

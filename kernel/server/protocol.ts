@@ -13,6 +13,9 @@
  *   │ POST /api/cell/new     {after, kind, name, base}    ──▶ 200 {version}
  *   │ POST /api/cell/delete  {name, base}                 ──▶ 200 {version, removed}
  *   │ POST /api/cell/restore {text, at, base}             ──▶ 200 {version}
+ *   │ any POST: 400 malformed, 404 no such cell or document gone, 413 body over
+ *   │   16 MiB, 422 document not UTF-8, 403/507/500 the write failed (file intact);
+ *   │   every refusal is {error: "<plain sentence>"}
  * ```
  *
  * Every request after the token exchange needs the cookie (401 without it);
@@ -42,6 +45,8 @@
  * named in `omitted`, unless an inline value of the document names them; a
  * large check's result carries its residual charts counted (`density`)
  * instead of the five per-row arrays they read.
+ * A 409 no longer echoes the request's body (`yours` removed: the page shows
+ * its own text) and may carry a `note`.
  *
  * @module
  */
@@ -178,14 +183,18 @@ export interface DeletedResponse extends SavedResponse {
   at: number;
 }
 
-/** 409 answer: the disk moved on since `base`; nothing was written. */
+/**
+ * 409 answer: the disk moved on since `base`, or an editor wrote during the
+ * save; nothing of the request stays written. The request's own body is not
+ * sent back (the page has it).
+ */
 export interface ConflictResponse {
   conflict: true;
   /** The document source now on disk. */
   disk: string;
   diskVersion: string;
-  /** The body (or text) the request sent. */
-  yours: string;
+  /** What else happened, when the disk changed twice during the save. */
+  note?: string;
 }
 
 /** 4xx answer other than a conflict. */

@@ -15,15 +15,14 @@
  */
 import { dirname, extname, join, normalize, resolve, sep } from "node:path";
 import type { Registry } from "../contract/mod.ts";
-import { sha256Hex } from "../hash.ts";
-import { writeFileAtomic } from "./atomic_write.ts";
 import type { Bundle } from "./bundle.ts";
-import { deleteCell, type Edited, EditError, newCell, restoreCell, saveCell } from "./edits.ts";
+import { Editor } from "./editor.ts";
 import { allowedHosts, checkRequest, newToken } from "./guard.ts";
 import { LiveWorkspace } from "./live_workspace.ts";
 import { LiveChannel } from "./live_channel.ts";
-import type { ConflictResponse } from "./protocol.ts";
+import type { SaveHooks } from "./replace_if_unchanged.ts";
 import { shellHtml } from "./shell.ts";
+import { removeStrayTemps } from "./stray_temps.ts";
 import { watchFolder } from "./watch_folder.ts";
 
 /** Options of {@link startServer}. */
@@ -43,6 +42,10 @@ export interface ServerOptions {
   katexDir?: string | null;
   /** Quiet time that ends a burst of file events, in ms (default 2, see watch_folder.ts). */
   debounceMs?: number;
+  /** The largest edit request body in bytes (default 16 MiB, request_body.ts). */
+  maxBodyBytes?: number;
+  /** Test hooks of the save path (failure and race injection); none in production. */
+  saveHooks?: SaveHooks;
 }
 
 /** A running live server. */
@@ -95,16 +98,15 @@ export async function startServer(opts: ServerOptions): Promise<LiveServer> {
     sendMany: (msgs) => sockets.broadcastMany(msgs),
   });
   await workspace.readDisk(); // fail early on a missing document
+  await removeStrayTemps(workspace.documentPath).catch(() => {}); // a crashed save's leftovers
   const ctx = { token, hosts: new Set<string>() };
-  const editor = new Editor(workspace, opts.registry);
+  const editor = new Editor({ workspace, ...opts });
+  const st = { bundle: opts.bundle ?? null, token, katex: opts.katexDir ?? null };
+  const live = { sockets, workspace, editor };
   const server = Deno.serve({ hostname, port: opts.port ?? 0, onListen: () => {} }, (req) => {
     const refused = checkRequest(req, ctx);
     if (refused) return refused;
-    return route(req, { bundle: opts.bundle ?? null, token, katex: opts.katexDir ?? null }, {
-      sockets,
-      workspace,
-      editor,
-    });
+    return answer(req, st, live);
   });
   const port = server.addr.port;
   for (const h of allowedHosts(hostname, port)) ctx.hosts.add(h);
@@ -139,6 +141,20 @@ interface Live {
   sockets: LiveChannel;
   workspace: LiveWorkspace;
   editor: Editor;
+}
+
+/** Routes a request; an unexpected failure is answered in words, never as a bare 500. */
+async function answer(req: Request, st: Static, live: Live): Promise<Response> {
+  try {
+    return await route(req, st, live);
+  } catch (err) {
+    const why = err instanceof Error ? err.message : String(err);
+    const { pathname } = new URL(req.url);
+    return new Response(`Cannot answer ${req.method} "${pathname}": ${why}\n`, {
+      status: 500,
+      headers: { "content-type": "text/plain; charset=utf-8" },
+    });
+  }
 }
 
 async function route(req: Request, st: Static, live: Live): Promise<Response> {
@@ -180,7 +196,13 @@ async function route(req: Request, st: Static, live: Live): Promise<Response> {
 
 async function katexFile(dir: string, pathname: string): Promise<Response> {
   const root = resolve(dir);
-  const file = normalize(join(root, decodeURIComponent(pathname.slice("/katex/".length))));
+  let name: string;
+  try {
+    name = decodeURIComponent(pathname.slice("/katex/".length));
+  } catch {
+    return new Response(`Malformed percent-encoding in the path "${pathname}"\n`, { status: 400 });
+  }
+  const file = normalize(join(root, name));
   const type = TYPES[extname(file)];
   if (!file.startsWith(root + sep) || !type) return new Response("Not found\n", { status: 404 });
   try {
@@ -202,74 +224,3 @@ function openLive(req: Request, live: Live): Response {
   socket.onerror = () => live.sockets.close(socket);
   return response;
 }
-
-/** Applies edits one at a time, each only on the version it was based on. */
-class Editor {
-  #lock: Promise<unknown> = Promise.resolve();
-
-  constructor(readonly workspace: LiveWorkspace, readonly registry: Registry) {}
-
-  handle(pathname: string, req: Request): Promise<Response> {
-    const next = this.#lock.then(() => this.#apply(pathname, req));
-    this.#lock = next.catch(() => {});
-    return next;
-  }
-
-  async #apply(pathname: string, req: Request): Promise<Response> {
-    const edit = EDITS[pathname];
-    if (!edit) return Response.json({ error: `No such endpoint "${pathname}"` }, { status: 404 });
-    let body: Record<string, unknown>;
-    try {
-      body = await req.json();
-      if (typeof body !== "object" || body === null || Array.isArray(body)) throw new TypeError();
-    } catch {
-      return Response.json({ error: "The request body must be a JSON object" }, { status: 400 });
-    }
-    if (typeof body.base !== "string") {
-      return Response.json({ error: `"base" must be the document version` }, { status: 400 });
-    }
-    const disk = await this.workspace.readDisk();
-    if (disk.version !== body.base) {
-      const yours = typeof body.body === "string"
-        ? body.body
-        : typeof body.text === "string"
-        ? body.text
-        : "";
-      const conflict: ConflictResponse = {
-        conflict: true,
-        disk: disk.source,
-        diskVersion: disk.version,
-        yours,
-      };
-      return Response.json(conflict, { status: 409 });
-    }
-    let edited: Edited;
-    try {
-      edited = edit(disk.source, body, this.registry, (n) => this.workspace.resultOf(n));
-    } catch (err) {
-      if (err instanceof EditError) {
-        return Response.json({ error: err.message }, { status: err.status });
-      }
-      throw err;
-    }
-    await writeFileAtomic(this.workspace.documentPath, edited.source);
-    const version = await sha256Hex(new TextEncoder().encode(edited.source));
-    void this.workspace.request([this.workspace.documentPath]);
-    const extra = edited.removed === undefined ? {} : { removed: edited.removed, at: edited.at };
-    return Response.json({ version, ...extra });
-  }
-}
-
-type Edit = (
-  source: string,
-  body: Record<string, unknown>,
-  registry: Registry,
-  resultOf: (name: string) => unknown,
-) => Edited;
-
-const EDITS: Record<string, Edit> = {
-  "/api/cell": (s, b) => saveCell(s, b.name, b.body),
-  "/api/cell/new": (s, b, r, of) => newCell(s, b, r, of),
-  "/api/cell/delete": (s, b) => deleteCell(s, b.name),
-  "/api/cell/restore": (s, b) => restoreCell(s, b.text, b.at),
-};
