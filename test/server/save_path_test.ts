@@ -8,7 +8,7 @@
  */
 import { deepEqual, equal, match, ok } from "node:assert/strict";
 import { join } from "node:path";
-import { post, versionOf, withServer } from "./_live_server.ts";
+import { namesIn, post, versionOf, withServer } from "./_live_server.ts";
 
 const F = "```";
 const enc = (s: string) => new TextEncoder().encode(s);
@@ -143,6 +143,69 @@ Deno.test("POST /api/cell after the document was removed answers 404 naming it a
     equal(res.status, 404);
     equal((await res.json()).error, `Cannot edit "doc.md": the file is no longer there`);
     deepEqual((await Array.fromAsync(Deno.readDir(ctx.dir))).map((e) => e.name), ["a.csv"]);
+  });
+});
+
+/** Whether chmod stops this process writing (not as root: then a hook fails the write instead). */
+async function chmodStopsWrites(): Promise<boolean> {
+  const dir = await Deno.makeTempDir();
+  try {
+    await Deno.chmod(dir, 0o555);
+    await Deno.writeTextFile(join(dir, "probe"), "x");
+    return false;
+  } catch {
+    return true;
+  } finally {
+    await Deno.chmod(dir, 0o755);
+    await Deno.remove(dir, { recursive: true });
+  }
+}
+
+Deno.test("POST /api/cell into a read-only folder answers 403 in words and leaves the file intact", async () => {
+  const chmod = await chmodStopsWrites();
+  const fail = () => {
+    throw new Deno.errors.PermissionDenied("Permission denied (os error 13)");
+  };
+  await withServer({
+    document: SIMPLE,
+    files: { "a.csv": CSV },
+    // Root writes through chmod 0555: there the save's first file-system step is made to fail.
+    options: chmod ? {} : { saveHooks: { step: (s) => s === "temp" && fail() } },
+  }, async (ctx) => {
+    if (chmod) await Deno.chmod(ctx.dir, 0o555);
+    const res = await post(ctx, "/api/cell", {
+      name: "t",
+      body: "from: b.csv\n",
+      base: await versionOf(SIMPLE),
+    });
+    equal(res.status, 403);
+    equal(
+      (await res.json()).error,
+      `Cannot save "doc.md": no permission to write in its folder "${ctx.dir}"; the file is unchanged`,
+    );
+    equal(await Deno.readTextFile(ctx.doc), SIMPLE);
+    deepEqual(await namesIn(ctx.dir), ["a.csv", "doc.md"]);
+  });
+});
+
+Deno.test("POST /api/cell failing after its temporary file is written removes it and keeps the file", async () => {
+  const fail = () => {
+    throw new Error("Input/output error (os error 5)");
+  };
+  const options = { saveHooks: { step: (s: string) => s === "compared" && fail() } };
+  await withServer({ document: SIMPLE, files: { "a.csv": CSV }, options }, async (ctx) => {
+    const res = await post(ctx, "/api/cell", {
+      name: "t",
+      body: "from: b.csv\n",
+      base: await versionOf(SIMPLE),
+    });
+    equal(res.status, 500);
+    equal(
+      (await res.json()).error,
+      `Cannot save "doc.md": Input/output error (os error 5); the file is unchanged`,
+    );
+    equal(await Deno.readTextFile(ctx.doc), SIMPLE);
+    deepEqual(await namesIn(ctx.dir), ["a.csv", "doc.md"]);
   });
 });
 
