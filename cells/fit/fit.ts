@@ -6,6 +6,7 @@
  */
 import type { Model } from "../../kernel/expr/mod.ts";
 import type { CellOutput } from "../../kernel/contract/mod.ts";
+import type { ModelUnits } from "../../kernel/units/mod.ts";
 import type { FitStatistics } from "./_statistics.ts";
 import type { Weighting } from "./_weighting.ts";
 import type { DesignFactor } from "./problem.ts";
@@ -30,6 +31,12 @@ export interface Fit extends CellOutput {
   weightsText?: string;
   /** Parameter names, in the model's order. */
   parameters: string[];
+  /**
+   * Units by dimensional analysis of the model from the table's column units
+   * (kernel/units): each parameter's unit or why it has none, the response's.
+   * Absent on fits built by hand.
+   */
+  units?: ModelUnits;
   estimates: Float64Array;
   /** (XᵀX)⁻¹ or (JᵀJ)⁻¹, p×p column-major. */
   unscaledCovariance: Float64Array;

@@ -32,6 +32,10 @@ export interface FitParameterResult {
   /** Interval at the document's confidence level; null without a standard error. */
   ci: [number, number] | null;
   at_bound: boolean;
+  /** RUN-JSON addition: the unit by dimensional analysis of the model; null when none or not derivable. */
+  unit: string | null;
+  /** RUN-JSON addition: why no unit could be derived; null when it was or none is due. */
+  unit_note: string | null;
 }
 
 /** The `fit` result object. */
@@ -105,6 +109,8 @@ export interface FitResult {
    * excluded, and rows of weight 0, are not in it.
    */
   rows_missing: number[];
+  /** RUN-JSON addition: the unit of sigma, fitted values and residuals (the response's as written); null when none. */
+  sigma_unit: string | null;
   converged: boolean;
   iterations: number;
   rank_deficient: null;
@@ -161,6 +167,8 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
       p_value: st.pValues[j],
       ci: st.intervals[j],
       at_bound: fit.atBound?.[j] ?? false,
+      unit: fit.units?.parameters.get(name)?.unit ?? null,
+      unit_note: fit.units?.parameters.get(name)?.note ?? null,
     })),
     covariance: square(st.covariance, p),
     correlation: square(st.correlation, p),
@@ -194,6 +202,7 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
     condition_number: num(fit.conditionNumber),
     ...perRow,
     rows_missing: plainArray(fit.rowsMissing ?? []),
+    sigma_unit: fit.units?.response ?? null,
     converged: fit.converged,
     iterations: fit.iterations,
     rank_deficient: null,

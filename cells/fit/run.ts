@@ -28,6 +28,7 @@ import { solveNonlinear } from "./solve_nonlinear.ts";
 import { fitStatistics } from "./_statistics.ts";
 import { applyWeighting } from "./_weighting.ts";
 import { identifierOffset } from "./_offsets.ts";
+import { type ModelUnits, modelUnits } from "../../kernel/units/mod.ts";
 
 /**
  * Fits the spec's model to its table.
@@ -73,6 +74,8 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
   const weightsText = spec.weights ?? spec.knownSigma;
   const solution = solveOrExplain(problem, table, linear);
   for (const w of model.warnings) ctx.warn(w.message);
+  const units = unitsOf(ctx.name, model, table);
+  for (const w of units.warnings) ctx.warn(w.message);
   if (linear) warnUnused(spec, ctx);
   const statistics = fitStatistics(problem, solution, {
     confidence: ctx.settings.confidence,
@@ -90,6 +93,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
     weights: problem.weights ?? null,
     ...(weightsText === undefined ? {} : { weightsText }),
     parameters: model.parameters,
+    units,
     estimates: solution.estimates,
     unscaledCovariance: solution.unscaledCovariance,
     statistics,
@@ -157,4 +161,15 @@ function misspeltColumn(problem: FitProblem, table: Table): CellError | undefine
     );
   }
   return undefined;
+}
+
+/** The units of the model's parameters and response from the table's column units. */
+function unitsOf(name: string, model: FitProblem["model"], table: Table): ModelUnits {
+  const used = new Set([model.responseColumn, ...model.columns]);
+  const units = new Map(
+    table.columns.filter((c) => used.has(c.name)).map((c) => [c.name, c.unit] as const),
+  );
+  const u = modelUnits(model, units);
+  for (const w of u.warnings) w.message = `${w.message} (fit "${name}")`;
+  return u;
 }

@@ -13,14 +13,17 @@ import type { Predictions, PredictResult } from "./result.ts";
 
 export { makeTable };
 
-/** Fits `model` to `cols` (fit options in `fitOptions`). */
+/** Fits `model` to `cols` (fit options in `fitOptions`, the columns' units in `units`). */
 export function fitOf(
   cols: Record<string, ArrayLike<number>>,
   model: string,
   fitOptions: Record<string, unknown> = {},
+  units: Record<string, string> = {},
 ): Fit {
   const spec = fitKind.parse(parseContext("model", { on: "data", model, ...fitOptions }));
-  return fitKind.run(spec, runContext("model", "data", makeTable(cols))) as Fit;
+  const t = makeTable(cols);
+  const table = { ...t, columns: t.columns.map((c) => ({ ...c, unit: units[c.name] ?? null })) };
+  return fitKind.run(spec, runContext("model", "data", table)) as Fit;
 }
 
 /** A run context with `fit` under "model", collecting warnings. */

@@ -2,8 +2,9 @@
  * The RUN-JSON `result` of a predict cell (RUN-JSON.md, `predict`) and the
  * `Predictions` output that carries it.
  *
- * RUN-JSON Additions: per point `se_prediction`. Per point `unit` is not
- * given yet: the fit does not carry its table's column units.
+ * RUN-JSON Additions: per point `se_prediction` and `unit` (of estimate,
+ * ci and pi: the response column's; for `solve` the predictor's), from the
+ * table's column units through the fit (kernel/units).
  *
  * Our additions to the documented shape (extend, never rename): `response`,
  * `scale`, `se_scale`, `distribution`, `new_observation`, `weight_source`,
@@ -45,6 +46,8 @@ export interface PredictPointResult {
   sigma?: number | null;
   /** Our addition: whether any predictor lies outside the fitted range. */
   extrapolated: boolean;
+  /** RUN-JSON addition: the unit of estimate, ci and pi (the response column's); null when none. */
+  unit: string | null;
   /** Our addition, log responses: labelled estimates of the mean of y (`estimate` is its median). */
   mean_estimates?: MeanEstimate[];
   /** Our addition, transformed responses only: the same values on the model scale. */
@@ -69,6 +72,8 @@ export interface PredictSolveResult {
   interval_for: string;
   /** Our addition: whether x lies outside the fitted range. */
   extrapolated: boolean;
+  /** RUN-JSON addition: the unit of x and its interval (the predictor column's); null when none. */
+  unit: string | null;
 }
 
 /** The `predict` result object. */

@@ -120,6 +120,8 @@ function predictAt(ctx: RunContext, spec: PredictSpec, sh: Shared): PredictPoint
   const pts = pointsOf(ctx.name, spec, fit);
   warnExtrapolation(ctx, spec, fit, pts);
   const ranges = fittedRanges(fit);
+  // Estimates, CI and PI are on the response column's scale (back-transformed), so in its unit.
+  const unit = fit.units?.columns.get(fit.model.responseColumn) ?? null;
   const mr = meanResponse(fit, sh.model, pts.cols, pts.n, sh.covariance, sh.middle);
   const obs = s.newObservation;
   // The response column's value standing in at each point (for a weight such as 1/y²): its prediction.
@@ -148,12 +150,13 @@ function predictAt(ctx: RunContext, spec: PredictSpec, sh: Shared): PredictPoint
         se_prediction: null,
         ...own,
         extrapolated: false,
+        unit,
       });
       continue;
     }
     if (obs.kind !== null && obs.known && Number.isNaN(nw.variance[i])) invalid.push(i);
     const row = pointRow(x, est, se, nw.variance[i] / obs.m, s.q);
-    Object.assign(row, own, { extrapolated: outside(ranges, pts, i) });
+    Object.assign(row, own, { extrapolated: outside(ranges, pts, i), unit });
     if (lm !== null) row.mean_estimates = logMeans(lm, est, se, nw.variance[i]);
     out.push(row);
   }
@@ -181,6 +184,7 @@ function pointRow(
     pi: sp === null ? null : [est - q * sp, est + q * sp],
     se_prediction: sp,
     extrapolated: false,
+    unit: null,
   };
 }
 

@@ -115,6 +115,7 @@ export function solveAll(
         ? "a new single observation of the response"
         : `the mean of ${m} new observations of the response`,
       extrapolated,
+      unit: fit.units?.columns.get(col) ?? null,
     };
   });
 }

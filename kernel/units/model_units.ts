@@ -67,6 +67,8 @@ export interface ModelUnits {
   parameters: Map<string, ParameterUnit>;
   /** The unit of the response as the model writes it (of σ, fitted values, residuals); null for none. */
   response: string | null;
+  /** The unit of each column the model uses, as written in the table (null for none). */
+  columns: Map<string, string | null>;
   /** Terms whose units cannot agree, with the offset of the term in `text`. */
   warnings: { message: string; offset: number }[];
 }
@@ -346,7 +348,8 @@ export function modelUnits(
     else warnings.push({ message: `${r.error} (column "${name}")`, offset: 0 });
   }
   const none = new Map(model.parameters.map((p) => [p, { unit: null, note: null }]));
-  if (parsed.size === 0) return { parameters: none, response: null, warnings };
+  const columns = new Map(columnUnits);
+  if (parsed.size === 0) return { parameters: none, response: null, columns, warnings };
   const a = new Analysis(model.text, parsed, new Set(model.parameters));
   // A logarithmic response is read as the log of the number in its column's unit (common
   // practice: ln(y/1 mAh) written ln y); every other transform goes through the rules.
@@ -380,5 +383,5 @@ export function modelUnits(
     parameters.set(p, { unit: null, note: reason });
   }
   const response = left.known && left.coef.size === 0 ? a.written(left.base) || null : null;
-  return { parameters, response, warnings: [...warnings, ...a.warnings] };
+  return { parameters, response, columns, warnings: [...warnings, ...a.warnings] };
 }

@@ -12,6 +12,7 @@ function unitsOf(
 ): Record<string, unknown> {
   const model = parseModel(text, Object.keys(units));
   const u = modelUnits(model, new Map(Object.entries(units)));
+  assert.deepEqual(Object.fromEntries(u.columns), units);
   return {
     ...Object.fromEntries(
       [...u.parameters].map(([p, v]) => [p, v.unit ?? (v.note ? `? ${v.note}` : null)]),

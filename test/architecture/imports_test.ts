@@ -125,5 +125,8 @@ Deno.test("deno info of the compute worker's entry lists no UI library", async (
     (s.startsWith("npm:") && UI_PACKAGES.test(packageOf(s)))
   );
   deepEqual(bad, []);
-  ok(info.modules.length < 200, `${info.modules.length} modules`);
+  // A budget against unnoticed growth (issue 9 took the graph from 257 modules to 184), raised
+  // deliberately when a concern is added and worker_startup (`deno task bench --startup`) still
+  // meets its target: 200 → 225 for kernel/units (dimensional analysis of models, issue 13).
+  ok(info.modules.length < 225, `${info.modules.length} modules`);
 });
