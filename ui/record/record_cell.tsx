@@ -1,0 +1,71 @@
+/**
+ * One cell in the static record: its kind and name, its state, its error
+ * or why it was held, its warnings, its source (always, a reviewer reads
+ * what was asked), and the kind's own view of its complete result — the
+ * same page face the live page uses.
+ *
+ * @module
+ */
+import type { VNode } from "preact";
+import type { CellReport } from "../../kernel/session/types.ts";
+import { pages } from "../../cells/pages.ts";
+import { GenericView } from "../generic_view.tsx";
+import type { RecordBlock } from "./types.ts";
+
+type CellBlock = Extract<RecordBlock, { type: "cell" }>;
+
+const STATE_WORDS: Record<string, string> = {
+  current: "computed",
+  failed: "failed",
+  held: "held: an input failed",
+};
+
+/**
+ * A cell of the record.
+ *
+ * @param props The cell's block and its report (undefined when the run never reached it).
+ * @returns A `<section class="pl-cell pl-record-cell">`.
+ */
+export function RecordCell(props: { block: CellBlock; report: CellReport | undefined }): VNode {
+  const { block, report } = props;
+  const state = report?.state ?? "held";
+  const View = pages.get(block.kind)?.view;
+  return (
+    <section
+      class={`pl-cell pl-cell-${state} pl-record-cell`}
+      id={`cell-${block.name}`}
+      data-state={state}
+    >
+      <header class="pl-cell-head">
+        <span class="pl-cell-kind">{block.kind}</span>
+        <h3 class="pl-cell-name">{block.name}</h3>
+        <span class="pl-record-state">{STATE_WORDS[state] ?? state}</span>
+        <span class="pl-where">line {block.line}</span>
+      </header>
+      {state === "failed" && report?.error && (
+        <p class="pl-error">
+          ✕ {report.error.message}{" "}
+          <span class="pl-where">(line {report.error.line}, column {report.error.column})</span>
+        </p>
+      )}
+      {state === "held" && (
+        <p class="pl-note">
+          ‖ Not computed: {report?.error?.message ?? "an input of this cell failed"}
+        </p>
+      )}
+      <pre class="pl-record-source" aria-label="Options as written"><code>{block.body}</code></pre>
+      {report !== undefined && report.warnings.length > 0 && (
+        <ul class="pl-warnings">
+          {report.warnings.map((w, i) => <li key={i}>⚠ {w}</li>)}
+        </ul>
+      )}
+      {state === "current" && report !== undefined && (
+        <div class="pl-result">
+          {View === undefined
+            ? <GenericView result={report.result} summaryLine={report.summaryLine} />
+            : <View name={block.name} result={report.result} />}
+        </div>
+      )}
+    </section>
+  );
+}
