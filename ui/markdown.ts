@@ -13,6 +13,12 @@
  * Tokens, not HTML, leave this module: {@link ./prose.tsx} turns them into
  * Preact nodes so that inline values stay live.
  *
+ * Prose is untrusted: markdown-it bounds block nesting (20 levels) but not
+ * emphasis, which `*` ×6,000, `x`, `*` ×6,000 nests 3,000 deep, and Preact
+ * draws an element tree recursively, so such a tree overflows the page's
+ * stack. A block nesting deeper than {@link MAX_NESTING} is refused with a
+ * {@link ProseError}; the page then shows its source and the reason.
+ *
  * @module
  */
 // @ts-types="npm:@types/markdown-it@14.2.0"
@@ -105,7 +111,58 @@ md.enable(["table", "strikethrough"]);
 md.inline.ruler.after("escape", "plumb_math", mathRule);
 md.inline.ruler.after("plumb_math", "plumb_ref", refRule);
 
-const cache = new Map<string, Token[]>();
+/** The deepest nesting of elements a prose block may have (common practice, no source: far above any real prose, far below what overflows a browser's stack). */
+export const MAX_NESTING = 100;
+
+/** Why a prose block cannot be drawn; the message is in words for the page. */
+export class ProseError extends Error {
+  /** @param message What is wrong, e.g. `it nests 3,001 levels deep (at most 100)`. */
+  constructor(message: string) {
+    super(message);
+    this.name = "ProseError";
+  }
+}
+
+/**
+ * The deepest nesting of a token stream, an inline token's children counted
+ * below it (a loop with an explicit stack: the tokens may be thousands deep).
+ */
+function nestingOf(tokens: Token[]): number {
+  let deepest = 0;
+  const todo: [Token[], number][] = [[tokens, 0]];
+  while (todo.length > 0) {
+    const [list, base] = todo.pop()!;
+    let level = base;
+    for (const t of list) {
+      level += t.nesting;
+      if (level > deepest) deepest = level;
+      if (t.children !== null && t.children.length > 0) todo.push([t.children, level]);
+    }
+  }
+  return deepest;
+}
+
+function parseChecked(text: string): Token[] | ProseError {
+  let tokens: Token[];
+  try {
+    tokens = md.parse(text, {});
+  } catch (e) {
+    return new ProseError(
+      e instanceof RangeError
+        ? "its Markdown nests too deeply to read"
+        : "the Markdown reader failed on it",
+    );
+  }
+  const depth = nestingOf(tokens);
+  if (depth > MAX_NESTING) {
+    return new ProseError(
+      `it nests ${depth.toLocaleString("en")} levels deep (at most ${MAX_NESTING})`,
+    );
+  }
+  return tokens;
+}
+
+const cache = new Map<string, Token[] | ProseError>();
 
 /**
  * Parses one prose block into markdown-it tokens (cached by text: a
@@ -113,6 +170,8 @@ const cache = new Map<string, Token[]>();
  *
  * @param text The prose block's Markdown.
  * @returns Block tokens; inline tokens carry `children`.
+ * @throws {ProseError} When the block nests deeper than {@link MAX_NESTING}
+ *   or the reader fails on it.
  * @example
  * ```ts
  * import { parseProse } from "./markdown.ts";
@@ -124,10 +183,11 @@ const cache = new Map<string, Token[]>();
 export function parseProse(text: string): Token[] {
   let tokens = cache.get(text);
   if (tokens === undefined) {
-    tokens = md.parse(text, {});
+    tokens = parseChecked(text);
     if (cache.size > 500) cache.clear();
     cache.set(text, tokens);
   }
+  if (tokens instanceof ProseError) throw tokens;
   return tokens;
 }
 
@@ -155,7 +215,8 @@ export function headingId(line: number): string {
  *
  * @param text The prose block's Markdown.
  * @param line The document line of its first line.
- * @returns Headings in order, with plain text (inline markup dropped).
+ * @returns Headings in order, with plain text (inline markup dropped); none
+ *   for a block that cannot be drawn.
  * @example
  * ```ts
  * import { headingsOf } from "./markdown.ts";
@@ -164,7 +225,13 @@ export function headingId(line: number): string {
  * ```
  */
 export function headingsOf(text: string, line: number): Heading[] {
-  const tokens = parseProse(text);
+  let tokens: Token[];
+  try {
+    tokens = parseProse(text);
+  } catch (e) {
+    if (e instanceof ProseError) return [];
+    throw e;
+  }
   const out: Heading[] = [];
   for (let i = 0; i < tokens.length; i++) {
     const t = tokens[i];

@@ -37,7 +37,17 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 @media (max-width: 62rem) { .pl-body { grid-template-columns: minmax(0, 1fr); } .pl-rail { order: -1; } }
 .pl-main { min-width: 0; }
 
-.pl-prose { font: 17px/1.6 var(--serif); max-width: 40rem; }
+.pl-prose { font: 17px/1.6 var(--serif); max-width: 40rem; overflow-wrap: break-word; }
+.pl-prose-failed .pl-error { font: 600 15px/1.4 var(--sans); }
+.pl-prose-source { max-height: 16rem; overflow: auto; white-space: pre-wrap; overflow-wrap: anywhere;
+  margin: .35rem 0 .8rem; padding: .5rem .75rem; background: var(--wash); border-left: 3px solid var(--ink); }
+.pl-math-error code { overflow-wrap: anywhere; }
+.pl-prose blockquote { margin: .55rem 0; padding-left: .8rem; border-left: 2px solid var(--rule); }
+.pl-prose :is(ul, ol) { padding-left: 1.3rem; }
+/* Six levels indent; deeper ones (markdown-it allows twenty) stay put, so a phone is never overrun. */
+.pl-prose :is(ul, ol, blockquote) :is(ul, ol, blockquote) :is(ul, ol, blockquote) :is(ul, ol, blockquote)
+  :is(ul, ol, blockquote) :is(ul, ol, blockquote) :is(ul, ol, blockquote) { padding-left: 0; margin-left: 0; }
+.pl-math-why { font: italic 14px/1.4 var(--sans); color: var(--muted); }
 .pl-prose h1, .pl-prose h2, .pl-prose h3 { font-family: var(--sans); line-height: 1.25; }
 .pl-prose h1 { font-size: 1.55rem; margin: .6rem 0 .8rem; }
 .pl-prose h2 { font-size: 1.2rem; margin: 1.8rem 0 .5rem; }
@@ -161,6 +171,7 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
   .pl-rail, .pl-cell-actions, .pl-add, .pl-editor, .pl-conn, .pl-progress { display: none !important; }
   .pl-cell { break-inside: avoid-page; content-visibility: visible; }
   .pl-stale { opacity: 1; }
+  .pl-prose-source { max-height: none; }
   a { color: inherit; }
 }
 `;
