@@ -6,6 +6,7 @@
 import { dirname } from "node:path";
 import { VERSION } from "../version.ts";
 import { type RunReport, Session } from "../session/session.ts";
+import { fileTrouble, fromCaller } from "./caller.ts";
 import { formatHuman } from "./format_human.ts";
 import type { Product } from "./product.ts";
 
@@ -58,22 +59,19 @@ export async function runCommand(args: string[], product: Product): Promise<numb
     return 2;
   }
   const path = paths[0];
+  const file = fromCaller(path);
   let source: string;
   try {
-    source = new TextDecoder("utf-8", { fatal: true }).decode(await Deno.readFile(path));
+    source = new TextDecoder("utf-8", { fatal: true }).decode(await Deno.readFile(file));
   } catch (err) {
-    const why = err instanceof Deno.errors.NotFound
-      ? "no such file"
-      : err instanceof TypeError
-      ? "not valid UTF-8"
-      : (err as Error).message;
+    const why = err instanceof TypeError ? "not valid UTF-8" : fileTrouble(err);
     console.error(`Cannot read document "${path}": ${why}`);
     return 2;
   }
   const session = new Session({
     registry: product.registry,
     workerUrl: product.workerUrl,
-    dir: dirname(path),
+    dir: dirname(file),
   });
   try {
     const report = await session.run(source);

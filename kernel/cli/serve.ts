@@ -14,6 +14,12 @@
  * Without permission to run Deno the command serves in its own process with
  * whatever permissions it was given.
  *
+ * A relative document path is resolved from the user's folder (`caller.ts`);
+ * the relaunched process is given the absolute path. `--default <doc>` names
+ * a document served when none is given, resolved from the working folder:
+ * `deno task start` serves the demo that way, and `deno task start my.md`
+ * serves my.md.
+ *
  * @module
  */
 import { dirname, join, resolve } from "node:path";
@@ -21,6 +27,7 @@ import { fileURLToPath as fromFileUrl } from "node:url";
 import { buildBundle, type Bundle, canBundle } from "../server/bundle.ts";
 import { narrowedFlags } from "../server/permissions.ts";
 import { startServer } from "../server/server.ts";
+import { documentTrouble, fromCaller } from "./caller.ts";
 import type { Product } from "./product.ts";
 
 const REPO = fromFileUrl(new URL("../../", import.meta.url)).replace(/\/$/, "");
@@ -28,7 +35,10 @@ const USAGE = "Usage: plumb serve <document.md> [--port N] [--host H]";
 const LOOPBACK = new Set(["127.0.0.1", "localhost"]);
 
 interface ServeArgs {
+  /** The document as given ("" when none was given and `fallback` is served). */
   document: string;
+  /** `--default`: the document served when none is given. */
+  fallback: string | null;
   port: number | null;
   host: string;
   narrowed: boolean;
@@ -48,7 +58,13 @@ interface ServeArgs {
  * ```
  */
 export function parseServeArgs(args: string[]): ServeArgs {
-  const out: ServeArgs = { document: "", port: null, host: "127.0.0.1", narrowed: false };
+  const out: ServeArgs = {
+    document: "",
+    fallback: null,
+    port: null,
+    host: "127.0.0.1",
+    narrowed: false,
+  };
   const paths: string[] = [];
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -61,12 +77,17 @@ export function parseServeArgs(args: string[]): ServeArgs {
     } else if (a === "--host") {
       if (!args[i + 1]) throw new RangeError(`Option "--host" needs an address`);
       out.host = args[++i];
+    } else if (a === "--default") {
+      if (!args[i + 1]) throw new RangeError(`Option "--default" needs a document`);
+      out.fallback = args[++i];
     } else if (a === "--narrowed") out.narrowed = true;
     else if (a.startsWith("-")) throw new RangeError(`Unknown option "${a}"`);
     else paths.push(a);
   }
-  if (paths.length !== 1) throw new RangeError(USAGE);
-  out.document = paths[0];
+  if (paths.length > 1 || (paths.length === 0 && out.fallback === null)) {
+    throw new RangeError(USAGE);
+  }
+  out.document = paths[0] ?? "";
   return out;
 }
 
@@ -86,20 +107,23 @@ export async function serveCommand(args: string[], product: Product): Promise<nu
     console.error((err as Error).message);
     return 2;
   }
-  const mayRun = Deno.permissions.querySync({ name: "run" }).state === "granted";
-  if (!a.narrowed && mayRun) return await relaunch(a, product);
-  return await serveHere(a, product);
-}
-
-async function relaunch(a: ServeArgs, product: Product): Promise<number> {
-  try {
-    if (!(await Deno.stat(a.document)).isFile) throw new Error("not a file");
-  } catch (err) {
-    console.error(`Cannot read document "${a.document}": ${(err as Error).message}`);
+  const given = a.document || a.fallback!;
+  const path = a.document ? fromCaller(a.document) : resolve(a.fallback!);
+  const trouble = await documentTrouble(given, path) ??
+    (a.port === null || a.narrowed ? null : listenTrouble(given, a.host, a.port));
+  if (trouble) {
+    console.error(trouble);
     return 2;
   }
+  const mayRun = Deno.permissions.querySync({ name: "run", command: Deno.execPath() }).state ===
+    "granted";
+  if (!a.narrowed && mayRun) return await relaunch(a, path, product);
+  return await serveHere(a, given, path, product);
+}
+
+async function relaunch(a: ServeArgs, path: string, product: Product): Promise<number> {
   const port = a.port ?? freePort(a.host);
-  const docDir = dirname(resolve(a.document));
+  const docDir = dirname(path);
   const flags = narrowedFlags(docDir, REPO, a.host, port);
   const child = new Deno.Command(Deno.execPath(), {
     args: [
@@ -114,7 +138,7 @@ async function relaunch(a: ServeArgs, product: Product): Promise<number> {
       ...flags.args,
       fromFileUrl(product.mainUrl),
       "serve",
-      a.document,
+      path,
       "--port",
       String(port),
       "--host",
@@ -145,7 +169,35 @@ function freePort(host: string): number {
   return port;
 }
 
-async function serveHere(a: ServeArgs, product: Product): Promise<number> {
+/** Why `host:port` cannot be listened on, in one line; null when it can. */
+function listenTrouble(given: string, host: string, port: number): string | null {
+  try {
+    Deno.listen({ hostname: host, port }).close();
+    return null;
+  } catch (err) {
+    return serveTrouble(given, host, port, err);
+  }
+}
+
+/** The one line for a failure to serve: a port in use is said as such. */
+function serveTrouble(given: string, host: string, port: number, err: unknown): string {
+  if (err instanceof Deno.errors.AddrInUse || /address already in use/i.test(String(err))) {
+    return `Cannot serve "${given}": port ${port} on ${host} is in use ` +
+      `(choose another with --port, or leave --port out for a free one)`;
+  }
+  if (err instanceof Deno.errors.NotCapable) {
+    return `Cannot serve "${given}" on "${host}:${port}": Plumb was not given permission ` +
+      `to listen there`;
+  }
+  return `Cannot serve "${given}": ${(err as Error).message ?? String(err)}`;
+}
+
+async function serveHere(
+  a: ServeArgs,
+  given: string,
+  path: string,
+  product: Product,
+): Promise<number> {
   if (!LOOPBACK.has(a.host)) {
     console.warn(
       `Warning: serving on "${a.host}", not only this computer: anyone who can reach it and ` +
@@ -157,7 +209,7 @@ async function serveHere(a: ServeArgs, product: Product): Promise<number> {
   let server;
   try {
     server = await startServer({
-      document: a.document,
+      document: path,
       registry: product.registry,
       workerUrl: product.workerUrl,
       hostname: a.host,
@@ -166,10 +218,10 @@ async function serveHere(a: ServeArgs, product: Product): Promise<number> {
       katexDir: await exists(katex) ? katex : null,
     });
   } catch (err) {
-    console.error(`Cannot serve "${a.document}": ${(err as Error).message}`);
+    console.error(serveTrouble(given, a.host, a.port ?? 0, err));
     return 2;
   }
-  console.log(`Plumb is serving ${a.document}\nOpen ${server.url}`);
+  console.log(`Plumb is serving ${given}\nOpen ${server.url}`);
   const stopped = Promise.withResolvers<void>();
   const stop = () => stopped.resolve();
   Deno.addSignalListener("SIGINT", stop);
