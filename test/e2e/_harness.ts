@@ -4,13 +4,16 @@
  * through puppeteer-core, and a tap on the page's WebSocket frames (through
  * the DevTools protocol, so the page runs unmodified).
  *
- * Skip rule: without /usr/bin/chromium every browser suite skips, saying so
- * in one line; with PLUMB_REQUIRE_BROWSER=1 it fails instead.
+ * Skip rule: without /usr/bin/chromium every browser test is registered as
+ * ignored (`ignore: skipWithoutBrowser(suite)`) and the run says so in one
+ * line, once, with how to get Chromium; with PLUMB_REQUIRE_BROWSER=1 the
+ * suite fails instead.
  *
  * @module
  */
 import puppeteer, { type Browser, type Page } from "puppeteer-core";
 import type { ServerMessage } from "../../kernel/server/protocol.ts";
+import { printOnce } from "../_once.ts";
 
 /** The browser the suites drive. */
 export const CHROMIUM = "/usr/bin/chromium";
@@ -36,7 +39,8 @@ function hasChromium(): boolean {
 }
 
 /**
- * Whether this suite runs; prints the one skip line when it does not.
+ * Whether this suite is skipped; the first suite of a run to skip prints the
+ * one skip line.
  *
  * @param suite The suite's name, for the line.
  * @returns `ignore` for Deno.test: true to skip.
@@ -47,7 +51,10 @@ export function skipWithoutBrowser(suite: string): boolean {
   if (Deno.env.get("PLUMB_REQUIRE_BROWSER") === "1") {
     throw new Error(`Browser suite "${suite}" needs ${CHROMIUM}: PLUMB_REQUIRE_BROWSER=1 is set`);
   }
-  console.log(`skip: browser suite "${suite}" (no ${CHROMIUM})`);
+  printOnce(
+    "browser",
+    `skip: browser suites (no ${CHROMIUM}): apt-get install -y chromium (Debian) to run them`,
+  );
   return true;
 }
 

@@ -4,42 +4,74 @@
  * NIST's log relative error.
  *
  * The data are read from `../shared/reference/` beside the repository at run
- * time and never copied in. Where that folder is absent a suite skips with
- * one console line; with PLUMB_REQUIRE_REFERENCE=1 (CI) it fails instead.
+ * time and never copied in. Where that folder is absent every reference test
+ * is registered as ignored (`ignore: withoutReference(suite)`, so Deno counts
+ * it ignored, not passed) and the run prints one line, once, saying how to
+ * get the data; with PLUMB_REQUIRE_REFERENCE=1 (CI) the suite fails instead.
  *
  * @module
  */
 import { join } from "node:path";
+import { printOnce } from "../_once.ts";
 
 /** `../shared/reference/` beside the repository. */
 export const REFERENCE_DIR = new URL("../../../shared/reference/", import.meta.url);
 
 const MAIN = new URL("../../cells/main.ts", import.meta.url).pathname;
 
-/** Suites that already said they skip: one line each. */
-const announced = new Set<string>();
+/**
+ * Whether a reference suite's tests are ignored: true when the reference data
+ * are absent (the run then says so once, with how to get them).
+ *
+ * @param suite The suite's name, for the message when the data are required.
+ * @returns `ignore` for Deno.test.
+ * @throws {Error} When the data are missing and PLUMB_REQUIRE_REFERENCE=1.
+ */
+export function withoutReference(suite: string): boolean {
+  try {
+    Deno.statSync(REFERENCE_DIR);
+    return false;
+  } catch {
+    const where = REFERENCE_DIR.pathname;
+    if (Deno.env.get("PLUMB_REQUIRE_REFERENCE") === "1") {
+      throw new Error(
+        `Reference data not found at ${where} and PLUMB_REQUIRE_REFERENCE=1: suite "${suite}" cannot run`,
+      );
+    }
+    printOnce(
+      "reference",
+      `skip: reference suites (no ${where}): they come with the project's shared/ folder; ` +
+        `place it beside this checkout as ../shared to run them`,
+    );
+    return true;
+  }
+}
 
 /**
- * Whether the reference data are present. When absent, prints one line and
- * returns false, or throws when PLUMB_REQUIRE_REFERENCE=1.
+ * The `Deno.test` of a reference suite: each test registered as ignored
+ * when the reference data are absent.
+ *
+ * @param suite The suite's name.
+ * @returns A function registering one test by name and body.
+ * @throws {Error} When the data are missing and PLUMB_REQUIRE_REFERENCE=1.
+ */
+export function referenceTests(
+  suite: string,
+): (name: string, fn: (t: Deno.TestContext) => Promise<void>) => void {
+  const ignore = withoutReference(suite);
+  return (name, fn) => Deno.test({ name, ignore, fn });
+}
+
+/**
+ * Whether the reference data are present (the opposite of
+ * `withoutReference`, with its message and its rule when they are required).
  *
  * @param suite The suite's name, for the message.
  * @returns True when the suite can run.
  * @throws {Error} When the data are missing and required.
  */
 export function referenceAvailable(suite: string): boolean {
-  try {
-    Deno.statSync(REFERENCE_DIR);
-    return true;
-  } catch {
-    const msg = `Reference data not found at ${REFERENCE_DIR.pathname}`;
-    if (Deno.env.get("PLUMB_REQUIRE_REFERENCE") === "1") {
-      throw new Error(`${msg} and PLUMB_REQUIRE_REFERENCE=1: suite "${suite}" cannot run`);
-    }
-    if (!announced.has(suite)) console.log(`skipping ${suite}: ${msg}`);
-    announced.add(suite);
-    return false;
-  }
+  return !withoutReference(suite);
 }
 
 /**

@@ -14,7 +14,10 @@
  * @module
  */
 import assert from "node:assert/strict";
-import { readReferenceJson, REFERENCE_DIR, referenceAvailable, runDocument } from "./_reference.ts";
+import { readReferenceJson, REFERENCE_DIR, referenceTests, runDocument } from "./_reference.ts";
+
+/** Ignored, and said once, without the reference data. */
+const test = referenceTests("checks_check");
 
 const CASES = new URL("checks/", REFERENCE_DIR);
 const TOL = 1e-8;
@@ -93,8 +96,7 @@ function nearAll(got: unknown[], want: number[], what: string, src: string, scal
   want.forEach((w, i) => near(got[i], w, `${what}[${i}]`, src, TOL, scale));
 }
 
-Deno.test("check cells reproduce the diagnostics of the reference cases", async () => {
-  if (!referenceAvailable("checks_check")) return;
+test("check cells reproduce the diagnostics of the reference cases", async () => {
   const cases = (await allCases()).filter((c) => c.expected?.diagnostics);
   assert.ok(cases.length >= 2, "the two multiple-regression cases at least");
   for (const c of cases) {
@@ -169,8 +171,7 @@ Deno.test("check cells reproduce the diagnostics of the reference cases", async 
   }
 });
 
-Deno.test("check cell reproduces the lack-of-fit reference case", async () => {
-  if (!referenceAvailable("checks_check")) return;
+test("check cell reproduces the lack-of-fit reference case", async () => {
   const c = await readReferenceJson<Case>("checks/lack_of_fit_dose_levels.json");
   const src = `${c.id}: ${c.source}`;
   const e = c.expected;

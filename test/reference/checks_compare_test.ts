@@ -14,7 +14,10 @@
  * @module
  */
 import assert from "node:assert/strict";
-import { readReferenceJson, referenceAvailable, runDocument, type RunJson } from "./_reference.ts";
+import { readReferenceJson, referenceTests, runDocument, type RunJson } from "./_reference.ts";
+
+/** Ignored, and said once, without the reference data. */
+const test = referenceTests("checks_compare");
 
 const TOL = 1e-8;
 
@@ -78,8 +81,7 @@ interface PolyCase {
   };
 }
 
-Deno.test("compare reproduces poly_degree_series_drying_curve: F tests, Δ and Akaike weights to 1e-8", async () => {
-  if (!referenceAvailable("checks_compare")) return;
+test("compare reproduces poly_degree_series_drying_curve: F tests, Δ and Akaike weights to 1e-8", async () => {
   const c = await readReferenceJson<PolyCase>("checks/poly_degree_series_drying_curve.json");
   const src = `${c.id}: ${c.source}`;
   const { response, predictor, degrees } = c.model;
@@ -167,8 +169,7 @@ interface Criteria {
   aicc?: number;
 }
 
-Deno.test("compare reproduces log_vs_raw_deposit_growth: log L on the original scale and criteria to 1e-8", async () => {
-  if (!referenceAvailable("checks_compare")) return;
+test("compare reproduces log_vs_raw_deposit_growth: log L on the original scale and criteria to 1e-8", async () => {
   const c = await readReferenceJson<LogCase>("checks/log_vs_raw_deposit_growth.json");
   const src = `${c.id}: ${c.source}`;
   const y = c.model.response, x = c.model.predictors[0];

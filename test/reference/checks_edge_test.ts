@@ -8,7 +8,7 @@
  * issue 3 specifies), the test asserts the project's behaviour and says so.
  */
 import { equal, match, ok } from "node:assert/strict";
-import { readReferenceJson, referenceAvailable, type RunCell, runDocument } from "./_reference.ts";
+import { readReferenceJson, type RunCell, runDocument, withoutReference } from "./_reference.ts";
 
 interface EdgeCase {
   id: string;
@@ -18,7 +18,7 @@ interface EdgeCase {
   expected: { result: string; error_kind: string };
 }
 
-const available = referenceAvailable("reference checks: edge cases");
+const ignore = withoutReference("reference checks: edge cases");
 
 /** Runs one case as a table (CSV, empty field for null) and a linear fit with an intercept. */
 async function runCase(id: string): Promise<{ c: EdgeCase; fit: RunCell }> {
@@ -36,7 +36,7 @@ async function runCase(id: string): Promise<{ c: EdgeCase; fit: RunCell }> {
 
 Deno.test({
   name: "edge case n = p: the fit refuses, naming the degrees of freedom",
-  ignore: !available,
+  ignore,
   fn: async () => {
     const { c, fit } = await runCase("edge_n_equals_coefficients");
     equal(c.expected.error_kind, "insufficient_degrees_of_freedom"); // source: c.source (statsmodels 0.13.5)
@@ -47,7 +47,7 @@ Deno.test({
 
 Deno.test({
   name: "edge case x3 = x1 + x2: the fit refuses, naming the aliased column",
-  ignore: !available,
+  ignore,
   fn: async () => {
     const { c, fit } = await runCase("edge_perfectly_collinear_column");
     equal(c.expected.error_kind, "rank_deficient"); // source: c.source (statsmodels 0.13.5)
@@ -58,7 +58,7 @@ Deno.test({
 
 Deno.test({
   name: "edge case constant response: R², adjusted R² and F are null with a warning, never NaN",
-  ignore: !available,
+  ignore,
   fn: async () => {
     const { c, fit } = await runCase("edge_constant_response");
     // The case expects an error (constant_response); issue 3 asks for "R² undefined:
@@ -74,7 +74,7 @@ Deno.test({
 
 Deno.test({
   name: "edge case NaN in the response: the row is left out with a warning naming it",
-  ignore: !available,
+  ignore,
   fn: async () => {
     const { c, fit } = await runCase("edge_nan_in_response");
     // The case expects an error (missing_value); issue 3 specifies "rows with a missing

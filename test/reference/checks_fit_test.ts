@@ -13,7 +13,10 @@
  * @module
  */
 import assert from "node:assert/strict";
-import { readReferenceJson, REFERENCE_DIR, referenceAvailable, runDocument } from "./_reference.ts";
+import { readReferenceJson, REFERENCE_DIR, referenceTests, runDocument } from "./_reference.ts";
+
+/** Ignored, and said once, without the reference data. */
+const test = referenceTests("checks_fit");
 
 const CASES = new URL("checks/", REFERENCE_DIR);
 const TOL = 1e-8;
@@ -108,8 +111,7 @@ function check(got: unknown, want: number, what: string, source: string, scale =
   );
 }
 
-Deno.test("fit cells reproduce the ols and wls reference cases to 1e-8", async () => {
-  if (!referenceAvailable("checks_fit")) return;
+test("fit cells reproduce the ols and wls reference cases to 1e-8", async () => {
   const all = await cases();
   assert.ok(all.length >= 2, "the sensor calibration and wls cases at least");
   for (const c of all) {

@@ -11,7 +11,10 @@
  * @module
  */
 import assert from "node:assert/strict";
-import { readReferenceJson, REFERENCE_DIR, referenceAvailable, runDocument } from "./_reference.ts";
+import { readReferenceJson, REFERENCE_DIR, referenceTests, runDocument } from "./_reference.ts";
+
+/** Ignored, and said once, without the reference data. */
+const test = referenceTests("checks_predict");
 
 const CASES = new URL("checks/", REFERENCE_DIR);
 
@@ -79,8 +82,7 @@ function check(got: unknown, want: number, tol: number, what: string) {
   );
 }
 
-Deno.test("predict cells reproduce every reference case with expected predictions", async () => {
-  if (!referenceAvailable("checks_predict")) return;
+test("predict cells reproduce every reference case with expected predictions", async () => {
   const all = await cases();
   assert.ok(all.length >= 3, "the sensor calibration and the two multi-predictor cases at least");
   for (const c of all) {

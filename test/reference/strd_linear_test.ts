@@ -34,10 +34,13 @@ import {
   lre,
   readReferenceJson,
   readReferenceText,
-  referenceAvailable,
+  referenceTests,
   runDocument,
   strdCsv as csvOf,
 } from "./_reference.ts";
+
+/** Ignored, and said once, without the reference data. */
+const test = referenceTests("strd_linear");
 
 interface ManifestSet {
   name: string;
@@ -61,8 +64,7 @@ function modelOf(set: ManifestSet): string {
   return `y = polynomial(x, ${p - 1})`;
 }
 
-Deno.test("NIST StRD linear sets: every certified value to 12 digits through plumb run", async () => {
-  if (!referenceAvailable("strd_linear")) return;
+test("NIST StRD linear sets: every certified value to 12 digits through plumb run", async () => {
   const manifest = await readReferenceJson<{ sets: ManifestSet[] }>("strd/manifest.json");
   const sets = manifest.sets.filter((s) => s.kind === "linear");
   assert.equal(sets.length, 11);
@@ -166,8 +168,7 @@ function exactSet(set: ManifestSet, rows: string[][]) {
 const addRaw = (a: Q, b: Q): Q => [a[0] * b[1] + b[0] * a[1], a[1] * b[1]];
 const mulRaw = (a: Q, b: Q): Q => [a[0] * b[0], a[1] * b[1]];
 
-Deno.test("NIST StRD linear sets: leverage and se_fit to 12 digits against exact rational arithmetic", async () => {
-  if (!referenceAvailable("strd_linear")) return;
+test("NIST StRD linear sets: leverage and se_fit to 12 digits against exact rational arithmetic", async () => {
   const manifest = await readReferenceJson<{ sets: ManifestSet[] }>("strd/manifest.json");
   const sets = manifest.sets.filter((s) => s.kind === "linear");
   const files: Record<string, string> = {};
@@ -228,8 +229,7 @@ Deno.test("NIST StRD linear sets: leverage and se_fit to 12 digits against exact
 // estimates (its normal equations are multiplied by k). Fitted in process through the table and
 // fit kinds, on whichever path the fit takes at that size.
 
-Deno.test("NIST StRD Filip, Wampler4, Longley replicated to 20,000 and Filip to 200,000 rows keep 12 digits", async () => {
-  if (!referenceAvailable("strd_linear")) return;
+test("NIST StRD Filip, Wampler4, Longley replicated to 20,000 and Filip to 200,000 rows keep 12 digits", async () => {
   const manifest = await readReferenceJson<{ sets: ManifestSet[] }>("strd/manifest.json");
   const cases: [string, number][] = [["Filip", 20_000], ["Wampler4", 20_000], ["Longley", 20_000], [
     "Filip",

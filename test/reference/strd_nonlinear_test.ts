@@ -18,10 +18,13 @@ import {
   lre,
   readReferenceJson,
   readReferenceText,
-  referenceAvailable,
+  referenceTests,
   runDocument,
   strdCsv as csvOf,
 } from "./_reference.ts";
+
+/** Ignored, and said once, without the reference data. */
+const test = referenceTests("strd_nonlinear");
 
 interface ManifestSet {
   name: string;
@@ -91,8 +94,7 @@ interface Row {
   rss: number;
 }
 
-Deno.test("NIST StRD nonlinear sets: both starts to 6 digits through plumb run", async () => {
-  if (!referenceAvailable("strd_nonlinear")) return;
+test("NIST StRD nonlinear sets: both starts to 6 digits through plumb run", async () => {
   const manifest = await readReferenceJson<{ sets: ManifestSet[] }>("strd/manifest.json");
   const sets = manifest.sets.filter((s) => s.kind === "nonlinear");
   assert.equal(sets.length, 19);
