@@ -33,6 +33,11 @@
  * `deno task bench --startup` measures only the two start-up figures and
  * prints them (a few seconds; bench-report.json is left as it is).
  *
+ * While it runs, each step says on standard error what it measures and when
+ * it started. At the end every figure with a target gets a line, `ok` or
+ * `MISSED` (`targetMarks`: a `target_*` key beside the value it judges),
+ * and the report keeps them under `targets`.
+ *
  * @module
  */
 import { makeNumericCsv, readDelimited } from "../../kernel/csv/mod.ts";
@@ -44,6 +49,81 @@ import { startupFigures } from "./startup.ts";
 import { certifiedMillion } from "./certified_million.ts";
 
 const root = new URL("../../", import.meta.url);
+const started = performance.now();
+
+/** One line of progress on standard error (standard output is the report). */
+function progress(what: string): void {
+  const s = ((performance.now() - started) / 1000).toFixed(0).padStart(4);
+  console.error(`bench ${s} s  ${what}`);
+}
+
+/** Runs one measurement, saying first what it is. */
+async function step<T>(what: string, fn: () => T | Promise<T>): Promise<T> {
+  progress(what);
+  return await fn();
+}
+
+/** A figure judged against its target. */
+interface Mark {
+  figure: string;
+  value: number;
+  target: number;
+  higherIsBetter: boolean;
+  met: boolean;
+}
+
+/** The value a `target_*` key judges: `target_x` judges `x`, with these exceptions. */
+const JUDGED: Record<string, string[]> = {
+  target_ms: ["p50_ms", "median_ms", "ready.median_ms"],
+  target_lre: ["worst_lre_certified"],
+  target_ratio: ["largest_ratio"],
+};
+
+function valueAt(fig: Record<string, unknown>, path: string): unknown {
+  return path.split(".").reduce<unknown>(
+    (o, k) => (o && typeof o === "object" ? (o as Record<string, unknown>)[k] : undefined),
+    fig,
+  );
+}
+
+/**
+ * Every figure with a target, judged: a key `target_<x>` judges `<x>`
+ * (or the first of `JUDGED`'s names present); digits (`lre`) and rates
+ * (`per_second`) must reach the target, everything else stay at or under it.
+ */
+function targetMarks(figures: Record<string, unknown>): Mark[] {
+  const marks: Mark[] = [];
+  for (const [name, fig] of Object.entries(figures)) {
+    if (!fig || typeof fig !== "object") continue;
+    const f = fig as Record<string, unknown>;
+    for (const [key, target] of Object.entries(f)) {
+      if (!key.startsWith("target_") || typeof target !== "number") continue;
+      const paths = JUDGED[key] ?? [key.slice("target_".length)];
+      const path = paths.find((p) => typeof valueAt(f, p) === "number");
+      if (path === undefined) continue;
+      const value = valueAt(f, path) as number;
+      const higherIsBetter = /lre|per_second/.test(key);
+      const met = higherIsBetter ? value >= target : value <= target;
+      marks.push({ figure: `${name}.${path}`, value, target, higherIsBetter, met });
+    }
+  }
+  return marks;
+}
+
+/** The marks as lines: `MISSED` stands out from `ok`. */
+function printMarks(marks: Mark[]): void {
+  const w = Math.max(...marks.map((m) => m.figure.length));
+  console.log("Targets:");
+  for (const m of marks) {
+    const v = Number(m.value.toPrecision(4));
+    console.log(
+      `  ${(m.met ? "ok" : "MISSED").padEnd(7)} ${m.figure.padEnd(w)}  ${v}  ` +
+        `(target ${m.higherIsBetter ? "≥" : "≤"} ${m.target})`,
+    );
+  }
+  const missed = marks.filter((m) => !m.met).length;
+  console.log(missed === 0 ? "Every target met" : `${missed} of ${marks.length} targets missed`);
+}
 
 function quantile(sorted: number[], q: number): number {
   const i = (sorted.length - 1) * q;
@@ -141,25 +221,38 @@ function fromBenches(benches: Bench[]) {
 }
 
 if (Deno.args.includes("--startup")) {
-  console.log(JSON.stringify(await startupFigures(root), null, 2));
+  const figures = await step(
+    "start-up: compute worker and a cold plumb run",
+    () => startupFigures(root),
+  );
+  console.log(JSON.stringify(figures, null, 2));
+  printMarks(targetMarks(figures));
   Deno.exit(0);
 }
 
 // The start-up figures and the browser figures first: the ingest below leaves this
 // process with a heap of hundreds of MB whose collection would run beside them.
-const startup = await startupFigures(root);
-const updateTop = await updateLatency();
-const updateCharts = await updateLatency(20, "charts");
-const benches = (await microBenches()) as Bench[];
-const certified = await certifiedMillion();
+const startup = await step(
+  "start-up: compute worker and a cold plumb run",
+  () => startupFigures(root),
+);
+const updateTop = await step("update latency in Chromium, page top in view", () => updateLatency());
+const updateCharts = await step(
+  "update latency in Chromium, charts in view",
+  () => updateLatency(20, "charts"),
+);
+const benches = (await step("micro-benchmarks (deno bench)", microBenches)) as Bench[];
+const certified = await step("certified_million: NIST sets at a million rows", certifiedMillion);
+const ingest = await step("csv_ingest: 1,000,000 × 11 CSV", csvIngest);
+const chain = await step("schedule_chain_200", scheduleChain);
 const report = {
   plumb: VERSION,
   deno: Deno.version.deno,
   date: new Date().toISOString(),
   cores: navigator.hardwareConcurrency,
   figures: {
-    csv_ingest: csvIngest(),
-    schedule_chain_200: await scheduleChain(),
+    csv_ingest: ingest,
+    schedule_chain_200: chain,
     update_latency: updateTop,
     update_latency_charts_in_view: updateCharts,
     ...startup,
@@ -167,8 +260,12 @@ const report = {
     ...fromBenches(benches),
   },
   benches,
+  targets: [] as Mark[],
 };
+report.targets = targetMarks(report.figures);
+progress("done");
 const path = new URL("bench-report.json", root);
 await Deno.writeTextFile(path, JSON.stringify(report, null, 2) + "\n");
 console.log(JSON.stringify(report.figures, null, 2));
+printMarks(report.targets);
 console.log(`Wrote ${path.pathname}`);
