@@ -144,6 +144,7 @@ function parseNode(
 }
 
 function checkRefs(node: CellNode, byName: Map<string, CellNode>): void {
+  const deps = new Set(node.deps); // a Set: a cell may read thousands of cells
   for (const ref of node.refs) {
     const target = byName.get(ref.name);
     if (!target) {
@@ -167,7 +168,10 @@ function checkRefs(node: CellNode, byName: Map<string, CellNode>): void {
       node.error = new LocatedError(`Cell "${node.name}" reads itself`, node.locate(ref.path));
       return;
     }
-    if (!node.deps.includes(ref.name)) node.deps.push(ref.name);
+    if (!deps.has(ref.name)) {
+      deps.add(ref.name);
+      node.deps.push(ref.name);
+    }
   }
 }
 
@@ -204,14 +208,26 @@ export function buildGraph(
   cache.sweep();
   for (const node of nodes) if (!node.error) checkRefs(node, byName);
   for (const cycle of findCycles(nodes.filter((n) => !n.error), byName)) {
-    const path = [...cycle, cycle[0]].join(" → ");
+    const path = cyclePath(cycle);
+    const members = new Set(cycle);
     for (const name of cycle) {
       const node = byName.get(name)!;
-      const ref = node.refs.find((r) => cycle.includes(r.name));
+      const ref = node.refs.find((r) => members.has(r.name));
       node.error = new LocatedError(`Cycle: ${path}`, node.locate(ref?.path ?? []));
     }
   }
   return { nodes, byName, order: topologicalOrder(nodes, byName) };
+}
+
+/** Cells of a cycle shown in its message; a longer one is shortened (each member carries it). */
+const CYCLE_SHOWN = 12;
+
+/** `a → b → c → a`; past {@link CYCLE_SHOWN} cells, the first few, `…`, the last and the count. */
+function cyclePath(cycle: string[]): string {
+  if (cycle.length <= CYCLE_SHOWN) return [...cycle, cycle[0]].join(" → ");
+  const head = cycle.slice(0, CYCLE_SHOWN - 2);
+  const n = cycle.length.toLocaleString("en");
+  return [...head, "…", cycle[cycle.length - 1], cycle[0]].join(" → ") + ` (${n} cells)`;
 }
 
 /** Depth-first post-order from each node in document order; a cycle member is emitted once. */

@@ -39,7 +39,17 @@ export function findCycles<N extends CycleNode>(
   const cycles: string[][] = [];
   let counter = 0;
 
-  const depsOf = (name: string) => (byName.get(name)?.deps ?? []).filter((d) => inSet.has(d));
+  // Each node's deps within the set, filtered once: a frame reads them once per step, and a
+  // cell reading thousands of cells (a compare of 5,000 fits) would otherwise cost deg² a node.
+  const within = new Map<string, string[]>();
+  const depsOf = (name: string) => {
+    let deps = within.get(name);
+    if (deps === undefined) {
+      deps = (byName.get(name)?.deps ?? []).filter((d) => inSet.has(d));
+      within.set(name, deps);
+    }
+    return deps;
+  };
 
   for (const root of nodes) {
     if (index.has(root.name)) continue;

@@ -33,6 +33,7 @@ import type { DoneMessage } from "../worker/protocol.ts";
 import { answerReport, failedReport, heldReport } from "./_cell_report.ts";
 import { isTransient, located, type Outcome, type Prepared, type RunHost } from "./_run_parts.ts";
 import { referencedFields } from "./inline_refs.ts";
+import { Waiting } from "./_waiting.ts";
 import type { CellReport, CellState, Plan, RunReport } from "./types.ts";
 
 /** A cell sent into a worker's queue before its inputs' answers (`settled`) came back. */
@@ -57,8 +58,8 @@ export class Run {
   #fileErrors = new Map<CellNode, LocatedError>();
   /** With `page`: per cell, the fields its inline values name. */
   #named = new Map<string, Set<string>>();
-  /** Cells not yet sent, in the graph's order. */
-  #waiting: CellNode[] = [];
+  /** Cells not yet sent, and which of them to look at again (_waiting.ts). */
+  #waiting!: Waiting;
   /** Cells sent and not yet settled. */
   #going = new Set<Promise<void>>();
   /** The report to come of every cell sent. */
@@ -68,7 +69,7 @@ export class Run {
   #computingOn = new Map<CellNode, ComputeWorker>();
   /** Every run request sent, in order, and whether the worker computed the cell. */
   #sent: { name: string; computed: boolean }[] = [];
-  /** Wakes `execute` when a cell starts computing (cells may then queue behind it). */
+  /** Wakes `execute` when a cell settles or starts computing (cells may then go or queue behind it). */
   #wake = () => {};
 
   /** @param host What the run uses of its session. */
@@ -97,7 +98,7 @@ export class Run {
     const shas = new Map([...this.#fileData].map(([path, f]) => [path, f.sha256]));
     const plan = this.#plan = this.#host.keyed(prep, shas);
     if (this.#host.page) this.#named = referencedFields(plan.doc);
-    this.#waiting = [...plan.graph.order];
+    this.#waiting = new Waiting(plan.graph.order, plan.graph.byName);
     for (const node of plan.graph.nodes) {
       if (!node.error && plan.keys.has(node.name)) this.#emit(node.name, "queued");
     }
@@ -124,7 +125,7 @@ export class Run {
    * @returns The report; `superseded` and no cells when a newer run took over.
    */
   async execute(): Promise<RunReport> {
-    while (this.#waiting.length > 0 || this.#going.size > 0) {
+    while (this.#waiting.size > 0 || this.#going.size > 0) {
       if (this.#superseded) this.#cancelQueued(); // those sent since
       else this.#sendReady();
       if (this.#going.size > 0) await this.#nextChange();
@@ -135,23 +136,22 @@ export class Run {
     return this.#finish();
   }
 
-  /** Sends every waiting cell whose inputs have settled, or that can queue behind them. */
+  /**
+   * Sends every waiting cell whose inputs have settled, or that can queue
+   * behind them; only cells a change concerned are looked at (_waiting.ts).
+   */
   #sendReady(): void {
-    for (let i = 0; i < this.#waiting.length;) {
-      const node = this.#waiting[i];
+    for (const node of this.#waiting.take()) {
       const ready = this.#inputsSettled(node);
       const behind = ready ? null : this.#queueBehind(node);
-      if (!ready && behind === null) {
-        i++;
-        continue;
-      }
-      this.#waiting.splice(i, 1);
+      if (!ready && behind === null) continue;
+      this.#waiting.remove(node);
       this.#send(node, behind);
     }
   }
 
-  #inputsOf(node: CellNode): CellNode[] {
-    return node.deps.flatMap((d) => this.#plan.graph.byName.get(d) ?? []);
+  #inputsOf(node: CellNode): readonly CellNode[] {
+    return this.#waiting.inputsOf(node);
   }
 
   #inputsSettled(node: CellNode): boolean {
@@ -171,7 +171,10 @@ export class Run {
       if (on === undefined || (target !== null && target !== on)) return null;
       target = on;
     }
-    return target !== null && this.#host.pool.queueOn(target) ? target : null;
+    if (target === null) return null;
+    if (this.#host.pool.queueOn(target)) return target;
+    this.#waiting.park(node);
+    return null;
   }
 
   /** Whether a cell will compute in this run (it can run and has no kept outcome). */
@@ -193,20 +196,29 @@ export class Run {
       return r;
     });
     this.#answers.set(node, report);
-    const going: Promise<void> = report.then(() => {}).finally(() => this.#going.delete(going));
+    const going: Promise<void> = report.then(() => {}).finally(() => {
+      this.#going.delete(going);
+      this.#waiting.changed(node);
+      this.#waiting.placeFreed();
+      this.#wake();
+    });
     this.#going.add(going);
   }
 
-  /** Waits until a cell settles or starts computing. */
+  /**
+   * Waits until a cell settles or starts computing. One waker for the run,
+   * never a race over every cell on its way (that kept n promise reactions
+   * per change: quadratic in time and memory).
+   */
   async #nextChange(): Promise<void> {
-    const woken = new Promise<void>((r) => this.#wake = r);
-    await Promise.race([...this.#going, woken]);
+    await new Promise<void>((r) => this.#wake = r);
   }
 
   /** Only cells waiting on each other are left (a cycle): reports them one by one. */
   async #settleWaitingOnEachOther(): Promise<void> {
-    for (const node of this.#waiting) this.#reports.set(node, await this.#answer(node, null));
-    this.#waiting.length = 0;
+    for (const node of this.#waiting.drain()) {
+      this.#reports.set(node, await this.#answer(node, null));
+    }
   }
 
   /** Cancels this run's cells still waiting in a worker's queue. */
@@ -335,6 +347,7 @@ export class Run {
     const inputKeys = node.deps.map((d) => this.#plan.keys.get(d)!);
     const worker = queued ?? await this.#host.pool.acquire(inputKeys);
     this.#computingOn.set(node, worker);
+    this.#waiting.changed(node);
     this.#wake();
     try {
       return await this.#computeOn(worker, node, queued === undefined ? "start" : "progress");

@@ -29,6 +29,10 @@
  *   answers (`ready`, target under 100 ms; `first_run`, a three-row table),
  *   and `plumb_run_cold`: a whole `plumb run` of the demo as a new process,
  *   target under 500 ms; min/median/max (test/bench/startup.ts).
+ * - `many_cells`: a whole `plumb run --json` of a generated 10,000-cell
+ *   document (5,000 small tables and their fits) as a new process: wall
+ *   time (min/median/max of three) and peak resident memory; targets under
+ *   10 s and 1 GB (test/bench/many_cells.ts).
  *
  * `deno task bench --startup` measures only the two start-up figures and
  * prints them (a few seconds; bench-report.json is left as it is).
@@ -47,6 +51,7 @@ import { VERSION } from "../../kernel/version.ts";
 import { updateLatency } from "../e2e/latency_bench.ts";
 import { startupFigures } from "./startup.ts";
 import { certifiedMillion } from "./certified_million.ts";
+import { manyCells } from "./many_cells.ts";
 
 const root = new URL("../../", import.meta.url);
 const started = performance.now();
@@ -243,6 +248,7 @@ const updateCharts = await step(
 );
 const benches = (await step("micro-benchmarks (deno bench)", microBenches)) as Bench[];
 const certified = await step("certified_million: NIST sets at a million rows", certifiedMillion);
+const many = await step("many_cells: plumb run of 10,000 small cells", () => manyCells(root));
 const ingest = await step("csv_ingest: 1,000,000 × 11 CSV", csvIngest);
 const chain = await step("schedule_chain_200", scheduleChain);
 const report = {
@@ -257,6 +263,7 @@ const report = {
     update_latency_charts_in_view: updateCharts,
     ...startup,
     certified_million: certified,
+    many_cells: many,
     ...fromBenches(benches),
   },
   benches,
