@@ -3,20 +3,25 @@
  * worker has no permissions) and hands over bytes with their SHA-256.
  *
  * A path must stay inside the document's folder: absolute paths, `..`
- * escapes and symbolic links leading out are refused. A file over the
- * document's size limit is refused before it is read. Content is cached by
- * path, size and modification time, so an unchanged file is neither read nor
- * hashed again.
+ * escapes and symbolic links leading out are refused, and only regular files
+ * are read. The file is opened once, what was opened is checked (not the
+ * path: a link or a pipe swapped in between is refused, _open_inside.ts) and
+ * read from that handle. A file over the document's size limit is refused
+ * before it is read. Content is cached by path, file identity, size and
+ * modification time, so an unchanged file is neither read nor hashed again.
  *
  * @module
  */
-import { isAbsolute, join, relative, resolve } from "node:path";
+import { isAbsolute, relative, resolve } from "node:path";
 import type { FileData } from "../contract/mod.ts";
 import { CellError, type OptionPath } from "../errors.ts";
 import { sha256Hex } from "../hash.ts";
 import { formatBytes } from "../format_bytes.ts";
+import { openInside, readOpened } from "./_open_inside.ts";
 
 interface Entry {
+  /** Device and inode of the file read. */
+  id: string;
   size: number;
   mtime: number;
   data: FileData;
@@ -65,42 +70,34 @@ export class FileStore {
    */
   async read(path: string, option: OptionPath, maxBytes: number): Promise<FileData> {
     const abs = this.resolvePath(path, option);
-    let info: Deno.FileInfo;
+    // Opened once and checked as opened (_open_inside.ts), then read from that handle.
+    const file = await openInside(abs, this.#dir, path, option);
     try {
-      info = await Deno.stat(abs);
-      const real = await Deno.realPath(abs);
-      const realDir = await Deno.realPath(this.#dir);
-      const rel = relative(realDir, real);
-      if (rel.startsWith("..") || isAbsolute(rel)) {
-        throw new CellError(`File "${path}" links outside the document's folder`, option);
+      if (file.size > maxBytes) {
+        throw new CellError(
+          `File "${path}" is ${formatBytes(file.size)}, over the limit of ${
+            formatBytes(maxBytes)
+          } ` +
+            `(set max_file_size in the front matter to raise it)`,
+          option,
+        );
       }
-    } catch (err) {
-      if (err instanceof CellError) throw err;
-      if (err instanceof Deno.errors.NotFound) {
-        throw new CellError(`File "${path}" not found in ${join(this.#dir)}`, option);
+      const hit = this.#cache.get(abs);
+      if (hit && hit.id === file.id && hit.size === file.size && hit.mtime === file.mtime) {
+        return { ...hit.data, path };
       }
-      throw new CellError(`Cannot read file "${path}": ${(err as Error).message}`, option);
+      let bytes: Uint8Array;
+      try {
+        bytes = await readOpened(file);
+      } catch (err) {
+        throw new CellError(`Cannot read file "${path}": ${(err as Error).message}`, option);
+      }
+      const data = { path, bytes, sha256: await sha256Hex(bytes) };
+      this.#cache.set(abs, { id: file.id, size: bytes.length, mtime: file.mtime, data });
+      return data;
+    } finally {
+      await file.handle.close();
     }
-    if (!info.isFile) throw new CellError(`"${path}" is not a file`, option);
-    if (info.size > maxBytes) {
-      throw new CellError(
-        `File "${path}" is ${formatBytes(info.size)}, over the limit of ${formatBytes(maxBytes)} ` +
-          `(set max_file_size in the front matter to raise it)`,
-        option,
-      );
-    }
-    const mtime = info.mtime?.getTime() ?? 0;
-    const hit = this.#cache.get(abs);
-    if (hit && hit.size === info.size && hit.mtime === mtime) return { ...hit.data, path };
-    let bytes: Uint8Array;
-    try {
-      bytes = await Deno.readFile(abs);
-    } catch (err) {
-      throw new CellError(`Cannot read file "${path}": ${(err as Error).message}`, option);
-    }
-    const data = { path, bytes, sha256: await sha256Hex(bytes) };
-    this.#cache.set(abs, { size: info.size, mtime, data });
-    return data;
   }
 
   /**

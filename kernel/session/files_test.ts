@@ -1,0 +1,91 @@
+/**
+ * FileStore.read() refuses what is not a regular file inside the document's
+ * folder, in words, without opening a named pipe for a blocking read (issue
+ * 11, defect 10; the race itself is files_race_test.ts).
+ *
+ * @module
+ */
+import { equal, rejects } from "node:assert/strict";
+import { CellError } from "../errors.ts";
+import { FileStore } from "./files.ts";
+
+async function withFolder(fn: (dir: string, root: string) => Promise<void>) {
+  const root = await Deno.makeTempDir({ prefix: "plumb-files-" });
+  await Deno.mkdir(`${root}/doc/data`, { recursive: true });
+  await Deno.writeTextFile(`${root}/secret.csv`, "s\n1\n");
+  await Deno.writeTextFile(`${root}/doc/data/a.csv`, "x\n1\n");
+  try {
+    await fn(`${root}/doc`, root);
+  } finally {
+    await Deno.remove(root, { recursive: true });
+  }
+}
+
+const refused = (message: string) => (e: unknown) =>
+  e instanceof CellError && e.message === message;
+
+Deno.test({
+  name: "FileStore.read() refuses a named pipe at once, and reads the file again once replaced",
+  ignore: Deno.build.os === "windows",
+  async fn() {
+    await withFolder(async (dir) => {
+      await new Deno.Command("mkfifo", { args: [`${dir}/pipe.csv`] }).output();
+      const store = new FileStore(dir);
+      await rejects(
+        store.read("pipe.csv", ["from"], 1 << 20),
+        refused(`"pipe.csv" is not a regular file: it is a named pipe`),
+      );
+      await Deno.remove(`${dir}/pipe.csv`);
+      await Deno.writeTextFile(`${dir}/pipe.csv`, "x\n2\n");
+      equal(
+        new TextDecoder().decode((await store.read("pipe.csv", ["from"], 1 << 20)).bytes),
+        "x\n2\n",
+      );
+    });
+  },
+});
+
+Deno.test("FileStore.read() refuses a link out of the folder and a folder, reads a link inside", async () => {
+  await withFolder(async (dir, root) => {
+    await Deno.symlink(`${root}/secret.csv`, `${dir}/out.csv`);
+    await Deno.symlink(`${dir}/data/a.csv`, `${dir}/in.csv`);
+    await Deno.symlink(root, `${dir}/up`);
+    const store = new FileStore(dir);
+    await rejects(
+      store.read("out.csv", ["from"], 1 << 20),
+      refused(`File "out.csv" links outside the document's folder`),
+    );
+    await rejects(
+      store.read("up/secret.csv", ["from"], 1 << 20),
+      refused(`File "up/secret.csv" links outside the document's folder`),
+    );
+    await rejects(
+      store.read("data", ["from"], 1 << 20),
+      refused(`"data" is not a regular file: it is a folder`),
+    );
+    const inside = await store.read("in.csv", ["from"], 1 << 20);
+    equal(new TextDecoder().decode(inside.bytes), "x\n1\n");
+    equal(inside.path, "in.csv");
+  });
+});
+
+Deno.test("FileStore.read() gives the cached bytes for an unchanged file, new bytes for a replaced one", async () => {
+  await withFolder(async (dir) => {
+    const store = new FileStore(dir);
+    const first = await store.read("data/a.csv", ["from"], 1 << 20);
+    equal((await store.read("data/a.csv", ["from"], 1 << 20)).sha256, first.sha256);
+    // Same size, and the same modification time forced: a new file (another inode) is read anew.
+    const mtime = (await Deno.stat(`${dir}/data/a.csv`)).mtime!;
+    await Deno.writeTextFile(`${dir}/data/b.csv`, "x\n9\n");
+    await Deno.utime(`${dir}/data/b.csv`, mtime, mtime);
+    await Deno.rename(`${dir}/data/b.csv`, `${dir}/data/a.csv`);
+    const again = await store.read("data/a.csv", ["from"], 1 << 20);
+    equal(new TextDecoder().decode(again.bytes), "x\n9\n");
+    await rejects(
+      store.read("data/a.csv", ["from"], 3),
+      refused(
+        `File "data/a.csv" is 4 bytes, over the limit of 3 bytes (set max_file_size in the front matter to raise it)`,
+      ),
+    );
+  });
+});
