@@ -1,13 +1,15 @@
 /**
  * The live page: top bar, the document as a report (prose and cell blocks in
  * order), the rail, and the add-a-cell form. Removing a cell keeps its text
- * in this page's memory for undo until the page is reloaded.
+ * in this page's memory for undo until the page is reloaded; for 30 s the
+ * undo is exact (the removal's version and offset), from the top bar's
+ * notice or Alt+U (ui/undo.ts).
  *
  * @module
  */
 import type { VNode } from "preact";
 import { memo } from "preact/compat";
-import { useCallback, useRef, useState } from "preact/hooks";
+import { useCallback, useEffect, useRef, useState } from "preact/hooks";
 import type { DocumentMessage } from "../kernel/server/protocol.ts";
 import { deleteCell, newCell, restoreCell, type SaveOutcome } from "./api.ts";
 import { CellBlock } from "./cell_block.tsx";
@@ -16,10 +18,14 @@ import { Prose } from "./prose.tsx";
 import { Rail, type Removed } from "./rail.tsx";
 import type { LiveStore } from "./store.ts";
 import { TopBar } from "./top_bar.tsx";
+import { isUndoKey, undoList } from "./undo.ts";
 import { pages } from "../cells/pages.ts";
 
 /** Kinds offered when adding a cell (every kind with a page face); the server gives each its template. */
 export const ADDABLE_KINDS: readonly string[] = [...pages.keys()];
+
+/** Removed cells already put back (by the rail or by undo), so neither puts one back twice. */
+const restored = new WeakSet<Removed>();
 
 function cellNames(doc: DocumentMessage): string[] {
   return doc.blocks.flatMap((b) => b.type === "cell" ? [b.name] : []);
@@ -124,6 +130,15 @@ export function App(props: { store: LiveStore }): VNode {
   const actions = useRef({ remove: (_: string) => {}, addBelow: (_: string) => {} });
   const onRemove = useCallback((n: string) => actions.current.remove(n), []);
   const onAddBelow = useCallback((n: string) => actions.current.addBelow(n), []);
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      if (!isUndoKey(e)) return;
+      e.preventDefault();
+      undoList.undoLatest().then((why) => why !== null && setError(why));
+    };
+    globalThis.addEventListener("keydown", onKey);
+    return () => globalThis.removeEventListener("keydown", onKey);
+  }, []);
 
   if (doc === null) {
     return (
@@ -142,22 +157,38 @@ export function App(props: { store: LiveStore }): VNode {
     const block = doc!.blocks.find((b) => b.type === "cell" && b.name === name);
     const out = await deleteCell({ name, base: doc!.version });
     if (!out.ok) return setError(failure(out));
-    setRemoved((r) => [
-      ...r,
-      {
-        name,
-        kind: block?.type === "cell" ? block.kind : "",
-        text: out.value.removed,
-        after: i > 0 ? names[i - 1] : null,
-      },
-    ]);
+    const r: Removed = {
+      name,
+      kind: block?.type === "cell" ? block.kind : "",
+      text: out.value.removed,
+      after: i > 0 ? names[i - 1] : null,
+      version: out.value.version,
+      at: out.value.at,
+    };
+    setRemoved((list) => [...list, r]);
+    undoList.remember(`removed ${r.kind} "${name}"`, () => putBack(r));
+  }
+
+  /** Exactly where it was while the file is as the removal left it, else after the cell it followed. */
+  async function putBack(r: Removed): Promise<SaveOutcome<unknown>> {
+    if (restored.has(r)) return { ok: false, conflict: null, error: "it is back already" };
+    let out = await restoreCell({ text: r.text, at: r.at, base: r.version });
+    if (!out.ok && out.conflict !== null) {
+      const after = r.after !== null && cellNames(store.doc.value!).includes(r.after)
+        ? r.after
+        : null;
+      out = await restoreCell({ text: r.text, at: after, base: out.conflict.diskVersion });
+    }
+    if (out.ok) {
+      restored.add(r);
+      setRemoved((list) => list.filter((x) => x !== r));
+    }
+    return out;
   }
 
   async function undo(r: Removed) {
-    const at = r.after !== null && names.includes(r.after) ? r.after : null;
-    const out = await restoreCell({ text: r.text, at, base: store.doc.value!.version });
-    if (!out.ok) return setError(failure(out));
-    setRemoved((list) => list.filter((x) => x !== r));
+    const out = await putBack(r);
+    if (!out.ok) setError(failure(out));
   }
 
   actions.current = { remove, addBelow: (n) => setAddAfter(n) };

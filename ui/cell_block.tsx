@@ -3,6 +3,8 @@
  * time taken), a progress bar while computing, the kind's view of its result
  * (kept, dimmed, while it recomputes), warnings, and for a failed cell the
  * message with the offending source line marked. Its source opens in place.
+ * A failed or held cell's earlier result is folded away under "from an
+ * earlier run" (ui/store.ts `standing`), never shown as if current.
  *
  * @module
  */
@@ -10,7 +12,7 @@ import type { VNode } from "preact";
 import { memo } from "preact/compat";
 import { useLayoutEffect, useRef, useState } from "preact/hooks";
 import type { LiveBlock } from "../kernel/server/protocol.ts";
-import type { LiveStore } from "./store.ts";
+import { heldReason, type LiveCell, type LiveStore, standing } from "./store.ts";
 import { StateMark } from "./state_mark.tsx";
 import { formatDuration } from "../cells/shared/format.ts";
 import { viewOf } from "../cells/pages.ts";
@@ -115,6 +117,21 @@ function useNear(ref: { current: Element | null }): boolean {
   return inView;
 }
 
+/** A failed or held cell's last result, folded: it is not of the inputs as they are now. */
+function Earlier(props: { cell: LiveCell; kind: string; result: unknown; line: string | null }) {
+  const c = props.cell;
+  return (
+    <details class="pl-earlier pl-live-only" data-earlier={c.resultRun}>
+      <summary>
+        Result of an earlier run (run {c.resultRun}), not of the inputs as they are now
+      </summary>
+      <div class="pl-result">
+        <Result kind={props.kind} name={c.name} result={props.result} line={props.line} />
+      </div>
+    </details>
+  );
+}
+
 function same(a: CellBlockProps, b: CellBlockProps): boolean {
   return a.store === b.store && a.version === b.version && a.onRemove === b.onRemove &&
     a.onAddBelow === b.onAddBelow && a.block.name === b.block.name &&
@@ -146,6 +163,7 @@ function CellBlockOf(props: CellBlockProps): VNode {
   const [showSource, setShowSource] = useState(false);
   const [editing, setEditing] = useState<{ body: string; base: string } | null>(null);
   const failed = cell.state === "failed";
+  const stand = standing(cell);
   const busy = cell.state === "computing" || cell.state === "queued";
   const elapsed = cell.state === "computing"
     ? (cell.ms ?? 0) + Math.max(0, now.value - cell.since)
@@ -167,12 +185,15 @@ function CellBlockOf(props: CellBlockProps): VNode {
         <h3 class="pl-cell-name">{block.name}</h3>
         <StateMark state={cell.state} />
         {elapsed !== null && cell.state !== "queued" && (
-          <span class="pl-cell-ms" title={cell.cached ? "reused: inputs unchanged" : "time taken"}>
+          <span
+            class="pl-cell-ms pl-live-only"
+            title={cell.cached ? "reused: inputs unchanged" : "time taken"}
+          >
             {formatDuration(elapsed)}
             {cell.cached ? " · reused" : ""}
           </span>
         )}
-        <span class="pl-cell-actions">
+        <span class="pl-cell-actions pl-live-only">
           <button
             type="button"
             class="pl-link"
@@ -205,7 +226,9 @@ function CellBlockOf(props: CellBlockProps): VNode {
         </p>
       )}
       {cell.state === "held" && (
-        <p class="pl-note">‖ Held: {cell.error?.message ?? "an input of this cell failed"}</p>
+        <p class="pl-note pl-held-why">
+          ‖ Waiting on its inputs: {heldReason(cell.error?.message)}
+        </p>
       )}
       {editing !== null
         ? (
@@ -231,16 +254,28 @@ function CellBlockOf(props: CellBlockProps): VNode {
           {cell.warnings.map((w) => <li key={w}>⚠ {w}</li>)}
         </ul>
       )}
-      {!failed && (
-        <div class={busy ? "pl-result pl-stale" : "pl-result"} data-pending={pending || undefined}>
-          <Result
+      {stand === "earlier"
+        ? (
+          <Earlier
+            cell={cell}
             kind={block.kind}
-            name={block.name}
             result={shown.current.result}
             line={shown.current.line}
           />
-        </div>
-      )}
+        )
+        : (
+          <div
+            class={busy ? "pl-result pl-stale" : "pl-result"}
+            data-pending={pending || undefined}
+          >
+            <Result
+              kind={block.kind}
+              name={block.name}
+              result={shown.current.result}
+              line={shown.current.line}
+            />
+          </div>
+        )}
     </section>
   );
 }

@@ -4,6 +4,8 @@
  * edit started from; when the disk moved on the server answers with a
  * conflict and this shows both versions (disk and yours) with two choices —
  * take the disk's, or keep editing yours — and never overwrites silently.
+ * A saved edit can be undone for a while (ui/undo.ts): the undo saves the
+ * body the edit replaced, based on the version the edit made.
  *
  * @module
  */
@@ -12,6 +14,7 @@ import { useRef, useState } from "preact/hooks";
 import type { ConflictResponse } from "../kernel/server/protocol.ts";
 import { saveCell } from "./api.ts";
 import { cellBody } from "./cell_body.ts";
+import { undoList } from "./undo.ts";
 
 /** Props of {@link Editor}. */
 export interface EditorProps {
@@ -34,6 +37,8 @@ export interface EditorProps {
 export function Editor(props: EditorProps): VNode {
   const [text, setText] = useState(props.body);
   const [base, setBase] = useState(props.base);
+  // The body on disk that a save replaces: the one opened, or the disk's after a conflict.
+  const [before, setBefore] = useState(props.body);
   const [conflict, setConflict] = useState<ConflictResponse | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [saving, setSaving] = useState(false);
@@ -45,8 +50,17 @@ export function Editor(props: EditorProps): VNode {
     setError(null);
     const out = await saveCell({ name: props.name, body: text, base });
     setSaving(false);
-    if (out.ok) props.onClose();
-    else if (out.conflict !== null) setConflict(out.conflict);
+    if (out.ok) {
+      const name = props.name;
+      const version = out.value.version;
+      if (before !== text) {
+        undoList.remember(
+          `edit of "${name}"`,
+          () => saveCell({ name, body: before, base: version }),
+        );
+      }
+      props.onClose();
+    } else if (out.conflict !== null) setConflict(out.conflict);
     else setError(out.error);
   }
 
@@ -91,11 +105,13 @@ export function Editor(props: EditorProps): VNode {
           yours={text}
           onTakeDisk={(body) => {
             setText(body);
+            setBefore(body);
             setBase(conflict.diskVersion);
             setConflict(null);
             area.current?.focus();
           }}
           onKeepMine={() => {
+            setBefore(cellBody(conflict.disk, props.name) ?? before);
             setBase(conflict.diskVersion);
             setConflict(null);
             area.current?.focus();

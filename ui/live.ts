@@ -7,7 +7,8 @@
  * it): the queue is applied at once, so the page's work is done before the
  * next frame rather than after it. Reconnects with a growing pause (0.25 s doubling
  * to 4 s) when the connection drops, since the server sends the whole
- * document again on connect.
+ * document again on connect. While it retries the connection stays
+ * "closed" (the top bar says the page is not live) until a socket opens.
  *
  * @module
  */
@@ -64,7 +65,8 @@ export function connectLive(store: LiveStore, url?: string): () => void {
   let ws: WebSocket | null = null;
   const queue = frameQueue(store);
   const open = () => {
-    store.connection.value = "connecting";
+    // Retrying after a loss stays "closed" until open: the page says not live, without flicker.
+    if (store.connection.value !== "closed") store.connection.value = "connecting";
     ws = new WebSocket(target);
     ws.onopen = () => {
       pause = 250;

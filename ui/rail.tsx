@@ -9,10 +9,9 @@
 import type { VNode } from "preact";
 import { memo } from "preact/compat";
 import type { DocumentMessage } from "../kernel/server/protocol.ts";
-import { formatValue } from "./inline_value.ts";
 import { headingsOf } from "./markdown.ts";
 import { StateMark } from "./state_mark.tsx";
-import type { LiveCell, LiveStore } from "./store.ts";
+import { heldReason, type LiveCell, type LiveStore, standing } from "./store.ts";
 
 /** A cell removed from this page, kept for undo until the page reloads. */
 export interface Removed {
@@ -21,48 +20,64 @@ export interface Removed {
   text: string;
   /** The cell it followed (null: it was the first). */
   after: string | null;
-}
-
-interface CompareRow {
-  fit: string;
-  delta?: number | null;
-  weight?: number | null;
+  /** The document version the removal made, and where the text was: an exact undo while unchanged. */
+  version: string;
+  at: number;
 }
 
 interface CompareLike {
-  by?: string;
   preferred?: string | null;
-  rows?: CompareRow[];
   verdict?: string;
 }
 
 /**
- * The ledger's line for one comparison.
+ * The verdict's own opening words, as the ledger's line: the comparison's
+ * verdict (cells/compare/verdict.ts) up to its first "; " or ". ", so the
+ * ledger and the block say the same ("No clear winner: …" in both).
  *
  * @param name The compare cell's name.
  * @param r Its result.
- * @returns One line of evidence, e.g. "root preferred: weight 0.93; next line at Δaicc 4.20".
+ * @returns One line of evidence.
  * @example
  * ```ts
  * import { ledgerLine } from "./rail.tsx";
- * const l = ledgerLine("fade", { by: "aicc", preferred: "root",
- *   rows: [{ fit: "root", delta: 0, weight: 0.93 }, { fit: "line", delta: 5.3, weight: 0.07 }] });
- * if (!l.includes("root") || !l.includes("Δaicc 5.30")) throw new Error(l);
+ * const l = ledgerLine("fade", { preferred: "root", verdict: 'No clear winner: "root" and ' +
+ *   '"line" are within 2 by AICc (ΔAICc 0.88); "root" is ahead (Akaike weight 0.46); more' });
+ * if (l !== 'No clear winner: "root" and "line" are within 2 by AICc (ΔAICc 0.88)') throw new Error(l);
  * ```
  */
 export function ledgerLine(name: string, r: CompareLike): string {
-  const rows = r.rows ?? [];
-  if (!r.preferred) return `${name}: no preferred model`;
-  const best = rows.find((x) => x.fit === r.preferred);
-  const next = rows.filter((x) => x.fit !== r.preferred)
-    .sort((a, b) => (a.delta ?? Infinity) - (b.delta ?? Infinity))[0];
-  const by = r.by ?? "criterion";
-  const parts = [`${r.preferred} preferred`];
-  if (best?.weight != null) parts.push(`weight ${formatValue(best.weight, 2)}`);
-  if (next !== undefined && next.delta != null) {
-    parts.push(`next ${next.fit} at Δ${by} ${next.delta.toFixed(2)}`);
+  const v = typeof r.verdict === "string" ? r.verdict.trim() : "";
+  if (v !== "") {
+    const cut = [v.indexOf("; "), v.indexOf(". ")].filter((i) => i > 0);
+    return cut.length === 0 ? v : v.slice(0, Math.min(...cut));
   }
-  return `${parts.join("; ")} (${rows.length} fits)`;
+  return r.preferred ? `"${r.preferred}" ranked first` : `${name}: no fit ranked`;
+}
+
+/** What the ledger says of one comparison: its verdict only while that is of the current run. */
+function LedgerEntry(props: { c: LiveCell }): VNode {
+  const c = props.c;
+  const s = standing(c);
+  const verdict = (c.result as CompareLike | undefined)?.verdict;
+  const text = s === "current" || s === "updating"
+    ? ledgerLine(c.name, c.result as CompareLike)
+    : c.state === "failed"
+    ? `failed: ${c.error?.message ?? "see the block"}`
+    : c.state === "held"
+    ? `held: ${heldReason(c.error?.message)}`
+    : c.state;
+  return (
+    <li data-ledger={c.name} data-standing={s}>
+      <a href={`#cell-${c.name}`}>{c.name}</a> <StateMark state={c.state} word={false} />{" "}
+      <span
+        class={s === "current" ? undefined : "pl-muted"}
+        title={s === "current" ? verdict : undefined}
+      >
+        {text}
+      </span>
+    </li>
+  );
 }
 
 function Ledger(props: { cells: LiveCell[] }): VNode {
@@ -74,19 +89,7 @@ function Ledger(props: { cells: LiveCell[] }): VNode {
         ? <p class="pl-muted">No comparison in this document yet.</p>
         : (
           <ul class="pl-ledger">
-            {compares.map((c) => (
-              <li key={c.name}>
-                <a href={`#cell-${c.name}`}>{c.name}</a> <StateMark state={c.state} word={false} />
-                {" "}
-                {c.result !== undefined
-                  ? (
-                    <span title={(c.result as CompareLike).verdict}>
-                      {ledgerLine(c.name, c.result as CompareLike)}
-                    </span>
-                  )
-                  : <span class="pl-muted">not computed yet</span>}
-              </li>
-            ))}
+            {compares.map((c) => <LedgerEntry key={c.name} c={c} />)}
           </ul>
         )}
     </section>
@@ -141,16 +144,22 @@ const Outline = memo(
 );
 
 function Failures(props: { cells: LiveCell[] }): VNode | null {
-  const bad = props.cells.filter((c) => c.state === "failed");
+  const bad = props.cells.filter((c) => c.state === "failed" || c.state === "held");
   if (bad.length === 0) return null;
+  const failed = bad.filter((c) => c.state === "failed").length;
+  const held = bad.length - failed;
+  const head = [failed > 0 ? `✕ ${failed} failed` : "", held > 0 ? `‖ ${held} held` : ""];
   return (
     <section class="pl-rail-part pl-failures" aria-label="Failures">
-      <h2>✕ {bad.length} failed</h2>
+      <h2>{head.filter((h) => h !== "").join(" · ")}</h2>
       <ul>
         {bad.map((c) => (
           <li key={c.name}>
+            <StateMark state={c.state} word={false} />{" "}
             <a href={`#cell-${c.name}`}>{c.kind} {c.name}</a>
-            {c.error && <span class="pl-muted">: {c.error.message}</span>}
+            <span class="pl-muted">
+              : {c.state === "held" ? heldReason(c.error?.message) : c.error?.message ?? "failed"}
+            </span>
           </li>
         ))}
       </ul>
@@ -189,7 +198,7 @@ export function Rail(props: {
 }): VNode {
   const cells = props.store.cells();
   return (
-    <aside class="pl-rail">
+    <aside class="pl-rail" id="rail" aria-label="Ledger and outline">
       <Ledger cells={cells} />
       <Failures cells={cells} />
       <Outline blocks={props.doc.blocks} store={props.store} />

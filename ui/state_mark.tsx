@@ -1,6 +1,7 @@
 /**
  * A cell's state as a shape and a word, never colour alone:
- * current ●, queued ○, computing ◐, failed ✕, held ‖ (an input failed).
+ * current ●, queued ○, computing ◐, failed ✕, held ‖ (an input failed);
+ * for the page as a whole also "not live" ⊘ (the connection is lost).
  *
  * @module
  */
@@ -15,6 +16,7 @@ const SHAPE: Record<LiveCellState | OverallState, string> = {
   failed: "✕",
   held: "‖",
   empty: "·",
+  offline: "⊘",
 };
 
 const WORD: Record<LiveCellState | OverallState, string> = {
@@ -24,6 +26,7 @@ const WORD: Record<LiveCellState | OverallState, string> = {
   failed: "failed",
   held: "held",
   empty: "empty",
+  offline: "not live",
 };
 
 /**

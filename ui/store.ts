@@ -43,6 +43,8 @@ export interface LiveCell {
   run: number;
   /** The run that last computed the result shown (not reused from the cache); 0 before any. */
   computedRun: number;
+  /** The run of the last current message, whose result `result` is; 0 before any. */
+  resultRun: number;
   cached: boolean;
   /** Local clock (ms) when the cell entered its state, for a ticking elapsed time. */
   since: number;
@@ -65,6 +67,7 @@ function blank(name: string, kind: string, now: number): LiveCell {
     warnings: [],
     run: 0,
     computedRun: 0,
+    resultRun: 0,
     cached: false,
     since: now,
   };
@@ -194,6 +197,7 @@ export class LiveStore {
       warnings: msg.warnings ?? (msg.state === "current" ? [] : old.warnings),
       run,
       computedRun: msg.state === "current" && !msg.cached ? run : old.computedRun,
+      resultRun: msg.state === "current" ? run : old.resultRun,
       cached: msg.cached ?? false,
       since: old.state === msg.state ? old.since : now,
     };
@@ -201,8 +205,57 @@ export class LiveStore {
   }
 }
 
-/** The page's overall state in one word, from its cells. */
-export type OverallState = "current" | "computing" | "failed" | "held" | "empty";
+/** The page's overall state in one word, from its cells (and "offline" when not connected). */
+export type OverallState = "current" | "computing" | "failed" | "held" | "empty" | "offline";
+
+/**
+ * How the result a cell holds stands against its state, the one rule every
+ * part of the page reads it by:
+ *
+ * | state              | result held | standing   | shown as                          |
+ * |--------------------|-------------|------------|-----------------------------------|
+ * | current            | yes         | `current`  | the result                        |
+ * | queued, computing  | yes         | `updating` | the result, dimmed after 0.3 s    |
+ * | failed, held       | yes         | `earlier`  | folded away, "from an earlier run" |
+ * | any                | no          | `none`     | nothing                           |
+ */
+export type Standing = "current" | "updating" | "earlier" | "none";
+
+/**
+ * The standing of a cell's result.
+ *
+ * @param c The cell (its state and result).
+ * @returns See {@link Standing}.
+ * @example
+ * ```ts
+ * import { standing } from "./store.ts";
+ * if (standing({ state: "held", result: { r2: 0.9 } }) !== "earlier") throw new Error("held");
+ * if (standing({ state: "failed", result: undefined }) !== "none") throw new Error("failed");
+ * ```
+ */
+export function standing(c: { state: LiveCellState; result: unknown }): Standing {
+  if (c.result === undefined) return "none";
+  if (c.state === "current") return "current";
+  if (c.state === "queued" || c.state === "computing") return "updating";
+  return "earlier";
+}
+
+/**
+ * Why a held cell waits, in words, without a repeated "Held:" (the state
+ * word is shown beside it).
+ *
+ * @param message The held report's message, e.g. `input "p" is failed`.
+ * @returns The reason, e.g. `input "p" is failed`.
+ * @example
+ * ```ts
+ * import { heldReason } from "./store.ts";
+ * if (heldReason("Held: Held: input \"t\" is failed") !== "input \"t\" is failed") throw new Error();
+ * ```
+ */
+export function heldReason(message: string | undefined): string {
+  const why = (message ?? "").replace(/^(\s*held\s*:\s*)+/i, "").trim();
+  return why === "" ? "an input of this cell is not current" : why;
+}
 
 /**
  * Folds the cells' states into the page's state: any failure wins, then

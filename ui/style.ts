@@ -2,11 +2,18 @@
  * The page's style sheet, as a string the entry point puts in a `<style>`
  * element (one file to serve, nothing to fetch). Calm neutral ink on paper,
  * one accent colour (a deep teal), states by shape and word, dense tables
- * with aligned figures; print drops the rail and the controls and keeps the
- * report as on screen.
+ * with aligned figures. From a phone (360 px) to a wide screen (2560 px):
+ * beside the report from 62rem up, the rail sticks under the top bar (its
+ * height measured into `--pl-top-h`, ui/top_bar.tsx); narrower, it follows
+ * the report in the flow and the top bar links to it, so nothing pinned ever
+ * covers the report. Wide tables scroll inside themselves; charts take the
+ * column's width down to a legible 30rem, then scroll inside their figure.
+ * Print rules: ui/print_style.ts.
  *
  * @module
  */
+
+import { PRINT_STYLE } from "./print_style.ts";
 
 /** The style sheet. */
 export const STYLE = `
@@ -31,10 +38,31 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-title { margin: 0; font: 600 15px/1.3 var(--sans); }
 .pl-data, .pl-overall, .pl-conn { margin: 0; font-size: 13px; color: var(--muted); }
 .pl-overall { margin-left: auto; color: var(--ink); }
+.pl-top-tools { margin: 0; font-size: 13px; }
+.pl-to-rail { display: none; }
+.pl-offline .pl-overall { font-weight: 600; }
+.pl-printed { display: none; }
+.pl-undo { flex-basis: 100%; margin: .2rem 0 0; font-size: 13px; }
+.pl-undo kbd { font: 11px var(--mono); border: 1px solid var(--rule); border-radius: 2px; padding: 0 .25em; }
 
 .pl-body { display: grid; grid-template-columns: minmax(0, 48rem) 17rem; gap: 2.5rem;
   justify-content: center; padding: 1.25rem 1.25rem 4rem; }
-@media (max-width: 62rem) { .pl-body { grid-template-columns: minmax(0, 1fr); } .pl-rail { order: -1; } }
+/* Under 62rem the rail follows the report in the flow: never stuck, never over it. */
+@media (max-width: 62rem) {
+  .pl-body { grid-template-columns: minmax(0, 1fr); gap: 1.5rem; }
+  .pl-rail { position: static !important; max-height: none !important; overflow: visible !important;
+    border-top: 1px solid var(--rule); padding-top: .75rem; }
+  .pl-to-rail { display: inline; }
+}
+/* A phone: the top bar scrolls away with the page; tighter margins give the report the width. */
+@media (max-width: 40rem) {
+  .pl-top { position: static; padding: .4rem .75rem; }
+  .pl-body { padding: .75rem .6rem 3rem; }
+  .pl-cell { padding-left: .45rem; }
+  .pl-prose { font-size: 16px; }
+  .pl-cell-actions { margin-left: 0; }
+  .pl-result dl { grid-template-columns: minmax(0, 45%) minmax(0, 1fr); }
+}
 .pl-main { min-width: 0; }
 
 .pl-prose { font: 17px/1.6 var(--serif); max-width: 40rem; overflow-wrap: break-word; }
@@ -78,12 +106,27 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-state-computing .pl-state-shape { display: inline-block; animation: pl-turn 1.2s linear .3s infinite; }
 @keyframes pl-turn { to { transform: rotate(360deg); } }
 .pl-result { overflow-x: auto; }
+/* A wide table is its own scroller: the block keeps the column's width, the figures stay on one line. */
+.pl-result table { display: block; width: max-content; max-width: 100%; overflow-x: auto;
+  background: linear-gradient(to right, var(--paper) 30%, transparent) left / 2rem 100% no-repeat local,
+    linear-gradient(to left, var(--paper) 30%, transparent) right / 2rem 100% no-repeat local,
+    linear-gradient(to right, rgba(0,0,0,.12), transparent) left / .6rem 100% no-repeat scroll,
+    linear-gradient(to left, rgba(0,0,0,.12), transparent) right / .6rem 100% no-repeat scroll; }
+.pl-result td { white-space: nowrap; }
+/* Charts take the column's width; below 30rem they keep that width (text stays legible) and scroll. */
+.pl-result figure { max-width: 100%; overflow-x: auto; margin-left: 0; margin-right: 0; }
+.pl-result figure svg { max-width: 100%; height: auto; }
+@media (max-width: 40rem) { .pl-result figure svg { min-width: 30rem; } }
 /*
  * Busy signs wait .3 s: work that ends sooner (most updates) shows the state
  * word alone, with no dimming, sliding or turning that would flicker and make
  * the page redraw; the dimming is undone at once when the result arrives.
  */
 .pl-stale { opacity: .55; transition: opacity .15s .3s; }
+/* A failed or held cell's last result: folded, and marked as of an earlier run when opened. */
+.pl-earlier { margin: .3rem 0; }
+.pl-earlier > summary { cursor: pointer; font-size: 12.5px; color: var(--muted); }
+.pl-earlier[open] > .pl-result { opacity: .6; border-left: 2px dashed var(--muted); padding-left: .6rem; }
 
 /* Over the header's bottom rule, so showing it moves nothing on the page. */
 .pl-progress { position: absolute; left: 0; right: 0; bottom: -2px; height: 3px; background: var(--wash);
@@ -133,8 +176,9 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
   padding-top: .6rem; border-top: 1px dashed var(--rule); font-size: 13px; color: var(--muted); }
 .pl-add select, .pl-add input { font: 13px var(--sans); }
 
-.pl-rail { position: sticky; top: 3rem; align-self: start; max-height: calc(100vh - 4rem); overflow-y: auto;
-  font-size: 13px; }
+.pl-rail { position: sticky; top: calc(var(--pl-top-h, 2.5rem) + 1rem); align-self: start;
+  max-height: calc(100vh - var(--pl-top-h, 2.5rem) - 2rem); overflow-y: auto; font-size: 13px;
+  background: var(--paper); min-width: 0; overflow-wrap: anywhere; }
 .pl-rail-part { margin-bottom: 1.25rem; }
 .pl-rail h2 { margin: 0 0 .35rem; font-size: 11.5px; letter-spacing: .08em; text-transform: uppercase;
   color: var(--muted); font-weight: 600; }
@@ -164,14 +208,5 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-result ul { margin: .2rem 0; padding-left: 1.1rem; }
 .pl-result details summary { cursor: pointer; color: var(--muted); font-size: 12px; }
 
-@media print {
-  html { background: #fff; }
-  .pl-top { position: static; border-bottom: 1px solid #999; }
-  .pl-body { display: block; padding: 0; }
-  .pl-rail, .pl-cell-actions, .pl-add, .pl-editor, .pl-conn, .pl-progress { display: none !important; }
-  .pl-cell { break-inside: avoid-page; content-visibility: visible; }
-  .pl-stale { opacity: 1; }
-  .pl-prose-source { max-height: none; }
-  a { color: inherit; }
-}
+${PRINT_STYLE}
 `;
