@@ -8,6 +8,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
+import { hasOwnKey } from "../../kernel/own.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
 import type { RunContext } from "../../kernel/contract/mod.ts";
 import type { Fit } from "../fit/mod.ts";
@@ -44,7 +45,7 @@ export function pointsOf(name: string, spec: PredictSpec, fit: Fit): Points {
       key,
     ]);
   }
-  const missing = cols.filter((c) => !(c in at));
+  const missing = cols.filter((c) => !hasOwnKey(at, c));
   if (missing.length > 0) {
     throw new CellError(
       `Predict "${name}" has no value in "at" for ${

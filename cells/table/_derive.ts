@@ -8,6 +8,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
+import { ownValue } from "../../kernel/own.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
 import { compile, type Expr, ExprError, parseColumnExpression } from "../../kernel/expr/mod.ts";
 import type { Column, NumberColumn } from "../../kernel/contract/mod.ts";
@@ -86,7 +87,14 @@ export function addDerived(
           `${badRows.slice(0, 3).join(", ")}${more}: those rows are missing`,
       );
     }
-    columns.push({ name, type: "number", unit: units[name] ?? null, values, lo: null, missing });
+    columns.push({
+      name,
+      type: "number",
+      unit: ownValue(units, name) ?? null,
+      values,
+      lo: null,
+      missing,
+    });
   }
 }
 

@@ -5,6 +5,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
+import { ownValue } from "../../kernel/own.ts";
 
 /**
  * Checks `from`: a non-empty relative path that stays inside the document's
@@ -49,7 +50,9 @@ const DELIMITER_WORDS: Record<string, string> = {
  */
 export function parseDelimiter(v: unknown, decimal: "." | ","): string | null {
   if (v === undefined || v === null) return null;
-  const text = typeof v === "string" ? (DELIMITER_WORDS[v.trim().toLowerCase()] ?? v) : "";
+  const text = typeof v === "string"
+    ? (ownValue(DELIMITER_WORDS, v.trim().toLowerCase()) ?? v)
+    : "";
   const code = text.length === 1 ? text.charCodeAt(0) : -1;
   if (code < 0 || code >= 0x80 || text === '"' || text === "\n" || text === "\r") {
     throw new CellError(

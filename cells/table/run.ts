@@ -13,6 +13,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
+import { ownValue } from "../../kernel/own.ts";
 import { ExprError } from "../../kernel/expr/mod.ts";
 import type { Column, NumberColumn, RunContext, Table } from "../../kernel/contract/mod.ts";
 import { addDerived, checkUnits } from "./_derive.ts";
@@ -67,7 +68,7 @@ export function runTable(spec: TableSpec, ctx: RunContext): TableOutput {
   const names = [...data.columns.map((c) => c.name), ...spec.derive.map((d) => d.name)];
   checkUnits(spec.units, names);
   const columns = data.columns.map((c) =>
-    gather(c, kept, data.rowCount, spec.units[c.name] ?? null)
+    gather(c, kept, data.rowCount, ownValue(spec.units, c.name) ?? null)
   );
   const source = new Int32Array(kept.length);
   for (let k = 0; k < kept.length; k++) source[k] = kept[k] + 1;

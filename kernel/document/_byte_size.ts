@@ -6,6 +6,7 @@
  *
  * @module
  */
+import { ownValue } from "../own.ts";
 
 const UNITS: Record<string, number> = {
   "": 1,
@@ -31,7 +32,7 @@ export function byteSize(value: unknown): number | null {
   if (typeof value === "number") bytes = value;
   else if (typeof value === "string") {
     const m = /^\s*(\d+(?:\.\d+)?|\.\d+)\s*([a-zA-Z]*)\s*$/.exec(value);
-    const unit = m === null ? undefined : UNITS[m[2].toLowerCase()];
+    const unit = m === null ? undefined : ownValue(UNITS, m[2].toLowerCase());
     if (m !== null && unit !== undefined) bytes = Number(m[1]) * unit;
   }
   if (!Number.isFinite(bytes) || bytes < 1 || bytes > Number.MAX_SAFE_INTEGER) return null;

@@ -179,7 +179,7 @@ function diff(e: Expr, name: string): Expr {
     case "^":
       return power(e.left, e.right, diff(e.left, name), diff(e.right, name));
     case "call": {
-      const rule = RULES[e.fn];
+      const rule = Object.hasOwn(RULES, e.fn) ? RULES[e.fn] : undefined;
       if (rule === undefined) throw new Error(`No derivative rule for function "${e.fn}"`);
       return rule(e.args, e.args.map((a) => diff(a, name)));
     }

@@ -122,7 +122,7 @@ function peel(e: Expr, column: string): Step {
       if (e.fn === "pow" && e.args.length === 2) {
         return peelBinary("^", e.args[0], e.args[1], column);
       }
-      if (UNARY[e.fn] === undefined || e.args.length !== 1) {
+      if (!Object.hasOwn(UNARY, e.fn) || e.args.length !== 1) {
         return { reason: `${e.fn}() of the response is not one-to-one` };
       }
       return { inner: e.args[0], invert: UNARY[e.fn] };

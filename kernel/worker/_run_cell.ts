@@ -51,13 +51,15 @@ function gatherInputs(
   store: WorkerStore,
   req: RunRequest,
 ): { inputs: Record<string, CellOutput>; files: Record<string, FileData> } | string {
-  const inputs: Record<string, CellOutput> = {};
+  // Keyed by cell names and file names: no prototype, so a name such as
+  // "constructor" that is not an input is not found (kernel/own.ts).
+  const inputs: Record<string, CellOutput> = Object.create(null);
   for (const [name, key] of Object.entries(req.inputs)) {
     const out = store.outputs.get(key);
     if (!out) return `Input "${name}" is not computed`;
     inputs[name] = out;
   }
-  const files: Record<string, FileData> = {};
+  const files: Record<string, FileData> = Object.create(null);
   for (const [path, sha] of Object.entries(req.files)) {
     const f = store.files.get(sha);
     if (!f) return `File "${path}" was not sent`;
