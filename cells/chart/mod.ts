@@ -27,7 +27,7 @@ import { CHART_OPTIONS, type ChartSpec, parseChartSpec } from "./spec.ts";
 import { type ChartOutput, runChart } from "./run.ts";
 import { summarizeChart } from "./result.ts";
 import type { TemplateContext } from "../../kernel/contract/mod.ts";
-import { cellsOf, fitColumns, numberColumns, tableOf } from "../shared/template_cells.ts";
+import { cellsOf, fitColumns, numberColumns, tableFor, tableOf } from "../shared/template_cells.ts";
 
 export type { ChartSpec } from "./spec.ts";
 export type { ChartOutput } from "./run.ts";
@@ -62,7 +62,7 @@ export const chartKind: CellKind<ChartSpec, ChartOutput, ChartData> = {
 /** A new chart: the last fit's table, its predictor across, its response up, the fit drawn. */
 function chartTemplate(ctx: TemplateContext): string {
   const fit = cellsOf(ctx, "Fit").at(-1);
-  const table = (fit && tableOf(ctx, fit)) ?? cellsOf(ctx, "Table").at(-1);
+  const table = (fit && tableOf(ctx, fit)) ?? tableFor(ctx, 2);
   const cols = numberColumns(table);
   const own = fit ? fitColumns(ctx, fit) : { response: null, predictors: [] };
   const x = own.predictors[0] ?? cols[0] ?? "x";

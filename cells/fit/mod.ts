@@ -29,7 +29,7 @@ import { type FitResult, summarizeFit } from "./result.ts";
 import { runFit } from "./run.ts";
 import { FIT_OPTIONS } from "./spec.ts";
 import type { TemplateContext } from "../../kernel/contract/mod.ts";
-import { cellsOf, numberColumns } from "../shared/template_cells.ts";
+import { numberColumns, tableFor } from "../shared/template_cells.ts";
 import { formatNumber, formatR2 } from "../shared/format.ts";
 
 export type { FitSpec } from "./spec.ts";
@@ -57,7 +57,7 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
 
 /** A new fit: a straight line through the last table's last two number columns. */
 function fitTemplate(ctx: TemplateContext): string {
-  const table = cellsOf(ctx, "Table").at(-1);
+  const table = tableFor(ctx, 2);
   const cols = numberColumns(table);
   const [x, y] = cols.length >= 2 ? cols.slice(-2) : ["x", "y"];
   return `on: ${table?.name ?? "table1"}\nmodel: ${y} = a + b*${x}\n`;

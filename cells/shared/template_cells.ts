@@ -25,14 +25,45 @@ export function cellsOf(ctx: TemplateContext, output: OutputType): TemplateCell[
   return ctx.cells.filter((c) => c.output === output);
 }
 
+/** A name a model, a chart axis or a prediction point can write as it is (kernel/expr's identifiers). */
+const PLAIN_NAME = /^[A-Za-z_][A-Za-z0-9_]*$/;
+
 /**
- * The number columns a cell offers.
+ * The number columns a cell offers that a template can write as they are:
+ * a column named `flow rate (L/min)` or `2nd_pass` is no expression name,
+ * so a template never starts a cell from it (it would fail at once).
  *
  * @param cell The cell (a table), or undefined.
  * @returns Their names.
+ * @example
+ * ```ts
+ * import { numberColumns } from "./template_cells.ts";
+ * const t = { name: "t", kind: "table", output: "Table", inputs: [], result: null, columns: [
+ *   { name: "flow rate (L/min)", type: "number" }, { name: "T_out", type: "number" },
+ *   { name: "2nd_pass", type: "number" }, { name: "label", type: "string" }] } as const;
+ * if (numberColumns(t).join() !== "T_out") throw new Error(numberColumns(t).join());
+ * ```
  */
 export function numberColumns(cell: TemplateCell | undefined): string[] {
-  return (cell?.columns ?? []).filter((c) => c.type === "number").map((c) => c.name);
+  return (cell?.columns ?? []).filter((c) => c.type === "number" && PLAIN_NAME.test(c.name))
+    .map((c) => c.name);
+}
+
+/**
+ * The table a new cell of a kind reading `need` number columns starts from:
+ * the last table offering that many, else the last table offering most.
+ *
+ * @param ctx The template context.
+ * @param need How many number columns the template writes.
+ * @returns The table, or undefined when the document has none.
+ */
+export function tableFor(ctx: TemplateContext, need: number): TemplateCell | undefined {
+  const tables = cellsOf(ctx, "Table");
+  return tables.filter((t) => numberColumns(t).length >= need).at(-1) ??
+    tables.reduce<TemplateCell | undefined>(
+      (best, t) => numberColumns(t).length > numberColumns(best).length ? t : best,
+      tables.at(-1),
+    );
 }
 
 /**
