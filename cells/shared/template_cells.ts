@@ -38,9 +38,9 @@ const PLAIN_NAME = /^[A-Za-z_][A-Za-z0-9_]*$/;
  * @example
  * ```ts
  * import { numberColumns } from "./template_cells.ts";
- * const t = { name: "t", kind: "table", output: "Table", inputs: [], result: null, columns: [
- *   { name: "flow rate (L/min)", type: "number" }, { name: "T_out", type: "number" },
- *   { name: "2nd_pass", type: "number" }, { name: "label", type: "string" }] } as const;
+ * const col = (name: string, type: "number" | "text" = "number") => ({ name, type, unit: null });
+ * const t = { name: "t", kind: "table", output: "Table" as const, inputs: [], result: null,
+ *   columns: [col("flow rate (L/min)"), col("T_out"), col("2nd_pass"), col("label", "text")] };
  * if (numberColumns(t).join() !== "T_out") throw new Error(numberColumns(t).join());
  * ```
  */
