@@ -71,7 +71,7 @@ function LedgerEntry(props: { c: LiveCell }): VNode {
     <li data-ledger={c.name} data-standing={s}>
       <a href={`#cell-${c.name}`}>{c.name}</a> <StateMark state={c.state} word={false} />{" "}
       <span
-        class={s === "current" ? undefined : "pl-muted"}
+        class={s === "current" ? "pl-ledger-text" : "pl-ledger-text pl-muted"}
         title={s === "current" ? verdict : undefined}
       >
         {text}
