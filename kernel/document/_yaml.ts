@@ -6,17 +6,20 @@
  *
  * @module
  */
-import { type Document, isPair, isScalar, parseDocument, visit } from "yaml";
+import { type Document, isMap, isPair, isScalar, isSeq, parseDocument } from "yaml";
 import { LocatedError } from "../errors.ts";
 import type { ParsedDocument } from "./types.ts";
 import { floorIndex } from "./_lines.ts";
 import { lineColumnAt } from "./line_column.ts";
+import { MAX_KEYS, pastKeyLimit } from "./_key_limit.ts";
 
 /** Messages for one YAML region ("Options of cell …", "Front matter …"). */
 export interface YamlWording {
   invalid(detail: string): string;
   repeat(key: string): string;
   notMapping: string;
+  /** More than `limit` keys (`_key_limit.ts`). */
+  tooMany(limit: string): string;
 }
 
 /** A parsed YAML region. */
@@ -57,17 +60,32 @@ function detail(message: string, code?: string): string {
   return /^[A-Z][a-z]/.test(d) ? d[0].toLowerCase() + d.slice(1) : d;
 }
 
-function keyAt(yaml: Document.Parsed, at: number): string {
-  let key = "";
-  visit(yaml, {
-    Pair(_, pair) {
-      if (isPair(pair) && isScalar(pair.key) && pair.key.range?.[0] === at) {
-        key = String(pair.key.value);
-        return visit.BREAK;
+/**
+ * Keys repeated within one mapping, in document order: `[key, offset]`.
+ * One Set a mapping, so linear in the keys (the package's `uniqueKeys`
+ * compares each key with every earlier one). Keys compare as the plain data
+ * will hold them (`1` and `"1"` are one key there). A loop with its own
+ * stack, not recursion, so nesting depth costs no call stack.
+ */
+function repeatedKeys(yaml: Document.Parsed): [string, number][] {
+  const out: [string, number][] = [];
+  const stack: unknown[] = [yaml.contents];
+  while (stack.length > 0) {
+    const node = stack.pop();
+    if (isMap(node)) {
+      const seen = new Set<string>();
+      for (const pair of node.items) {
+        if (isScalar(pair.key)) {
+          const key = String(pair.key.value);
+          if (seen.has(key)) out.push([key, pair.key.range?.[0] ?? 0]);
+          seen.add(key);
+        }
+        stack.push(pair.key, pair.value);
       }
-    },
-  });
-  return key;
+    } else if (isSeq(node)) { for (const item of node.items) stack.push(item); }
+    else if (isPair(node)) stack.push(node.key, node.value);
+  }
+  return out.sort((a, b) => a[1] - b[1]);
 }
 
 /**
@@ -86,16 +104,30 @@ export function parseYamlRegion(
     return start + local + before;
   };
   const at = (local: number) => lineColumnAt(doc, toSource(local));
+  const past = pastKeyLimit(text);
+  if (past >= 0) {
+    const limit = MAX_KEYS.toLocaleString("en-US");
+    const yaml = parseDocument("");
+    return {
+      yaml,
+      text,
+      toSource,
+      data: {},
+      errors: [new LocatedError(wording.tooMany(limit), at(past))],
+    };
+  }
   const yaml = parseDocument(text, {
-    keepSourceTokens: true,
-    uniqueKeys: true,
+    uniqueKeys: false,
     prettyErrors: false,
   });
   const errors = yaml.errors.map((e) =>
-    e.code === "DUPLICATE_KEY"
-      ? new LocatedError(wording.repeat(keyAt(yaml, e.pos[0])), at(e.pos[0]))
-      : new LocatedError(wording.invalid(detail(e.message, e.code)), at(e.pos[0]))
+    new LocatedError(wording.invalid(detail(e.message, e.code)), at(e.pos[0]))
   );
+  if (errors.length === 0) {
+    for (const [key, pos] of repeatedKeys(yaml)) {
+      errors.push(new LocatedError(wording.repeat(key), at(pos)));
+    }
+  }
   let data: Record<string, unknown> = {};
   const top = yaml.contents;
   const empty = top === null ||

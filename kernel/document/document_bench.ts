@@ -35,3 +35,20 @@ Deno.bench("writeDocument() on a 200-cell document", { group: "document" }, () =
 Deno.bench("parseOptions() on all 200 cells", { group: "document" }, () => {
   for (const cell of cellsOf(doc)) parseOptions(cell, doc);
 });
+
+/** One cell with `n` keys (issue 11 #7: 50,000 took 23 s with the package's `uniqueKeys`). */
+function manyKeys(n: number): string {
+  const keys = Array.from({ length: n }, (_, i) => `  k${i}: m\n`).join("");
+  return `${F}table t\nfrom: t.csv\nunits:\n${keys}${F}\n`;
+}
+
+const keys9k = parseDocument(manyKeys(9_000));
+const keys100k = parseDocument(manyKeys(100_000));
+
+Deno.bench("parseOptions() on one cell of 9,000 keys", { group: "keys" }, () => {
+  parseOptions(cellsOf(keys9k)[0], keys9k);
+});
+
+Deno.bench("parseOptions() refusing one cell of 100,000 keys", { group: "keys" }, () => {
+  parseOptions(cellsOf(keys100k)[0], keys100k);
+});

@@ -83,6 +83,8 @@ export function parseOptions(cell: CellBlock, doc: ParsedDocument): CellOptions 
     invalid: (d) => `Options of cell "${cell.name}" are not valid YAML: ${d}`,
     repeat: (k) => `Options of cell "${cell.name}" repeat key "${k}": each key may appear once`,
     notMapping: `Options of cell "${cell.name}" must be a YAML mapping of key: value`,
+    tooMany: (limit) =>
+      `Options of cell "${cell.name}" have more than ${limit} keys: put large data in a file beside the document`,
   });
   const fencePos = { line: cell.line, column: cell.column };
   const locate = (path: OptionPath, offset?: number): SourcePos => {

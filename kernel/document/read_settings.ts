@@ -116,6 +116,8 @@ export function readSettings(doc: ParsedDocument): SettingsResult {
     invalid: (d) => `Front matter is not valid YAML: ${d}`,
     repeat: (k) => `Front matter repeats key "${k}": each key may appear once`,
     notMapping: "Front matter must be a YAML mapping of key: value",
+    tooMany: (limit) =>
+      `Front matter has more than ${limit} keys: it holds a few document settings`,
   });
   const errors = region.errors;
   for (const [key, value] of Object.entries(region.data)) {
