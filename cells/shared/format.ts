@@ -1,43 +1,37 @@
 /**
- * Number formatting shared by the kinds' lines, messages and views and by
- * the page around them (cell headers), so a number reads the same in every
- * block of the page and the record. The one home: a kind or the page that
- * needs another form adds it here, named for what it does.
+ * Number formatting shared by the kinds' lines, messages and views, the
+ * page around them (cell headers) and the command line's summary, so a
+ * number reads the same in every block of the page, the record and the
+ * terminal. The one home: a kind or the page that needs another form adds
+ * it here, named for what it does. No UI library is imported (the compute
+ * faces and the CLI use it too); RUN-JSON keeps full precision and never
+ * goes through it.
+ *
+ * Three families:
+ *
+ * - measured values (`_measured.ts`): an estimate, its standard uncertainty
+ *   and its interval limits, rounded as GUM (JCGM 100:2008) §7.2.6 asks:
+ *   {@link formatEstimate}, {@link formatUncertainty}, {@link formatIntervalAt};
+ * - statistics (`_significant.ts`): significant digits that never print a
+ *   value near 1 as 1 and keep a column's distinct values distinct:
+ *   {@link formatNumber}, {@link formatNearOne}, {@link formatP},
+ *   {@link distinctTexts};
+ * - durations, and the phrase forms below.
  *
  * @module
  */
+import { formatNearOne, formatNumber, formatP } from "./_significant.ts";
 
-/**
- * `sig` significant digits, plain notation for 1e-4 ≤ |x| < 1e6, else an exponent.
- *
- * @param x The number, or null (shown as a dash).
- * @param sig Significant digits.
- * @returns The text.
- * @example
- * ```ts
- * import { formatNumber } from "./format.ts";
- * if (formatNumber(2512.345) !== "2512" || formatNumber(3.2e-7, 2) !== "3.2e-7") throw new Error();
- * ```
- */
-export function formatNumber(x: number | null, sig = 4): string {
-  if (x === null || Number.isNaN(x)) return "—";
-  if (!Number.isFinite(x)) return x > 0 ? "∞" : "−∞";
-  if (x === 0) return "0";
-  const a = Math.abs(x);
-  if (a >= 1e-4 && a < 1e6) return String(Number(x.toPrecision(sig)));
-  return x.toExponential(sig - 1).replace("e+", "e");
-}
-
-/**
- * A p-value that keeps its size: 3.2e-27 is shown as such, never as 0.
- *
- * @param p The p-value, or null.
- * @returns The text.
- */
-export function formatP(p: number | null): string {
-  if (p === null) return "—";
-  return p < 1e-4 ? p.toExponential(1).replace("e+", "e") : formatNumber(p, 2);
-}
+export {
+  type DigitPlace,
+  formatAtPlace,
+  formatEstimate,
+  formatIntervalAt,
+  formatUncertainty,
+  measuredPlace,
+  uncertaintyPlace,
+} from "./_measured.ts";
+export { distinctTexts, formatNearOne, formatNumber, formatP } from "./_significant.ts";
 
 /**
  * A p-value inside a sentence: "p = 0.012", or the bound "p < 0.0001" below
@@ -56,17 +50,18 @@ export function formatPPhrase(p: number): string {
 }
 
 /**
- * R² with enough decimals that 1 − R² keeps two significant digits (at least
- * four decimals), so 0.999994 is not shown as 1.0000.
+ * R² (or adjusted R²): {@link formatNearOne}, so 0.9999999904 is not shown as 1.00000.
  *
  * @param r2 R², or null.
  * @returns The text.
+ * @example
+ * ```ts
+ * import { formatR2 } from "./format.ts";
+ * if (formatR2(0.9999999904) !== "0.9999999904") throw new Error();
+ * ```
  */
 export function formatR2(r2: number | null): string {
-  if (r2 === null) return "—";
-  const gap = 1 - r2;
-  const decimals = gap > 0 ? Math.min(12, Math.max(4, Math.ceil(-Math.log10(gap)) + 1)) : 4;
-  return r2.toFixed(decimals);
+  return formatNearOne(r2);
 }
 
 /**
@@ -92,7 +87,8 @@ export function formatDuration(ms: number): string {
 }
 
 /**
- * `[lo, hi]` with `sig` digits, or "—".
+ * `[lo, hi]` with `sig` digits, or "—". For an interval around an estimate
+ * with a standard error, {@link formatIntervalAt} rounds as metrology does.
  *
  * @param v The interval, or null.
  * @param sig Significant digits.
