@@ -13,7 +13,7 @@
  *
  * ```
  *  u = 0.001473 ─two digits─▶ 0.0015 (last digit at 10⁻⁴)
- *  y = 138.50035          ─▶ 138.5004
+ *  y = 138.50036          ─▶ 138.5004
  *  [138.49742, 138.50329] ─▶ [138.4974, 138.5033]
  * ```
  *
@@ -122,7 +122,7 @@ export function formatUncertainty(u: number | null, fallbackSig = 2): string {
  * @example
  * ```ts
  * import { formatEstimate } from "./_measured.ts";
- * if (formatEstimate(138.50035, 0.001473) !== "138.5004") throw new Error();
+ * if (formatEstimate(138.50036, 0.001473) !== "138.5004") throw new Error();
  * ```
  */
 export function formatEstimate(x: number | null, u: number | null, fallbackSig = 6): string {

@@ -63,7 +63,7 @@ export function formatNearOne(r: number | null, extra = 0): string {
 
 /**
  * A p-value that keeps its size: 3.2e-27 is shown as such, never as 0, and
- * 0.99996 as such, never as 1. Two significant digits between.
+ * 0.99996 as 0.999960, never as 1. Two significant digits between.
  *
  * @param p The p-value, or null.
  * @param extra Digits beyond the rule (for {@link distinctTexts}).
@@ -72,7 +72,7 @@ export function formatNearOne(r: number | null, extra = 0): string {
  * ```ts
  * import { formatP } from "./_significant.ts";
  * if (formatP(3.2e-27) !== "3.2e-27" || formatP(0.0123) !== "0.012") throw new Error();
- * if (formatP(0.99996) !== "0.99996") throw new Error(formatP(0.99996));
+ * if (formatP(0.99996) !== "0.999960") throw new Error(formatP(0.99996));
  * ```
  */
 export function formatP(p: number | null, extra = 0): string {
