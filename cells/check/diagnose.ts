@@ -71,6 +71,7 @@ export function diagnose(fit: Fit, spec: CheckSpec, level: number): CheckResult 
     method: fit.method,
     weighted: fit.weighted,
     significance: spec.significance,
+    sigma_unit: fit.units?.response ?? null,
     rows: plainArray(fit.rows),
     fitted: plainArray(fit.fitted),
     residuals: plainArray(residuals),

@@ -51,7 +51,7 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
   summary: (out) => out.result,
   line: lineOf,
   options: CHECK_OPTIONS,
-  page: { omit: ["rows", "studentized_external", "dffits"], condense: condenseCharts },
+  page: { omit: ["studentized_external", "dffits"], condense: condenseCharts },
   template: (ctx) =>
     `fit: ${cellsOf(ctx, "Fit").at(-1)?.name ?? "fit1"}
 `,
@@ -69,7 +69,14 @@ function lineOf(r: CheckResult): string {
 }
 
 /** The per-row arrays the residual charts read, replaced by their counts on a large check. */
-const CHART_ARRAYS = ["fitted", "residuals", "studentized_internal", "leverage", "cooks_distance"];
+const CHART_ARRAYS = [
+  "rows",
+  "fitted",
+  "residuals",
+  "studentized_internal",
+  "leverage",
+  "cooks_distance",
+];
 
 /** A large check's charts counted once (`density`) instead of five per-row arrays. */
 function condenseCharts(r: CheckResult) {

@@ -38,6 +38,8 @@ export interface CheckResult {
   method: "linear" | "nonlinear";
   weighted: boolean;
   significance: number;
+  /** RUN-JSON addition: the unit of the fit's fitted values and residuals (its `sigma_unit`); null when none. */
+  sigma_unit?: string | null;
   rows: number[];
   fitted: number[];
   residuals: number[];
