@@ -17,24 +17,12 @@ import { type ComponentChild, h, render } from "preact";
 import { renderToString } from "preact-render-to-string";
 import { headingsOf, MAX_NESTING, parseProse, ProseError } from "./markdown.ts";
 import { MAX_TEX_NESTING, Prose } from "./prose.tsx";
+import { HOSTILE_PROSE } from "./testdata/hostile_prose.ts";
 
 const refs = (r: { cell: string }, key: number) => h("span", { key, "data-ref": "" }, r.cell);
 const draw = (text: string) => renderToString(h(Prose, { text, line: 7, refs }));
 
-const HOSTILE: Record<string, string> = {
-  open_braces: "$" + "{".repeat(3000),
-  closed_braces: "$" + "{".repeat(3000) + "$",
-  display_braces: "$$" + "{".repeat(3000) + "$$",
-  fracs: "$$" + "\\frac{".repeat(2000) + "$$",
-  stars: "*".repeat(20000),
-  star_text: "a " + "*".repeat(20000) + " b",
-  emphasis: "*".repeat(6000) + "x" + "*".repeat(6000),
-  underscores: "_".repeat(6000) + "x" + "_".repeat(6000),
-  strikes: "~~".repeat(3000) + "x" + "~~".repeat(3000),
-  links: "[".repeat(5000) + "x" + "](u)".repeat(5000),
-  quotes: "> ".repeat(5000) + "deep",
-  lists: "- ".repeat(5000) + "deep",
-};
+const HOSTILE = HOSTILE_PROSE;
 
 Deno.test("Prose draws every hostile line without throwing", () => {
   for (const [name, text] of Object.entries(HOSTILE)) {

@@ -12,24 +12,14 @@
  */
 import { deepEqual, ok } from "node:assert/strict";
 import { allCurrent, ARTIFACTS, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
+import { HOSTILE_PROSE } from "../../ui/testdata/hostile_prose.ts";
 
 const ignore = skipWithoutBrowser("hostile prose");
 
 const F = "```";
 
 /** Each case is one prose block, kept apart from the next by a cell. */
-const HOSTILE: Record<string, string> = {
-  braces: "$" + "{".repeat(3000),
-  closed_braces: "$" + "{".repeat(3000) + "$",
-  display_braces: "$$" + "\\frac{".repeat(2000) + "$$",
-  stars: "*".repeat(20000),
-  star_text: "a " + "*".repeat(20000) + " b",
-  emphasis: "*".repeat(6000) + "x" + "*".repeat(6000),
-  underscores: "_".repeat(6000) + "x" + "_".repeat(6000),
-  links: "[".repeat(5000) + "x" + "](u)".repeat(5000),
-  quotes: "> ".repeat(5000) + "deep",
-  lists: "- ".repeat(5000) + "deep",
-};
+const HOSTILE = HOSTILE_PROSE;
 
 function hostileDocument(): string {
   const parts = [
