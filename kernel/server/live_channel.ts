@@ -21,6 +21,20 @@
  * (the page forgets it too). Each text is written once per message, whatever
  * the number of sockets.
  *
+ * A page connected with `/live?text=changed` is sent the document's text
+ * (`source` and `blocks`) only when it changed: a `document` message for a
+ * version the socket already has (a data-only change) goes without them
+ * (2 MB document: 4.3 MB a socket for each appended row before). Other
+ * pages get every `document` message whole, as before.
+ *
+ * A page that does not read what it is sent (`bufferedAmount` over
+ * `slowBytes`) is skipped: nothing more is queued for it; when its queue has
+ * drained below a quarter of that it is sent the latest state (the welcome)
+ * afresh; when it stays behind for `stallMs` it is closed (code 1013) and
+ * the page reconnects. What the server holds for one page is thus about
+ * `slowBytes` plus one welcome (3 pages that never read: 262 MB → 1.45 GB
+ * of server memory in 20 s before).
+ *
  * @module
  */
 import type { PageText } from "../session/session.ts";
@@ -34,6 +48,20 @@ export interface OutgoingCell extends Omit<CellMessage, "result"> {
 
 /** A server → browser message as the server holds it (the page reads it as a `ServerMessage`). */
 export type Outgoing = DocumentMessage | OutgoingCell | RunMessage;
+
+/** What the channel needs of a socket (a WebSocket, or web_socket.ts's LiveSocket). */
+export interface LiveSink {
+  readonly readyState: number;
+  readonly bufferedAmount: number;
+  send(text: string): void;
+  close(code?: number, reason?: string): void;
+}
+
+/** How the channel treats slow pages (see the module's text). */
+export interface ChannelLimits {
+  slowBytes: number;
+  stallMs: number;
+}
 
 /** The message without its result and the names of the fields the result leaves out. */
 function withoutResult(msg: Outgoing): Omit<Outgoing, "result" | "omitted"> {
@@ -69,12 +97,20 @@ export function encodeMessage(msg: Outgoing): string {
 class Texts {
   #light: string | null = null;
   #full: string | null = null;
+  #data: string | null = null;
 
   constructor(readonly msg: Outgoing) {}
 
   /** The message without its result: what a socket that has the result gets. */
   get light(): string {
     return this.#light ??= JSON.stringify(withoutResult(this.msg));
+  }
+
+  /** A document message without its text (`source`, `blocks`), for a socket that has it. */
+  get data(): string {
+    if (this.msg.type !== "document") return this.light;
+    const { source: _s, blocks: _b, ...rest } = this.msg;
+    return this.#data ??= JSON.stringify(rest);
   }
 
   /** The whole message. */
@@ -87,27 +123,50 @@ class Texts {
   }
 }
 
-/** The open sockets of one server and the results each has been sent. */
+/** What the channel keeps per socket. */
+interface Peer {
+  /** Per cell: its kind and the id of the result the socket has. */
+  sent: Map<string, { kind: string; id: string }>;
+  /** The version of the document text the socket has. */
+  text: string | null;
+  /** Whether the page asked for the text only when it changed. */
+  textOnce: boolean;
+  /** The latest state, for a resend when the page has caught up. */
+  latest: () => Outgoing[];
+  /** Since when the socket has been skipped (performance.now()), or null. */
+  behind: number | null;
+}
+
+/** The open sockets of one server and what each has been sent. */
 export class LiveChannel {
-  /** Per socket, per cell: its kind and the id of the result the socket has. */
-  #sent = new Map<WebSocket, Map<string, { kind: string; id: string }>>();
+  #peers = new Map<LiveSink, Peer>();
+  #limits: ChannelLimits;
+  #timer: ReturnType<typeof setInterval> | null = null;
+
+  /** @param limits When a page counts as slow, and how long it may stay behind. */
+  constructor(limits: Partial<ChannelLimits> = {}) {
+    this.#limits = { slowBytes: 16 << 20, stallMs: 30_000, ...limits };
+  }
 
   /** How many sockets are open. */
   get size(): number {
-    return this.#sent.size;
+    return this.#peers.size;
   }
 
   /**
    * Adds a socket and sends it the messages that bring it up to date.
    *
    * @param ws An open socket.
-   * @param welcome The document message and the latest message of every cell.
+   * @param welcome The document message and the latest message of every cell
+   *   (a function: called again when a slow page has caught up).
+   * @param url The socket's request URL: `?text=changed` asks for the text only when it changed.
    */
-  open(ws: WebSocket, welcome: Outgoing[]): void {
-    this.#sent.set(ws, new Map());
-    for (const msg of welcome) {
-      if (ws.readyState === WebSocket.OPEN) ws.send(this.#textFor(ws, new Texts(msg)));
-    }
+  open(ws: LiveSink, welcome: Outgoing[] | (() => Outgoing[]), url?: string): void {
+    const latest = typeof welcome === "function" ? welcome : () => welcome;
+    const textOnce = url !== undefined && new URL(url).searchParams.get("text") === "changed";
+    const peer: Peer = { sent: new Map(), text: null, textOnce, latest, behind: null };
+    this.#peers.set(ws, peer);
+    this.#welcome(ws, peer);
   }
 
   /**
@@ -115,8 +174,8 @@ export class LiveChannel {
    *
    * @param ws The socket.
    */
-  close(ws: WebSocket): void {
-    this.#sent.delete(ws);
+  close(ws: LiveSink): void {
+    this.#peers.delete(ws);
   }
 
   /**
@@ -126,7 +185,7 @@ export class LiveChannel {
    */
   broadcast(msg: Outgoing): void {
     const texts = new Texts(msg);
-    for (const ws of this.#open()) ws.send(this.#textFor(ws, texts));
+    for (const [ws, peer] of this.#ready()) ws.send(this.#textFor(peer, texts));
   }
 
   /**
@@ -139,44 +198,89 @@ export class LiveChannel {
   broadcastMany(msgs: readonly Outgoing[]): void {
     if (msgs.length === 0) return;
     const texts = msgs.map((m) => new Texts(m));
-    for (const ws of this.#open()) {
-      ws.send(`[${texts.map((t) => this.#textFor(ws, t)).join(",")}]`);
+    for (const [ws, peer] of this.#ready()) {
+      ws.send(`[${texts.map((t) => this.#textFor(peer, t)).join(",")}]`);
     }
   }
 
-  #open(): WebSocket[] {
-    return [...this.#sent.keys()].filter((ws) => ws.readyState === WebSocket.OPEN);
+  /** Closes every socket. */
+  closeAll(): void {
+    for (const ws of this.#peers.keys()) ws.close();
+    this.#peers.clear();
+    if (this.#timer !== null) clearInterval(this.#timer);
+    this.#timer = null;
   }
 
-  /** The text a socket gets: light when it has the result, else whole (and noted). */
-  #textFor(ws: WebSocket, texts: Texts): string {
-    if (this.#has(ws, texts.msg)) return texts.light;
-    this.#remember(ws, texts.msg);
+  /** The open sockets that keep up; one over `slowBytes` is set aside (skipped). */
+  #ready(): [LiveSink, Peer][] {
+    const out: [LiveSink, Peer][] = [];
+    for (const [ws, peer] of this.#peers) {
+      if (ws.readyState !== WebSocket.OPEN || peer.behind !== null) continue;
+      if (ws.bufferedAmount > this.#limits.slowBytes) {
+        peer.behind = performance.now();
+        this.#timer ??= setInterval(() => this.#checkBehind(), 100);
+        continue;
+      }
+      out.push([ws, peer]);
+    }
+    return out;
+  }
+
+  /** Resends the latest state to slow pages that caught up; closes those stalled too long. */
+  #checkBehind(): void {
+    let left = 0;
+    for (const [ws, peer] of this.#peers) {
+      if (peer.behind === null) continue;
+      if (ws.readyState !== WebSocket.OPEN) {
+        this.#peers.delete(ws);
+      } else if (ws.bufferedAmount <= this.#limits.slowBytes / 4) {
+        peer.behind = null;
+        this.#welcome(ws, peer);
+      } else if (performance.now() - peer.behind > this.#limits.stallMs) {
+        this.#peers.delete(ws);
+        ws.close(1013, "The page fell behind the updates: reconnect to catch up");
+      } else left++;
+    }
+    if (left === 0 && this.#timer !== null) {
+      clearInterval(this.#timer);
+      this.#timer = null;
+    }
+  }
+
+  /** Sends a socket the whole latest state, forgetting what it was sent before. */
+  #welcome(ws: LiveSink, peer: Peer): void {
+    peer.sent.clear();
+    peer.text = null;
+    for (const msg of peer.latest()) {
+      if (ws.readyState === WebSocket.OPEN) ws.send(this.#textFor(peer, new Texts(msg)));
+    }
+  }
+
+  /** The text a socket gets: without what it has (result, document text), else whole (and noted). */
+  #textFor(peer: Peer, texts: Texts): string {
+    const msg = texts.msg;
+    if (msg.type === "document" && peer.textOnce && peer.text === msg.version) return texts.data;
+    if (this.#has(peer, msg)) return texts.light;
+    this.#remember(peer, msg);
     return texts.full;
   }
 
   /** Whether a cell message's result is the one this socket was last sent for that cell. */
-  #has(ws: WebSocket, msg: Outgoing): boolean {
+  #has(peer: Peer, msg: Outgoing): boolean {
     return msg.type === "cell" && msg.result !== undefined &&
-      this.#sent.get(ws)?.get(msg.name)?.id === msg.result.id;
+      peer.sent.get(msg.name)?.id === msg.result.id;
   }
 
   /** Notes what a socket is being sent: the results it has, the cells a document keeps. */
-  #remember(ws: WebSocket, msg: Outgoing): void {
-    const sent = this.#sent.get(ws);
-    if (sent === undefined) return;
+  #remember(peer: Peer, msg: Outgoing): void {
+    const sent = peer.sent;
     if (msg.type === "document") {
+      peer.text = msg.version;
       const kinds = new Map<string, string>();
       for (const b of msg.blocks) if (b.type === "cell") kinds.set(b.name, b.kind);
       for (const [name, s] of sent) if (kinds.get(name) !== s.kind) sent.delete(name);
     } else if (msg.type === "cell" && msg.result !== undefined) {
       sent.set(msg.name, { kind: msg.kind, id: msg.result.id });
     }
-  }
-
-  /** Closes every socket. */
-  closeAll(): void {
-    for (const ws of this.#sent.keys()) ws.close();
-    this.#sent.clear();
   }
 }

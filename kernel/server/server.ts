@@ -2,7 +2,8 @@
  * The live server: HTTP and WebSocket on one loopback port.
  *
  * ```
- *  Deno.serve(127.0.0.1:port) ─▶ checkRequest (Host, token cookie, Origin, CSRF)
+ *  serveConnections(127.0.0.1:port) (listener.ts: cap, timeouts, survives EMFILE)
+ *     ─▶ checkRequest (Host, token cookie, Origin, CSRF)
  *     GET  /                  HTML shell (or the plain page without a front end)
  *     GET  /app.<hash>.js|css the bundle, immutable
  *     GET  /katex/<file>      KaTeX's stylesheet and fonts, from its package
@@ -20,6 +21,8 @@ import { Editor } from "./editor.ts";
 import { allowedHosts, checkRequest, newToken } from "./guard.ts";
 import { LiveWorkspace } from "./live_workspace.ts";
 import { LiveChannel } from "./live_channel.ts";
+import { type ConnectionLimits, serveConnections } from "./listener.ts";
+import { upgradeWebSocket } from "./web_socket.ts";
 import type { SaveHooks } from "./replace_if_unchanged.ts";
 import { shellHtml } from "./shell.ts";
 import { removeStrayTemps } from "./stray_temps.ts";
@@ -46,6 +49,8 @@ export interface ServerOptions {
   maxBodyBytes?: number;
   /** Test hooks of the save path (failure and race injection); none in production. */
   saveHooks?: SaveHooks;
+  /** Connection cap, timeouts and slow-page limits (default listener.ts's DEFAULT_LIMITS). */
+  connections?: Partial<ConnectionLimits>;
 }
 
 /** A running live server. */
@@ -89,7 +94,7 @@ const TYPES: Record<string, string> = {
 export async function startServer(opts: ServerOptions): Promise<LiveServer> {
   const hostname = opts.hostname ?? "127.0.0.1";
   const token = newToken();
-  const sockets = new LiveChannel();
+  const sockets = new LiveChannel(opts.connections);
   const workspace = new LiveWorkspace({
     path: opts.document,
     registry: opts.registry,
@@ -103,10 +108,11 @@ export async function startServer(opts: ServerOptions): Promise<LiveServer> {
   const editor = new Editor({ workspace, ...opts });
   const st = { bundle: opts.bundle ?? null, token, katex: opts.katexDir ?? null };
   const live = { sockets, workspace, editor };
-  const server = Deno.serve({ hostname, port: opts.port ?? 0, onListen: () => {} }, (req) => {
-    const refused = checkRequest(req, ctx);
-    if (refused) return refused;
-    return answer(req, st, live);
+  const server = serveConnections({
+    hostname,
+    port: opts.port ?? 0,
+    limits: opts.connections,
+    handler: (req) => checkRequest(req, ctx) ?? answer(req, st, live),
   });
   const port = server.addr.port;
   for (const h of allowedHosts(hostname, port)) ctx.hosts.add(h);
@@ -218,8 +224,8 @@ function openLive(req: Request, live: Live): Response {
   if (req.headers.get("upgrade")?.toLowerCase() !== "websocket") {
     return new Response("Expected a WebSocket upgrade\n", { status: 426 });
   }
-  const { socket, response } = Deno.upgradeWebSocket(req);
-  socket.onopen = () => live.sockets.open(socket, live.workspace.welcome());
+  const { socket, response } = upgradeWebSocket(req);
+  socket.onopen = () => live.sockets.open(socket, () => live.workspace.welcome(), req.url);
   socket.onclose = () => live.sockets.close(socket);
   socket.onerror = () => live.sockets.close(socket);
   return response;
