@@ -26,6 +26,7 @@ import { ExprError } from "./expr_error.ts";
 import { FUNCTIONS, PUBLIC_FUNCTIONS } from "./functions.ts";
 import { at, type Token } from "./_lexer.ts";
 import { nearest } from "../suggest.ts";
+import { checkDepth, MAX_NESTING, tooNested } from "./_depth.ts";
 
 /** The model shorthands (see `_shorthands.ts`). */
 export const SHORTHANDS: readonly string[] = ["polynomial", "linear"];
@@ -37,6 +38,8 @@ export class Parser {
   #to: number;
   #endAt: number;
   #shorthands: boolean;
+  /** Open parentheses, calls, signs and exponents around the current token. */
+  #nesting = 0;
 
   /**
    * @param tokens Tokens of the whole text.
@@ -61,7 +64,7 @@ export class Parser {
     }
     const e = this.#sum();
     if (!this.#atEnd()) this.#unexpected(this.#peek(), true);
-    return e;
+    return checkDepth(e);
   }
 
   #atEnd(): boolean {
@@ -76,6 +79,11 @@ export class Parser {
   #isSym(text: string): boolean {
     const t = this.#peek();
     return t.kind === "sym" && t.text === text;
+  }
+
+  /** One level deeper; refused past {@link MAX_NESTING} before the call stack runs out. */
+  #enter(t: Token): void {
+    if (++this.#nesting > MAX_NESTING) throw tooNested(t.start, t.end - t.start);
   }
 
   #unexpected(t: Token, afterOperand = false): never {
@@ -114,7 +122,9 @@ export class Parser {
   #unary(): Expr {
     if (this.#isSym("-") || this.#isSym("+")) {
       const sign = this.#tokens[this.#pos++];
+      this.#enter(sign);
       const arg = this.#unary();
+      this.#nesting--;
       const start = sign.start, end = arg.end;
       if (sign.text === "+") return { ...arg, start };
       if (arg.op === "num") return { op: "num", value: -arg.value, start, end };
@@ -126,8 +136,9 @@ export class Parser {
   #power(): Expr {
     const base = this.#primary();
     if (!this.#isSym("^")) return base;
-    this.#pos++;
+    this.#enter(this.#tokens[this.#pos++]);
     const exponent = this.#unary();
+    this.#nesting--;
     return { op: "^", left: base, right: exponent, start: base.start, end: exponent.end };
   }
 
@@ -150,7 +161,9 @@ export class Parser {
     }
     if (t.kind === "sym" && t.text === "(") {
       this.#pos++;
+      this.#enter(t);
       const inner = this.#sum();
+      this.#nesting--;
       this.#expectClose(t);
       // Parentheses are not kept in the tree; the span still covers them.
       return { ...inner, start: t.start, end: this.#tokens[this.#pos - 1].end };
@@ -199,6 +212,7 @@ export class Parser {
   }
 
   #args(): Expr[] {
+    this.#enter(this.#tokens[this.#pos - 1]);
     const args: Expr[] = [];
     if (!this.#isSym(")")) {
       args.push(this.#sum());
@@ -207,6 +221,7 @@ export class Parser {
         args.push(this.#sum());
       }
     }
+    this.#nesting--;
     return args;
   }
 

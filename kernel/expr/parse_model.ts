@@ -10,6 +10,7 @@ import { at, type Token, tokenize } from "./_lexer.ts";
 import { Parser } from "./_parser.ts";
 import { identifiers, type IdNode, likelyColumn, rejectBareFunction } from "./_identifiers.ts";
 import { expandShorthands } from "./_shorthands.ts";
+import { checkDepth } from "./_depth.ts";
 
 /** A parsed and resolved model equation. */
 export interface Model {
@@ -66,6 +67,7 @@ export function parseModel(text: string, columns: readonly string[]): Model {
   const response = new Parser(tokens, 0, eq).parseAll();
   const parsed = new Parser(tokens, eq + 1, tokens.length - 1, true).parseAll();
   const { rhs, generated } = expandShorthands(parsed, columns, text);
+  checkDepth(rhs);
   const responseColumn = checkResponse(text, response, columns);
   const parameters: string[] = [], used: string[] = [];
   const warnings: Model["warnings"] = [];
