@@ -5,7 +5,8 @@
  * Method: every node of the model's tree gets a unit that is a product of
  * the columns' units and of unknown parameter units raised to fractional
  * powers, written as a base unit times Π U_θ^c_θ. Sums, the two sides of
- * the model, and the arguments of min and max must agree; exp, log, the
+ * the model, and the arguments of min and max must agree (a number written
+ * in a sum is read in the unit of the other term); exp, log, the
  * trigonometric functions and a fitted power take pure numbers (Bridgman,
  * *Dimensional Analysis*, 1922, ch. 1: only quantities of one kind add, and
  * transcendental functions take dimensionless arguments; from memory). Each
@@ -171,8 +172,13 @@ class Analysis {
       case "neg":
         return this.form(e.arg);
       case "+":
-      case "-":
+      case "-": {
+        // A number written in a sum is read in the unit of what it is added to
+        // (`temperature - 15` with temperature in °C; common practice, no source).
+        if (constantValue(e.right) !== null) return this.form(e.left);
+        if (constantValue(e.left) !== null) return this.form(e.right);
         return this.sum(e, this.form(e.left), this.form(e.right));
+      }
       case "*":
       case "/": {
         const a = this.form(e.left), b = this.form(e.right);

@@ -64,6 +64,18 @@ Deno.test("modelUnits() names the term whose units cannot agree", () => {
   ]);
 });
 
+Deno.test("modelUnits() reads a number in a sum in the unit of the other term", () => {
+  assert.deepEqual(
+    unitsOf("rate = r0 + c*(temperature - 15)", { rate: "kPa/h", temperature: "°C" }),
+    {
+      r0: "kPa/h",
+      c: "kPa/(h·°C)",
+      response: "kPa/h",
+      warnings: [],
+    },
+  );
+});
+
 Deno.test("modelUnits() says why a unit cannot be derived", () => {
   const power = unitsOf("force = a*x^b", { force: "N", x: "m" });
   assert.equal(power.b, null, "a fitted exponent is a pure number");
