@@ -31,7 +31,7 @@ function hostileDocument(): string {
     parts.push(`${text}\n`);
     parts.push(`${F}fit f_${name}\non: t\nmodel: y = a + b*x\n${F}\n`);
   }
-  parts.push("The last paragraph is harmless too: R² is @(f_braces.r2, 3).\n");
+  parts.push("The last paragraph is harmless too: R² is @(f_open_braces.r2, 3).\n");
   return parts.join("\n");
 }
 
