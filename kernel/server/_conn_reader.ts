@@ -62,16 +62,16 @@ export class ConnReader {
    * @throws {HeadTooLarge} When no blank line comes within `max` bytes.
    */
   async head(max: number): Promise<Uint8Array | null> {
-    let from = this.#start;
+    let scanned = 0; // bytes after #start already searched (fill may move #start to 0)
     for (;;) {
-      const at = indexOf(this.#buf, CRLFCRLF, from, this.#end);
+      const at = indexOf(this.#buf, CRLFCRLF, this.#start + scanned, this.#end);
       if (at >= 0) {
         const head = this.#buf.slice(this.#start, at);
         this.#start = at + 4;
         return head;
       }
       if (this.#end - this.#start > max) throw new HeadTooLarge();
-      from = Math.max(this.#start, this.#end - 3);
+      scanned = Math.max(0, this.#end - this.#start - 3);
       if (!(await this.fill())) return null;
     }
   }

@@ -52,6 +52,8 @@ const FILES_KEPT_FREE = 24;
 interface Tracked {
   conn: Deno.Conn;
   waiting: boolean;
+  /** Whether a request was answered on it (a browser's keep-alive connection). */
+  served: boolean;
   upgraded: boolean;
   timer: ReturnType<typeof setTimeout> | null;
 }
@@ -125,7 +127,7 @@ async function acceptLoop(
       void refuseFull(conn, conns.size);
       continue;
     }
-    const t: Tracked = { conn, waiting: true, upgraded: false, timer: null };
+    const t: Tracked = { conn, waiting: true, served: false, upgraded: false, timer: null };
     conns.set(conn, t);
     void serveConnection(conn, handler, watchOf(t), limits).finally(() => {
       conns.delete(conn);
@@ -141,6 +143,7 @@ function watchOf(t: Tracked) {
       t.timer = ms === null ? null : setTimeout(() => drop(t), ms);
     },
     waiting(yes: boolean) {
+      if (!yes) t.served = true;
       t.waiting = yes;
     },
     upgraded() {
@@ -161,13 +164,19 @@ function drop(t: Tracked): void {
   } catch { /* closed already */ }
 }
 
-/** Closes the connection that has waited longest for a request head; false when none waits. */
+/**
+ * Closes the connection that has waited longest for a request head, one that
+ * never sent a request first (a browser's keep-alive connection last); false
+ * when none waits.
+ */
 function closeOldestWaiting(conns: Map<Deno.Conn, Tracked>): boolean {
-  for (const t of conns.values()) {
-    if (t.waiting) {
-      conns.delete(t.conn);
-      drop(t);
-      return true;
+  for (const served of [false, true]) {
+    for (const t of conns.values()) {
+      if (t.waiting && t.served === served) {
+        conns.delete(t.conn);
+        drop(t);
+        return true;
+      }
     }
   }
   return false;

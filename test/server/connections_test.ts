@@ -222,3 +222,32 @@ Deno.test("serve bounds what it queues for WebSocket clients that never read", a
     await Deno.remove(f.dir, { recursive: true });
   }
 });
+
+Deno.test("serve answers a second request on a kept-alive connection at once", async () => {
+  const f = await folder();
+  const s = await spawnServer(f.doc, 1024);
+  const conn = await Deno.connect({ hostname: "127.0.0.1", port: s.port });
+  // Before: the head search restarted at a stale offset, so the second request
+  // waited for the 5 s idle timeout and was answered on a new connection.
+  const timer = setTimeout(() => conn.close(), 3000);
+  try {
+    const head =
+      `GET / HTTP/1.1\r\nHost: 127.0.0.1:${s.port}\r\nCookie: plumb_token=${s.token}\r\n\r\n`;
+    let got = "";
+    for (let i = 1; i <= 2; i++) {
+      await conn.write(new TextEncoder().encode(head));
+      const buf = new Uint8Array(1 << 16);
+      while ((got.match(/HTTP\/1\.1 200/g) ?? []).length < i) {
+        const n = await conn.read(buf);
+        if (n === null) break;
+        got += new TextDecoder().decode(buf.subarray(0, n));
+      }
+    }
+    equal((got.match(/HTTP\/1\.1 200/g) ?? []).length, 2);
+  } finally {
+    clearTimeout(timer);
+    closeAll([conn]);
+    await stop(s);
+    await Deno.remove(f.dir, { recursive: true });
+  }
+});
