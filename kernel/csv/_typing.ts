@@ -14,14 +14,22 @@ export const MOSTLY_NUMBERS = 0.9;
 /**
  * Refuses empty and repeated header names, naming the column position (1-based).
  *
- * @throws {DelimitedError}
+ * @param names The header's names, trimmed.
+ * @param label The file's name, for messages.
+ * @param starts Byte offset of each header field, for the error's place.
+ * @throws {DelimitedError} With the offending field's byte offset (and name, for a repeat).
  */
-export function checkHeader(names: readonly string[], label: string): void {
+export function checkHeader(
+  names: readonly string[],
+  label: string,
+  starts: readonly number[] = [],
+): void {
   const seen = new Map<string, number>();
   names.forEach((name, i) => {
     if (name === "") {
       throw new DelimitedError(
         `File "${label}": column ${i + 1} has no name in the header row`,
+        { offset: starts[i] ?? null },
       );
     }
     const first = seen.get(name);
@@ -30,7 +38,7 @@ export function checkHeader(names: readonly string[], label: string): void {
         `File "${label}": columns ${first + 1} and ${
           i + 1
         } are both named "${name}" in the header row`,
-        { column: name },
+        { column: name, offset: starts[i] ?? null },
       );
     }
     seen.set(name, i);

@@ -73,9 +73,12 @@ export interface DelimitedData {
 
 class HeaderSink implements FieldSink {
   names: string[] = [];
+  /** Byte offset of each field, for the place of a header error. */
+  starts: number[] = [];
   constructor(private readonly bytes: Uint8Array) {}
   field(col: number, start: number, end: number, _q: boolean, escaped: boolean): void {
     this.names[col] = decodeField(this.bytes, start, end, escaped).trim();
+    this.starts[col] = start;
   }
 }
 
@@ -112,10 +115,11 @@ export function readDelimited(
   if (scanner.next(header) < 0) {
     throw new DelimitedError(
       `File "${o.label}" is empty: expected a header row of column names`,
+      { offset: start },
     );
   }
   const names = header.names;
-  checkHeader(names, o.label);
+  checkHeader(names, o.label, header.starts);
   checkTypes(names, o.types);
   const ncols = names.length;
   const declaredText = names.map((n) => o.types[n] === "text");

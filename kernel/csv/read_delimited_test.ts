@@ -159,6 +159,17 @@ Deno.test("readDelimited() refuses an empty file and a file holding only a BOM o
   throwsDelimited(() => read("\n\r\n", { name: "data/x.csv" }), msg);
 });
 
+// Regression (fuzz, test/fuzz/fixtures/csv-unlocated-*.json): these errors carried no place.
+Deno.test("readDelimited() places an empty file and a bad header name at their byte offset", () => {
+  const empty = (bytes: Uint8Array) => throwsDelimited(() => readDelimited(bytes), /is empty/);
+  assert.equal(empty(new Uint8Array(0)).offset, 0);
+  assert.equal(empty(new Uint8Array([0xef, 0xbb, 0xbf])).offset, 3);
+  const unnamed = throwsDelimited(() => read("a, ,c\n1,2,3\n"), /column 2 has no name/);
+  assert.deepEqual([unnamed.offset, unnamed.row, unnamed.column], [2, null, null]);
+  const repeated = throwsDelimited(() => read("\ufefft,v, t\n1,2,3\n"), /both named "t"/);
+  assert.deepEqual([repeated.offset, repeated.column], [7, "t"]);
+});
+
 Deno.test("readDelimited() reads a header-only file as zero rows", () => {
   const d = read("cycle,capacity\n");
   assert.equal(d.rowCount, 0);
