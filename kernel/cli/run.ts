@@ -6,6 +6,7 @@
 import { dirname } from "node:path";
 import { VERSION } from "../version.ts";
 import { type RunReport, Session } from "../session/session.ts";
+import { nearMissFences, parseDocument } from "../document/mod.ts";
 import { fileTrouble, fromCaller } from "./caller.ts";
 import { formatHuman } from "./format_human.ts";
 import type { Product } from "./product.ts";
@@ -17,11 +18,15 @@ import type { Product } from "./product.ts";
  * @param report The session's report.
  * @returns Plain JSON data.
  */
-export function runJson(document: string, report: RunReport): Record<string, unknown> {
+export function runJson(
+  document: string,
+  report: RunReport,
+  warnings: readonly Located[] = [],
+): Record<string, unknown> {
   return {
     plumb: VERSION,
     document,
-    ok: report.cells.every((c) => c.state === "current"),
+    ok: succeeded(report),
     cells: report.cells.map((c) => ({
       name: c.name,
       kind: c.kind,
@@ -32,7 +37,26 @@ export function runJson(document: string, report: RunReport): Record<string, unk
       result: c.state === "current" ? c.result : null,
     })),
     document_errors: report.errors,
+    document_warnings: warnings,
   };
+}
+
+/** A message placed in the document. */
+type Located = { message: string; line: number; column: number };
+
+/** Every cell current and no error outside cells (front matter, inline references). */
+function succeeded(report: RunReport): boolean {
+  return report.errors.length === 0 && report.cells.every((c) => c.state === "current");
+}
+
+/** Code blocks that were almost cells (`Fit power`, `fit` with no name), as warnings. */
+function fenceWarnings(source: string, product: Product): Located[] {
+  const kinds = [...product.registry.keys()];
+  return nearMissFences(parseDocument(source), kinds).map((w) => ({
+    message: w.message,
+    line: w.pos.line,
+    column: w.pos.column,
+  }));
 }
 
 /** Typed arrays become plain arrays; non-finite numbers become null (JSON has neither). */
@@ -75,9 +99,16 @@ export async function runCommand(args: string[], product: Product): Promise<numb
   });
   try {
     const report = await session.run(source);
-    if (json) console.log(JSON.stringify(runJson(path, report), replacer, 2));
-    else console.log(formatHuman(path, report));
-    return report.cells.every((c) => c.state === "current") ? 0 : 1;
+    const warnings = fenceWarnings(source, product);
+    if (json) console.log(JSON.stringify(runJson(path, report, warnings), replacer, 2));
+    else {
+      // Before the blank line and the counts that end the summary.
+      const human = formatHuman(path, report).split("\n");
+      const lines = warnings.map((w) => `warning   line ${w.line}:${w.column}  ${w.message}`);
+      human.splice(human.length - 2, 0, ...lines);
+      console.log(human.join("\n"));
+    }
+    return succeeded(report) ? 0 : 1;
   } finally {
     session.close();
   }
