@@ -18,7 +18,18 @@ export const WORKER_URL: URL = new URL("./worker.ts", import.meta.url);
 /** The live page's entry module. */
 export const PAGE_URL: URL = new URL("../ui/main.tsx", import.meta.url);
 
+/** The static record's module (loaded by `plumb export` only). */
+export const RECORD_URL: URL = new URL("../ui/record/mod.ts", import.meta.url);
+
 if (import.meta.main) {
   const mainUrl = new URL(import.meta.url);
-  Deno.exit(await main(Deno.args, { registry, workerUrl: WORKER_URL, mainUrl, pageUrl: PAGE_URL }));
+  Deno.exit(
+    await main(Deno.args, {
+      registry,
+      workerUrl: WORKER_URL,
+      mainUrl,
+      pageUrl: PAGE_URL,
+      recordUrl: RECORD_URL,
+    }),
+  );
 }

@@ -5,6 +5,7 @@
  * plumb run <document.md> [--json]   run every cell headless
  * plumb serve <document.md>          the live workspace in the browser
  * plumb new <document.md>            a new document with invented data beside it
+ * plumb export <document.md>         its static record (HTML, or PDF with --pdf)
  * plumb help                         this text
  * ```
  *
@@ -20,6 +21,7 @@ import type { Product } from "./product.ts";
 import { newCommand } from "./new.ts";
 import { runCommand } from "./run.ts";
 import { serveCommand } from "./serve.ts";
+import { exportCommand } from "./export.ts";
 
 export type { Product };
 
@@ -31,6 +33,9 @@ Usage:
               [--port N] [--host H]  (default: a free port on 127.0.0.1)
   plumb new <document.md>            start an analysis: a document with one cell of
                                      each common kind, and invented data beside it
+  plumb export <document.md>         write its record: one self-contained HTML file
+              [-o <file>] [--pdf]    (default <document>.record.html beside it;
+              [--paper a4|letter]    --pdf prints it through Chromium)
   plumb help                         show this text
 
 Relative paths are taken from the folder you are in.
@@ -68,6 +73,7 @@ async function dispatch(args: string[], product: Product): Promise<number> {
   if (command === "run") return await runCommand(rest, product);
   if (command === "serve") return await serveCommand(rest, product);
   if (command === "new") return await newCommand(rest, product);
+  if (command === "export") return await exportCommand(rest, product);
   console.error(`Unknown command "${command}"\n\n${USAGE}`);
   return 2;
 }

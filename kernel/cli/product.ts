@@ -18,4 +18,6 @@ export interface Product {
   mainUrl: URL;
   /** The live page's entry module, which `serve` bundles for the browser. */
   pageUrl: URL;
+  /** The static record's module (`gatherRecord`, `renderRecord`), which `export` loads. */
+  recordUrl: URL;
 }

@@ -142,15 +142,19 @@ export function renumberIds(html: string): string {
  * Renders the record to one self-contained HTML document.
  *
  * @param input What the record shows.
+ * @param options `paper`: the page size to print on (default: the printer's).
  * @returns The HTML text (UTF-8 when written).
  */
-export function renderRecord(input: RecordInput): string {
+export function renderRecord(
+  input: RecordInput,
+  options: { paper?: "a4" | "letter" } = {},
+): string {
   const body = renumberIds(renderToString(<Record input={input} />));
   return "<!doctype html>\n" +
     `<html lang="en"><head><meta charset="utf-8">` +
     `<meta name="viewport" content="width=device-width, initial-scale=1">` +
     `<meta name="generator" content="Plumb ${escapeHtml(input.versions.plumb)}">` +
     `<title>${escapeHtml(input.title)} — record</title>` +
-    `<style>${STYLE}${recordStyle(input.title)}</style></head>` +
+    `<style>${STYLE}${recordStyle(input.title, options.paper)}</style></head>` +
     `<body class="pl-record">${body}</body></html>\n`;
 }

@@ -13,9 +13,10 @@
  * The record's CSS.
  *
  * @param title The document's title, for the running header (quoted for CSS).
+ * @param paper A paper size to print on (`@page size`), or none: the printer's.
  * @returns A style sheet.
  */
-export function recordStyle(title: string): string {
+export function recordStyle(title: string, paper?: "a4" | "letter"): string {
   const quoted = JSON.stringify(title.slice(0, 120)).replace(/</g, "\\3c ");
   return `
 body.pl-record { max-width: 58rem; margin: 0 auto; padding: 1.5rem 1.25rem 4rem; }
@@ -33,7 +34,7 @@ body.pl-record { max-width: 58rem; margin: 0 auto; padding: 1.5rem 1.25rem 4rem;
 .pl-hash { font-size: .8rem; overflow-wrap: anywhere; }
 .pl-result { overflow-x: auto; }
 .pl-result svg { max-width: 100%; height: auto; }
-@page { margin: 18mm 14mm;
+@page { margin: 18mm 14mm;${paper ? ` size: ${paper === "a4" ? "A4" : "letter"};` : ""}
   @top-center { content: ${quoted}; font-size: 9pt; color: #4a5560; }
   @bottom-right { content: counter(page) " / " counter(pages); font-size: 9pt; } }
 @media print {
