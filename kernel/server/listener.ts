@@ -42,7 +42,7 @@ export const DEFAULT_LIMITS: ConnectionLimits = {
   headMs: 10_000,
   idleMs: 5_000,
   writeMs: 30_000,
-  slowBytes: 16 << 20,
+  slowBytes: 4 << 20,
   stallMs: 30_000,
 };
 

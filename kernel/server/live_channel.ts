@@ -145,7 +145,7 @@ export class LiveChannel {
 
   /** @param limits When a page counts as slow, and how long it may stay behind. */
   constructor(limits: Partial<ChannelLimits> = {}) {
-    this.#limits = { slowBytes: 16 << 20, stallMs: 30_000, ...limits };
+    this.#limits = { slowBytes: 4 << 20, stallMs: 30_000, ...limits };
   }
 
   /** How many sockets are open. */

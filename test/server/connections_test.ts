@@ -12,6 +12,7 @@
  */
 import { equal, ok } from "node:assert/strict";
 import { join } from "node:path";
+import { deafPage } from "../load/_clients.ts";
 
 const HELPER = new URL("./_serve_for_test.ts", import.meta.url).pathname;
 const CONFIG = new URL("../../deno.json", import.meta.url).pathname;
@@ -181,23 +182,6 @@ async function rssMb(pid: number): Promise<number> {
   return Number(new TextDecoder().decode(out.stdout).trim()) / 1024;
 }
 
-/** Opens /live by hand and never reads from the connection again. */
-async function deafSocket(port: number, token: string): Promise<Deno.Conn> {
-  const conn = await Deno.connect({ hostname: "127.0.0.1", port });
-  const head = [
-    "GET /live HTTP/1.1",
-    `Host: 127.0.0.1:${port}`,
-    `Origin: http://127.0.0.1:${port}`,
-    `Cookie: plumb_token=${token}`,
-    "Upgrade: websocket",
-    "Connection: Upgrade",
-    "Sec-WebSocket-Key: dGhlIHNhbXBsZSBub25jZQ==",
-    "Sec-WebSocket-Version: 13",
-  ];
-  await conn.write(new TextEncoder().encode(head.join("\r\n") + "\r\n\r\n"));
-  return conn;
-}
-
 Deno.test("serve bounds what it queues for WebSocket clients that never read", async () => {
   // A 2 MB document: every data change sent its whole text to every socket.
   const para = "Measured at 25 °C on the bench; nothing here is computed. ".repeat(16) + "\n\n";
@@ -205,7 +189,7 @@ Deno.test("serve bounds what it queues for WebSocket clients that never read", a
   const s = await spawnServer(f.doc, 1024, { connections: { slowBytes: 4 << 20, stallMs: 1500 } });
   const deaf: Deno.Conn[] = [];
   try {
-    for (let i = 0; i < 3; i++) deaf.push(await deafSocket(s.port, s.token));
+    for (let i = 0; i < 3; i++) deaf.push(await deafPage(s.port, s.token));
     await new Promise((r) => setTimeout(r, 500));
     const before = await rssMb(s.pid);
     for (let i = 0; i < 25; i++) {
