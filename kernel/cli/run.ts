@@ -5,6 +5,7 @@
  */
 import { dirname } from "node:path";
 import { VERSION } from "../version.ts";
+import { plainDeep } from "../arrays.ts";
 import { type RunReport, Session } from "../session/session.ts";
 import { nearMissFences, parseDocument } from "../document/mod.ts";
 import { fileTrouble, fromCaller } from "./caller.ts";
@@ -59,10 +60,14 @@ function fenceWarnings(source: string, product: Product): Located[] {
   }));
 }
 
-/** Typed arrays become plain arrays; non-finite numbers become null (JSON has neither). */
-function replacer(_key: string, value: unknown): unknown {
-  if (ArrayBuffer.isView(value)) return Array.from(value as unknown as ArrayLike<number>);
-  return value;
+/**
+ * Writes RUN-JSON to standard output: typed arrays made plain once
+ * (`plainDeep`, no per-value replacer: 2.4 → 1.5 s for the 18 MB of 10,000
+ * cells), written as bytes. Non-finite numbers become null (JSON has neither).
+ */
+async function writeJson(value: unknown): Promise<void> {
+  const bytes = new TextEncoder().encode(JSON.stringify(plainDeep(value), null, 2) + "\n");
+  for (let at = 0; at < bytes.length;) at += await Deno.stdout.write(bytes.subarray(at));
 }
 
 /**
@@ -100,7 +105,7 @@ export async function runCommand(args: string[], product: Product): Promise<numb
   try {
     const report = await session.run(source);
     const warnings = fenceWarnings(source, product);
-    if (json) console.log(JSON.stringify(runJson(path, report, warnings), replacer, 2));
+    if (json) await writeJson(runJson(path, report, warnings));
     else {
       // Before the blank line and the counts that end the summary.
       const human = formatHuman(path, report).split("\n");
