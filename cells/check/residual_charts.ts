@@ -1,245 +1,208 @@
 /**
- * The four standard residual charts of a `check` cell, drawn from the
- * RUN-JSON `check` result fields, in the shared chart style:
+ * The check's residual figure: one panel for each question the check asks
+ * of the residuals, titled by that question, with the test that answers it
+ * and its verdict written under the title, the thresholds drawn as the
+ * findings state them and the rows a finding names filled and numbered.
  *
- * 1. residuals against fitted values, with the zero line;
- * 2. normal quantile plot of the internally studentized residuals against
- *    standard normal quantiles at Blom's plotting positions
- *    (i − 3/8)/(n + 1/4) (Blom 1958, *Statistical Estimates and Transformed
- *    Beta-Variables*; from memory), with the 1:1 line;
- * 3. scale–location: √|studentized residual| against fitted values;
- * 4. leverage against studentized residual, with contours of Cook's
- *    distance D at 0.5 and 1: D = r²·h / (p(1 − h)) (Cook 1977,
- *    *Technometrics* 19, 15–18), so r = ±√(D·p·(1 − h)/h); p = Σhᵢ, the
- *    trace of the hat matrix (common practice, no source).
+ * ```
+ *  ┌ Is a trend left? ───────┬ Does the scatter change? ┐  residual, |studentized|
+ *  │ residual vs fitted      │ |r| vs fitted, line at 3 │  against fitted, each with
+ *  │ + mean of each group    │ + mean of each group     │  the mean of groups of rows
+ *  ├ Near normal? ───────────┼ Neighbours alike? ───────┤
+ *  │ sorted r vs normal      │ residual in row order    │
+ *  │ quantile, 95% band      │ (up to DENSE_ROWS rows)  │
+ *  ├ Does a row steer? ──────┴──────────────────────────┘
+ *  │ r vs leverage: lines at 2p/n and ±3, ring area ∝ Cook's D
+ * ```
  *
- * More than {@link DENSE_ROWS} rows are drawn as 2-D counts on a grid of
- * equal cells (`_density.ts`) rather than one dot per row; the quantile
- * plot then finds each row's column from the normal CDF at the column edges
- * (the plotting positions are increasing), without a quantile per row. Null entries (undefined values,
- * e.g. at leverage 1) are left out.
+ * Quantile plot: sorted internally studentized residuals against standard
+ * normal quantiles at Blom's positions (i − 3/8)/(n + 1/4) (Blom 1958,
+ * *Statistical Estimates and Transformed Beta-Variables*; from memory), with
+ * a pointwise 95% band z ± 1.96·√(P(1 − P)/n)/φ(z) for the i-th order
+ * statistic (Fox 2008, *Applied Regression Analysis*, 2nd ed., §3.1.3; from
+ * memory). Above DENSE_ROWS rows the panels draw counted cells
+ * (`density.ts`) and the row-order panel is left out.
  *
  * @module
  */
 import * as Plot from "@observablehq/plot";
 import { standardNormal } from "../../kernel/stats/mod.ts";
-import { fitColor, INK } from "../shared/palette.ts";
-import { stackPanels } from "../../ui/charts/_svg.ts";
-import { densityRect } from "../../ui/charts/_density.ts";
-import { density, densityDomains, max } from "../shared/density.ts";
-import { type CheckChartInput, DENSE_ROWS, quantileDensity } from "./density.ts";
-import type { ChartBins } from "../shared/chart_data.ts";
+import { fitColor, FLAG_INK, INK } from "../shared/palette.ts";
+import { formatP } from "../shared/format.ts";
+import { gridPanels } from "../../ui/charts/_svg.ts";
+import { referenceY } from "../../ui/charts/_style.ts";
+import { influencePanel, orderPanel } from "./_row_panels.ts";
+import { DENSE_ROWS, quantileDensity } from "./density.ts";
+import {
+  cells,
+  drawPoints,
+  type FigureInput,
+  flaggedRows,
+  groupMeans,
+  meanLine,
+  PANEL,
+  panel,
+  points,
+  unitLabel,
+} from "./_figure_parts.ts";
 
 export { type CheckChartInput, type CheckDensity, checkDensity, DENSE_ROWS } from "./density.ts";
+export type { FigureInput } from "./_figure_parts.ts";
 
-const SIZE = { width: 320, height: 260 } as const;
-
-type Pair = [number, number];
-
-function pairs(a: (number | null)[], b: (number | null)[]): Pair[] {
-  const out: Pair[] = [];
-  for (let i = 0; i < Math.min(a.length, b.length); i++) {
-    const x = a[i], y = b[i];
-    if (x !== null && y !== null && Number.isFinite(x) && Number.isFinite(y)) out.push([x, y]);
-  }
-  return out;
+/** A panel with its question and what the check says on it. */
+export interface CheckPanel {
+  title: string;
+  note: string | null;
+  flagged: boolean;
+  svg: SVGSVGElement;
 }
 
-/** The points' mark, and for a density the extents the chart's scales must cover. */
-interface Scatter {
-  mark: Plot.Markish;
-  domains: { x: [number, number]; y: [number, number] } | null;
+/** "test: p = 0.41", and whether that p is under the check's significance level. */
+function verdict(name: string, p: number | null | undefined, r: FigureInput): [string, boolean] {
+  if (p === null || p === undefined) return [`${name}: not computed`, false];
+  const a = r.significance ?? 0.05;
+  return [`${name}: p = ${formatP(p)}${p < a ? `, below ${a}: a finding` : ""}`, p < a];
 }
 
-function scatter(p: Pair[], color: string): Scatter {
-  if (p.length > DENSE_ROWS) return dense(density(p.map((d) => d[0]), p.map((d) => d[1])));
-  return {
-    mark: Plot.dot(p, { x: (d: Pair) => d[0], y: (d: Pair) => d[1], r: 2, fill: color }),
-    domains: null,
-  };
+/** Is a trend left in the residuals? Residual against fitted with the mean of each group. */
+export function trendPanel(r: FigureInput, document: Document): CheckPanel {
+  const u = r.sigma_unit;
+  const p = r.density ? [] : points(r.fitted, r.residuals);
+  const drawn = r.density
+    ? cells(r.density.residuals)
+    : drawPoints(p, flaggedRows(r, ["outlier"]), r);
+  const [note, flagged] = r.lack_of_fit
+    ? verdict("lack of fit against replicates", r.lack_of_fit.p_value, r)
+    : verdict("curvature test (RESET)", r.reset?.p_value, r);
+  const marks = [
+    ...referenceY(0, "", false, "zero residual"),
+    ...meanLine(p.length > DENSE_ROWS ? [] : groupMeans(p), fitColor(r.fit)),
+  ];
+  const svg = panel(document, unitLabel("fitted", u), unitLabel("residual", u), drawn, marks);
+  return { title: "Is a trend left in the residuals?", note, flagged, svg };
 }
 
-function dense(b: ChartBins): Scatter {
-  return { mark: densityRect(b), domains: densityDomains(b) };
-}
-
-function panel(
-  document: Document,
-  title: string,
-  x: string,
-  y: string,
-  marks: Plot.Markish[],
-  points: Scatter,
-  extra: Record<string, unknown> = {},
-  note: string | null = null,
-): SVGSVGElement {
-  const d = points.domains;
-  const svg = Plot.plot({
-    document,
-    className: "plumb-plot",
-    ...SIZE,
-    marginLeft: 52,
-    x: { label: x, nice: true, ...(d ? { domain: d.x } : {}) },
-    y: { label: y, grid: true, nice: true, ...(d ? { domain: d.y } : {}) },
-    color: { range: ["#d9d9d9", "#262626"] },
-    marks: [...marks, points.mark],
-    ...extra,
-  });
-  return stackPanels(document, [svg], SIZE.width, { title, note, label: title });
-}
-
-/**
- * Residuals against fitted values, with the zero line.
- *
- * @param r The check result fields.
- * @param document The DOM document (the browser's, or linkedom's).
- * @returns The `<svg>` element (not attached).
- */
-export function residualsVsFitted(r: CheckChartInput, document: Document): SVGSVGElement {
-  return panel(
-    document,
-    `Residuals against fitted, ${r.fit}`,
-    "fitted",
-    "residual",
-    [
-      Plot.ruleY([0], { stroke: INK, ariaDescription: "zero residual" }),
-    ],
-    r.density ? dense(r.density.residuals) : scatter(pairs(r.fitted, r.residuals), fitColor(r.fit)),
+/** Does the scatter change with the level? |studentized residual| against fitted. */
+export function spreadPanel(r: FigureInput, document: Document): CheckPanel {
+  const p = r.density
+    ? []
+    : points(r.fitted, r.studentized_internal.map((v) => v === null ? null : Math.abs(v)));
+  const drawn = r.density ? cells(r.density.scale) : drawPoints(p, flaggedRows(r, ["outlier"]), r);
+  const [note, flagged] = verdict(
+    `constant variance (Breusch–Pagan, ${r.breusch_pagan?.variant ?? "koenker"})`,
+    r.breusch_pagan?.p_value,
+    r,
   );
+  const marks = [
+    ...referenceY(3, "3: outlier beyond", true),
+    ...meanLine(p.length > DENSE_ROWS ? [] : groupMeans(p), fitColor(r.fit)),
+  ];
+  const svg = panel(
+    document,
+    unitLabel("fitted", r.sigma_unit),
+    "|studentized residual|",
+    drawn,
+    marks,
+    {
+      y: {
+        domain: [0, Math.max(3.4, ...p.map((d) => d[1] * 1.05), r.density?.rMax ?? 0)],
+        nice: false,
+      },
+    },
+  );
+  return { title: "Does the scatter change with the level?", note, flagged, svg };
 }
 
-/**
- * Normal quantile plot of the studentized residuals, with the 1:1 line.
- *
- * @param r The check result fields.
- * @param document The DOM document.
- * @returns The `<svg>` element (not attached).
- */
-export function normalQuantiles(r: CheckChartInput, document: Document): SVGSVGElement {
-  const q = r.density ? null : quantileParts(r);
-  const line = r.density?.line ?? q!.line;
-  const points = r.density
-    ? dense(r.density.quantiles)
-    : q!.bins
-    ? dense(q!.bins)
-    : scatter(q!.pairs(), fitColor(r.fit));
-  return panel(document, `Normal quantiles, ${r.fit}`, "normal quantile", "studentized residual", [
-    Plot.line([[line[0], line[0]], [line[1], line[1]]], {
-      stroke: INK,
-      strokeDasharray: "4,3",
-      ariaDescription: "1:1 line",
-    }),
-  ], points);
-}
-
-/** The quantile plot's 1:1 line, and its counted cells above DENSE_ROWS (else its points). */
-function quantileParts(r: CheckChartInput) {
+/** Are the residuals near normal? Sorted studentized residuals against normal quantiles. */
+export function normalPanel(r: FigureInput, document: Document): CheckPanel {
   const s = r.studentized_internal.filter((v): v is number => v !== null && Number.isFinite(v))
     .sort((a, b) => a - b);
   const n = s.length;
   const position = (i: number) => (i + 1 - 0.375) / (n + 0.25);
-  const ends = n
-    ? [standardNormal.quantile(position(0)), standardNormal.quantile(position(n - 1))]
-    : [];
-  const line: [number, number] = n
-    ? [Math.min(ends[0], s[0]), Math.max(ends[1], s[n - 1])]
-    : [0, 1];
-  return {
-    line,
-    bins: n > DENSE_ROWS ? quantileDensity(s, ends[0], ends[1], position) : null,
-    pairs: () => s.map((v, i): Pair => [standardNormal.quantile(position(i)), v]),
-  };
+  const z = Array.from({ length: n }, (_, i) => standardNormal.quantile(position(i)));
+  const drawn = r.density
+    ? cells(r.density.quantiles)
+    : n > DENSE_ROWS
+    ? cells(quantileDensity(s, z[0], z[n - 1], position))
+    : drawPoints(s.map((v, i) => [z[i], v, -1]), new Set(), r);
+  const band = n > DENSE_ROWS ? [] : z.map((q, i) => {
+    const half = 1.96 * Math.sqrt(position(i) * (1 - position(i)) / n) /
+      (Math.exp(-q * q / 2) / Math.sqrt(2 * Math.PI));
+    return [q, q - half, q + half];
+  });
+  const ends = r.density?.line ??
+    (n ? [Math.min(z[0], s[0]), Math.max(z[n - 1], s[n - 1])] : [0, 1]);
+  const marks: Plot.Markish[] = [
+    Plot.areaY(band, {
+      x: (d: number[]) => d[0],
+      y1: (d: number[]) => d[1],
+      y2: (d: number[]) => d[2],
+      fill: INK,
+      fillOpacity: 0.1,
+      ariaDescription: "95% band of a normal sample",
+    }),
+    Plot.line([[ends[0], ends[0]], [ends[1], ends[1]]], {
+      stroke: INK,
+      strokeDasharray: "1,2",
+      ariaDescription: "1:1 line",
+    }),
+  ];
+  const [note, flagged] = verdict("normality (Shapiro–Wilk)", r.shapiro_wilk?.p_value, r);
+  const svg = panel(document, "normal quantile", "studentized residual", drawn, marks);
+  return { title: "Are the residuals near normal?", note, flagged, svg };
 }
 
 /**
- * Scale–location: √|studentized residual| against fitted values.
+ * Every panel of the check's figure, in reading order.
  *
- * @param r The check result fields.
- * @param document The DOM document.
- * @returns The `<svg>` element (not attached).
+ * @param r The check result (or its page copy).
+ * @param document The DOM document (the browser's, or linkedom's).
+ * @returns The panels, each with its question and note.
  */
-export function scaleLocation(r: CheckChartInput, document: Document): SVGSVGElement {
-  const points = r.density ? dense(r.density.scale) : scatter(scalePairs(r), fitColor(r.fit));
-  return panel(document, `Scale–location, ${r.fit}`, "fitted", "√|studentized residual|", [
-    Plot.ruleY([0], { stroke: INK, strokeOpacity: 0.4 }),
-  ], points);
-}
-
-function scalePairs(r: CheckChartInput): Pair[] {
-  return pairs(r.fitted, r.studentized_internal).map(([f, s]): Pair => [f, Math.sqrt(Math.abs(s))]);
+export function checkPanels(r: FigureInput, document: Document): CheckPanel[] {
+  const order = orderPanel(r, document);
+  return [
+    trendPanel(r, document),
+    spreadPanel(r, document),
+    normalPanel(r, document),
+    ...(order ? [order] : []),
+    influencePanel(r, document),
+  ];
 }
 
 /**
- * Studentized residual against leverage, with Cook's distance contours at 0.5 and 1.
+ * The check's residual figure: its panels two to a row under one heading.
  *
- * @param r The check result fields.
+ * @param r The check result (or its page copy).
  * @param document The DOM document.
  * @returns The `<svg>` element (not attached).
  */
-export function leverageChart(r: CheckChartInput, document: Document): SVGSVGElement {
-  const d0 = r.density;
-  const pts = d0 ? [] : pairs(r.leverage, r.studentized_internal);
-  const p = d0?.trace ?? r.leverage.reduce<number>((a, h) => a + (h ?? 0), 0);
-  const hMax = Math.min(0.999, Math.max(0.05, d0?.hMax ?? max(pts.map((d) => d[0]))) * 1.05);
-  const contours: Plot.Markish[] = [];
-  for (const d of [0.5, 1]) {
-    for (const sign of [1, -1]) {
-      const line = Array.from({ length: 60 }, (_, i): Pair => {
-        const h = (hMax * (i + 1)) / 60;
-        return [h, sign * Math.sqrt((d * p * (1 - h)) / h)];
-      });
-      contours.push(Plot.line(line, {
-        x: (v: Pair) => v[0],
-        y: (v: Pair) => v[1],
-        stroke: INK,
-        strokeDasharray: d === 1 ? "6,3" : "2,3",
-        ariaDescription: `Cook's distance ${d}`,
-      }));
-    }
-  }
-  const rMax = Math.max(3, d0?.rMax ?? max(pts.map((d) => Math.abs(d[1])))) * 1.1;
-  return panel(
+export function checkFigure(r: FigureInput, document: Document): SVGSVGElement {
+  const panels = checkPanels(r, document);
+  const dense = r.density
+    ? `; ${DENSE_ROWS.toLocaleString("en-US")}+ rows counted into cells (darker: more rows)`
+    : "";
+  return gridPanels(
     document,
-    `Leverage, ${r.fit}`,
-    "leverage",
-    "studentized residual",
-    [
-      Plot.ruleY([0], { stroke: INK, strokeOpacity: 0.4 }),
-      ...contours,
-    ],
-    d0 ? dense(d0.leverage) : scatter(pts, fitColor(r.fit)),
+    panels.map((p) => ({ panel: p.svg, title: p.title, note: p.note, flagged: p.flagged })),
+    2,
+    PANEL.width,
     {
-      x: { label: "leverage", domain: [0, hMax] },
-      y: { label: "studentized residual", grid: true, domain: [-rMax, rMax] },
-      clip: true,
+      title: `Residuals of ${r.fit}`,
+      note: `filled and numbered: rows a finding names${dense}`,
+      label: `Residual figure of fit ${r.fit}`,
     },
-    "dashed: Cook's distance 0.5 (short dashes) and 1 (long)",
+    FLAG_INK,
   );
 }
 
 /**
- * All four residual charts as markup, in the standard order.
+ * The figure's panels as markup (for tests and the record).
  *
  * @param r The check result fields.
  * @param document The DOM document.
- * @returns Four SVG strings: residuals vs fitted, normal quantiles, scale–location, leverage.
+ * @returns One SVG string per panel.
  */
-export function checkChartsSvg(r: CheckChartInput, document: Document): string[] {
-  return checkCharts(r, document).map((e) => e.outerHTML);
-}
-
-/**
- * All four residual charts as elements of `document`, in the standard order.
- *
- * @param r The check result fields.
- * @param document The DOM document.
- * @returns Four `<svg>` elements: residuals vs fitted, normal quantiles, scale–location, leverage.
- */
-export function checkCharts(r: CheckChartInput, document: Document): SVGSVGElement[] {
-  return [
-    residualsVsFitted(r, document),
-    normalQuantiles(r, document),
-    scaleLocation(r, document),
-    leverageChart(r, document),
-  ];
+export function checkChartsSvg(r: FigureInput, document: Document): string[] {
+  return checkPanels(r, document).map((p) => p.svg.outerHTML);
 }

@@ -2,9 +2,10 @@
  * The check cell's view: the findings first, then a compact table of the
  * tests with their statistic, p-value and the rule that makes a finding.
  * Plain markup (shared by the live page and the static record), with the
- * four standard residual charts drawn by ui/charts from the result alone
- * (residuals vs fitted, normal quantiles, scale–location, leverage with
- * Cook's distance contours).
+ * residual figure drawn from the result alone (`residual_charts.ts`): one
+ * panel per question the check asks, titled by it, with its test's verdict,
+ * the findings' thresholds and the rows they name. Fitted values, residuals,
+ * PRESS and the leave-one-out RMSE carry the fit's unit.
  *
  * @module
  */
@@ -13,16 +14,14 @@ import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import type { CheckResult } from "./result.ts";
 import { fmt, fmtVif } from "./_format.ts";
 import { DrawnFigure } from "../../ui/charts/mod.ts";
+import { checkFigure, type FigureInput } from "./residual_charts.ts";
 import {
-  type CheckChartInput,
-  leverageChart,
-  normalQuantiles,
-  residualsVsFitted,
-  scaleLocation,
-} from "./residual_charts.ts";
-
-/** The four residual charts, in the standard order. */
-const CHARTS = [residualsVsFitted, normalQuantiles, scaleLocation, leverageChart];
+  formatIntervalAt,
+  formatP,
+  formatUncertainty,
+  squaredUnit,
+  withUnit,
+} from "../shared/format.ts";
 
 interface TestRow {
   name: string;
@@ -86,6 +85,14 @@ function testRows(r: CheckResult): TestRow[] {
   ];
 }
 
+/** Interval limits joined by "to", as the robust table writes them. */
+const TO = { open: "", sep: " to ", close: "" };
+
+/** The unit of residuals (unweighted fits only: weighted residuals carry √w). */
+function plainUnit(r: CheckResult): string | null {
+  return r.weighted ? null : r.sigma_unit ?? null;
+}
+
 /** The robust (sandwich) inference: one row per parameter. */
 function RobustTable({ robust: b }: { robust: NonNullable<CheckResult["robust"]> }): VNode {
   const pct = `${fmt(100 * b.level, 4)}%`;
@@ -110,10 +117,10 @@ function RobustTable({ robust: b }: { robust: NonNullable<CheckResult["robust"]>
           return (
             <tr key={k}>
               <th scope="row">{k}</th>
-              <td>{fmt(se, 4)}</td>
+              <td>{formatUncertainty(se)}</td>
               <td>{fmt(b.t?.[k] ?? null)}</td>
-              <td>{fmt(b.p_value?.[k] ?? null, 2)}</td>
-              <td>{ci ? `${fmt(ci[0], 4)} to ${fmt(ci[1], 4)}` : "—"}</td>
+              <td>{formatP(b.p_value?.[k] ?? null)}</td>
+              <td>{formatIntervalAt(ci, se, null, TO)}</td>
             </tr>
           );
         })}
@@ -143,7 +150,7 @@ function RobustTable({ robust: b }: { robust: NonNullable<CheckResult["robust"]>
  */
 export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
   // The live page's copy of a large check has its charts counted (`density`) instead of the arrays.
-  const charts = r as CheckResult & CheckChartInput;
+  const charts = r as CheckResult & FigureInput;
   return (
     <section class="plumb-check" aria-label={`Check ${name}`}>
       {r.findings.length === 0
@@ -162,8 +169,9 @@ export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
           </ul>
         )}
       <div class="plumb-check-charts">
-        {(charts.density !== undefined || (r.fitted?.length ?? 0) > 0) &&
-          CHARTS.map((chart, i) => <DrawnFigure key={i} draw={(d) => chart(charts, d)} data={r} />)}
+        {(charts.density !== undefined || (r.fitted?.length ?? 0) > 0) && (
+          <DrawnFigure draw={(d) => checkFigure(charts, d)} data={r} />
+        )}
       </div>
       <table class="plumb-check-tests">
         <thead>
@@ -179,15 +187,16 @@ export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
             <tr key={t.name}>
               <th scope="row">{t.name}</th>
               <td>{t.statistic}</td>
-              <td>{fmt(t.p, 2)}</td>
+              <td>{formatP(t.p)}</td>
               <td>{t.rule}</td>
             </tr>
           ))}
         </tbody>
       </table>
       <p class="plumb-check-summary">
-        Condition number {fmt(r.condition_number)} · PRESS {fmt(r.press)} · leave-one-out RMSE{" "}
-        {fmt(r.loo_rmse)}
+        Condition number {fmt(r.condition_number)} · PRESS{" "}
+        {withUnit(fmt(r.press), squaredUnit(plainUnit(r)))} · leave-one-out RMSE{" "}
+        {withUnit(fmt(r.loo_rmse), plainUnit(r))}
         {Object.keys(r.vif).length > 0 &&
           ` · VIF${r.vif_form === "uncentred" ? " (uncentred)" : ""} ${
             Object.entries(r.vif).map(([k, v]) => `${k} ${fmtVif(v)}`).join(", ")

@@ -10,7 +10,7 @@
 import type { VNode } from "preact";
 import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import type { CompareResult, CompareRow } from "./result.ts";
-import { formatNumber, formatP } from "../shared/format.ts";
+import { distinctTexts, formatNumber, formatP } from "../shared/format.ts";
 
 /**
  * Renders a compare result.
@@ -32,6 +32,7 @@ import { formatNumber, formatP } from "../shared/format.ts";
 export function CompareView({ name, result: r }: ViewProps<CompareResult>): VNode {
   const ranked = [...r.rows].sort((a, b) => (a.rank ?? Infinity) - (b.rank ?? Infinity));
   const deltaUnit = r.by === "loo" ? "Δ RMSE" : `Δ${r.criterion}`;
+  const texts = columnTexts(ranked);
   return (
     <section class="plumb-compare" aria-label={`Comparison ${name}`}>
       <p class="plumb-compare-verdict">{r.verdict}</p>
@@ -46,7 +47,9 @@ export function CompareView({ name, result: r }: ViewProps<CompareResult>): VNod
           </tr>
         </thead>
         <tbody>
-          {ranked.map((row) => <Row key={row.fit} row={row} preferred={r.preferred} />)}
+          {ranked.map((row, i) => (
+            <Row key={row.fit} row={row} texts={texts[i]} preferred={r.preferred} />
+          ))}
         </tbody>
       </table>
       {r.nested_tests.length > 0 && <NestedTable result={r} />}
@@ -61,7 +64,27 @@ export function CompareView({ name, result: r }: ViewProps<CompareResult>): VNod
   );
 }
 
-function Row({ row, preferred }: { row: CompareRow; preferred: string | null }): VNode {
+/** The numeric columns of the ranking, in table order, with their significant digits. */
+const COLUMNS: [keyof CompareRow, number][] = [
+  ["log_likelihood_original_scale", 6],
+  ["aic", 6],
+  ["aicc", 6],
+  ["bic", 6],
+  ["delta", 3],
+  ["weight", 3],
+  ["loo_rmse", 4],
+];
+
+/** Each row's texts: a column's distinct values never print alike (two AICc 0.004 apart). */
+function columnTexts(rows: CompareRow[]): string[][] {
+  const byColumn = COLUMNS.map(([key, sig]) =>
+    distinctTexts(rows.map((row) => row[key] as number | null), (x, e) => formatNumber(x, sig + e))
+  );
+  return rows.map((_, i) => byColumn.map((column) => column[i]));
+}
+
+function Row(props: { row: CompareRow; texts: string[]; preferred: string | null }): VNode {
+  const { row, preferred } = props;
   return (
     <tr class={row.fit === preferred ? "plumb-compare-preferred" : undefined}>
       <td>{row.rank ?? "—"}</td>
@@ -73,13 +96,7 @@ function Row({ row, preferred }: { row: CompareRow; preferred: string | null }):
       </td>
       <td>{row.n}</td>
       <td>{row.k}</td>
-      <td>{formatNumber(row.log_likelihood_original_scale, 6)}</td>
-      <td>{formatNumber(row.aic, 6)}</td>
-      <td>{formatNumber(row.aicc, 6)}</td>
-      <td>{formatNumber(row.bic, 6)}</td>
-      <td>{formatNumber(row.delta, 3)}</td>
-      <td>{formatNumber(row.weight, 3)}</td>
-      <td>{formatNumber(row.loo_rmse, 4)}</td>
+      {props.texts.map((t, i) => <td key={COLUMNS[i][0]}>{t}</td>)}
     </tr>
   );
 }

@@ -1,6 +1,6 @@
 /**
- * The fit cell's view: the model, a parameter table (estimate, standard
- * error, interval at the document's confidence level, t, p), the fit
+ * The fit cell's view: the model, a parameter table (estimate and its unit,
+ * standard uncertainty, interval at the document's confidence level, t, p), the fit
  * statistics (with known σ the Wald χ² of the slopes and the χ² goodness of
  * fit in place of the F test), the weighting stated plainly and the k
  * convention of the criteria. Shared by the live page and the static record, so it is plain
@@ -11,7 +11,16 @@
 import type { VNode } from "preact";
 import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import type { FitResult } from "./result.ts";
-import { formatNumber, formatR2 } from "../shared/format.ts";
+import {
+  formatEstimate,
+  formatIntervalAt,
+  formatNumber,
+  formatP,
+  formatR2,
+  formatUncertainty,
+  squaredUnit,
+  withUnit,
+} from "../shared/format.ts";
 
 /**
  * Renders a fit result.
@@ -39,6 +48,7 @@ import { formatNumber, formatR2 } from "../shared/format.ts";
 export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
   const level = `${formatNumber(100 * r.confidence, 4)}% interval`;
   const stat = r.inference === "normal" ? "z" : "t";
+  const notes = r.parameters.filter((p) => p.unit_note);
   return (
     <section class="plumb-fit" aria-label={`Fit ${name}`}>
       <p class="plumb-fit-model">
@@ -50,7 +60,8 @@ export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
           <tr>
             <th scope="col">Parameter</th>
             <th scope="col">Estimate</th>
-            <th scope="col">Std. error</th>
+            <th scope="col">Unit</th>
+            <th scope="col">Standard uncertainty</th>
             <th scope="col">{level}</th>
             <th scope="col">{stat}</th>
             <th scope="col">p</th>
@@ -62,15 +73,31 @@ export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
               <th scope="row">
                 <code>{p.name}</code>
               </th>
-              <td>{formatNumber(p.estimate, 6)}</td>
-              <td>{formatNumber(p.std_error, 3)}</td>
-              <td>{p.ci ? `${formatNumber(p.ci[0], 5)} … ${formatNumber(p.ci[1], 5)}` : "—"}</td>
+              <td>{formatEstimate(p.estimate, p.std_error)}</td>
+              <td class="plumb-unit">
+                <UnitCell unit={p.unit} note={p.unit_note} mark={notes.indexOf(p) + 1} />
+              </td>
+              <td>{formatUncertainty(p.std_error)}</td>
+              <td>{formatIntervalAt(p.ci, p.std_error, p.estimate, RANGE)}</td>
               <td>{formatNumber(p.t, 3)}</td>
               <td>{formatP(p.p_value)}</td>
             </tr>
           ))}
         </tbody>
       </table>
+      {notes.length > 0 && (
+        <ol class="plumb-fit-unit-notes">
+          {notes.map((p) => (
+            <li key={p.name}>
+              Unit of <code>{p.name}</code>: {p.unit_note}
+            </li>
+          ))}
+        </ol>
+      )}
+      <p class="plumb-fit-rounding">
+        Estimates and interval limits are given to the digit of the standard uncertainty's second
+        significant figure (GUM §7.2.6).
+      </p>
       <dl class="plumb-fit-statistics">
         {statistics(r).map((
           [term, value],
@@ -80,53 +107,68 @@ export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
   );
 }
 
-/** p-values keep their size: 3.2e-27 is shown as such, never as 0. */
-function formatP(p: number | null): string {
-  if (p === null) return "—";
-  return p < 1e-4 ? p.toExponential(1).replace("e+", "e") : formatNumber(p, 2);
+/** An interval's limits joined by an ellipsis, as the parameter table writes them. */
+const RANGE = { open: "", sep: " … ", close: "" };
+
+/** A parameter's unit, or a dash with a numbered note (its text as a hover and below the table). */
+function UnitCell(props: { unit: string | null; note: string | null; mark: number }): VNode {
+  if (props.note === null) return <>{props.unit ?? "—"}</>;
+  return (
+    <span title={props.note}>
+      {props.unit ?? "—"}
+      <sup>{props.mark}</sup>
+    </span>
+  );
 }
 
 function statistics(r: FitResult): [string, string][] {
   const uncentred = r.r2_kind === "uncentred" ? " (uncentred: no intercept)" : "";
   const nonlinear = r.method === "nonlinear" ? " (not the share of variance explained)" : "";
-  const weighted = r.weighted ? " (weighted)" : "";
+  const weighted = r.weighted ? ", weighted" : "";
+  const u = r.sigma_unit;
   const f = r.f_statistic === null
     ? "—"
-    : `${formatNumber(r.f_statistic, 5)} on ${r.p - 1} and ${r.df_residual} df, p ${
+    : `F(${r.p - 1}, ${r.df_residual}) = ${formatNumber(r.f_statistic, 5)}, p ${
       formatP(r.f_p_value)
     }`;
   const tests: [string, string][] = r.weighting === "absolute"
     ? [
+      ["Slopes jointly zero? Wald χ² with known σ", chi2(r.wald_chi2, r.wald_df, r.wald_p_value)],
       [
-        "Wald χ² (all terms but the intercept, known σ)",
-        chi2(r.wald_chi2, r.wald_df, r.wald_p_value),
+        "Scatter as the known σ predict? χ² = Σ((y − ŷ)/σ)²",
+        chi2(r.gof_chi2, r.gof_df, r.gof_p_value),
       ],
-      ["Goodness of fit χ² = Σ((y − ŷ)/σ)²", chi2(r.gof_chi2, r.gof_df, r.gof_p_value)],
-      ["Reduced χ² (χ²/df)", formatNumber(r.reduced_chi2, 4)],
+      ["χ² per degree of freedom", formatNumber(r.reduced_chi2, 4)],
     ]
-    : [["F (all terms but the intercept)", f]];
+    : [["Do the terms beyond the intercept help? Joint F test", f]];
   return [
-    ["Rows used", String(r.n)],
-    ["Parameters", String(r.p)],
-    ["Residual degrees of freedom", String(r.df_residual)],
-    [`Residual sum of squares${weighted}`, formatNumber(r.rss, 6)],
-    ["Residual standard error σ", formatNumber(r.sigma, 4)],
-    ["R²", formatR2(r.r2) + uncentred + nonlinear],
-    ["Adjusted R²", formatR2(r.adj_r2)],
+    ["Rows in the fit", String(r.n)],
+    ["Parameters estimated", String(r.p)],
+    ["Degrees of freedom left", String(r.df_residual)],
+    [
+      `Sum of squared residuals${weighted}`,
+      withUnit(formatNumber(r.rss, 6), r.weighted ? null : squaredUnit(u)),
+    ],
+    [
+      "Scatter about the model, σ = √(RSS/df)",
+      withUnit(formatNumber(r.sigma, 4), r.weighted ? null : u),
+    ],
+    ["Share of variation explained, R²", formatR2(r.r2) + uncentred + nonlinear],
+    ["R² adjusted for the parameters", formatR2(r.adj_r2)],
     ...tests,
     ["Log-likelihood (Gaussian)", formatNumber(r.log_likelihood, 6)],
     ["AIC", formatNumber(r.aic, 6)],
     ["AICc", formatNumber(r.aicc, 6)],
     ["BIC", formatNumber(r.bic, 6)],
     ["Parameters counted by the criteria", `${r.k} (${r.k_convention})`],
-    ["Response", r.response],
+    ["Response", withUnit(r.response, u ? `(${u})` : null)],
   ];
 }
 
-/** `12.3 on 2 df, p 0.002`, or — when the test is not given. */
+/** `χ²(2) = 12.3, p 0.002`, or — when the test is not given. */
 function chi2(x: number | null, df: number | null, p: number | null): string {
   if (x === null || df === null) return "—";
-  return `${formatNumber(x, 5)} on ${df} df, p ${formatP(p)}`;
+  return `χ²(${df}) = ${formatNumber(x, 5)}, p ${formatP(p)}`;
 }
 
 /** The `fit` kind's page face: its view, for the live page and the record. */

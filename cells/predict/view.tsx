@@ -11,8 +11,14 @@
  */
 import type { VNode } from "preact";
 import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
-import type { PredictPointResult, PredictResult } from "./result.ts";
-import { formatInterval, formatNumber } from "../shared/format.ts";
+import type { PredictPointResult, PredictResult, PredictSolveResult } from "./result.ts";
+import {
+  formatEstimate,
+  formatIntervalAt,
+  formatNumber,
+  formatUncertainty,
+  withUnit,
+} from "../shared/format.ts";
 
 /**
  * Renders a predict result.
@@ -45,6 +51,7 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
     ? "sigma"
     : null;
   const means = r.at.find((p) => p.mean_estimates)?.mean_estimates ?? [];
+  const yUnit = r.at.find((p) => p.unit)?.unit ?? null;
   return (
     <section class="plumb-predict" aria-label={`Predictions ${name}`}>
       <p class="plumb-predict-basis">
@@ -60,12 +67,14 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
           <thead>
             <tr>
               {columns.map((c) => <th scope="col" key={c}>{c}</th>)}
-              <th scope="col">{r.estimate_is ? "Estimate (median)" : "Estimate"}</th>
-              <th scope="col">Std. error ({r.se_scale})</th>
-              <th scope="col">Std. error, new observation ({r.se_scale})</th>
+              <th scope="col">
+                {headed(r.estimate_is ? "Estimate (median)" : "Estimate", yUnit)}
+              </th>
+              <th scope="col">Standard uncertainty, mean ({r.se_scale})</th>
+              <th scope="col">Standard uncertainty, new observation ({r.se_scale})</th>
               {own && <th scope="col">{own === "weight" ? "Weight w₀" : "σ₀"}</th>}
-              <th scope="col">{level} mean response</th>
-              <th scope="col">{level} new observation</th>
+              <th scope="col">{headed(`${level} mean response`, yUnit)}</th>
+              <th scope="col">{headed(`${level} new observation`, yUnit)}</th>
               {means.map((m) => <th scope="col" key={m.method}>{meanHeader(m.method, level)}</th>)}
             </tr>
           </thead>
@@ -78,12 +87,12 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
                     {p.extrapolated ? " (extrapolated)" : ""}
                   </td>
                 ))}
-                <td>{formatNumber(p.estimate, 6)}</td>
-                <td>{formatNumber(p.se_fit, 3)}</td>
-                <td>{formatNumber(p.se_prediction, 3)}</td>
+                <td>{formatEstimate(p.estimate, p.se_fit)}</td>
+                <td>{formatUncertainty(p.se_fit)}</td>
+                <td>{formatUncertainty(p.se_prediction)}</td>
                 {own && <td>{formatNumber(ownValue(p, own), 4)}</td>}
-                <td>{formatInterval(p.ci)}</td>
-                <td>{formatInterval(p.pi)}</td>
+                <td>{formatIntervalAt(p.ci, p.se_fit, p.estimate)}</td>
+                <td>{formatIntervalAt(p.pi, p.se_prediction, p.estimate)}</td>
                 {means.map((m, k) => <td key={m.method}>{meanCell(p, k)}</td>)}
               </tr>
             ))}
@@ -103,9 +112,9 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
           <tbody>
             {r.solve.map((s, i) => (
               <tr key={i}>
-                <td>{entries(s.y)}</td>
-                <td>{entries(s.x)}{s.extrapolated ? " (extrapolated)" : ""}</td>
-                <td>{formatInterval(s.ci)}</td>
+                <td>{entries(s.y, yUnit)}</td>
+                <td>{solved(s)}{s.extrapolated ? " (extrapolated)" : ""}</td>
+                <td>{withUnit(solvedInterval(s), s.unit)}</td>
                 <td>{s.method}, for {s.interval_for}</td>
               </tr>
             ))}
@@ -129,11 +138,42 @@ function meanCell(p: PredictPointResult, k: number): string {
   if (m === undefined) return "—";
   return m.ci === null
     ? formatNumber(m.estimate, 6)
-    : `${formatNumber(m.estimate, 6)} ${formatInterval(m.ci)}`;
+    : `${formatNumber(m.estimate, 6)} ${formatIntervalAt(m.ci, p.se_fit, m.estimate)}`;
 }
 
-function entries(v: Record<string, number>): string {
-  return Object.entries(v).map(([k, x]) => `${k} = ${formatNumber(x, 6)}`).join(", ");
+/** `capacity = 2300 mAh`: given values as written, with their unit. */
+function entries(v: Record<string, number>, unit: string | null): string {
+  return Object.entries(v).map(([k, x]) => withUnit(`${k} = ${formatNumber(x, 6)}`, unit)).join(
+    ", ",
+  );
+}
+
+/** The solved x, to the digits its interval supports (a quarter of its width as the uncertainty). */
+function solved(s: PredictSolveResult): string {
+  const u = solveUncertainty(s);
+  return Object.entries(s.x).map(([k, x]) => withUnit(`${k} = ${formatEstimate(x, u)}`, s.unit))
+    .join(", ");
+}
+
+function solvedInterval(s: PredictSolveResult): string {
+  const x = Object.values(s.x)[0] ?? null;
+  return formatIntervalAt(s.ci, solveUncertainty(s), x);
+}
+
+/**
+ * An inverse prediction has no standard error of its own (its interval is
+ * Fieller's or the band's, not ±t·se): the half-width over 2 stands in for
+ * one, so the digits follow the interval (our rule, in the spirit of GUM §7.2.6).
+ */
+function solveUncertainty(s: PredictSolveResult): number | null {
+  if (s.ci === null || s.ci[0] === null || s.ci[1] === null) return null;
+  const w = (s.ci[1] - s.ci[0]) / 4;
+  return Number.isFinite(w) && w > 0 ? w : null;
+}
+
+/** `header (unit)`, or the header alone. */
+function headed(text: string, unit: string | null): string {
+  return unit ? `${text} (${unit})` : text;
 }
 
 /** The `predict` kind's page face: its view, for the live page and the record. */

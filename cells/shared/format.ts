@@ -97,3 +97,30 @@ export function formatDuration(ms: number): string {
 export function formatInterval(v: [number, number] | null, sig = 5): string {
   return v === null ? "—" : `[${formatNumber(v[0], sig)}, ${formatNumber(v[1], sig)}]`;
 }
+
+/**
+ * A value followed by its unit, or the value alone.
+ *
+ * @param text The formatted value.
+ * @param unit The unit, or null/undefined/"" for none.
+ * @returns `1.71 mAh`, or `1.71`.
+ */
+export function withUnit(text: string, unit: string | null | undefined): string {
+  return unit ? `${text} ${unit}` : text;
+}
+
+/**
+ * The unit of a square (a sum of squares, a variance): `mAh²`, `(m/s)²`.
+ *
+ * @param unit The unit, or null.
+ * @returns The squared unit, or null.
+ * @example
+ * ```ts
+ * import { squaredUnit } from "./format.ts";
+ * if (squaredUnit("mAh") !== "mAh²" || squaredUnit("m/s") !== "(m/s)²") throw new Error();
+ * ```
+ */
+export function squaredUnit(unit: string | null | undefined): string | null {
+  if (!unit) return null;
+  return /^[\p{L}°Ωµ]+$/u.test(unit) ? `${unit}²` : `(${unit})²`;
+}

@@ -10,9 +10,14 @@
  * share a colour (eight slots); charts therefore also label each curve by
  * name at its end, so colour never carries meaning alone (DESIGN.md §7a).
  *
- * Colours: the colour-blind-safe set of Okabe & Ito, "Color Universal
- * Design" (2008), with its yellow (#F0E442) darkened to #9A7D00 for contrast
- * on white paper (our change).
+ * Colours: our own eight, built on the hues of Okabe & Ito's colour-blind-
+ * safe set ("Color Universal Design", 2008) and darkened where needed so
+ * that every curve stands at least 3:1 against white paper (WCAG 2.1,
+ * success criterion 1.4.11, non-text contrast; tested in
+ * palette_contrast_test.ts) and at least ΔE 20 (CIE76) from each other and
+ * from the data's ink, with no black, so a curve never reads as an axis or
+ * as data. Data are drawn in {@link INK} as open rings,
+ * flagged rows in {@link FLAG_INK}.
  *
  * FNV-1a: Fowler, Noll & Vo, offset basis 2166136261, prime 16777619
  * (IETF draft "The FNV Non-Cryptographic Hash Algorithm"; constants from memory).
@@ -23,17 +28,23 @@
 /** Eight colour-blind-safe curve colours, in slot order. */
 export const FIT_PALETTE: readonly string[] = [
   "#0072B2", // blue
-  "#D55E00", // vermillion
-  "#009E73", // bluish green
-  "#CC79A7", // reddish purple
-  "#E69F00", // orange
-  "#56B4E9", // sky blue
-  "#9A7D00", // dark yellow
-  "#000000", // black
+  "#C4520A", // burnt vermillion
+  "#00876A", // deep bluish green
+  "#B04F8C", // plum
+  "#A86F00", // ochre
+  "#6358C4", // slate violet
+  "#5C7A1F", // moss
+  "#7A3E2B", // umber
 ];
 
 /** Ink for data points and reference lines: neutral, never a fit colour. */
 export const INK = "#555555";
+
+/** Ink for rows a check flags (its findings' rows) and the thresholds they cross. */
+export const FLAG_INK = "#8A1C1C";
+
+/** Ink for grid lines and secondary rules. */
+export const FAINT_INK = "#D4D4D4";
 
 /**
  * 32-bit FNV-1a hash of a string's UTF-8 bytes.

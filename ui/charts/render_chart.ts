@@ -3,10 +3,11 @@
  * or on the server (pass linkedom's document): the same code, so the live
  * page and the static record show the same chart.
  *
- * The style every Plumb chart shares (DESIGN.md §7a): units in the axis
- * labels, reference lines only where they mean something (zero on a
- * residual panel), data in neutral ink, each fit in its own colour
- * ({@link fitColor}) and labelled by name at the end of its curve.
+ * The style every Plumb chart shares (`_style.ts`; DESIGN.md §7a): units in
+ * the axis labels, reference lines only where they mean something (zero on a
+ * residual panel), data as open rings in neutral ink, each fit in its own
+ * colour ({@link fitColor}) and labelled by name at the end of its curve,
+ * the labels spread so that none overlaps another (`_labels.ts`).
  *
  * @module
  */
@@ -14,11 +15,13 @@ import * as Plot from "@observablehq/plot";
 import type { ChartData } from "../../cells/shared/chart_data.ts";
 import { INK } from "../../cells/shared/palette.ts";
 import { type Panel, stackPanels } from "./_svg.ts";
+import { axisX, axisY, PLOT_BASE, referenceY, rings, SMALL_TEXT } from "./_style.ts";
+import { spreadLabels } from "./_labels.ts";
 
 /** Size of the chart: width, main panel height and residual panel height, px. */
 export const CHART_SIZE = { width: 640, height: 360, residualHeight: 170 } as const;
 
-const MARGIN_LEFT = 64;
+const MARGIN_LEFT = 72;
 
 /**
  * Renders a chart's data to SVG markup ({@link renderChart}'s `outerHTML`).
@@ -53,36 +56,35 @@ export function renderChartSvg(data: ChartData, document: Document): string {
  * @returns The `<svg>` element (not attached).
  */
 export function renderChart(data: ChartData, document: Document): SVGSVGElement {
-  const marginRight = 12 + 6.5 * Math.max(0, ...data.curves.map((c) => c.fit.length));
-  const margins = { marginLeft: MARGIN_LEFT, marginRight, marginTop: 20, marginBottom: 40 };
-  const x = {
+  const marginRight = 16 + 6.2 * Math.max(0, ...data.curves.map((c) => c.fit.length));
+  const margins = { marginLeft: MARGIN_LEFT, marginRight, marginTop: 16, marginBottom: 44 };
+  const x = axisX(data.x.label, {
     type: data.x.log ? "log" : "linear",
-    label: data.x.label,
     domain: data.x.domain,
     nice: true,
-  } as const;
-  const panels: Panel[] = [
-    Plot.plot({
-      document,
-      className: "plumb-plot",
-      width: CHART_SIZE.width,
-      height: CHART_SIZE.height,
-      ...margins,
-      x,
-      y: { type: data.y.log ? "log" : "linear", label: data.y.label, grid: true, nice: true },
-      color: { type: "log", range: ["#d9d9d9", "#262626"], interpolate: "lab" },
-      marks: mainMarks(data),
-    }),
-  ];
+  });
+  const main = Plot.plot({
+    document,
+    ...PLOT_BASE,
+    width: CHART_SIZE.width,
+    height: CHART_SIZE.height,
+    ...margins,
+    x,
+    y: axisY(data.y.label, { type: data.y.log ? "log" : "linear", nice: true }),
+    color: { type: "log", range: ["#e4e4e4", "#262626"], interpolate: "lab" },
+    marks: mainMarks(data),
+  });
+  endLabels(main, data, document);
+  const panels: Panel[] = [main];
   if (data.residuals) {
     panels.push(Plot.plot({
       document,
-      className: "plumb-plot",
+      ...PLOT_BASE,
       width: CHART_SIZE.width,
       height: CHART_SIZE.residualHeight,
       ...margins,
       x,
-      y: { label: data.residuals.label, grid: true, nice: true },
+      y: axisY(data.residuals.label, { nice: true, ticks: 3 }),
       marks: residualMarks(data),
     }));
   }
@@ -91,6 +93,38 @@ export function renderChart(data: ChartData, document: Document): SVGSVGElement 
     note: note(data),
     label: `${data.y.label} against ${data.x.label}`,
   });
+}
+
+/** Least vertical distance between two end labels, px. */
+const LABEL_GAP = SMALL_TEXT + 3;
+
+/**
+ * Writes each curve's name at its right end, the names spread by
+ * {@link spreadLabels} so that none overlaps another.
+ */
+function endLabels(plot: SVGSVGElement | HTMLElement, data: ChartData, document: Document): void {
+  const p = plot as unknown as Plot.Plot;
+  const sx = p.scale("x"), sy = p.scale("y");
+  if (!sx?.apply || !sy?.apply) return;
+  const ends = data.curves.map((c) => {
+    const last = c.y.findLastIndex((v) => v !== null);
+    return last < 0 ? null : { c, x: sx.apply!(data.grid[last]), y: sy.apply!(c.y[last]) };
+  }).filter((e): e is NonNullable<typeof e> => e !== null && Number.isFinite(e.y));
+  const placed = spreadLabels(ends.map((e) => e.y), LABEL_GAP, 10, CHART_SIZE.height - 44);
+  const g = document.createElementNS("http://www.w3.org/2000/svg", "g");
+  g.setAttribute("aria-label", "curve labels");
+  g.setAttribute("font-size", String(SMALL_TEXT + 1));
+  ends.forEach((e, i) => {
+    const t = document.createElementNS("http://www.w3.org/2000/svg", "text");
+    t.setAttribute("x", String(e.x + 10));
+    t.setAttribute("y", String(placed[i]));
+    t.setAttribute("dy", "0.32em");
+    t.setAttribute("fill", e.c.color);
+    t.setAttribute("aria-description", `label ${e.c.fit}`);
+    t.textContent = e.c.fit;
+    g.appendChild(t);
+  });
+  plot.appendChild(g);
 }
 
 function mainMarks(data: ChartData): Plot.Markish[] {
@@ -106,17 +140,7 @@ function mainMarks(data: ChartData): Plot.Markish[] {
       inset: 0,
       ariaDescription: "binned rows",
     }));
-  } else if (data.data) {
-    const d = data.data;
-    marks.push(Plot.dot(d.x, {
-      x: d.x,
-      y: d.y,
-      r: 2.2,
-      fill: INK,
-      fillOpacity: 0.7,
-      ariaDescription: "rows",
-    }));
-  }
+  } else if (data.data) marks.push(rings(data.data.x, data.data.y, "rows"));
   const g = data.grid;
   if (data.band) {
     const band = data.band;
@@ -125,51 +149,35 @@ function mainMarks(data: ChartData): Plot.Markish[] {
       y1: band.lo,
       y2: band.hi,
       fill: band.color,
-      fillOpacity: 0.16,
+      fillOpacity: 0.14,
       ariaDescription: `band ${band.fit}`,
     }));
+    for (const edge of [band.lo, band.hi]) {
+      marks.push(
+        Plot.line(g, { x: g, y: edge, stroke: band.color, strokeWidth: 0.6, strokeOpacity: 0.6 }),
+      );
+    }
   }
   for (const c of data.curves) {
     marks.push(Plot.line(g, {
       x: g,
       y: c.y,
       stroke: c.color,
-      strokeWidth: 1.8,
+      strokeWidth: 2,
       ariaDescription: `curve ${c.fit}`,
     }));
-    const last = c.y.findLastIndex((v) => v !== null);
-    if (last >= 0) {
-      marks.push(Plot.text([c.fit], {
-        x: [g[last]],
-        y: [c.y[last]],
-        text: [c.fit],
-        fill: c.color,
-        textAnchor: "start",
-        dx: 5,
-        ariaDescription: `label ${c.fit}`,
-      }));
-    }
   }
   return marks;
 }
 
 function residualMarks(data: ChartData): Plot.Markish[] {
   const r = data.residuals!;
-  const marks: Plot.Markish[] = [
-    Plot.ruleY([0], { stroke: INK, ariaDescription: "zero residual" }),
-  ];
+  const marks: Plot.Markish[] = [...referenceY(0, "", false, "zero residual")];
   for (const s of r.series) {
     marks.push(
       r.binned
         ? Plot.line(s.x, { x: s.x, y: s.r, stroke: s.color, ariaDescription: `residuals ${s.fit}` })
-        : Plot.dot(s.x, {
-          x: s.x,
-          y: s.r,
-          r: 1.8,
-          fill: s.color,
-          fillOpacity: 0.75,
-          ariaDescription: `residuals ${s.fit}`,
-        }),
+        : rings(s.x, s.r, `residuals ${s.fit}`, s.color),
     );
   }
   return marks;
