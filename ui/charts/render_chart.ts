@@ -13,7 +13,6 @@
  */
 import * as Plot from "@observablehq/plot";
 import type { ChartData } from "../../cells/shared/chart_data.ts";
-import { INK } from "../../cells/shared/palette.ts";
 import { type Panel, stackPanels } from "./_svg.ts";
 import { axisX, axisY, PLOT_BASE, referenceY, rings, SMALL_TEXT } from "./_style.ts";
 import { spreadLabels } from "./_labels.ts";
