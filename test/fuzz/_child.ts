@@ -12,7 +12,7 @@
  */
 import process from "node:process";
 import { loadCorpus } from "./_corpus.ts";
-import { Defect, uncaught } from "./_oracle.ts";
+import { Defect, signature, uncaught } from "./_oracle.ts";
 import { inputRng } from "./_rng.ts";
 import { shrink } from "./_shrink.ts";
 import { targetNamed } from "./targets/mod.ts";
@@ -78,6 +78,7 @@ async function main(): Promise<void> {
   const [jobPath, fromText, toText] = Deno.args;
   const job: Job = JSON.parse(Deno.readTextFileSync(jobPath));
   loadCorpus();
+  const shrunk = new Set<string>();
   emit({ ready: true });
   for (let i = Number(fromText); i < Number(toText); i++) {
     const { target, input } = inputOf(job, i);
@@ -88,7 +89,11 @@ async function main(): Promise<void> {
       continue;
     }
     const d = { kind: defect.kind, message: defect.message, where: defect.where };
-    const small = job.mode === "generate" && job.shrink && defect.kind !== "slow"
+    // Shrink the first failure of each kind only: a run of 100,000 may repeat one defect hundreds of times.
+    const sig = signature(target.name, defect);
+    const fresh = !shrunk.has(sig);
+    shrunk.add(sig);
+    const small = job.mode === "generate" && job.shrink && defect.kind !== "slow" && fresh
       ? await shrink(
         target,
         input,
