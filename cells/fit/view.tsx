@@ -39,6 +39,7 @@ import {
  *   gof_df: null, gof_p_value: null, reduced_chi2: null, log_likelihood: null, k: 3, k_convention: "k = p + 1", aic: null, aicc: null,
  *   bic: null, confidence: 0.95, inference: "t", weighting: "none", weighting_statement: "unweighted",
  *   condition_number: 1, fitted: [], residuals: [], rows: [], rows_missing: [], converged: true,
+ *   sigma_unit: "mAh",
  *   iterations: 1,
  *   rank_deficient: null,
  * } }));

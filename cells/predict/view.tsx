@@ -35,9 +35,9 @@ import {
  *   weight_source: "none: the fit is unweighted", covariance: "the fit's: s²(XᵀX)⁻¹",
  *   robust: null, mean_method: "exact",
  *   at: [{ x: { x: 2 }, estimate: 5, se_fit: 0.1, ci: [4.8, 5.2], pi: [4, 6],
- *     se_prediction: 0.44, extrapolated: false }],
+ *     se_prediction: 0.44, extrapolated: false, unit: "mAh" }],
  *   solve: [{ y: { y: 5 }, x: { x: 2 }, ci: [1.5, 2.5], method: "fieller",
- *     interval_for: "a new single observation of the response", extrapolated: false }],
+ *     interval_for: "a new single observation of the response", extrapolated: false, unit: "s" }],
  * } }));
  * if (!html.includes("fieller")) throw new Error(html);
  * ```
