@@ -105,3 +105,42 @@ Deno.test("record bytes are the same for the same inputs with SOURCE_DATE_EPOCH"
   match(a, /2026-01-01T00:00:00Z/);
   ok(!/\d+ ms\b/.test(parseHTML(a).document.querySelector("#provenance")!.textContent!));
 });
+
+Deno.test("record: a view that cannot draw its result costs only that result", () => {
+  const cell = (name: string, kind: string, result: unknown) => ({
+    name,
+    kind,
+    line: 1,
+    state: "current" as const,
+    error: null,
+    warnings: [],
+    result,
+    summaryLine: null,
+    ms: 0,
+    cached: false,
+  });
+  const html = renderRecord({
+    title: "Broken view",
+    document: { path: "x.md", sha256: "0".repeat(64), bytes: 1 },
+    blocks: [
+      { type: "cell", name: "c", kind: "check", line: 1, body: "fit: f\n" },
+      { type: "prose", line: 5, text: "After the cell." },
+    ],
+    cells: [cell("c", "check", { findings: null })],
+    errors: [],
+    files: [],
+    settings: {
+      title: "Broken view",
+      confidence: 0.95,
+      seed: 1,
+      criterion: "aicc",
+      maxFileBytes: 1,
+      extra: {},
+    },
+    versions: { plumb: "0", deno: "0", v8: "0", os: "test" },
+    run: { utc: "2026-01-01T00:00:00Z", ms: null, reproducible: true },
+  });
+  match(html, /This result could not be drawn in the record: /);
+  match(html, /After the cell\./);
+  match(html, /id="provenance"/);
+});

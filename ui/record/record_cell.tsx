@@ -6,7 +6,8 @@
  *
  * @module
  */
-import type { VNode } from "preact";
+import { h, type VNode } from "preact";
+import { renderToString } from "preact-render-to-string";
 import type { CellReport } from "../../kernel/session/types.ts";
 import { pages } from "../../cells/pages.ts";
 import { GenericView } from "../generic_view.tsx";
@@ -60,12 +61,35 @@ export function RecordCell(props: { block: CellBlock; report: CellReport | undef
         </ul>
       )}
       {state === "current" && report !== undefined && (
-        <div class="pl-result">
-          {View === undefined
-            ? <GenericView result={report.result} summaryLine={report.summaryLine} />
-            : <View name={block.name} result={report.result} />}
-        </div>
+        <ResultOf View={View} name={block.name} report={report} />
       )}
     </section>
   );
+}
+
+/**
+ * The kind's view drawn on its own, so that a view that throws costs only
+ * its own result (said in words) and not the whole record.
+ */
+function ResultOf(props: {
+  View: ((p: { name: string; result: unknown }) => unknown) | undefined;
+  name: string;
+  report: CellReport;
+}): VNode {
+  const { View, name, report } = props;
+  let html: string;
+  try {
+    html = View === undefined
+      ? renderToString(h(GenericView, { result: report.result, summaryLine: report.summaryLine }))
+      : renderToString(
+        h(View as (p: { name: string; result: unknown }) => VNode, { name, result: report.result }),
+      );
+  } catch (err) {
+    return (
+      <p class="pl-error">
+        ✕ This result could not be drawn in the record: {(err as Error).message}
+      </p>
+    );
+  }
+  return <div class="pl-result" dangerouslySetInnerHTML={{ __html: html }} />;
 }
