@@ -54,12 +54,13 @@ function frameQueue(store: LiveStore): { push(msg: ServerMessage): void } {
  * Connects the store to the server.
  *
  * @param store The page's store.
- * @param url The WebSocket URL (default: `/live` on this page's host).
+ * @param url The WebSocket URL (default: `/live?text=changed` on this page's host: the
+ *   document's text is sent only when it changed, see kernel/server/live_channel.ts).
  * @returns A function that closes the connection for good.
  */
 export function connectLive(store: LiveStore, url?: string): () => void {
   const target = url ??
-    `${location.protocol === "https:" ? "wss:" : "ws:"}//${location.host}/live`;
+    `${location.protocol === "https:" ? "wss:" : "ws:"}//${location.host}/live?text=changed`;
   let pause = 250;
   let closed = false;
   let ws: WebSocket | null = null;

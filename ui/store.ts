@@ -157,7 +157,13 @@ export class LiveStore {
     return false;
   }
 
-  #document(msg: DocumentMessage): boolean {
+  #document(sent: DocumentMessage): boolean {
+    // The page asks for the text only when it changed (`/live?text=changed`): a data-only
+    // update of the version it has comes without `source` and `blocks`, which it keeps.
+    const had = this.doc.value;
+    const textless = (sent as Partial<DocumentMessage>).blocks === undefined;
+    if (textless && (had === null || had.version !== sent.version)) return this.#drop();
+    const msg = textless ? { ...sent, source: had!.source, blocks: had!.blocks } : sent;
     batch(() => {
       const names = new Set<string>();
       for (const b of msg.blocks) {

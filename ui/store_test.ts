@@ -29,3 +29,18 @@ Deno.test("LiveStore.apply keeps the blocks of a document whose text is unchange
   notEqual(s.doc.value!.blocks, blocks);
   equal(s.doc.value!.version, "v2");
 });
+
+Deno.test("LiveStore.apply takes a data-only document message without its text", () => {
+  const s = new LiveStore(() => 0);
+  s.apply(doc("a", 3));
+  const blocks = s.doc.value!.blocks;
+  const { source: _s, blocks: _b, ...textless } = doc("a", 5);
+  s.apply(textless as DocumentMessage);
+  equal(s.doc.value!.blocks, blocks);
+  equal(s.doc.value!.source, "a");
+  equal(s.doc.value!.data[0].rows, 5);
+  // Without the text, a message for a version the page does not have cannot be applied.
+  const { source: _s2, blocks: _b2, ...other } = doc("b", 6);
+  equal(s.apply(other as DocumentMessage), false);
+  equal(s.doc.value!.version, "v1");
+});
