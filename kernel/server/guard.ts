@@ -5,7 +5,7 @@
  *  request ─▶ Host allowed? ──no──▶ 421 (DNS rebinding: a page on a foreign
  *              │                        name resolving to 127.0.0.1)
  *              ▼
- *           /?token=T  ──T right──▶ 303 to /, Set-Cookie plumb_token=T
+ *           /enter/T   ──T right──▶ 303 to /, Set-Cookie plumb_token=T
  *              │                    (HttpOnly, SameSite=Strict)
  *              ▼
  *           cookie right? ──no──▶ 401
@@ -17,6 +17,9 @@
  * @module
  */
 import { TOKEN_COOKIE, TOKEN_HEADER } from "./protocol.ts";
+
+/** The path that exchanges the printed key for the cookie: `/enter/<token>`. */
+export const ENTER = "/enter/";
 
 /** What the guard knows about the server it protects. */
 export interface GuardContext {
@@ -126,8 +129,8 @@ export function checkRequest(req: Request, ctx: GuardContext): Response | null {
   if (!ctx.hosts.has(host.toLowerCase())) {
     return refuse(421, `Host "${host}" is not this server: open the printed URL`, json);
   }
-  const given = url.searchParams.get("token");
-  if (given !== null && req.method === "GET" && url.pathname === "/") {
+  const given = url.pathname.startsWith(ENTER) ? url.pathname.slice(ENTER.length) : null;
+  if (given !== null && req.method === "GET") {
     if (!sameSecret(given, ctx.token)) {
       return refuse(401, "Wrong token: open the printed URL", json);
     }

@@ -3,7 +3,7 @@
  *
  * ```
  *  browser                                         server (127.0.0.1)
- *   │ GET /?token=T ──▶ 303 to /, Set-Cookie plumb_token=T (HttpOnly, SameSite=Strict)
+ *   │ GET /enter/T ──▶ 303 to /, Set-Cookie plumb_token=T (HttpOnly, SameSite=Strict)
  *   │ GET /  ──▶ HTML shell loading /app.<hash>.js (and CSS)
  *   │ GET /live (WebSocket, same Origin, cookie)
  *   │   ◀── document {version, path, title, source, blocks, data}   on connect and on change

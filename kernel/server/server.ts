@@ -121,7 +121,7 @@ export async function startServer(opts: ServerOptions): Promise<LiveServer> {
     void workspace.request(paths);
   }, opts.debounceMs);
   return {
-    url: `http://${hostname}:${port}/?token=${token}`,
+    url: `http://${hostname}:${port}/enter/${token}`,
     hostname,
     port,
     token,

@@ -60,7 +60,7 @@ Deno.test("plumb serve prints the URL and serves the page and its bundle until s
   try {
     const [url, origin] = await readUntil(
       reader,
-      /(http:\/\/127\.0\.0\.1:\d+)\/\?token=\w+/,
+      /(http:\/\/127\.0\.0\.1:\d+)\/enter\/\w+/,
       60000,
     );
     const ex = await fetch(url, { redirect: "manual" });

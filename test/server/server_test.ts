@@ -110,7 +110,7 @@ Deno.test("startServer() exchanges the URL's token for an HttpOnly SameSite=Stri
     const page = await fetch(`${ctx.origin}/`, { headers: { cookie: ctx.cookie } });
     equal(page.status, 200);
     match(await page.text(), new RegExp(`content="${ctx.server.token}"`));
-    match(ctx.server.url, /^http:\/\/127\.0\.0\.1:\d+\/\?token=[0-9a-f]{32}$/);
+    match(ctx.server.url, /^http:\/\/127\.0\.0\.1:\d+\/enter\/[0-9a-f]{32}$/);
   });
 });
 
@@ -119,7 +119,7 @@ Deno.test("startServer() answers 401 without the token, with a wrong one and wit
     for (
       const [url, headers] of [
         [`${ctx.origin}/`, {}],
-        [`${ctx.origin}/?token=${"0".repeat(32)}`, {}],
+        [`${ctx.origin}/enter/${"0".repeat(32)}`, {}],
         [`${ctx.origin}/`, { cookie: `plumb_token=${"0".repeat(32)}` }],
       ] as const
     ) {
