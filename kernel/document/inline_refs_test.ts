@@ -68,3 +68,17 @@ Deno.test("findInlineRefs() gives document offsets and lines for prose after a c
     [8, 20, "@(a.n)"],
   ]);
 });
+
+Deno.test("findInlineRefs() stays linear in code-span runs that never close", () => {
+  // Before: each unclosed run scanned to the paragraph's end; one line of
+  // "`a``" 40,000 times took 1.5-3 s (fuzz fixture document-hang-code-spans).
+  const text = "`a``".repeat(100_000) + " @(fit.r2)\n\n`x` @(b.c) ``y`` `` @(d.e)\n";
+  const doc = parseDocument(text);
+  const prose = doc.blocks[0];
+  if (prose.type !== "prose") throw new Error("expected prose");
+  const { refs, errors } = findInlineRefs(prose);
+  assert.deepEqual(errors, []);
+  // The runs are 1, then 3s (`` + ` merge), then 2: none closes, so no span
+  // hides @(fit.r2); in the next paragraph `x` and ``y`` close and "``" does not.
+  assert.deepEqual(refs.map((r) => r.cell), ["fit", "b", "d"]);
+});

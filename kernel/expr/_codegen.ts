@@ -26,6 +26,7 @@
 import type { Expr } from "./expr.ts";
 import { ExprError } from "./expr_error.ts";
 import { FUNCTIONS } from "./functions.ts";
+import { makeInterner } from "./_interner.ts";
 
 /** How an identifier appears in the source and whether it changes per row. */
 export interface Resolved {
@@ -80,8 +81,14 @@ export function generate(e: Expr, resolve: (node: IdNode) => Resolved, hoist: bo
   const count = new Map<string, number>();
   const varies = new Map<Expr, boolean>();
   const ids = new Map<Expr, string>();
+  const intern = makeInterner();
 
   const analyse = (n: Expr): string => {
+    const known = key.get(n); // a subtree shared by reference (derivatives share them)
+    if (known !== undefined) {
+      count.set(known, count.get(known)! + 1);
+      return known;
+    }
     const kids = children(n);
     const ks = kids.map(analyse);
     let k: string;
@@ -92,9 +99,9 @@ export function generate(e: Expr, resolve: (node: IdNode) => Resolved, hoist: bo
       ids.set(n, r.code);
       k = `i${r.code}`;
       v = r.varies;
-    } else if (n.op === "neg") k = `(-${ks[0]})`;
-    else if (n.op === "call") k = `${n.fn}(${ks.join(",")})`;
-    else k = `(${ks[0]}${n.op}${ks[1]})`;
+    } else if (n.op === "neg") k = intern(`(-${ks[0]})`);
+    else if (n.op === "call") k = intern(`${n.fn}(${ks.join(",")})`);
+    else k = intern(`(${ks[0]}${n.op}${ks[1]})`);
     key.set(n, k);
     varies.set(n, v);
     count.set(k, (count.get(k) ?? 0) + 1);

@@ -6,8 +6,8 @@
  * units) recurses once a level, and V8 refuses the generated row loop's
  * source when its parentheses nest a few thousand deep. Rather than make
  * each pass iterative, the parser refuses more than {@link MAX_NESTING}
- * nested parentheses, calls, signs and powers (counted while parsing, before
- * its own recursion runs out) and a tree deeper than {@link MAX_DEPTH}, where
+ * nested parentheses, calls and powers (counted while parsing, before its
+ * own recursion runs out; signs are read in a loop) and a tree deeper than {@link MAX_DEPTH}, where
  * each term of a sum or factor of a product counts one level (`a + b + c` is
  * `(a + b) + c`). Measured on two cores: every pass survives trees of 2,000
  * levels and code generation fails between 2,000 and 3,000. Nesting is held
@@ -21,7 +21,7 @@ import type { Expr } from "./expr.ts";
 import { ExprError } from "./expr_error.ts";
 import { at } from "./_lexer.ts";
 
-/** Most parentheses, calls, signs and powers one inside another. */
+/** Most parentheses, calls and powers one inside another. */
 export const MAX_NESTING = 100;
 
 /** Deepest expression tree accepted (a term of a sum or product counts one level). */
@@ -30,7 +30,7 @@ export const MAX_DEPTH = 500;
 /** The error for nesting past {@link MAX_NESTING} at `start` (an offset in the text). */
 export function tooNested(start: number, length: number): ExprError {
   return new ExprError(
-    `Expression nests more than ${MAX_NESTING} parentheses, calls, signs or powers at ${
+    `Expression nests more than ${MAX_NESTING} parentheses, calls or powers at ${
       at(start)
     }: the limit is ${MAX_NESTING}`,
     start,

@@ -119,18 +119,19 @@ export class Parser {
     return left;
   }
 
+  /** Signs then a power; a run of signs is read in a loop (5,000 signs cost no call stack). */
   #unary(): Expr {
-    if (this.#isSym("-") || this.#isSym("+")) {
-      const sign = this.#tokens[this.#pos++];
-      this.#enter(sign);
-      const arg = this.#unary();
-      this.#nesting--;
+    const signs: Token[] = [];
+    while (this.#isSym("-") || this.#isSym("+")) signs.push(this.#tokens[this.#pos++]);
+    let arg = this.#power();
+    for (let s = signs.length - 1; s >= 0; s--) {
+      const sign = signs[s];
       const start = sign.start, end = arg.end;
-      if (sign.text === "+") return { ...arg, start };
-      if (arg.op === "num") return { op: "num", value: -arg.value, start, end };
-      return { op: "neg", arg, start, end };
+      if (sign.text === "+") arg = { ...arg, start };
+      else if (arg.op === "num") arg = { op: "num", value: -arg.value, start, end };
+      else arg = { op: "neg", arg, start, end };
     }
-    return this.#power();
+    return arg;
   }
 
   #power(): Expr {

@@ -38,6 +38,7 @@
 import type { Expr } from "./expr.ts";
 import { ExprError } from "./expr_error.ts";
 import * as D from "./_dd_math.ts";
+import { makeInterner } from "./_interner.ts";
 
 /** A function evaluated in double-double (see the module header). */
 export type CompiledDD = (
@@ -140,6 +141,7 @@ export function compileDD(
   params: readonly string[],
 ): CompiledDD {
   check(e, columns, params);
+  const keyOf = structuralKeys();
   const nc = columns.length, np = params.length;
   return (colsHi, colsLo, paramsHi, paramsLo, n, outHi, outLo) => {
     if (colsHi.length !== nc || colsLo.length !== nc) {
@@ -161,7 +163,17 @@ export function compileDD(
     if (hi.length < n || lo.length < n) {
       throw new RangeError(`Output has ${Math.min(hi.length, lo.length)} rows: ${n} needed`);
     }
-    const ctx: Ctx = { columns, params, colsHi, colsLo, paramsHi, paramsLo, n, memo: new Map() };
+    const ctx: Ctx = {
+      columns,
+      params,
+      colsHi,
+      colsLo,
+      paramsHi,
+      paramsLo,
+      n,
+      memo: new Map(),
+      keyOf,
+    };
     const v = evaluate(e, ctx);
     for (let i = 0; i < n; i++) {
       hi[i] = v.c ? v.h : v.h[i];
@@ -180,6 +192,7 @@ interface Ctx {
   paramsLo: ArrayLike<number> | null;
   n: number;
   memo: Map<string, Val>;
+  keyOf: (e: Expr) => string;
 }
 
 /** Throws the errors {@link compile} would, before any row is seen. */
@@ -209,24 +222,40 @@ function check(e: Expr, columns: readonly string[], params: readonly string[]): 
   }
 }
 
-/** A structural key: equal subtrees are evaluated once. */
-function keyOf(e: Expr): string {
-  switch (e.op) {
-    case "num":
-      return `n${e.value}`;
-    case "id":
-      return `i${e.name}`;
-    case "neg":
-      return `(-${keyOf(e.arg)})`;
-    case "call":
-      return `${e.fn}(${e.args.map(keyOf).join(",")})`;
-    default:
-      return `(${keyOf(e.left)}${e.op}${keyOf(e.right)})`;
-  }
+/**
+ * Structural keys of a tree's nodes, made once per compiled function: equal
+ * subtrees get equal keys and are evaluated once (`_interner.ts`).
+ */
+function structuralKeys(): (e: Expr) => string {
+  const intern = makeInterner();
+  const byNode = new Map<Expr, string>();
+  const keyOf = (e: Expr): string => {
+    let k = byNode.get(e);
+    if (k !== undefined) return k;
+    switch (e.op) {
+      case "num":
+        k = `n${e.value}`;
+        break;
+      case "id":
+        k = `i${e.name}`;
+        break;
+      case "neg":
+        k = intern(`(-${keyOf(e.arg)})`);
+        break;
+      case "call":
+        k = intern(`${e.fn}(${e.args.map(keyOf).join(",")})`);
+        break;
+      default:
+        k = intern(`(${keyOf(e.left)}${e.op}${keyOf(e.right)})`);
+    }
+    byNode.set(e, k);
+    return k;
+  };
+  return keyOf;
 }
 
 function evaluate(e: Expr, ctx: Ctx): Val {
-  const key = keyOf(e);
+  const key = ctx.keyOf(e);
   const done = ctx.memo.get(key);
   if (done !== undefined) return done;
   const v = evaluateNode(e, ctx);

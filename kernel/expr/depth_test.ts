@@ -3,7 +3,7 @@
  * signs or 3,000 nested calls overflowed the parser's call stack, and a sum
  * of 3,000 terms parsed but overflowed code generation, each shown as
  * "Internal error … Maximum call stack size exceeded" at the fence. Now the
- * parser refuses more than 100 nested parentheses, calls, signs or powers at
+ * parser refuses more than 100 nested parentheses, calls or powers at
  * the offending token and a tree deeper than 500 (one level a term of a sum)
  * at the node past the bound; everything within the bounds goes through
  * every pass.
@@ -32,7 +32,7 @@ function refused(text: string, at: number) {
     assert.equal(e.offset, at, e.message);
     assert.equal(
       e.message,
-      `Expression nests more than 100 parentheses, calls, signs or powers at column ${
+      `Expression nests more than 100 parentheses, calls or powers at column ${
         at + 1
       }: the limit is 100`,
     );
@@ -45,8 +45,18 @@ Deno.test("parseExpression() refuses 2,000 nested parentheses at the 101st", () 
   refused("(".repeat(2000) + "a*x" + ")".repeat(2000), 100);
 });
 
-Deno.test("parseExpression() refuses 5,000 signs, 3,000 calls and 3,000 powers, located", () => {
-  refused("-".repeat(5000) + "x", 100);
+Deno.test("parseExpression() refuses 5,000 signs by depth, and 3,000 calls and powers, located", () => {
+  // Signs are read in a loop, so only the tree's depth bounds them.
+  assert.throws(() => parseExpression("-".repeat(5000) + "x"), (e: Error) => {
+    assert.ok(e instanceof ExprError);
+    assert.match(
+      e.message,
+      /^Expression is more than 500 levels deep at column \d+: the limit is 500/,
+    );
+    return true;
+  });
+  const fifty = parseExpression("-".repeat(51) + "x");
+  assert.equal(format(parseExpression(format(fifty))), format(fifty), "format reads back");
   refused("exp(".repeat(3000) + "x" + ")".repeat(3000), 100 * 4 + 3);
   refused("x^" + Array(3000).fill("a").join("^"), 2 * 101 - 1);
 });

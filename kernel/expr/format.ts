@@ -76,7 +76,8 @@ export function format(e: Expr): string {
       return `${e.fn}(${e.args.map(format).join(", ")})`;
     case "neg": {
       const s = operand(e.arg, UNARY);
-      return s.startsWith("-") ? `-(${s})` : `-${s}`;
+      // "- -x", not "-(-x)": parentheses would count against the parser's nesting limit.
+      return s.startsWith("-") ? `- ${s}` : `-${s}`;
     }
     default: {
       const [l, r] = NEEDS[e.op];
