@@ -1,7 +1,7 @@
 /**
  * `deno task load`: the live server under a standing load, loopback only,
  * bounded in time and count. A server in its own process
- * (test/server/_serve_for_test.ts) serves a small document while:
+ * (test/server/_serve_child.ts) serves a small document while:
  *
  * - 50 pages read /live (`?text=changed`), 3 pages never read;
  * - 500 idle connections are kept open (one the server closes is opened again);
@@ -23,7 +23,7 @@ import { deafPage, IdlePool, openPage, type Page, probe } from "./_clients.ts";
 
 const seconds = Number(Deno.args[Deno.args.indexOf("--seconds") + 1]) || 60;
 const PAGES = 50, DEAF = 3, IDLE = 500, EDITS_PER_S = 20;
-const HELPER = new URL("../server/_serve_for_test.ts", import.meta.url).pathname;
+const HELPER = new URL("../server/_serve_child.ts", import.meta.url).pathname;
 const CONFIG = new URL("../../deno.json", import.meta.url).pathname;
 
 const cellBody = (n: number) => `on: t\nmodel: y = a + b*x\n# edit ${n}\n`;

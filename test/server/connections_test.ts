@@ -1,6 +1,6 @@
 /**
  * Connections and the live channel under abuse (issue 11, defects 3 and 4),
- * against a live server in its own process (`_serve_for_test.ts`):
+ * against a live server in its own process (`_serve_child.ts`):
  *
  * - idle and slow-header connections are closed on timeouts, and running out
  *   of file descriptors (a low `ulimit -n`) never ends the server: a normal
@@ -14,7 +14,7 @@ import { equal, ok } from "node:assert/strict";
 import { join } from "node:path";
 import { deafPage } from "../load/_clients.ts";
 
-const HELPER = new URL("./_serve_for_test.ts", import.meta.url).pathname;
+const HELPER = new URL("./_serve_child.ts", import.meta.url).pathname;
 const CONFIG = new URL("../../deno.json", import.meta.url).pathname;
 
 interface Spawned {
