@@ -24,6 +24,7 @@ import {
   type OptionDecls,
   type ParseContext,
   readBoolean,
+  shown,
 } from "../../kernel/contract/mod.ts";
 
 /** A `chart` cell's normalised options (plain JSON: hashed into the cache key). */
@@ -113,7 +114,7 @@ function word(ctx: ParseContext, key: string, v: unknown, path: (string | number
   const text = typeof v === "number" ? String(v) : v;
   if (typeof text !== "string" || text.trim() === "" || /\s/.test(text.trim())) {
     throw new CellError(
-      `Option "${key}" of chart "${ctx.name}" is "${String(v)}": expected one name`,
+      `Option "${key}" of chart "${ctx.name}" is "${shown(v)}": expected one name`,
       path,
     );
   }
@@ -143,7 +144,7 @@ function logAxes(ctx: ParseContext, v: unknown): { x: boolean; y: boolean } {
   if (v === "y") return { x: false, y: true };
   if (v === "both" || v === "xy") return { x: true, y: true };
   throw new CellError(
-    `Option "log" of chart "${ctx.name}" is "${String(v)}": expected x, y, both or none`,
+    `Option "log" of chart "${ctx.name}" is "${shown(v)}": expected x, y, both or none`,
     ["log"],
   );
 }
@@ -152,7 +153,7 @@ function titleText(ctx: ParseContext, v: unknown): string | null {
   if (v === undefined || v === null) return null;
   if (typeof v !== "string" && typeof v !== "number") {
     throw new CellError(
-      `Option "title" of chart "${ctx.name}" is "${String(v)}": expected a line of text`,
+      `Option "title" of chart "${ctx.name}" is "${shown(v)}": expected a line of text`,
       ["title"],
     );
   }

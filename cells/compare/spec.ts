@@ -17,6 +17,7 @@ import {
   type OptionDecls,
   type ParseContext,
   readNumber,
+  shown,
 } from "../../kernel/contract/mod.ts";
 
 /** A criterion to rank by. */
@@ -121,7 +122,7 @@ function fitNames(ctx: ParseContext, v: unknown): string[] {
   if (!Array.isArray(v)) {
     throw new CellError(
       `Option "fits" of compare "${ctx.name}" is "${
-        String(v)
+        shown(v)
       }": expected a list of fit cell names, as in [line, root]`,
       ["fits"],
     );
@@ -130,7 +131,7 @@ function fitNames(ctx: ParseContext, v: unknown): string[] {
     const s = typeof x === "string" ? x.trim() : "";
     if (s === "" || /\s/.test(s)) {
       throw new CellError(
-        `Fit ${i + 1} of compare "${ctx.name}" is "${String(x)}": expected the name of a fit cell`,
+        `Fit ${i + 1} of compare "${ctx.name}" is "${shown(x)}": expected the name of a fit cell`,
         ["fits", i],
       );
     }
@@ -161,7 +162,7 @@ function criterion(ctx: ParseContext, v: unknown): Criterion {
   if ((CRITERIA as readonly string[]).includes(c)) return c as Criterion;
   const hint = didYouMean(c || String(raw), CRITERIA) || `: expected ${CRITERIA.join(", ")}`;
   throw new CellError(
-    `Criterion "${String(raw)}" of compare "${ctx.name}" is not known${hint}`,
+    `Criterion "${shown(raw)}" of compare "${ctx.name}" is not known${hint}`,
     v === undefined || v === null ? [] : ["by"],
   );
 }

@@ -16,7 +16,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import type { ParseContext } from "../../kernel/contract/mod.ts";
+import { type ParseContext, shown } from "../../kernel/contract/mod.ts";
 
 /** The weighting part of a fit spec (keys present only when given). */
 export interface WeightingSpec {
@@ -58,7 +58,7 @@ export function parseWeighting(ctx: ParseContext): WeightingSpec {
   const cv = o.count_variance;
   if (cv !== undefined && typeof cv !== "boolean") {
     throw new CellError(
-      `Option "count_variance" of fit "${ctx.name}" is "${String(cv)}": expected true or false`,
+      `Option "count_variance" of fit "${ctx.name}" is "${shown(cv)}": expected true or false`,
       ["count_variance"],
     );
   }

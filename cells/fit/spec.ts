@@ -23,6 +23,7 @@ import {
   type ParseContext,
   readCellName,
   readMapping,
+  shown,
 } from "../../kernel/contract/mod.ts";
 import { parseWeighting } from "./_parse_weighting.ts";
 import { type Limits, parseLimits } from "./_parse_limits.ts";
@@ -107,7 +108,7 @@ function modelText(ctx: ParseContext, v: unknown): string {
   if (typeof v !== "string" || v.trim() === "") {
     throw new CellError(
       `Option "model" of fit "${ctx.name}" is "${
-        String(v)
+        shown(v)
       }": expected an equation such as y = a + b*x`,
       ["model"],
     );
@@ -122,7 +123,7 @@ function startValues(ctx: ParseContext): Record<string, number> {
   for (const [k, x] of Object.entries(v)) {
     if (typeof x !== "number" || !Number.isFinite(x)) {
       throw new CellError(
-        `Start value of "${k}" in fit "${ctx.name}" is "${String(x)}": expected a finite number`,
+        `Start value of "${k}" in fit "${ctx.name}" is "${shown(x)}": expected a finite number`,
         [
           "start",
           k,

@@ -8,7 +8,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import type { ParseContext } from "../../kernel/contract/mod.ts";
+import { type ParseContext, shown } from "../../kernel/contract/mod.ts";
 
 /** How many points `at` gives and how many values `solve` gives (0: the option is absent). */
 export interface PointCounts {
@@ -57,8 +57,8 @@ export function perPoint(
   list.forEach((x, i) => {
     if (typeof x === "number" && Number.isFinite(x) && x > 0) return;
     throw Array.isArray(v)
-      ? new CellError(`Value "${String(x)}" in ${where} is not ${expected}`, [key, i])
-      : new CellError(`Option ${where} is "${String(x)}": expected ${expected}`, [key]);
+      ? new CellError(`Value "${shown(x)}" in ${where} is not ${expected}`, [key, i])
+      : new CellError(`Option ${where} is "${shown(x)}": expected ${expected}`, [key]);
   });
   if (list.length > 1) {
     for (

@@ -30,6 +30,7 @@ import {
   type ParseContext,
   readCellName,
   readChoice,
+  shown,
 } from "../../kernel/contract/mod.ts";
 import type { HCType } from "../../kernel/stats/mod.ts";
 import { perPoint } from "./_per_point.ts";
@@ -175,7 +176,7 @@ function numberList(ctx: ParseContext, v: unknown, path: (string | number)[]): n
     if (typeof x !== "number" || !Number.isFinite(x)) {
       const at = Array.isArray(v) ? [...path, i] : path;
       throw new CellError(
-        `Value "${String(x)}" in ${where} is not a finite number`,
+        `Value "${shown(x)}" in ${where} is not a finite number`,
         at,
       );
     }
@@ -233,7 +234,7 @@ function optionalNumber(
   if (v === undefined || v === null) return undefined;
   if (typeof v !== "number" || !Number.isFinite(v) || !ok(v)) {
     throw new CellError(
-      `Option "${key}" of predict "${ctx.name}" is "${String(v)}": expected ${expected}`,
+      `Option "${key}" of predict "${ctx.name}" is "${shown(v)}": expected ${expected}`,
       [key],
     );
   }

@@ -89,3 +89,34 @@ Deno.test("byteSize() reads no unit from Object.prototype", () => {
   equal(byteSize("1 constructor"), null);
   equal(byteSize("2 kB"), 2000);
 });
+
+Deno.test("option values of the wrong shape are shown in words, never as [object Object]", async () => {
+  // Before: Option "model" of fit "f1" is "[object Object]" (fuzz target run, seed 11).
+  const cells = [
+    ["fit", "m", "on: t\nmodel: [{}]"],
+    ["fit", "s", "on: t\nmodel: y = a*exp(b*x)\nstart: { a: { b: 1 }, b: 1 }"],
+    ["fit", "cv", "on: t\nmodel: y = a + b*x\ncount_variance: { a: 1 }"],
+    ["compare", "c1", "fits: { a: 1 }"],
+    ["compare", "c2", "fits: [{ a: 1 }]"],
+    ["compare", "c3", "fits: [s, m]\nby: { a: 1 }"],
+    ["chart", "g1", "on: t\nx: x\ny: y\nband: [{}]"],
+    ["chart", "g2", "on: t\nx: x\ny: y\ntitle: { a: 1 }"],
+    ["chart", "g3", "on: t\nx: x\ny: y\nlog: [x]"],
+    ["predict", "p1", "fit: m\nat: { x: [{ a: 1 }] }"],
+  ];
+  const doc = "```table t\ncolumns: [x, y]\nrows: [[1, 2], [2, 4.1], [3, 5.9]]\n```\n\n" +
+    cells.map(([k, n, body]) => "```" + `${k} ${n}\n${body}\n` + "```\n").join("\n");
+  const dir = await Deno.makeTempDir({ prefix: "plumb-shapes-" });
+  const session = new Session({ registry, workerUrl: WORKER, dir });
+  try {
+    const report = await session.run(doc);
+    for (const [, n] of cells) {
+      const c = report.cells.find((c) => c.name === n)!;
+      equal(c.state, "failed", n);
+      ok(!/object Object|\[object/.test(c.error!.message), `${n}: ${c.error!.message}`);
+    }
+  } finally {
+    session.close();
+    await Deno.remove(dir, { recursive: true });
+  }
+});
