@@ -8,30 +8,17 @@
  */
 import { deepEqual, equal, match } from "node:assert/strict";
 import { join } from "node:path";
+import { task } from "./_cli.ts";
 
-const MAIN = new URL("../../cells/main.ts", import.meta.url).pathname;
 const F = "`".repeat(3);
 
+/** `plumb run doc.md [--json]` typed in a folder holding the document and t.csv. */
 async function plumbRun(doc: string, json: boolean) {
   const dir = await Deno.makeTempDir({ prefix: "plumb-silent-" });
   try {
     await Deno.writeTextFile(join(dir, "t.csv"), "x,y\n1,2.1\n2,3.9\n3,6.2\n4,7.8\n");
     await Deno.writeTextFile(join(dir, "doc.md"), doc);
-    const out = await new Deno.Command(Deno.execPath(), {
-      args: [
-        "run",
-        "--allow-read",
-        "--allow-env=LOG_TOKENS,LOG_STREAM",
-        MAIN,
-        "run",
-        join(dir, "doc.md"),
-        ...(json ? ["--json"] : []),
-      ],
-      stdout: "piped",
-      stderr: "piped",
-      env: { NO_COLOR: "1" },
-    }).output();
-    return { code: out.code, stdout: new TextDecoder().decode(out.stdout) };
+    return await task(dir, "plumb", "run", "doc.md", ...(json ? ["--json"] : []));
   } finally {
     await Deno.remove(dir, { recursive: true });
   }
