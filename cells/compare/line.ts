@@ -30,6 +30,12 @@ export function compareLine(r: CompareResult): string {
     const head = `${best.fit} preferred by ${r.criterion} (${formatNumber(best.loo_rmse, 3)})`;
     return next ? `${head} over ${next.fit} (${formatNumber(next.loo_rmse, 3)})` : head;
   }
+  // The verdict decides the words (one source of truth with the page's ledger).
+  if (next && r.verdict.startsWith("No clear winner")) {
+    return `no clear winner by ${r.criterion}: ${best.fit} ahead (weight ${
+      formatNumber(best.weight, 2)
+    }), ${next.fit} within Δ ${formatNumber(next.delta, 2)}`;
+  }
   const head = `${best.fit} preferred by ${r.criterion} (weight ${formatNumber(best.weight, 2)})`;
   return next ? `${head} over ${next.fit} (Δ ${formatNumber(next.delta, 2)})` : head;
 }

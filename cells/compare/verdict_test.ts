@@ -68,3 +68,29 @@ Deno.test("verdict() says when nothing can be ranked and names nested tests of t
     /Nested F tests: "quad" over "line" F\(1, 21\) = 421\.4, p 2\.2e-15, significant at 0\.05$/,
   );
 });
+
+Deno.test("compareLine() says no clear winner when the verdict does", async () => {
+  const { compareLine } = await import("./line.ts");
+  const row = (fit: string, rank: number, delta: number, weight: number) => ({
+    fit,
+    rank,
+    delta,
+    weight,
+  });
+  const r = {
+    by: "aicc",
+    criterion: "AICc",
+    preferred: "root",
+    rows: [row("root", 1, 0, 0.46), row("root-linear", 2, 0.884, 0.3)],
+    verdict: 'No clear winner: "root" and "root-linear" are within 2 by AICc (ΔAICc 0.884)',
+  } as unknown as Parameters<typeof compareLine>[0];
+  assert.equal(
+    compareLine(r),
+    "no clear winner by AICc: root ahead (weight 0.46), root-linear within Δ 0.88",
+  );
+  const clear = { ...r, verdict: '"root" is preferred by AICc' };
+  assert.equal(
+    compareLine(clear),
+    "root preferred by AICc (weight 0.46) over root-linear (Δ 0.88)",
+  );
+});

@@ -30,7 +30,13 @@ import { runFit } from "./run.ts";
 import { FIT_OPTIONS } from "./spec.ts";
 import type { TemplateContext } from "../../kernel/contract/mod.ts";
 import { numberColumns, tableFor } from "../shared/template_cells.ts";
-import { formatNumber, formatR2 } from "../shared/format.ts";
+import {
+  formatEstimate,
+  formatIntervalAt,
+  formatNumber,
+  formatR2,
+  formatUncertainty,
+} from "../shared/format.ts";
 
 export type { FitSpec } from "./spec.ts";
 export type { Fit } from "./fit.ts";
@@ -50,10 +56,32 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
   run: runFit,
   summary: (out, _spec, leaveOut) => summarizeFit(out, leaveOut),
   line: (r) => `${r.model} · n ${r.n} · R² ${formatR2(r.r2)} · σ ${formatNumber(r.sigma, 3)}`,
+  details: fitDetails,
   options: FIT_OPTIONS,
   page: { omit: ["fitted", "residuals", "rows", "rows_missing"] },
   template: fitTemplate,
 };
+
+/**
+ * A fit's estimates for the CLI summary, one line each, rounded as the page
+ * rounds them (GUM §7.2.6): `q0 = 2446.9, u 2.0 mAh, 95% 2442.9 … 2450.9`.
+ */
+function fitDetails(r: FitResult): string[] {
+  const level = `${Math.round(r.confidence * 1000) / 10}%`;
+  return r.parameters.map((p) => {
+    const u = p.std_error;
+    const unit = p.unit ? ` ${p.unit}` : "";
+    if (u === null) {
+      return `${p.name} = ${formatEstimate(p.estimate, null)}${unit} (${
+        p.at_bound ? "held at its limit" : "no standard uncertainty"
+      })`;
+    }
+    const ci = formatIntervalAt(p.ci, u, p.estimate, { open: "", sep: " … ", close: "" });
+    return `${p.name} = ${formatEstimate(p.estimate, u)}, u ${
+      formatUncertainty(u)
+    }${unit}, ${level} ${ci}`;
+  });
+}
 
 /** A new fit: a straight line through the last table's last two number columns. */
 function fitTemplate(ctx: TemplateContext): string {

@@ -55,3 +55,16 @@ Deno.test("predict result: estimates in the response's unit, solved x in the pre
   assert.equal(result.at[0].unit, "mAh");
   assert.equal(result.solve[0].unit, "cycles");
 });
+
+Deno.test("fitKind.details() gives each estimate with its uncertainty, unit and interval", async () => {
+  const { fitKind } = await import("./mod.ts");
+  const { result } = fitResult("root", "capacity = q0 - a*sqrt(cycle)", TABLE);
+  const lines = fitKind.details!(result);
+  assert.equal(lines.length, 2);
+  // Rounded at the standard uncertainty's second significant digit (GUM §7.2.6).
+  const q0 = result.parameters[0];
+  assert.match(lines[0], /^q0 = [\d.]+, u [\d.]+ mAh, 95% [\d.]+ … [\d.]+$/);
+  const digits = lines[0].split(", u ")[1].split(" ")[0].replace(/^0\.0*/, "").replace(".", "");
+  assert.equal(digits.length, 2, `two significant digits in u = ${q0.std_error}: ${lines[0]}`);
+  assert.match(lines[1], /^a = [\d.]+, u [\d.]+ mAh\/cycles\^0\.5, 95% /);
+});

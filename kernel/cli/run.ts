@@ -108,7 +108,7 @@ export async function runCommand(args: string[], product: Product): Promise<numb
     if (json) await writeJson(runJson(path, report, warnings));
     else {
       // Before the blank line and the counts that end the summary.
-      const human = formatHuman(path, report).split("\n");
+      const human = formatHuman(path, report, product.registry).split("\n");
       const lines = warnings.map((w) => `warning   line ${w.line}:${w.column}  ${w.message}`);
       human.splice(human.length - 2, 0, ...lines);
       console.log(human.join("\n"));

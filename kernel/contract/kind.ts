@@ -125,6 +125,11 @@ export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R
   summary(out: Out, spec: Spec, leaveOut?: ReadonlySet<string>): R;
   /** One human line for the CLI summary. */
   line(result: R): string;
+  /**
+   * More lines for the CLI summary under that line (optional), e.g. a fit's
+   * estimates with their uncertainty and interval.
+   */
+  details?(result: R): string[];
   /** How the page's copy of a result is made smaller (optional: the whole result). */
   page?: PageCopy<R>;
   /** The columns a result offers other cells (tables; optional). */
