@@ -3,7 +3,8 @@
  * the product's kinds and compute worker, the path `plumb run` takes (and
  * its RUN-JSON and human summaries). The run must finish; every failed cell
  * and every document error must carry a line and column inside the
- * document; no cell may answer "Internal error" or lose its worker.
+ * document; no cell may answer "Internal error", lose its worker, or show
+ * code's insides (a stack frame, a module URL, "[object Object]").
  *
  * One session serves many inputs (its cache keys on content, so results do
  * not depend on what ran before); data files are written before each run
@@ -47,6 +48,8 @@ function writeFiles(dir: string, files: Record<string, string>): void {
 }
 
 const PROBLEM = /^Internal error|The compute worker stopped/;
+/** Code's insides in a message: a stack frame or a module URL. */
+const LEAK = /\n\s+at |file:\/\/|\[object Object\]/;
 
 async function checkRun(input: RunInput): Promise<void> {
   const { session: s, dir } = session();
@@ -65,6 +68,7 @@ async function checkRun(input: RunInput): Promise<void> {
     if (c.error === null) throw new Defect("unlocated", `Cell "${c.name}" failed with no error`);
     checkPos(c.error, lines, c.error.message);
     if (PROBLEM.test(c.error.message)) throw new Defect("internal", c.error.message.slice(0, 300));
+    if (LEAK.test(c.error.message)) throw new Defect("internal", `Leaks code: ${c.error.message}`);
   }
   try {
     JSON.stringify(runJson("doc.md", report), (_k, v) => ArrayBuffer.isView(v) ? [] : v);
