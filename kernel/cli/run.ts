@@ -7,7 +7,7 @@ import { dirname } from "node:path";
 import { VERSION } from "../version.ts";
 import { plainDeep } from "../arrays.ts";
 import { type RunReport, Session } from "../session/session.ts";
-import { nearMissFences, parseDocument } from "../document/mod.ts";
+import { findInlineRefs, nearMissFences, parseDocument, resolveValue } from "../document/mod.ts";
 import { fileTrouble, fromCaller } from "./caller.ts";
 import { formatHuman } from "./format_human.ts";
 import type { Product } from "./product.ts";
@@ -48,6 +48,34 @@ type Located = { message: string; line: number; column: number };
 /** Every cell current and no error outside cells (front matter, inline references). */
 function succeeded(report: RunReport): boolean {
   return report.errors.length === 0 && report.cells.every((c) => c.state === "current");
+}
+
+/**
+ * Inline values the page could not show, as document errors: each
+ * `@(cell.field)` of a computed cell is resolved as the page and the record
+ * resolve it (an unknown field, a list, a name that is both a field and a
+ * parameter); a reference to a failed or held cell is that cell's error.
+ */
+export function inlineValueErrors(source: string, report: RunReport): Located[] {
+  const cells = new Map(report.cells.map((c) => [c.name, c]));
+  const out: Located[] = [];
+  for (const block of parseDocument(source).blocks) {
+    if (block.type !== "prose") continue;
+    for (const ref of findInlineRefs(block).refs) {
+      const cell = cells.get(ref.cell);
+      if (cell?.state !== "current") continue;
+      const r = resolveValue(cell.result, ref.cell, ref.path, ref.digits ?? null);
+      if (!r.ok) {
+        const written = source.slice(ref.start, ref.end);
+        out.push({
+          message: `Inline value ${written}: ${r.error}`,
+          line: ref.line,
+          column: ref.column,
+        });
+      }
+    }
+  }
+  return out;
 }
 
 /** Code blocks that were almost cells (`Fit power`, `fit` with no name), as warnings. */
@@ -104,6 +132,7 @@ export async function runCommand(args: string[], product: Product): Promise<numb
   });
   try {
     const report = await session.run(source);
+    report.errors.push(...inlineValueErrors(source, report));
     const warnings = fenceWarnings(source, product);
     if (json) await writeJson(runJson(path, report, warnings));
     else {

@@ -46,4 +46,5 @@ export { removeCell } from "./remove_cell.ts";
 export { type CellOptions, parseOptions } from "./parse_options.ts";
 export { DEFAULT_SETTINGS, readSettings, type SettingsResult } from "./read_settings.ts";
 export { findInlineRefs, type InlineRef } from "./inline_refs.ts";
+export { formatValue, type Resolved, resolveValue } from "./inline_value.ts";
 export { nearMissFences } from "./near_miss_fences.ts";

@@ -58,7 +58,8 @@ export function referencedFields(doc: ParsedDocument): Map<string, Set<string>> 
   for (const block of doc.blocks) {
     if (block.type !== "prose") continue;
     for (const ref of findInlineRefs(block).refs) {
-      const first = ref.path[0];
+      // `@(fit.result.rows[0])` names the field after the explicit `result`.
+      const first = ref.path[0] === "result" && ref.path.length > 1 ? ref.path[1] : ref.path[0];
       if (typeof first !== "string") continue;
       let set = out.get(ref.cell);
       if (set === undefined) out.set(ref.cell, set = new Set());
