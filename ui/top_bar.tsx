@@ -154,7 +154,15 @@ export function TopBar(props: { doc: DocumentMessage | null; store: LiveStore })
         {data.length > 1 && ` · and ${data.length - 1} more`}
       </p>
       <p class="pl-top-tools pl-live-only">
-        <a class="pl-to-rail" href="#rail">ledger and outline ↓</a>
+        <a class="pl-to-rail" href="#rail">ledger and outline ↓</a>{" "}
+        <a
+          class="pl-record-link"
+          href="/record"
+          download
+          title="Save the static record of what the page shows: one HTML file, no scripts"
+        >
+          save record
+        </a>
       </p>
       <p class="pl-overall" data-overall={state} role="status">
         <StateMark state={state} label={label} />

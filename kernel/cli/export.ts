@@ -31,23 +31,10 @@ import type { RunReport } from "../session/types.ts";
 import { documentTrouble, fileTrouble, fromCaller } from "./caller.ts";
 import type { Product } from "./product.ts";
 import { findChromium, printToPdf } from "./print_pdf.ts";
+import type { RecordModule } from "../server/record_route.ts";
 
 const REPO = fromFileUrl(new URL("../../", import.meta.url)).replace(/\/$/, "");
 const USAGE = "Usage: plumb export <document.md> [-o <record.html>] [--pdf] [--paper a4|letter]";
-
-/** The record module's face, as `Product.recordUrl` provides it. */
-export interface RecordModule {
-  gatherRecord(facts: {
-    path: string;
-    bytes: Uint8Array;
-    source: string;
-    report: RunReport;
-    startedMs: number;
-    durationMs: number;
-    sourceDateEpoch?: string;
-  }): Promise<unknown>;
-  renderRecord(input: unknown, options?: { paper?: "a4" | "letter" }): string;
-}
 
 interface ExportArgs {
   doc: string;

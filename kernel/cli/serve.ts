@@ -216,6 +216,7 @@ async function serveHere(
       port: a.port ?? 0,
       bundle,
       katexDir: await exists(katex) ? katex : null,
+      recordUrl: product.recordUrl,
     });
   } catch (err) {
     console.error(serveTrouble(given, a.host, a.port ?? 0, err));

@@ -39,7 +39,7 @@ import type { OptionPath } from "../contract/mod.ts";
 import { type ParsedDocument, readSettings } from "../document/mod.ts";
 import { hashValue, sha256Hex } from "../hash.ts";
 import type { Registry } from "../contract/mod.ts";
-import { Session, type SessionEvent } from "../session/session.ts";
+import { type RunReport, Session, type SessionEvent } from "../session/session.ts";
 import { documentMessage, type FileInfo } from "./document_message.ts";
 import type { Outgoing, OutgoingCell } from "./live_channel.ts";
 import type { DocumentMessage } from "./protocol.ts";
@@ -64,6 +64,14 @@ export interface LiveOptions {
  * practice for progress indicators, no source).
  */
 export const BUSY_GRACE_MS = 200;
+
+/** The latest complete run: what the page's "record" link exports. */
+export interface LastRun {
+  source: string;
+  report: RunReport;
+  startedMs: number;
+  durationMs: number;
+}
 
 interface Snapshot {
   source: string;
@@ -94,6 +102,7 @@ export class LiveWorkspace {
   #donePrint: string | null = null;
   #dirty = false;
   #loop: Promise<void> | null = null;
+  #lastRun: LastRun | null = null;
 
   /** @param opts Document path, kinds, worker entry and the message sink. */
   constructor(opts: LiveOptions) {
@@ -106,6 +115,11 @@ export class LiveWorkspace {
       page: true,
       onEvent: (e) => this.#onEvent(e),
     });
+  }
+
+  /** The latest run that was not superseded, or null before the first. */
+  get lastRun(): LastRun | null {
+    return this.#lastRun;
   }
 
   /** The absolute path of the document. */
@@ -228,9 +242,16 @@ export class LiveWorkspace {
     const run = ++this.#run;
     this.#runningPrint = snap.print;
     try {
+      const startedMs = Date.now();
       const report = await this.#session.run(snap.source);
       if (report.superseded) return;
       this.#donePrint = snap.print;
+      this.#lastRun = {
+        source: snap.source,
+        report,
+        startedMs,
+        durationMs: Date.now() - startedMs,
+      };
       this.#endGrace({
         type: "run",
         version: snap.version,

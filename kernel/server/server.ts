@@ -14,6 +14,7 @@
  *
  * @module
  */
+import { recordResponse } from "./record_route.ts";
 import { dirname, extname, join, normalize, resolve, sep } from "node:path";
 import type { Registry } from "../contract/mod.ts";
 import type { Bundle } from "./bundle.ts";
@@ -51,6 +52,8 @@ export interface ServerOptions {
   saveHooks?: SaveHooks;
   /** Connection cap, timeouts and slow-page limits (default listener.ts's DEFAULT_LIMITS). */
   connections?: Partial<ConnectionLimits>;
+  /** The product's record module (`GET /record`), or none. */
+  recordUrl?: URL;
 }
 
 /** A running live server. */
@@ -106,7 +109,12 @@ export async function startServer(opts: ServerOptions): Promise<LiveServer> {
   await removeStrayTemps(workspace.documentPath).catch(() => {}); // a crashed save's leftovers
   const ctx = { token, hosts: new Set<string>() };
   const editor = new Editor({ workspace, ...opts });
-  const st = { bundle: opts.bundle ?? null, token, katex: opts.katexDir ?? null };
+  const st = {
+    bundle: opts.bundle ?? null,
+    token,
+    katex: opts.katexDir ?? null,
+    recordUrl: opts.recordUrl ?? null,
+  };
   const live = { sockets, workspace, editor };
   const server = serveConnections({
     hostname,
@@ -141,6 +149,7 @@ interface Static {
   bundle: Bundle | null;
   token: string;
   katex: string | null;
+  recordUrl: URL | null;
 }
 
 interface Live {
@@ -172,6 +181,13 @@ async function route(req: Request, st: Static, live: Live): Promise<Response> {
     return Response.json({ error: `Method ${req.method} not allowed` }, { status: 405 });
   }
   if (pathname === "/live") return openLive(req, live);
+  if (pathname === "/record") {
+    return await recordResponse(
+      live.workspace.lastRun,
+      live.workspace.documentPath,
+      st.recordUrl,
+    );
+  }
   if (pathname === "/") {
     const nonce = newToken();
     return new Response(shellHtml(st.bundle, st.token, nonce), {

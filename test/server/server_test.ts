@@ -338,3 +338,45 @@ Deno.test("startServer() picks up a document edit on disk made by an atomic repl
     }
   });
 });
+
+Deno.test("GET /record: the static record of the latest run, as a download", async () => {
+  const dir = await Deno.makeTempDir({ prefix: "plumb-record-route-" });
+  const doc = `${dir}/doc.md`;
+  await Deno.writeTextFile(
+    doc,
+    "---\ntitle: Route\n---\n\n```table t\ncolumns: [x, y]\nrows:\n  - [1, 2]\n  - [2, 4.1]\n  - [3, 5.9]\n```\n",
+  );
+  const { startServer } = await import("../../kernel/server/server.ts");
+  const { registry } = await import("../../cells/mod.ts");
+  const server = await startServer({
+    document: doc,
+    registry,
+    workerUrl: new URL("../../cells/worker.ts", import.meta.url),
+    recordUrl: new URL("../../ui/record/mod.ts", import.meta.url),
+  });
+  try {
+    const origin = `http://127.0.0.1:${server.port}`;
+    const cookie = `plumb_token=${server.token}`;
+    let res: Response | null = null;
+    for (let i = 0; i < 100; i++) {
+      res = await fetch(`${origin}/record`, { headers: { cookie } });
+      if (res.status !== 503) break;
+      await res.body?.cancel();
+      await new Promise((r) => setTimeout(r, 50));
+    }
+    equal(res!.status, 200);
+    match(
+      res!.headers.get("content-disposition") ?? "",
+      /attachment; filename="doc\.record\.html"/,
+    );
+    const html = await res!.text();
+    match(html, /<title>Route — record<\/title>/);
+    ok(!/<script/i.test(html));
+    const refused = await fetch(`${origin}/record`);
+    equal(refused.status, 401);
+    await refused.body?.cancel();
+  } finally {
+    await server.close();
+    await Deno.remove(dir, { recursive: true });
+  }
+});

@@ -1,0 +1,67 @@
+/**
+ * `GET /record`: the static record of the live page's latest run, as a
+ * file to save (the page's "record" link). The record is drawn by the
+ * product's record module (ui/record, given as a URL: the kernel imports no
+ * UI code), from the run the page shows, so it needs no second run. The
+ * document's hash is taken of its text as run (UTF-8).
+ *
+ * @module
+ */
+import { basename } from "node:path";
+import type { RunReport } from "../session/session.ts";
+import type { LastRun } from "./live_workspace.ts";
+
+/** The record module's face (ui/record/mod.ts), as `plumb export` and this route use it. */
+export interface RecordModule {
+  gatherRecord(facts: {
+    path: string;
+    bytes: Uint8Array;
+    source: string;
+    report: RunReport;
+    startedMs: number;
+    durationMs: number;
+    sourceDateEpoch?: string;
+  }): Promise<unknown>;
+  renderRecord(input: unknown, options?: { paper?: "a4" | "letter" }): string;
+}
+
+/**
+ * The record of the latest run as an HTML download.
+ *
+ * @param last The latest run, or null before the first.
+ * @param documentPath The document's path.
+ * @param recordUrl The record module, or null when the product has none.
+ * @returns 200 with the record; 503 in words before the first run or without a record module.
+ */
+export async function recordResponse(
+  last: LastRun | null,
+  documentPath: string,
+  recordUrl: URL | null,
+): Promise<Response> {
+  const text = (status: number, body: string) =>
+    new Response(`${body}\n`, {
+      status,
+      headers: { "content-type": "text/plain; charset=utf-8", "cache-control": "no-store" },
+    });
+  if (recordUrl === null) return text(503, "This server was started without the record module");
+  if (last === null) return text(503, "The document has not been run yet: try again in a moment");
+  const record = (await import(recordUrl.href)) as RecordModule;
+  const name = basename(documentPath);
+  const input = await record.gatherRecord({
+    path: name,
+    bytes: new TextEncoder().encode(last.source),
+    source: last.source,
+    report: last.report,
+    startedMs: last.startedMs,
+    durationMs: last.durationMs,
+  });
+  const file = `${name.replace(/\.[^.]*$/, "")}.record.html`.replace(/["\\\r\n]/g, "_");
+  return new Response(record.renderRecord(input), {
+    headers: {
+      "content-type": "text/html; charset=utf-8",
+      "content-disposition": `attachment; filename="${file}"`,
+      "cache-control": "no-store",
+      "x-content-type-options": "nosniff",
+    },
+  });
+}
