@@ -72,7 +72,7 @@ export function influencePanel(r: FigureInput, document: Document): CheckPanel {
   const pts = r.density ? [] : points(r.leverage, r.studentized_internal);
   const trace = r.density?.trace ?? r.leverage.reduce<number>((s, h) => s + (h ?? 0), 0);
   const p = r.p ?? Math.round(trace);
-  const n = r.n ?? r.leverage.length;
+  const n = r.n ?? r.leverage?.length ?? 0;
   const cut = 2 * p / n;
   const flags = flaggedRows(r, [
     "influential",
@@ -104,11 +104,9 @@ export function influencePanel(r: FigureInput, document: Document): CheckPanel {
   const infl = (r.findings ?? []).find((f) => f.code === "influential");
   const rule = median === null
     ? null
-    : `Cook's D finding above ${
-      formatNumber(Math.max(4 / n, median), 3)
-    } (4/n and the median of F(${p}, ${n - p}))`;
+    : `Cook's D above ${formatNumber(Math.max(4 / n, median), 3)}`;
   const note = rule &&
-    (infl ? `${rule}: rows ${infl.rows.slice(0, 6).join(", ")}` : `${rule}: no row`);
+    (infl ? `${rule}: rows ${infl.rows.slice(0, 5).join(", ")}` : `${rule}: no row`);
   const svg = panel(document, "leverage", "studentized residual", drawn, marks, {
     x: { domain: [0, hMax], nice: false },
     y: { domain: [-rMax, rMax], nice: false },

@@ -61,7 +61,7 @@ export interface CheckPanel {
 function verdict(name: string, p: number | null | undefined, r: FigureInput): [string, boolean] {
   if (p === null || p === undefined) return [`${name}: not computed`, false];
   const a = r.significance ?? 0.05;
-  return [`${name}: p = ${formatP(p)}${p < a ? `, below ${a}: a finding` : ""}`, p < a];
+  return [`${name}: p = ${formatP(p)}${p < a ? ` < ${a}, a finding` : ""}`, p < a];
 }
 
 /** Is a trend left in the residuals? Residual against fitted with the mean of each group. */
@@ -104,10 +104,9 @@ export function spreadPanel(r: FigureInput, document: Document): CheckPanel {
     drawn,
     marks,
     {
-      y: {
-        domain: [0, Math.max(3.4, ...p.map((d) => d[1] * 1.05), r.density?.rMax ?? 0)],
-        nice: false,
-      },
+      y: drawn.dense
+        ? {}
+        : { domain: [0, Math.max(3.4, ...p.map((d) => d[1] * 1.05))], nice: false },
     },
   );
   return { title: "Does the scatter change with the level?", note, flagged, svg };
@@ -115,7 +114,8 @@ export function spreadPanel(r: FigureInput, document: Document): CheckPanel {
 
 /** Are the residuals near normal? Sorted studentized residuals against normal quantiles. */
 export function normalPanel(r: FigureInput, document: Document): CheckPanel {
-  const s = r.studentized_internal.filter((v): v is number => v !== null && Number.isFinite(v))
+  const s = (r.density ? [] : r.studentized_internal)
+    .filter((v): v is number => v !== null && Number.isFinite(v))
     .sort((a, b) => a - b);
   const n = s.length;
   const position = (i: number) => (i + 1 - 0.375) / (n + 0.25);
@@ -179,7 +179,8 @@ export function checkPanels(r: FigureInput, document: Document): CheckPanel[] {
  */
 export function checkFigure(r: FigureInput, document: Document): SVGSVGElement {
   const panels = checkPanels(r, document);
-  const dense = r.density
+  const counted = r.density !== undefined || (r.fitted?.length ?? 0) > DENSE_ROWS;
+  const dense = counted
     ? `; ${DENSE_ROWS.toLocaleString("en-US")}+ rows counted into cells (darker: more rows)`
     : "";
   return gridPanels(

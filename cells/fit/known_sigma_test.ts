@@ -120,6 +120,6 @@ Deno.test("fitKind view shows the χ² tests in place of F for known σ", async 
     },
   );
   const html = renderToString(FitView({ name: "quad", result }));
-  assert.ok(html.includes("Wald χ²") && html.includes("on 2 df"), html);
-  assert.ok(html.includes("Reduced χ²") && !html.includes("F (all terms"), html);
+  assert.ok(html.includes("Wald χ²") && html.includes("χ²(2) ="), html);
+  assert.ok(html.includes("χ² per degree of freedom") && !html.includes("Joint F test"), html);
 });

@@ -235,8 +235,8 @@ Deno.test("fitKind.line() and view() show the model, n, R² and σ", async () =>
   const { renderToString } = await import("preact-render-to-string");
   const html = renderToString(fitPage.view({ name: "line", result }));
   assert.ok(html.includes("<code>y = a + b*x</code>"), html);
-  assert.ok(html.includes('<th scope="row"><code>b</code></th><td>2</td>'), html);
-  assert.ok(html.includes("<dt>R²</dt><dd>0.9980</dd>"), html);
+  assert.ok(html.includes('<th scope="row"><code>b</code></th><td>2.000</td>'), html);
+  assert.ok(html.includes("<dt>Share of variation explained, R²</dt><dd>0.9980</dd>"), html);
 });
 
 Deno.test("fitKind.parse() validates options and inputs() names the table", () => {

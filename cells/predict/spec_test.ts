@@ -140,7 +140,7 @@ Deno.test("the view labels the median, the two means, se_prediction and the weig
       "Estimate (median)",
       "Mean, lognormal (95% interval)",
       "Mean, Duan smearing",
-      "Std. error, new observation (model (log(y)))",
+      "Standard uncertainty, new observation (model (log(y)))",
       "Weight w₀",
       "its weight: the fit's weights expression &quot;1/x^2&quot; at the point",
       "covariance: the fit's: s²(XᵀWX)⁻¹",

@@ -52,6 +52,8 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
     : null;
   const means = r.at.find((p) => p.mean_estimates)?.mean_estimates ?? [];
   const yUnit = r.at.find((p) => p.unit)?.unit ?? null;
+  // A standard error on the model's scale (log y) sets no digits for an estimate on y's.
+  const sameScale = r.se_scale === r.scale;
   return (
     <section class="plumb-predict" aria-label={`Predictions ${name}`}>
       <p class="plumb-predict-basis">
@@ -87,12 +89,14 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
                     {p.extrapolated ? " (extrapolated)" : ""}
                   </td>
                 ))}
-                <td>{formatEstimate(p.estimate, p.se_fit)}</td>
+                <td>{formatEstimate(p.estimate, digitsFrom(p.se_fit, p.ci, sameScale))}</td>
                 <td>{formatUncertainty(p.se_fit)}</td>
                 <td>{formatUncertainty(p.se_prediction)}</td>
                 {own && <td>{formatNumber(ownValue(p, own), 4)}</td>}
-                <td>{formatIntervalAt(p.ci, p.se_fit, p.estimate)}</td>
-                <td>{formatIntervalAt(p.pi, p.se_prediction, p.estimate)}</td>
+                <td>{formatIntervalAt(p.ci, digitsFrom(p.se_fit, p.ci, sameScale), p.estimate)}</td>
+                <td>
+                  {formatIntervalAt(p.pi, digitsFrom(p.se_prediction, p.pi, sameScale), p.estimate)}
+                </td>
                 {means.map((m, k) => <td key={m.method}>{meanCell(p, k)}</td>)}
               </tr>
             ))}
@@ -138,7 +142,7 @@ function meanCell(p: PredictPointResult, k: number): string {
   if (m === undefined) return "—";
   return m.ci === null
     ? formatNumber(m.estimate, 6)
-    : `${formatNumber(m.estimate, 6)} ${formatIntervalAt(m.ci, p.se_fit, m.estimate)}`;
+    : `${formatNumber(m.estimate, 6)} ${formatIntervalAt(m.ci, quarterWidth(m.ci), m.estimate)}`;
 }
 
 /** `capacity = 2300 mAh`: given values as written, with their unit. */
@@ -161,14 +165,28 @@ function solvedInterval(s: PredictSolveResult): string {
 }
 
 /**
- * An inverse prediction has no standard error of its own (its interval is
- * Fieller's or the band's, not ±t·se): the half-width over 2 stands in for
- * one, so the digits follow the interval (our rule, in the spirit of GUM §7.2.6).
+ * The uncertainty that sets an estimate's digits: its standard error when
+ * on the estimate's scale, else a quarter of its interval's width (an
+ * interval of ±2 standard uncertainties; our rule, in the spirit of GUM §7.2.6).
  */
-function solveUncertainty(s: PredictSolveResult): number | null {
-  if (s.ci === null || s.ci[0] === null || s.ci[1] === null) return null;
-  const w = (s.ci[1] - s.ci[0]) / 4;
+function digitsFrom(
+  se: number | null,
+  interval: [number, number] | null,
+  sameScale: boolean,
+): number | null {
+  return sameScale && se !== null && se > 0 ? se : quarterWidth(interval);
+}
+
+/** A quarter of an interval's width, or null when it has none. */
+function quarterWidth(ci: readonly [number | null, number | null] | null): number | null {
+  if (ci === null || ci[0] === null || ci[1] === null) return null;
+  const w = (ci[1] - ci[0]) / 4;
   return Number.isFinite(w) && w > 0 ? w : null;
+}
+
+/** An inverse prediction has no standard error of its own (Fieller's interval or the band's). */
+function solveUncertainty(s: PredictSolveResult): number | null {
+  return quarterWidth(s.ci);
 }
 
 /** `header (unit)`, or the header alone. */
