@@ -61,7 +61,7 @@ Deno.test("checkFigure() titles each panel by its question and states the verdic
       "Does any row steer the fit?",
     ]
   ) ok(svg.includes(q), q);
-  ok(svg.includes("constant variance (Breusch–Pagan, koenker): p = 0.01 < 0.05, a finding"));
+  ok(svg.includes("constant variance (Breusch–Pagan, koenker): p = 0.01 &lt; 0.05, a finding"));
   ok(svg.includes("fitted (mAh)") && svg.includes("residual (mAh)"), "the fit's unit on the axes");
   ok(!svg.includes("↑") && !svg.includes("→"), "no arrows in axis labels");
   await assertSvgSnapshot(svg, new URL("check-figure.svg", SNAPSHOTS));
