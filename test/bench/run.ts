@@ -33,6 +33,9 @@
  *   document (5,000 small tables and their fits) as a new process: wall
  *   time (min/median/max of three) and peak resident memory; targets under
  *   10 s and 1 GB (test/bench/many_cells.ts).
+ * - `record_export`: `plumb export` as a new process, time and the record's
+ *   size, of the demo (targets under 1 s and 1 MB) and of a document over a
+ *   1,000,000-row table (target under 3 MB) (test/bench/record_export.ts).
  *
  * `deno task bench --startup` measures only the two start-up figures and
  * prints them (a few seconds; bench-report.json is left as it is).
@@ -52,6 +55,7 @@ import { updateLatency } from "../e2e/latency_bench.ts";
 import { startupFigures } from "./startup.ts";
 import { certifiedMillion } from "./certified_million.ts";
 import { manyCells } from "./many_cells.ts";
+import { recordExport } from "./record_export.ts";
 
 const root = new URL("../../", import.meta.url);
 const started = performance.now();
@@ -249,6 +253,10 @@ const updateCharts = await step(
 const benches = (await step("micro-benchmarks (deno bench)", microBenches)) as Bench[];
 const certified = await step("certified_million: NIST sets at a million rows", certifiedMillion);
 const many = await step("many_cells: plumb run of 10,000 small cells", () => manyCells(root));
+const record = await step(
+  "record_export: plumb export of the demo and of 1,000,000 rows",
+  () => recordExport(root),
+);
 const ingest = await step("csv_ingest: 1,000,000 × 11 CSV", csvIngest);
 const chain = await step("schedule_chain_200", scheduleChain);
 const report = {
@@ -264,6 +272,7 @@ const report = {
     ...startup,
     certified_million: certified,
     many_cells: many,
+    record_export: record,
     ...fromBenches(benches),
   },
   benches,
