@@ -45,7 +45,9 @@ export class Defect extends Error {
 const ROOT = new URL("../../", import.meta.url).href;
 
 /**
- * The first stack frame inside the project but outside the fuzz suite.
+ * The first stack frame inside the project folder but outside the fuzz suite
+ * (a dependency under node_modules counts: an overflow inside the yaml
+ * package is placed there).
  *
  * @param stack An error's stack text.
  * @returns `path:line (function)` relative to the project, or "".
