@@ -154,7 +154,10 @@ async function writeRecord(
     console.error(`Cannot read document "${a.doc}": not valid UTF-8`);
     return 2;
   }
-  const record = (await import(product.recordUrl.href)) as RecordModule;
+  // Loading the record's modules (Markdown, math, charts: about half a second) overlaps the
+  // run, which computes on the worker's thread.
+  const loading = import(product.recordUrl.href) as Promise<RecordModule>;
+  loading.catch(() => {}); // awaited below; an early failure is not unhandled meanwhile
   const session = new Session({
     registry: product.registry,
     workerUrl: product.workerUrl,
@@ -165,6 +168,7 @@ async function writeRecord(
   try {
     const started = Date.now();
     const report = await session.run(source);
+    const record = await loading;
     const input = await record.gatherRecord({
       path: a.doc,
       bytes,
