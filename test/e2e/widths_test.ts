@@ -66,7 +66,11 @@ function layout(page: Page) {
         wide: t.scrollWidth > t.clientWidth + 1,
       };
     });
-    const charts = [...document.querySelectorAll(".pl-result figure svg")].map((s) => {
+    // Outermost SVGs only: a figure of panels (the check's) nests one SVG per panel.
+    const outer = [...document.querySelectorAll(".pl-result figure svg")].filter((s) =>
+      s.parentElement?.closest("svg") === null
+    );
+    const charts = outer.map((s) => {
       const fig = s.closest("figure")!;
       const svg = s as SVGSVGElement;
       const natural = svg.viewBox.baseVal?.width || svg.width.baseVal.value;
