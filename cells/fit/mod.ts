@@ -36,6 +36,7 @@ import {
   formatNumber,
   formatR2,
   formatUncertainty,
+  withUnit,
 } from "../shared/format.ts";
 
 export type { FitSpec } from "./spec.ts";
@@ -55,7 +56,10 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
   inputs: (spec) => [{ name: spec.on, accepts: ["Table"], path: ["on"] }],
   run: runFit,
   summary: (out, _spec, leaveOut) => summarizeFit(out, leaveOut),
-  line: (r) => `${r.model} · n ${r.n} · R² ${formatR2(r.r2)} · σ ${formatNumber(r.sigma, 3)}`,
+  line: (r) =>
+    `${r.model} · n ${r.n} · R² ${formatR2(r.r2)} · σ ${
+      withUnit(formatNumber(r.sigma, 3), r.sigma_unit)
+    }`,
   details: fitDetails,
   options: FIT_OPTIONS,
   page: { omit: ["fitted", "residuals", "rows", "rows_missing"] },

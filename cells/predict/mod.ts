@@ -36,7 +36,8 @@ import { runPredict } from "./run.ts";
 import { PREDICT_OPTIONS } from "./spec.ts";
 import type { TemplateContext } from "../../kernel/contract/mod.ts";
 import { cellsOf, fitColumns } from "../shared/template_cells.ts";
-import { formatInterval, formatNumber } from "../shared/format.ts";
+import { formatEstimate, formatIntervalAt, formatNumber, withUnit } from "../shared/format.ts";
+import { digitsFrom, solveUncertainty } from "./_digits.ts";
 
 export type { PredictSpec } from "./spec.ts";
 export type {
@@ -81,16 +82,19 @@ export function predictLine(r: PredictResult): string {
   if (p !== undefined) {
     const x = Object.entries(p.x).map(([k, v]) => `${k} = ${formatNumber(v, 6)}`).join(", ");
     const more = r.at.length > 1 ? ` (+${r.at.length - 1} points)` : "";
-    parts.push(`${x}: ${formatNumber(p.estimate, 6)}, PI ${formatInterval(p.pi, 4)}${more}`);
+    const same = r.se_scale === r.scale;
+    const at = digitsFrom(p.se_fit, p.ci, same);
+    const pi = formatIntervalAt(p.pi, digitsFrom(p.se_prediction, p.pi, same), p.estimate);
+    parts.push(`${x}: ${withUnit(formatEstimate(p.estimate, at), p.unit)}, PI ${pi}${more}`);
   }
   const s = r.solve[0];
   if (s !== undefined) {
     const [[yk, yv]] = Object.entries(s.y), [[xk, xv]] = Object.entries(s.x);
     const more = r.solve.length > 1 ? ` (+${r.solve.length - 1})` : "";
     parts.push(
-      `${yk} = ${formatNumber(yv, 6)} at ${xk} = ${formatNumber(xv, 6)} ${
-        formatInterval(s.ci, 4)
-      }${more}`,
+      `${yk} = ${formatNumber(yv, 6)} at ${xk} = ${
+        withUnit(formatEstimate(xv, solveUncertainty(s)), s.unit)
+      } ${formatIntervalAt(s.ci, solveUncertainty(s), xv)}${more}`,
     );
   }
   return parts.join(" · ");
