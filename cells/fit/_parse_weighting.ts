@@ -71,7 +71,7 @@ function expression(ctx: ParseContext, key: string, v: unknown): string {
   if (typeof v !== "string" || v.trim() === "") {
     throw new CellError(
       `Option "${key}" of fit "${ctx.name}" is "${
-        String(v)
+        shown(v)
       }": expected an expression over columns, such as ${key === "weights" ? "1/conc^2" : "sd"}`,
       [key],
     );

@@ -189,7 +189,7 @@ function atValues(ctx: ParseContext, v: unknown): Record<string, number[]> | nul
   if (!isMapping(v)) {
     throw new CellError(
       `Option "at" of predict "${ctx.name}" is "${
-        String(v)
+        shown(v)
       }": expected a mapping of columns to values, as in at: { x: [1, 2, 3] }`,
       ["at"],
     );
@@ -214,9 +214,9 @@ function solveValues(ctx: ParseContext, v: unknown): PredictSpec["solve"] {
   if (v === undefined || v === null) return null;
   const keys = isMapping(v) ? Object.keys(v) : [];
   if (!isMapping(v) || keys.length !== 1) {
-    const shown = isMapping(v) ? `{ ${keys.join(", ")} }` : String(v);
+    const written = isMapping(v) ? `{ ${keys.join(", ")} }` : shown(v);
     throw new CellError(
-      `Option "solve" of predict "${ctx.name}" is "${shown}": expected one response and its value(s), as in solve: { y: 10 }`,
+      `Option "solve" of predict "${ctx.name}" is "${written}": expected one response and its value(s), as in solve: { y: 10 }`,
       ["solve"],
     );
   }
@@ -248,7 +248,7 @@ function searchRange(ctx: ParseContext, v: unknown): [number, number] | undefine
   if (!ok) {
     throw new CellError(
       `Option "search" of predict "${ctx.name}" is "${
-        Array.isArray(v) ? `[${v.join(", ")}]` : String(v)
+        shown(v)
       }": expected [low, high] with low < high`,
       ["search"],
     );

@@ -39,3 +39,56 @@ export function pastKeyLimit(text: string, limit: number = MAX_KEYS): number {
   }
   return -1;
 }
+
+/** Deepest nesting of sequences, mappings and flow brackets the options may have. */
+export const MAX_NESTING = 64;
+
+/**
+ * Where the options first nest deeper than `limit`, by a linear scan (the
+ * YAML package's parser recurses once a level and overflows the call stack
+ * on a line of some thousand compact dashes, `- - - …`): per line, the
+ * indentation (two columns a level) plus the dashes of a compact sequence,
+ * and across lines the open flow brackets `[` and `{` outside quotes.
+ *
+ * @param text The YAML text.
+ * @param limit The deepest nesting allowed.
+ * @returns The offset where the nesting goes past `limit`, or −1.
+ * @example
+ * ```ts
+ * import { pastNestingLimit } from "./_key_limit.ts";
+ * if (pastNestingLimit("a: [1, 2]\nb:\n  - c\n") !== -1) throw new Error("flat");
+ * if (pastNestingLimit("x:\n" + "- ".repeat(100) + "1", 64) < 0) throw new Error("deep");
+ * ```
+ */
+export function pastNestingLimit(text: string, limit: number = MAX_NESTING): number {
+  let flow = 0, quote = "", lineStart = 0;
+  for (let i = 0; i <= text.length; i++) {
+    const c = text[i];
+    if (i === lineStart) {
+      let j = i, depth = 0;
+      while (text[j] === " ") j++;
+      depth = (j - i) >> 1;
+      // Compact sequences: "- - - x" opens one level a dash.
+      while (text[j] === "-" && (text[j + 1] === " " || text[j + 1] === "\t")) {
+        depth++;
+        j += 2;
+        while (text[j] === " " || text[j] === "\t") j++;
+      }
+      if (depth + flow > limit) return j;
+    }
+    if (c === "\n" || c === undefined) {
+      lineStart = i + 1;
+      if (quote === "'") quote = ""; // single-quoted scalars do not span lines here
+      continue;
+    }
+    if (quote !== "") {
+      if (c === quote && text[i - 1] !== "\\") quote = "";
+    } else if (c === '"' || c === "'") quote = c;
+    else if (c === "#" && (i === 0 || text[i - 1] === " ")) {
+      while (i + 1 < text.length && text[i + 1] !== "\n") i++;
+    } else if (c === "[" || c === "{") {
+      if (++flow > limit) return i;
+    } else if ((c === "]" || c === "}") && flow > 0) flow--;
+  }
+  return -1;
+}

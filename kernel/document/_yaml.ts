@@ -11,7 +11,7 @@ import { LocatedError } from "../errors.ts";
 import type { ParsedDocument } from "./types.ts";
 import { floorIndex } from "./_lines.ts";
 import { lineColumnAt } from "./line_column.ts";
-import { MAX_KEYS, pastKeyLimit } from "./_key_limit.ts";
+import { MAX_KEYS, MAX_NESTING, pastKeyLimit, pastNestingLimit } from "./_key_limit.ts";
 
 /** Messages for one YAML region ("Options of cell …", "Front matter …"). */
 export interface YamlWording {
@@ -116,10 +116,35 @@ export function parseYamlRegion(
       errors: [new LocatedError(wording.tooMany(limit), at(past))],
     };
   }
-  const yaml = parseDocument(text, {
-    uniqueKeys: false,
-    prettyErrors: false,
-  });
+  const deep = pastNestingLimit(text);
+  if (deep >= 0) {
+    return {
+      yaml: parseDocument(""),
+      text,
+      toSource,
+      data: {},
+      errors: [
+        new LocatedError(
+          wording.invalid(`it nests more than ${MAX_NESTING} levels deep here: write it flatter`),
+          at(deep),
+        ),
+      ],
+    };
+  }
+  let yaml: Document.Parsed;
+  try {
+    yaml = parseDocument(text, { uniqueKeys: false, prettyErrors: false });
+  } catch (e) {
+    // The package recurses once a level; what the scan above does not see may still overflow.
+    if (!(e instanceof RangeError)) throw e;
+    return {
+      yaml: parseDocument(""),
+      text,
+      toSource,
+      data: {},
+      errors: [new LocatedError(wording.invalid("it nests too deeply to read"), at(0))],
+    };
+  }
   const errors = yaml.errors.map((e) =>
     new LocatedError(wording.invalid(detail(e.message, e.code)), at(e.pos[0]))
   );

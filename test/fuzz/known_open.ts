@@ -7,14 +7,4 @@
  *
  * @module
  */
-export const KNOWN_OPEN: Readonly<Record<string, string>> = {
-  "document-uncaught-yaml-stack":
-    "kernel/document/_yaml.ts: the yaml package's parser overflows the stack, uncaught",
-  "document-uncaught-yaml-stack-2":
-    "kernel/document/_yaml.ts: the same overflow, another place in the yaml package",
-  "run-leak-object-at":
-    "cells/predict/spec.ts atValues: String(v) quotes a list as [object Object]",
-  "run-leak-object-solve":
-    "cells/predict/spec.ts solveValues: String(v) quotes a list as [object Object]",
-  "run-leak-object-weights": "cells/fit/_parse_weighting.ts expression: String(v) quotes a mapping",
-};
+export const KNOWN_OPEN: Readonly<Record<string, string>> = {};
