@@ -27,7 +27,6 @@
 import { basename, dirname, join } from "node:path";
 import { fileURLToPath as fromFileUrl } from "node:url";
 import { Session } from "../session/session.ts";
-import type { RunReport } from "../session/types.ts";
 import { documentTrouble, fileTrouble, fromCaller } from "./caller.ts";
 import type { Product } from "./product.ts";
 import { findChromium, printToPdf } from "./print_pdf.ts";

@@ -68,7 +68,7 @@ Deno.test("plumb run warns of fences that are almost cells, naming the line", as
   const human = await plumbRun(doc, false);
   match(
     human.stdout,
-    /\nwarning   line 5:4  Code block "Fit line" is prose, not a cell: did you mean "fit line"\?\n/,
+    /\nwarning {3}line 5:4 {2}Code block "Fit line" is prose, not a cell: did you mean "fit line"\?\n/,
   );
   match(human.stdout, /\n\n1 current, 0 failed, 0 held/);
 });
