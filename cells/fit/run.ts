@@ -165,9 +165,10 @@ function misspeltColumn(problem: FitProblem, table: Table): CellError | undefine
 
 /** The units of the model's parameters and response from the table's column units. */
 function unitsOf(name: string, model: FitProblem["model"], table: Table): ModelUnits {
-  const used = new Set([model.responseColumn, ...model.columns]);
+  // The response's column first, so a parameter's unit leads with the response's symbols.
+  const unitOf = new Map(table.columns.map((c) => [c.name, c.unit] as const));
   const units = new Map(
-    table.columns.filter((c) => used.has(c.name)).map((c) => [c.name, c.unit] as const),
+    [model.responseColumn, ...model.columns].map((c) => [c, unitOf.get(c) ?? null] as const),
   );
   const u = modelUnits(model, units);
   for (const w of u.warnings) w.message = `${w.message} (fit "${name}")`;

@@ -109,3 +109,20 @@ Deno.test("views round a calibration's estimates and intervals to their uncertai
   // The column name is shown as written (the underscore kept).
   ok(predict.includes("T_ref"), "T_ref as written");
 });
+
+const NITRITE = new URL("../../examples/calibration/nitrite.md", import.meta.url);
+
+Deno.test("views show the calibration example's units: fit, inverse prediction, chart axes", async () => {
+  // Units by dimensional analysis, worked by hand: absorbance (AU) = b0 + b1·conc + b2·conc²
+  // with conc in mg/L gives b1 in AU·L/mg and b2 in AU·L²/mg² (SI Brochure §5.4 writing).
+  const html = await render(
+    await Deno.readTextFile(NITRITE),
+    new URL(".", NITRITE).pathname,
+  );
+  const quad = html.get("quad-x")!;
+  ok(quad.includes("AU·L/mg") && quad.includes("AU·L^2/mg^2"), quad.slice(0, 400));
+  const unknowns = html.get("unknowns")!;
+  ok(/mg\/L/.test(unknowns), "solved concentrations carry mg/L");
+  const chart = html.get("calibration-curve")!;
+  ok(chart.includes("conc (mg/L)") && chart.includes("absorbance (AU)"), "both axes carry units");
+});
