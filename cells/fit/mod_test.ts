@@ -280,7 +280,7 @@ Deno.test("fitKind.parse() validates options and inputs() names the table", () =
   );
   bad(
     { on: "t", model: "y = a", weights: [1, 2] },
-    'Option "weights" of fit "line" is "1,2": expected an expression over columns, such as 1/conc^2',
+    'Option "weights" of fit "line" is "[1, 2]": expected an expression over columns, such as 1/conc^2',
     ["weights"],
   );
   bad(
