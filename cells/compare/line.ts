@@ -18,7 +18,8 @@ import { formatNumber } from "../shared/format.ts";
  * const row = (fit: string, rank: number, delta: number, weight: number) =>
  *   ({ fit, rank, delta, weight, loo_rmse: null });
  * const r = { by: "aicc", criterion: "AICc", preferred: "root",
- *   rows: [row("power", 2, 5.2, 0.07), row("root", 1, 0, 0.93)] } as unknown as CompareResult;
+ *   rows: [row("power", 2, 5.2, 0.07), row("root", 1, 0, 0.93)],
+ *   verdict: '"root" is preferred by AICc' } as unknown as CompareResult;
  * if (compareLine(r) !== "root preferred by AICc (weight 0.93) over power (Δ 5.2)") throw new Error(compareLine(r));
  * ```
  */
@@ -31,7 +32,7 @@ export function compareLine(r: CompareResult): string {
     return next ? `${head} over ${next.fit} (${formatNumber(next.loo_rmse, 3)})` : head;
   }
   // The verdict decides the words (one source of truth with the page's ledger).
-  if (next && r.verdict.startsWith("No clear winner")) {
+  if (next && r.verdict?.startsWith("No clear winner")) {
     return `no clear winner by ${r.criterion}: ${best.fit} ahead (weight ${
       formatNumber(best.weight, 2)
     }), ${next.fit} within Δ ${formatNumber(next.delta, 2)}`;
