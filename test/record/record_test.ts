@@ -144,3 +144,30 @@ Deno.test("record: a view that cannot draw its result costs only that result", (
   match(html, /After the cell\./);
   match(html, /id="provenance"/);
 });
+
+Deno.test("record of page copies says which per-row values it leaves out", async () => {
+  const bytes = await Deno.readFile(DEMO);
+  const text = new TextDecoder().decode(bytes);
+  const session = new Session({
+    registry,
+    workerUrl: WORKER,
+    dir: new URL(".", DEMO).pathname,
+    page: true,
+  });
+  try {
+    const report = await session.run(text);
+    const html = renderRecord(
+      await gatherRecord({
+        path: "fade.md",
+        bytes,
+        source: text,
+        report,
+        startedMs: 0,
+        durationMs: 0,
+      }),
+    );
+    match(html, /Per-row values not shown in this record: fitted, residuals/);
+  } finally {
+    session.close();
+  }
+});

@@ -63,6 +63,12 @@ export function RecordCell(props: { block: CellBlock; report: CellReport | undef
       {state === "current" && report !== undefined && (
         <ResultOf View={View} name={block.name} report={report} />
       )}
+      {state === "current" && (report?.omitted?.length ?? 0) > 0 && (
+        <p class="pl-note pl-record-omitted">
+          Per-row values not shown in this record: {report!.omitted!.join(", ")}{" "}
+          (all are in the machine-readable result, <code>plumb run --json</code>).
+        </p>
+      )}
     </section>
   );
 }
