@@ -25,14 +25,13 @@
  * @module
  */
 import { basename, dirname, join } from "node:path";
-import { fileURLToPath as fromFileUrl } from "node:url";
 import { Session } from "../session/session.ts";
 import { documentTrouble, fileTrouble, fromCaller } from "./caller.ts";
 import type { Product } from "./product.ts";
+import { mayRelaunch, relaunch } from "./relaunch.ts";
 import { findChromium, printToPdf } from "./print_pdf.ts";
 import type { RecordModule } from "../server/record_route.ts";
 
-const REPO = fromFileUrl(new URL("../../", import.meta.url)).replace(/\/$/, "");
 const USAGE = "Usage: plumb export <document.md> [-o <record.html>] [--pdf] [--paper a4|letter]";
 
 interface ExportArgs {
@@ -98,44 +97,29 @@ export async function exportCommand(args: string[], product: Product): Promise<n
   }
   const mayWrite =
     Deno.permissions.querySync({ name: "write", path: dirname(out) }).state === "granted";
-  if (!mayWrite) return await relaunch(args, product, dirname(out), chromium, a.narrowed);
+  if (!mayWrite) return await relaunchToWrite(args, product, dirname(out), chromium, a.narrowed);
   return await writeRecord(a, doc, out, chromium, product);
 }
 
-async function relaunch(
+async function relaunchToWrite(
   args: string[],
   product: Product,
   folder: string,
   chromium: string | null,
   narrowed: boolean,
 ): Promise<number> {
-  const mayRun = Deno.permissions.querySync({ name: "run", command: Deno.execPath() }).state ===
-    "granted";
-  if (narrowed || !mayRun) {
+  if (narrowed || !mayRelaunch()) {
     console.error(
       `Cannot write the record: Plumb was not given permission to write to "${folder}"`,
     );
     return 2;
   }
-  const child = await new Deno.Command(Deno.execPath(), {
-    args: [
-      "run",
-      `--config=${join(REPO, "deno.json")}`,
-      "--no-prompt",
-      "--allow-read",
-      `--allow-write=${folder}`,
-      "--allow-env=SOURCE_DATE_EPOCH,LOG_TOKENS,LOG_STREAM,INIT_CWD",
-      ...(chromium === null ? [] : [`--allow-run=${chromium}`]),
-      fromFileUrl(product.mainUrl),
-      "export",
-      ...args,
-      "--narrowed",
-    ],
-    stdin: "null",
-    stdout: "inherit",
-    stderr: "inherit",
-  }).output();
-  return child.code;
+  return await relaunch(product, [
+    "--allow-read",
+    `--allow-write=${folder}`,
+    "--allow-env=SOURCE_DATE_EPOCH,LOG_TOKENS,LOG_STREAM,INIT_CWD",
+    ...(chromium === null ? [] : [`--allow-run=${chromium}`]),
+  ], ["export", ...args, "--narrowed"]);
 }
 
 async function writeRecord(

@@ -21,12 +21,11 @@
  * @module
  */
 import { basename, dirname, join } from "node:path";
-import { fileURLToPath as fromFileUrl } from "node:url";
 import { fileTrouble, fromCaller } from "./caller.ts";
 import { newDocument } from "./new_document.ts";
 import type { Product } from "./product.ts";
+import { mayRelaunch, relaunch } from "./relaunch.ts";
 
-const REPO = fromFileUrl(new URL("../../", import.meta.url)).replace(/\/$/, "");
 const USAGE = "Usage: plumb new <document.md>";
 
 /**
@@ -53,33 +52,19 @@ export async function newCommand(args: string[], product: Product): Promise<numb
   const folder = dirname(path);
   const mayWrite = Deno.permissions.querySync({ name: "write", path: folder }).state === "granted";
   if (mayWrite) return await writeNew(given, path);
-  const mayRun = Deno.permissions.querySync({ name: "run", command: Deno.execPath() }).state ===
-    "granted";
-  if (narrowed || !mayRun) {
+  if (narrowed || !mayRelaunch()) {
     console.error(
       `Cannot write "${given}": Plumb was not given permission to write to "${folder}"`,
     );
     return 2;
   }
-  const child = await new Deno.Command(Deno.execPath(), {
-    args: [
-      "run",
-      `--config=${join(REPO, "deno.json")}`,
-      "--no-prompt",
-      `--allow-read=${folder}`,
-      `--allow-write=${folder}`,
-      fromFileUrl(product.mainUrl),
-      "new",
-      path,
-      "--narrowed",
-      "--as",
-      given,
-    ],
-    stdin: "null",
-    stdout: "inherit",
-    stderr: "inherit",
-  }).output();
-  return child.code;
+  return await relaunch(product, [`--allow-read=${folder}`, `--allow-write=${folder}`], [
+    "new",
+    path,
+    "--narrowed",
+    "--as",
+    given,
+  ]);
 }
 
 /**
