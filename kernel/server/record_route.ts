@@ -11,17 +11,25 @@ import { basename } from "node:path";
 import type { RunReport } from "../session/session.ts";
 import type { LastRun } from "./live_workspace.ts";
 
+/** What a record is gathered from: the document and its run (ui/record `gatherRecord`). */
+export interface RunFacts {
+  /** The document's path as given. */
+  path: string;
+  /** Its bytes as read. */
+  bytes: Uint8Array;
+  /** Its text (the bytes decoded). */
+  source: string;
+  report: RunReport;
+  /** When the run started (ms since 1970) and how long it took. */
+  startedMs: number;
+  durationMs: number;
+  /** `SOURCE_DATE_EPOCH` as found in the environment, if at all. */
+  sourceDateEpoch?: string;
+}
+
 /** The record module's face (ui/record/mod.ts), as `plumb export` and this route use it. */
 export interface RecordModule {
-  gatherRecord(facts: {
-    path: string;
-    bytes: Uint8Array;
-    source: string;
-    report: RunReport;
-    startedMs: number;
-    durationMs: number;
-    sourceDateEpoch?: string;
-  }): Promise<unknown>;
+  gatherRecord(facts: RunFacts): Promise<unknown>;
   renderRecord(input: unknown, options?: { paper?: "a4" | "letter" }): string;
 }
 

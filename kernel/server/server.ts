@@ -8,13 +8,13 @@
  *     GET  /app.<hash>.js|css the bundle, immutable
  *     GET  /katex/<file>      KaTeX's stylesheet and fonts, from its package
  *     GET  /live              WebSocket: document, cell and run messages
+ *     GET  /record            the static record of the latest run (record_route.ts)
  *     POST /api/cell[/new|/delete|/restore]  edits, applied only on the current version
  *  watchFolder(document's folder) ─▶ LiveWorkspace.request(changed paths)
  * ```
  *
  * @module
  */
-import { recordResponse } from "./record_route.ts";
 import { dirname, extname, join, normalize, resolve, sep } from "node:path";
 import type { Registry } from "../contract/mod.ts";
 import type { Bundle } from "./bundle.ts";
@@ -26,6 +26,7 @@ import { type ConnectionLimits, serveConnections } from "./listener.ts";
 import { upgradeWebSocket } from "./web_socket.ts";
 import type { SaveHooks } from "./replace_if_unchanged.ts";
 import { shellHtml } from "./shell.ts";
+import { recordResponse } from "./record_route.ts";
 import { removeStrayTemps } from "./stray_temps.ts";
 import { watchFolder } from "./watch_folder.ts";
 

@@ -26,16 +26,22 @@ export interface Printed {
  * @param cwd The folder the command is typed in.
  * @param program The executable.
  * @param args Its arguments.
+ * @param env More environment variables (e.g. SOURCE_DATE_EPOCH).
  * @returns Exit status and output (no colour codes).
  */
-export async function runIn(cwd: string, program: string, args: string[]): Promise<Printed> {
+export async function runIn(
+  cwd: string,
+  program: string,
+  args: string[],
+  env: Record<string, string> = {},
+): Promise<Printed> {
   const out = await new Deno.Command(program, {
     args,
     cwd,
     stdin: "null",
     stdout: "piped",
     stderr: "piped",
-    env: { NO_COLOR: "1", INIT_CWD: cwd },
+    env: { NO_COLOR: "1", INIT_CWD: cwd, ...env },
   }).output();
   const dec = new TextDecoder();
   return { code: out.code, stdout: dec.decode(out.stdout), stderr: dec.decode(out.stderr) };

@@ -149,3 +149,23 @@ export async function probe(port: number, token: string): Promise<number | null>
     } catch { /* closed by the timer */ }
   }
 }
+
+/**
+ * The first line a started server prints (its port, token and pid as JSON),
+ * leaving the rest of its output unread.
+ *
+ * @param child The server's process (stdout piped).
+ * @returns The line.
+ * @throws {Error} When the server ends before printing a line.
+ */
+export async function firstLine(child: Deno.ChildProcess): Promise<string> {
+  const reader = child.stdout.pipeThrough(new TextDecoderStream()).getReader();
+  let out = "";
+  while (!out.includes("\n")) {
+    const { value, done } = await reader.read();
+    if (done) throw new Error(`The server did not start: ${out}`);
+    out += value;
+  }
+  reader.releaseLock();
+  return out.split("\n")[0];
+}

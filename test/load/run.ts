@@ -19,7 +19,7 @@
  * @module
  */
 import { join } from "node:path";
-import { deafPage, IdlePool, openPage, type Page, probe } from "./_clients.ts";
+import { deafPage, firstLine, IdlePool, openPage, type Page, probe } from "./_clients.ts";
 
 const seconds = Number(Deno.args[Deno.args.indexOf("--seconds") + 1]) || 60;
 const PAGES = 50, DEAF = 3, IDLE = 500, EDITS_PER_S = 20;
@@ -57,15 +57,7 @@ async function start(dir: string) {
     stdout: "piped",
     stderr: "inherit",
   }).spawn();
-  const reader = child.stdout.pipeThrough(new TextDecoderStream()).getReader();
-  let out = "";
-  while (!out.includes("\n")) {
-    const { value, done } = await reader.read();
-    if (done) throw new Error(`The server did not start: ${out}`);
-    out += value;
-  }
-  reader.releaseLock();
-  const info = JSON.parse(out.split("\n")[0]) as { port: number; token: string; pid: number };
+  const info = JSON.parse(await firstLine(child)) as { port: number; token: string; pid: number };
   return { ...info, child, doc, csv: join(dir, "a.csv") };
 }
 

@@ -12,7 +12,7 @@
  */
 import { equal, ok } from "node:assert/strict";
 import { join } from "node:path";
-import { deafPage } from "../load/_clients.ts";
+import { deafPage, firstLine } from "../load/_clients.ts";
 
 const HELPER = new URL("./_serve_child.ts", import.meta.url).pathname;
 const CONFIG = new URL("../../deno.json", import.meta.url).pathname;
@@ -35,16 +35,8 @@ async function spawnServer(doc: string, files: number, extra: unknown = {}): Pro
     stdout: "piped",
     stderr: "piped",
   }).spawn();
-  const reader = child.stdout.pipeThrough(new TextDecoderStream()).getReader();
-  let out = "";
-  while (!out.includes("\n")) {
-    const { value, done } = await reader.read();
-    if (done) throw new Error(`The server did not start: ${out}`);
-    out += value;
-  }
-  reader.releaseLock();
+  const first = JSON.parse(await firstLine(child));
   void child.stdout.cancel().catch(() => {});
-  const first = JSON.parse(out.split("\n")[0]);
   const errText = child.stderr.pipeThrough(new TextDecoderStream()).getReader();
   let err = "";
   const pump = (async () => {

@@ -15,23 +15,10 @@ import { parseDocument } from "../../kernel/document/mod.ts";
 import { sha256Hex } from "../../kernel/hash.ts";
 import { VERSION } from "../../kernel/version.ts";
 import type { RunReport } from "../../kernel/session/types.ts";
-import type { RecordFile, RecordInput } from "./types.ts";
+import type { RunFacts } from "../../kernel/server/record_route.ts";
 
-/** What {@link gatherRecord} reads. */
-export interface RunFacts {
-  /** The document's path as given. */
-  path: string;
-  /** Its bytes as read. */
-  bytes: Uint8Array;
-  /** Its text (the bytes decoded). */
-  source: string;
-  report: RunReport;
-  /** When the run started (ms since 1970) and how long it took. */
-  startedMs: number;
-  durationMs: number;
-  /** `SOURCE_DATE_EPOCH` as found in the environment, if at all. */
-  sourceDateEpoch?: string;
-}
+export type { RunFacts };
+import type { RecordFile, RecordInput } from "./types.ts";
 
 interface TableResult {
   source?: string | null;
