@@ -7,7 +7,13 @@ import { dirname } from "node:path";
 import { VERSION } from "../version.ts";
 import { plainDeep } from "../arrays.ts";
 import { type RunReport, Session } from "../session/session.ts";
-import { findInlineRefs, nearMissFences, parseDocument, resolveValue } from "../document/mod.ts";
+import {
+  findInlineRefs,
+  nearMissFences,
+  type ParsedDocument,
+  parseDocument,
+  resolveValue,
+} from "../document/mod.ts";
 import { fileTrouble, fromCaller } from "./caller.ts";
 import { formatHuman } from "./format_human.ts";
 import type { Product } from "./product.ts";
@@ -56,17 +62,17 @@ function succeeded(report: RunReport): boolean {
  * resolve it (an unknown field, a list, a name that is both a field and a
  * parameter); a reference to a failed or held cell is that cell's error.
  */
-export function inlineValueErrors(source: string, report: RunReport): Located[] {
+export function inlineValueErrors(doc: ParsedDocument, report: RunReport): Located[] {
   const cells = new Map(report.cells.map((c) => [c.name, c]));
   const out: Located[] = [];
-  for (const block of parseDocument(source).blocks) {
+  for (const block of doc.blocks) {
     if (block.type !== "prose") continue;
     for (const ref of findInlineRefs(block).refs) {
       const cell = cells.get(ref.cell);
       if (cell?.state !== "current") continue;
       const r = resolveValue(cell.result, ref.cell, ref.path, ref.digits ?? null);
       if (!r.ok) {
-        const written = source.slice(ref.start, ref.end);
+        const written = doc.source.slice(ref.start, ref.end);
         out.push({
           message: `Inline value ${written}: ${r.error}`,
           line: ref.line,
@@ -79,9 +85,9 @@ export function inlineValueErrors(source: string, report: RunReport): Located[] 
 }
 
 /** Code blocks that were almost cells (`Fit power`, `fit` with no name), as warnings. */
-function fenceWarnings(source: string, product: Product): Located[] {
+function fenceWarnings(doc: ParsedDocument, product: Product): Located[] {
   const kinds = [...product.registry.keys()];
-  return nearMissFences(parseDocument(source), kinds).map((w) => ({
+  return nearMissFences(doc, kinds).map((w) => ({
     message: w.message,
     line: w.pos.line,
     column: w.pos.column,
@@ -132,8 +138,10 @@ export async function runCommand(args: string[], product: Product): Promise<numb
   });
   try {
     const report = await session.run(source);
-    report.errors.push(...inlineValueErrors(source, report));
-    const warnings = fenceWarnings(source, product);
+    // One parse of the text for both checks made after the run (the session keeps its own).
+    const doc = parseDocument(source);
+    report.errors.push(...inlineValueErrors(doc, report));
+    const warnings = fenceWarnings(doc, product);
     if (json) await writeJson(runJson(path, report, warnings));
     else {
       // Before the blank line and the counts that end the summary.
