@@ -87,18 +87,6 @@ export function formatDuration(ms: number): string {
 }
 
 /**
- * `[lo, hi]` with `sig` digits, or "—". For an interval around an estimate
- * with a standard error, {@link formatIntervalAt} rounds as metrology does.
- *
- * @param v The interval, or null.
- * @param sig Significant digits.
- * @returns The text.
- */
-export function formatInterval(v: [number, number] | null, sig = 5): string {
-  return v === null ? "—" : `[${formatNumber(v[0], sig)}, ${formatNumber(v[1], sig)}]`;
-}
-
-/**
  * A value followed by its unit, or the value alone.
  *
  * @param text The formatted value.
