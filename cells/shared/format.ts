@@ -20,7 +20,7 @@
  *
  * @module
  */
-import { formatNearOne, formatNumber, formatP } from "./_significant.ts";
+import { formatNearOne, formatP } from "./_significant.ts";
 
 export {
   type DigitPlace,
