@@ -121,6 +121,18 @@ export async function serveCommand(args: string[], product: Product): Promise<nu
   return await serveHere(a, given, path, product);
 }
 
+/**
+ * The server's V8 flags. A young generation of at most 8 MB a semi-space: a
+ * live update of 10,000 rows makes a few MB of short-lived arrays in the
+ * compute worker, and with V8's smallest sizes the worker stops to collect
+ * them several times an update; larger sizes bought nothing on the latency
+ * bench (8 against 32 MB, three runs each: p50 62-74 ms against 62-72 ms) but
+ * cost memory under load (`deno task load`, 60 s: RSS growth 106 MB at 32 MB,
+ * 66 MB at 8 MB; the young generation grows to its limit in both isolates).
+ * The load suite starts its server with the same flags.
+ */
+export const SERVE_V8_FLAGS = "--v8-flags=--max-semi-space-size=8";
+
 async function relaunch(a: ServeArgs, path: string, product: Product): Promise<number> {
   const port = a.port ?? freePort(a.host);
   const docDir = dirname(path);
@@ -130,11 +142,7 @@ async function relaunch(a: ServeArgs, path: string, product: Product): Promise<n
       "run",
       `--config=${join(REPO, "deno.json")}`,
       "--unstable-bundle",
-      // A larger young generation: a live update of 10,000 rows makes a few MB of
-      // short-lived arrays in the compute worker, and with V8's default the worker
-      // stops to collect them several times an update (measured on the latency
-      // bench: p50 about 100 -> 93 ms, and steadier). Costs at most ~64 MB a thread.
-      "--v8-flags=--max-semi-space-size=32",
+      SERVE_V8_FLAGS,
       ...flags.args,
       fromFileUrl(product.mainUrl),
       "serve",

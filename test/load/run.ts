@@ -19,6 +19,7 @@
  * @module
  */
 import { join } from "node:path";
+import { SERVE_V8_FLAGS } from "../../kernel/cli/serve.ts";
 import { deafPage, firstLine, IdlePool, openPage, type Page, probe } from "./_clients.ts";
 
 const seconds = Number(Deno.args[Deno.args.indexOf("--seconds") + 1]) || 60;
@@ -45,6 +46,7 @@ async function start(dir: string) {
   const child = new Deno.Command(Deno.execPath(), {
     args: [
       "run",
+      SERVE_V8_FLAGS, // as `plumb serve` starts its server
       "--config",
       CONFIG,
       "--allow-read",
