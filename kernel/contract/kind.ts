@@ -26,6 +26,7 @@
 import type { CellOutput, FileData, FileRef, InputRef, OutputType } from "./values.ts";
 import type { DocSettings } from "./settings.ts";
 import type { OptionDecls } from "./option_decl.ts";
+import type { HistoryFace } from "./history.ts";
 
 /** What `parse` gets: one cell's options and ways to report about them. */
 export interface ParseContext {
@@ -136,6 +137,11 @@ export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R
   columns?(result: R): ColumnInfo[];
   /** The body of a new cell of this kind that runs on the document at hand. */
   template(ctx: TemplateContext): string;
+  /**
+   * What the run history keeps of a result and how two kept results differ
+   * (optional: a kind without it is recorded by state only).
+   */
+  history?: HistoryFace<Spec, Out, R>;
 }
 
 /** Props every kind's view receives. */

@@ -31,6 +31,7 @@ export type {
   TextColumn,
 } from "./values.ts";
 export type { DocSettings } from "./settings.ts";
+export type { Change, ChangeContext, HistoryFace, RowChanges, TrendSample } from "./history.ts";
 export {
   badOption,
   checkOptionKeys,

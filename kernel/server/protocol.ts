@@ -9,6 +9,7 @@
  *   │   ◀── document {version, path, title, source, blocks, data}   on connect and on change
  *   │   ◀── cell {version, name, kind, state, ms?, result?, …}      per cell as a run goes
  *   │   ◀── run {version, run, ran, ms, errors}                     a run finished
+ *   │   ◀── changes {report, notes}                                 what changed since the last data
  *   │ POST /api/cell         {name, body, base}           ──▶ 200 {version} | 409 conflict
  *   │ POST /api/cell/new     {after, kind, name, base}    ──▶ 200 {version}
  *   │ POST /api/cell/delete  {name, base}                 ──▶ 200 {version, removed}
@@ -47,9 +48,12 @@
  * instead of the five per-row arrays they read.
  * A 409 no longer echoes the request's body (`yours` removed: the page shows
  * its own text) and may carry a `note`.
+ * Added: the `changes` message (the run history's change report).
  *
  * @module
  */
+
+import type { ChangeReport } from "../history/types.ts";
 
 /** The states of a cell, in our own words. */
 export type LiveCellState = "current" | "queued" | "computing" | "failed" | "held";
@@ -130,8 +134,20 @@ export interface RunMessage {
   errors: LivePosition[];
 }
 
+/**
+ * What changed since the previous data revision (kernel/history): sent after a
+ * run that appended a history record, and on connect when there is a report.
+ * `report` is null when the history holds fewer than two records; `notes` say
+ * what the history could not do (not writable, a torn last record skipped).
+ */
+export interface ChangesMessage {
+  type: "changes";
+  report: ChangeReport | null;
+  notes: string[];
+}
+
 /** A server → browser message. */
-export type ServerMessage = DocumentMessage | CellMessage | RunMessage;
+export type ServerMessage = DocumentMessage | CellMessage | RunMessage | ChangesMessage;
 
 /** `POST /api/cell`: replace one cell's body. */
 export interface SaveCellRequest {
