@@ -10,6 +10,7 @@
 import { basename } from "node:path";
 import type { RunReport } from "../session/session.ts";
 import type { LastRun } from "./live_workspace.ts";
+import type { ChangeReport } from "../history/types.ts";
 
 /** What a record is gathered from: the document and its run (ui/record `gatherRecord`). */
 export interface RunFacts {
@@ -25,6 +26,11 @@ export interface RunFacts {
   durationMs: number;
   /** `SOURCE_DATE_EPOCH` as found in the environment, if at all. */
   sourceDateEpoch?: string;
+  /**
+   * What changed since the previous data revision (kernel/history), and what
+   * the history could not do; absent or null when the history is off or empty.
+   */
+  changes?: { report: ChangeReport | null; notes: string[] } | null;
 }
 
 /** The record module's face (ui/record/mod.ts), as `plumb export` and this route use it. */
@@ -62,6 +68,7 @@ export async function recordResponse(
     report: last.report,
     startedMs: last.startedMs,
     durationMs: last.durationMs,
+    changes: last.changes === null ? null : { report: last.changes.report, notes: last.changes.notes },
   });
   const file = `${name.replace(/\.[^.]*$/, "")}.record.html`.replace(/["\\\r\n]/g, "_");
   return new Response(record.renderRecord(input), {
