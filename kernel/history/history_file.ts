@@ -1,0 +1,391 @@
+/**
+ * The run history file beside a document (`fade.md` → `fade.history.jsonl`):
+ * JSON Lines, each record a head line, one line a cell and an end line, every
+ * line carrying its record id (the format is in _history_lines.ts and
+ * docs/history.md).
+ *
+ * Appending is crash-safe and needs leave to write two names only, the
+ * history and {@link historyTempPath}:
+ *
+ * ```
+ *  read the file, sort it into records (_history_scan.ts)
+ *  ├─ clean and within `keep` ──▶ ONE write with O_APPEND (a line break first if the last
+ *  │                              line has none), fsync; a crash leaves at most the new
+ *  │                              record cut short, at the end, where the reader says so
+ *  └─ a record cut short, or more than `keep` ──▶ rewrite: the newest `keep` records and the
+ *         new one to .<name>.tmp, fsync; the file still as read (inode, size, time)? rename
+ *         over it, fsync the folder; otherwise leave it and start again
+ * ```
+ *
+ * An append whose file was renamed away meanwhile (another process's
+ * rewrite, between its read and its rename) is made again into the file now
+ * there; the reader drops the copy should both land. A repaired file is never
+ * left with a cut record in its middle, so a crash at any moment leaves at
+ * most the last record cut short.
+ *
+ * @module
+ */
+import { basename, dirname, extname, join } from "node:path";
+import { sha256Hex } from "../hash.ts";
+import { syncFolder } from "../server/atomic_write.ts";
+import { at, failedAt, historyFailure } from "./_history_failure.ts";
+import { recordLines } from "./_history_lines.ts";
+import { type Group, readGroup, scanHistory } from "./_history_scan.ts";
+import type { HistoryRead, HistoryRecord } from "./types.ts";
+
+export { HistoryFileError } from "./_history_failure.ts";
+
+/**
+ * The history file of a document: beside it, its extension replaced by `.history.jsonl`.
+ *
+ * @param documentPath The document's file.
+ * @returns The history file's path.
+ * @example
+ * ```ts
+ * import { historyPath } from "./history_file.ts";
+ * if (historyPath("/lab/fade.md") !== "/lab/fade.history.jsonl") throw new Error(historyPath("/lab/fade.md"));
+ * ```
+ */
+export function historyPath(documentPath: string): string {
+  const name = basename(documentPath);
+  return join(
+    dirname(documentPath),
+    `${name.slice(0, name.length - extname(name).length)}.history.jsonl`,
+  );
+}
+
+/**
+ * The one temporary name a rewrite of the history uses, beside it: a fixed
+ * name, so that leave to write it can be given ahead (a stale one from a
+ * crash is overwritten).
+ *
+ * @param path The history file.
+ * @returns `.<name>.tmp` in the same folder.
+ * @example
+ * ```ts
+ * import { historyTempPath } from "./history_file.ts";
+ * if (historyTempPath("/lab/fade.history.jsonl") !== "/lab/.fade.history.jsonl.tmp") throw new Error();
+ * ```
+ */
+export function historyTempPath(path: string): string {
+  return join(dirname(path), `.${basename(path)}.tmp`);
+}
+
+/**
+ * A record id: the UTC time, `-`, and 8 hex digits of the SHA-256 of the
+ * record's content (its lines as written with an empty id, say).
+ *
+ * @param time ISO 8601 UTC.
+ * @param body The record's content, serialised.
+ * @returns The id.
+ * @example
+ * ```ts
+ * import { recordId } from "./history_file.ts";
+ * const id = await recordId("2026-12-04T18:55:02.000Z", "");
+ * // SHA-256 of nothing starts e3b0c442 (FIPS 180-4 test vector).
+ * if (id !== "2026-12-04T18:55:02.000Z-e3b0c442") throw new Error(id);
+ * ```
+ */
+export async function recordId(time: string, body: string): Promise<string> {
+  return `${time}-${(await sha256Hex(new TextEncoder().encode(body))).slice(0, 8)}`;
+}
+
+/**
+ * A record as the history file holds it: head, cells, end, each line ending
+ * in a line break. Keys come in a fixed order, so the same record always
+ * gives the same text.
+ *
+ * @param record The record.
+ * @returns The text.
+ */
+export function serialiseRecord(record: HistoryRecord): string {
+  return recordLines(record).join("\n") + "\n";
+}
+
+/** What {@link appendRecord} did. */
+export interface Appended {
+  /** The record is in the file now (false: it was there already). */
+  written: boolean;
+  /** Complete records in the file now. */
+  records: number;
+  /** The oldest records dropped to keep `keep`. */
+  dropped: number;
+  /** Records cut short by an earlier crash, and unreadable lines, removed by the rewrite. */
+  repaired: number;
+}
+
+/** Options of {@link appendRecord}. */
+export interface AppendOptions {
+  /** The most records the history keeps (at least 1; default: no bound). */
+  keep?: number;
+}
+
+const MAX_TRIES = 5;
+
+/**
+ * Appends a record to a history file (created when absent): one write and an
+ * fsync, or an atomic rewrite when an earlier record was cut short or the
+ * history would exceed `keep` records.
+ *
+ * @param path The history file.
+ * @param record The record.
+ * @param opts How many records to keep.
+ * @returns What was done.
+ * @throws {HistoryFileError} One sentence naming the file and the reason
+ *   (`… could not be written: the folder is read-only`); the file is then as it was.
+ * @example
+ * ```ts
+ * import { appendRecord, readHistory } from "./history_file.ts";
+ * const dir = await Deno.makeTempDir(), path = `${dir}/a.history.jsonl`;
+ * const record = {
+ *   record: "2026-12-04T00:00:00.000Z-00000000", time: "2026-12-04T00:00:00.000Z", plumb: "0",
+ *   document: { path: "a.md", sha256: "ab" }, files: [], level: 0.95, cells: [],
+ * };
+ * const done = await appendRecord(path, record, { keep: 10 });
+ * if (!done.written || (await readHistory(path)).records[0].record !== record.record) throw new Error();
+ * await Deno.remove(dir, { recursive: true });
+ * ```
+ */
+export async function appendRecord(
+  path: string,
+  record: HistoryRecord,
+  opts: AppendOptions = {},
+): Promise<Appended> {
+  const keep = Math.max(1, Math.floor(opts.keep ?? Infinity));
+  const bytes = new TextEncoder().encode(serialiseRecord(record));
+  try {
+    for (let tries = 1;; tries++) {
+      const done = await appendOnce(path, record, bytes, keep, tries >= MAX_TRIES);
+      if (done) return done;
+    }
+  } catch (err) {
+    throw historyFailure(path, "written", err);
+  }
+}
+
+/** One attempt; null when another process changed the file meanwhile. */
+async function appendOnce(
+  path: string,
+  record: HistoryRecord,
+  bytes: Uint8Array,
+  keep: number,
+  last: boolean,
+): Promise<Appended | null> {
+  const before = await snapshot(path);
+  const scan = scanHistory(before?.bytes ?? new Uint8Array());
+  const records = scan.complete.length;
+  if (scan.complete.some((g) => g.id === record.record)) {
+    return { written: false, records, dropped: 0, repaired: 0 };
+  }
+  if (before && !last && (scan.cut > 0 || records + 1 > keep)) {
+    return await rewrite(path, before, scan, { record, bytes }, keep);
+  }
+  if (!await appendBytes(path, bytes, before === null) && !last) return null;
+  return { written: true, records: records + 1, dropped: 0, repaired: 0 };
+}
+
+/** The file's bytes and what it was when read; null when there is none. */
+async function snapshot(path: string): Promise<{ bytes: Uint8Array; info: Deno.FileInfo } | null> {
+  for (;;) {
+    let bytes: Uint8Array, info: Deno.FileInfo;
+    try {
+      bytes = await Deno.readFile(path);
+      info = await Deno.stat(path);
+    } catch (err) {
+      if (err instanceof Deno.errors.NotFound) return null;
+      throw failedAt("reading", err);
+    }
+    if (info.size === bytes.length) return { bytes, info };
+    // Appended to between the read and the stat: read again.
+  }
+}
+
+/**
+ * Writes the bytes at the end of the file in one call and flushes them.
+ *
+ * @returns False when the file was renamed away while we wrote (our bytes went with it).
+ */
+async function appendBytes(path: string, bytes: Uint8Array, create: boolean): Promise<boolean> {
+  const file = await at(
+    create ? "folder" : "file",
+    Deno.open(path, { read: true, append: true, create: true }),
+  );
+  let info: Deno.FileInfo;
+  try {
+    info = await file.stat();
+    let out = bytes;
+    if (info.size > 0) {
+      // A last line without its line break (a write cut short, an editor): ours starts on a new line.
+      const lastByte = new Uint8Array(1);
+      await file.seek(-1, Deno.SeekMode.End);
+      await file.read(lastByte);
+      if (lastByte[0] !== 10) out = concat([Uint8Array.of(10), bytes]);
+    }
+    // O_APPEND: the one write lands at the end as a whole, after any other process's.
+    let done = await at("file", file.write(out));
+    while (done < out.length) done += await at("file", file.write(out.subarray(done)));
+    await at("file", file.sync());
+  } finally {
+    file.close();
+  }
+  if (create) await syncFolder(dirname(path));
+  const now = await Deno.stat(path).catch(() => null);
+  return info.ino === null || (now !== null && now.ino === info.ino && now.dev === info.dev);
+}
+
+/**
+ * Replaces the file by its newest `keep` complete records, the new one among
+ * them, in time order; records cut short and unreadable lines go, records of
+ * a newer format stay. The rename happens only if the file is still the one read.
+ *
+ * @returns What was done, or null when the file changed since it was read.
+ */
+async function rewrite(
+  path: string,
+  before: { bytes: Uint8Array; info: Deno.FileInfo },
+  scan: ReturnType<typeof scanHistory>,
+  added: { record: HistoryRecord; bytes: Uint8Array },
+  keep: number,
+): Promise<Appended | null> {
+  // Leave to write the history itself, as an append would need: a read-only file stays as it is.
+  (await at("file", Deno.open(path, { append: true }))).close();
+  type Part = { time: string; id: string; parts: Uint8Array[] };
+  const own = (g: Group): Part => ({ time: g.head!.time, id: g.id, parts: linesOf(scan.bytes, g) });
+  const all: Part[] = [...scan.complete.map(own), {
+    time: added.record.time,
+    id: added.record.record,
+    parts: [added.bytes],
+  }];
+  all.sort(byTime);
+  const kept = all.slice(-keep);
+  const content = concat([...kept, ...scan.newer.map(own)].sort(byTime).flatMap((p) => p.parts));
+  const temp = historyTempPath(path);
+  await writeWhole(temp, content, before.info.mode ?? undefined);
+  try {
+    const now = await Deno.stat(path);
+    if (!sameVersion(now, before.info)) {
+      await Deno.remove(temp);
+      return null;
+    }
+    await at("folder", Deno.rename(temp, path));
+  } catch (err) {
+    await Deno.remove(temp).catch(() => {});
+    throw err;
+  }
+  await syncFolder(dirname(path));
+  return {
+    written: kept.some((p) => p.id === added.record.record),
+    records: kept.length,
+    dropped: all.length - kept.length,
+    repaired: scan.cut + scan.damaged,
+  };
+}
+
+/** A record's distinct lines, each with its line break. */
+function linesOf(bytes: Uint8Array, g: Group): Uint8Array[] {
+  return g.lines.flatMap((l) => [bytes.subarray(l.start, l.end), NEWLINE]);
+}
+
+const NEWLINE = Uint8Array.of(10);
+
+/** Writes the temporary file whole (a stale one is overwritten) and flushes it. */
+async function writeWhole(
+  temp: string,
+  bytes: Uint8Array,
+  mode: number | undefined,
+): Promise<void> {
+  try {
+    const file = await at(
+      "folder",
+      Deno.open(temp, { write: true, create: true, truncate: true, mode: mode ?? 0o644 }),
+    );
+    try {
+      for (let done = 0; done < bytes.length;) {
+        done += await at("folder", file.write(bytes.subarray(done)));
+      }
+      await at("folder", file.sync());
+    } finally {
+      file.close();
+    }
+    if (mode !== undefined && Deno.build.os !== "windows") {
+      await at("folder", Deno.chmod(temp, mode & 0o7777));
+    }
+  } catch (err) {
+    await Deno.remove(temp).catch(() => {});
+    throw err;
+  }
+}
+
+function sameVersion(a: Deno.FileInfo, b: Deno.FileInfo): boolean {
+  return a.size === b.size && a.ino === b.ino && a.dev === b.dev &&
+    a.mtime?.getTime() === b.mtime?.getTime();
+}
+
+function byTime(a: { time: string; id: string }, b: { time: string; id: string }): number {
+  return a.time < b.time ? -1 : a.time > b.time ? 1 : a.id < b.id ? -1 : a.id > b.id ? 1 : 0;
+}
+
+function concat(parts: Uint8Array[]): Uint8Array {
+  const out = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
+  let at = 0;
+  for (const p of parts) {
+    out.set(p, at);
+    at += p.length;
+  }
+  return out;
+}
+
+/**
+ * Reads a history file whole: its complete records, oldest first (by time,
+ * then id), and a sentence for each part left out (a record cut short, a
+ * line that is not JSON or not of the format). A missing file is an empty
+ * history.
+ *
+ * @param path The history file.
+ * @returns The records and the problems.
+ * @throws {HistoryFileError} When the file exists but cannot be read (`… could not be read: …`).
+ * @example
+ * ```ts
+ * import { readHistory } from "./history_file.ts";
+ * const read = await readHistory("/no/such/folder/a.history.jsonl");
+ * if (read.records.length !== 0 || read.problems.length !== 0) throw new Error();
+ * ```
+ */
+export async function readHistory(path: string): Promise<HistoryRead> {
+  const bytes = await readBytes(path);
+  const scan = scanHistory(bytes);
+  const records: HistoryRecord[] = [];
+  const problems = [...scan.problems];
+  for (const g of scan.complete) {
+    const r = readGroup(bytes, g);
+    if ("problem" in r) problems.push(r.problem);
+    else records.push(r);
+  }
+  return { records, problems: problems.sort((a, b) => a.no - b.no).map((p) => p.text) };
+}
+
+/**
+ * The newest complete record of a history, reading only its cell lines.
+ *
+ * @param path The history file.
+ * @returns The record, or null when the history holds none.
+ * @throws {HistoryFileError} When the file exists but cannot be read.
+ */
+export async function lastRecord(path: string): Promise<HistoryRecord | null> {
+  const bytes = await readBytes(path);
+  const { complete } = scanHistory(bytes);
+  for (let i = complete.length - 1; i >= 0; i--) {
+    const r = readGroup(bytes, complete[i]);
+    if (!("problem" in r)) return r;
+  }
+  return null;
+}
+
+async function readBytes(path: string): Promise<Uint8Array> {
+  try {
+    return await Deno.readFile(path);
+  } catch (err) {
+    if (err instanceof Deno.errors.NotFound) return new Uint8Array();
+    throw historyFailure(path, "read", err);
+  }
+}
