@@ -28,6 +28,8 @@ import { basename, dirname, join } from "node:path";
 import { Session } from "../session/session.ts";
 import { documentTrouble, fileTrouble, fromCaller } from "./caller.ts";
 import type { Product } from "./product.ts";
+import { recordHere } from "./run.ts";
+import { historyPath, historyTempPath } from "../history/mod.ts";
 import { mayRelaunch, relaunch } from "./relaunch.ts";
 import { findChromium, printToPdf } from "./print_pdf.ts";
 import type { RecordModule } from "../server/record_route.ts";
@@ -97,17 +99,29 @@ export async function exportCommand(args: string[], product: Product): Promise<n
   }
   const mayWrite =
     Deno.permissions.querySync({ name: "write", path: dirname(out) }).state === "granted";
-  if (!mayWrite) return await relaunchToWrite(args, product, dirname(out), chromium, a.narrowed);
+  const hist = historyPath(doc);
+  const mayWriteHistory =
+    Deno.permissions.querySync({ name: "write", path: hist }).state === "granted";
+  if (!mayWrite || (!mayWriteHistory && !a.narrowed && mayRelaunch())) {
+    return await relaunchToWrite(
+      args,
+      product,
+      [dirname(out), hist, historyTempPath(hist)],
+      chromium,
+      a.narrowed,
+    );
+  }
   return await writeRecord(a, doc, out, chromium, product);
 }
 
 async function relaunchToWrite(
   args: string[],
   product: Product,
-  folder: string,
+  folders: string[],
   chromium: string | null,
   narrowed: boolean,
 ): Promise<number> {
+  const folder = folders[0];
   if (narrowed || !mayRelaunch()) {
     console.error(
       `Cannot write the record: Plumb was not given permission to write to "${folder}"`,
@@ -116,7 +130,7 @@ async function relaunchToWrite(
   }
   return await relaunch(product, [
     "--allow-read",
-    `--allow-write=${folder}`,
+    `--allow-write=${folders.join(",")}`,
     "--allow-env=SOURCE_DATE_EPOCH,LOG_TOKENS,LOG_STREAM,INIT_CWD",
     ...(chromium === null ? [] : [`--allow-run=${chromium}`]),
   ], ["export", ...args, "--narrowed"]);
@@ -146,11 +160,15 @@ async function writeRecord(
     workerUrl: product.workerUrl,
     dir: dirname(doc),
     page: true,
+    history: true,
   });
   let html: string, ok: boolean;
   try {
     const started = Date.now();
     const report = await session.run(source);
+    const hist = historyPath(doc);
+    const mayWrite = Deno.permissions.querySync({ name: "write", path: hist }).state === "granted";
+    const recorded = await recordHere(doc, bytes, report, product, mayWrite);
     const record = await loading;
     const input = await record.gatherRecord({
       path: a.doc,
@@ -160,6 +178,7 @@ async function writeRecord(
       startedMs: started,
       durationMs: Date.now() - started,
       sourceDateEpoch: envEpoch(),
+      changes: recorded ? { report: recorded.report, notes: recorded.notes } : null,
     });
     html = record.renderRecord(input, { paper: a.paper ?? (a.pdf ? "a4" : undefined) });
     ok = report.cells.every((c) => c.state === "current");

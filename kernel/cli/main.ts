@@ -2,7 +2,8 @@
  * The `plumb` command line.
  *
  * ```
- * plumb run <document.md> [--json]   run every cell headless
+ * plumb run <document.md> [--json]   run every cell headless (and record it in the run history)
+ * plumb changes <document.md>        what changed since the previous data revision
  * plumb serve <document.md>          the live workspace in the browser
  * plumb new <document.md>            a new document with invented data beside it
  * plumb export <document.md>         its static record (HTML, or PDF with --pdf)
@@ -22,13 +23,18 @@ import { newCommand } from "./new.ts";
 import { runCommand } from "./run.ts";
 import { serveCommand } from "./serve.ts";
 import { exportCommand } from "./export.ts";
+import { changesCommand } from "./changes.ts";
 
 export type { Product };
 
 const USAGE = `Plumb: fit models to measurements and judge them
 
 Usage:
-  plumb run <document.md> [--json]   run every cell of an analysis document
+  plumb run <document.md> [--json]   run every cell of an analysis document and
+              [--no-history]         record the run in its history beside it
+  plumb changes <document.md>        what changed since the previous data revision
+              [--json]               (or between any two records of the history)
+              [--since T] [--until T]
   plumb serve <document.md>          open the live workspace: prints a URL to open
               [--port N] [--host H]  (default: a free port on 127.0.0.1)
   plumb new <document.md>            start an analysis: a document with one cell of
@@ -74,6 +80,7 @@ async function dispatch(args: string[], product: Product): Promise<number> {
   if (command === "serve") return await serveCommand(rest, product);
   if (command === "new") return await newCommand(rest, product);
   if (command === "export") return await exportCommand(rest, product);
+  if (command === "changes") return await changesCommand(rest, product);
   console.error(`Unknown command "${command}"\n\n${USAGE}`);
   return 2;
 }

@@ -3,7 +3,7 @@
  *
  * @module
  */
-import { dirname } from "node:path";
+import { basename, dirname } from "node:path";
 import { VERSION } from "../version.ts";
 import { plainDeep } from "../arrays.ts";
 import { type RunReport, Session } from "../session/session.ts";
@@ -12,9 +12,13 @@ import {
   nearMissFences,
   type ParsedDocument,
   parseDocument,
+  readSettings,
   resolveValue,
 } from "../document/mod.ts";
 import { fileTrouble, fromCaller } from "./caller.ts";
+import { sha256Hex } from "../hash.ts";
+import { historyPath, historyTempPath, type Recorded, recordRun } from "../history/mod.ts";
+import { mayRelaunch, relaunch } from "./relaunch.ts";
 import { formatHuman } from "./format_human.ts";
 import type { Product } from "./product.ts";
 
@@ -104,37 +108,75 @@ async function writeJson(value: unknown): Promise<void> {
   for (let at = 0; at < bytes.length;) at += await Deno.stdout.write(bytes.subarray(at));
 }
 
+/** `plumb run`'s arguments. */
+interface RunArgs {
+  path: string;
+  json: boolean;
+  /** `--no-history`: record nothing, report nothing. */
+  history: boolean;
+  /** Set by the relaunch that may write the history (never typed by a user). */
+  narrowed: boolean;
+}
+
+function parseRunArgs(args: string[]): RunArgs | string {
+  const a: RunArgs = { path: "", json: false, history: true, narrowed: false };
+  const paths: string[] = [];
+  for (const x of args) {
+    if (x === "--json") a.json = true;
+    else if (x === "--no-history") a.history = false;
+    else if (x === "--narrowed") a.narrowed = true;
+    else if (x.startsWith("-")) return `Unknown option "${x}"`;
+    else paths.push(x);
+  }
+  if (paths.length !== 1) return "Usage: plumb run <document.md> [--json] [--no-history]";
+  a.path = paths[0];
+  return a;
+}
+
 /**
- * Runs `plumb run` with its arguments.
+ * Runs `plumb run` with its arguments. The run history is written beside the
+ * document: a process that may not write there relaunches itself allowed to
+ * write the history file (and its temporary twin) only; one that may not
+ * relaunch either runs without writing and says so.
  *
  * @param args Arguments after `run`.
  * @param product The kinds and the worker entry.
  * @returns The exit status.
  */
 export async function runCommand(args: string[], product: Product): Promise<number> {
-  const json = args.includes("--json");
-  const paths = args.filter((a) => a !== "--json");
-  const unknown = paths.find((a) => a.startsWith("-"));
-  if (paths.length !== 1 || unknown) {
-    console.error(
-      unknown ? `Unknown option "${unknown}"` : "Usage: plumb run <document.md> [--json]",
-    );
+  const a = parseRunArgs(args);
+  if (typeof a === "string") {
+    console.error(a);
     return 2;
   }
-  const path = paths[0];
+  const path = a.path;
   const file = fromCaller(path);
+  let bytes: Uint8Array;
   let source: string;
   try {
-    source = new TextDecoder("utf-8", { fatal: true }).decode(await Deno.readFile(file));
+    bytes = await Deno.readFile(file);
+    source = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
   } catch (err) {
     const why = err instanceof TypeError ? "not valid UTF-8" : fileTrouble(err);
     console.error(`Cannot read document "${path}": ${why}`);
     return 2;
   }
+  const hist = historyPath(file);
+  const wantHistory = a.history && (readSettings(parseDocument(source)).settings.history ?? 1) > 0;
+  const mayWrite = (p: string) =>
+    Deno.permissions.querySync({ name: "write", path: p }).state === "granted";
+  if (wantHistory && !a.narrowed && !mayWrite(hist) && mayRelaunch()) {
+    return await relaunch(product, [
+      "--allow-read",
+      `--allow-write=${hist},${historyTempPath(hist)}`,
+      "--allow-env=LOG_TOKENS,LOG_STREAM,INIT_CWD",
+    ], ["run", ...args, "--narrowed"]);
+  }
   const session = new Session({
     registry: product.registry,
     workerUrl: product.workerUrl,
     dir: dirname(file),
+    history: wantHistory,
   });
   try {
     const report = await session.run(source);
@@ -142,11 +184,18 @@ export async function runCommand(args: string[], product: Product): Promise<numb
     const doc = parseDocument(source);
     report.errors.push(...inlineValueErrors(doc, report));
     const warnings = fenceWarnings(doc, product);
-    if (json) await writeJson(runJson(path, report, warnings));
-    else {
+    const recorded = wantHistory
+      ? await recordHere(file, bytes, report, product, mayWrite(hist))
+      : null;
+    if (a.json) {
+      const out = runJson(path, report, warnings);
+      if (recorded) out.history = historyJson(recorded);
+      await writeJson(out);
+    } else {
       // Before the blank line and the counts that end the summary.
       const human = formatHuman(path, report, product.registry).split("\n");
       const lines = warnings.map((w) => `warning   line ${w.line}:${w.column}  ${w.message}`);
+      if (recorded) lines.push(...historyLines(recorded, path));
       human.splice(human.length - 2, 0, ...lines);
       console.log(human.join("\n"));
     }
@@ -154,4 +203,81 @@ export async function runCommand(args: string[], product: Product): Promise<numb
   } finally {
     session.close();
   }
+}
+
+/**
+ * Records a run in the document's history, or, without leave to write there,
+ * reports against the history as it is (the run held in memory) and says so.
+ *
+ * @param file The document's file.
+ * @param bytes Its bytes as run.
+ * @param report The run's report (made with the session's `history: true`).
+ * @param product The kinds.
+ * @param mayWrite Whether this process may write the history file.
+ * @returns What was recorded and reported; null when the document says `history: off`.
+ */
+export async function recordHere(
+  file: string,
+  bytes: Uint8Array,
+  report: RunReport,
+  product: Product,
+  mayWrite: boolean,
+): Promise<Recorded | null> {
+  const inputs = new Map(report.cells.map((c) => [c.name, c.inputs ?? []]));
+  const opts = {
+    document: file,
+    documentSha256: await sha256Hex(bytes),
+    report,
+    registry: product.registry,
+    inputsOf: (cell: string) => inputs.get(cell) ?? [],
+  };
+  if (mayWrite) return await recordRun(opts);
+  const r = await recordRun({ ...opts, dryRun: true });
+  if (r) {
+    r.notes.unshift(
+      `The run history ${
+        basename(r.path)
+      } was not written: Plumb may not write beside the document`,
+    );
+  }
+  return r;
+}
+
+/** The run history's part of RUN-JSON (`history`). */
+function historyJson(r: Recorded): Record<string, unknown> {
+  return {
+    path: r.path,
+    written: r.written,
+    records: r.records,
+    notes: r.notes,
+    changes: r.report === null ? null : {
+      from: r.report.from,
+      to: r.report.to,
+      baseline: r.report.baseline,
+      sentences: r.report.sentences,
+    },
+  };
+}
+
+/** The run history's lines in the summary: what changed since the previous data revision. */
+export function historyLines(r: Recorded, document: string, most = 8): string[] {
+  const out: string[] = [];
+  for (const n of r.notes) out.push(`history   ${n}`);
+  const rep = r.report;
+  if (rep === null || rep.sentences.length === 0) return out;
+  out.push(
+    `changes   since ${
+      rep.baseline === "previous data revision" ? "the last data" : "the last run"
+    }, ${humanTime(rep.from.time)} (plumb changes ${document}):`,
+  );
+  for (const s of rep.sentences.slice(0, most)) out.push(`${" ".repeat(10)}${s}`);
+  if (rep.sentences.length > most) {
+    out.push(`${" ".repeat(10)}and ${rep.sentences.length - most} more`);
+  }
+  return out;
+}
+
+/** `2026-12-04T18:55:02.123Z` as `2026-12-04 18:55 UTC`. */
+export function humanTime(iso: string): string {
+  return `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
 }

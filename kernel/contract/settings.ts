@@ -16,6 +16,11 @@ export interface DocSettings {
   criterion: string;
   /** Largest data file a table reads, in bytes. Default 512 MiB. */
   maxFileBytes: number;
+  /**
+   * Records the run history keeps (kernel/history); 0 keeps none (`history: off`).
+   * Absent: the default, 100.
+   */
+  history?: number;
   /** Everything else that was in the front matter. */
   extra: Record<string, unknown>;
 }

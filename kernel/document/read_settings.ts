@@ -8,6 +8,7 @@
  * | `seed` | `1` | a whole number, 0 or more |
  * | `criterion` | `"aicc"` | `aic`, `aicc`, `bic` or `loo` (any letter case) |
  * | `max_file_size` | 512 MiB | bytes, or text like `512 MB`, `2 GiB` |
+ * | `history` | `100` | records the run history keeps: a whole number 1 to 100,000, or `off` |
  *
  * Every other key is kept in `extra`.
  *
@@ -29,7 +30,10 @@ export interface SettingsResult {
 }
 
 const CRITERIA = ["aic", "aicc", "bic", "loo"];
-const KNOWN = new Set(["title", "confidence", "seed", "criterion", "max_file_size"]);
+const KNOWN = new Set(["title", "confidence", "seed", "criterion", "max_file_size", "history"]);
+
+/** The most records a history may keep (a bound on the file, not a target). */
+const MOST_RECORDS = 100_000;
 
 function describe(value: unknown): string {
   if (Array.isArray(value)) return "a list";
@@ -79,6 +83,17 @@ const CHECKS: Record<string, [keyof DocSettings, Check]> = {
       ? { problem: "must be a size such as 512 MB, 2 GiB or a number of bytes" }
       : { value: n };
   }],
+  history: [
+    "history",
+    (v) =>
+      v === false || (typeof v === "string" && v.toLowerCase() === "off")
+        ? { value: 0 }
+        : Number.isSafeInteger(v) && (v as number) >= 1 && (v as number) <= MOST_RECORDS
+        ? { value: v }
+        : {
+          problem: `must be a whole number from 1 to ${MOST_RECORDS.toLocaleString("en")}, or off`,
+        },
+  ],
 };
 
 /** The settings of a document without front matter (each key's default). */
@@ -88,6 +103,7 @@ export const DEFAULT_SETTINGS: Readonly<DocSettings> = Object.freeze({
   seed: 1,
   criterion: "aicc",
   maxFileBytes: 512 * 2 ** 20,
+  history: 100,
   extra: {},
 });
 

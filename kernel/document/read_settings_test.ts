@@ -12,6 +12,7 @@ Deno.test("readSettings() fills defaults without front matter", () => {
       seed: 1,
       criterion: "aicc",
       maxFileBytes: 512 * 1024 * 1024,
+      history: 100,
       extra: {},
     },
     errors: [],
@@ -20,7 +21,7 @@ Deno.test("readSettings() fills defaults without front matter", () => {
 
 Deno.test("readSettings() reads every setting and keeps other keys in extra", () => {
   const { settings, errors } = settingsOf(
-    "---\ntitle: Fade of batch 7\nconfidence: 0.99\nseed: 42\ncriterion: BIC\nmax_file_size: 2 GiB\nauthor: { name: R. Q. }\n---\n",
+    "---\ntitle: Fade of batch 7\nconfidence: 0.99\nseed: 42\ncriterion: BIC\nmax_file_size: 2 GiB\nhistory: 12\nauthor: { name: R. Q. }\n---\n",
   );
   assert.deepEqual(errors, []);
   assert.deepEqual(settings, {
@@ -29,6 +30,7 @@ Deno.test("readSettings() reads every setting and keeps other keys in extra", ()
     seed: 42,
     criterion: "bic",
     maxFileBytes: 2 * 1024 ** 3,
+    history: 12,
     extra: { author: { name: "R. Q." } },
   });
 });
@@ -88,5 +90,18 @@ Deno.test("readSettings() places front matter YAML errors in the document", () =
   const list = settingsOf("---\n- a\n---\n").errors;
   assert.deepEqual(list.map((e) => [e.message, e.pos]), [
     ["Front matter must be a YAML mapping of key: value", { line: 2, column: 1 }],
+  ]);
+});
+
+Deno.test("readSettings() reads history: a number of records, or off", () => {
+  const history = (v: string) => settingsOf(`---\nhistory: ${v}\n---\n`);
+  assert.equal(history("off").settings.history, 0);
+  assert.equal(history("OFF").settings.history, 0);
+  assert.equal(history("false").settings.history, 0);
+  assert.equal(history("1").settings.history, 1);
+  const bad = history("0");
+  assert.equal(bad.settings.history, 100);
+  assert.deepEqual(bad.errors.map((e) => [e.message, e.pos.line]), [
+    ['Setting "history" must be a whole number from 1 to 100,000, or off: got 0', 2],
   ]);
 });

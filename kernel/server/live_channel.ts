@@ -38,7 +38,7 @@
  * @module
  */
 import type { PageText } from "../session/session.ts";
-import type { CellMessage, DocumentMessage, RunMessage } from "./protocol.ts";
+import type { CellMessage, ChangesMessage, DocumentMessage, RunMessage } from "./protocol.ts";
 
 /** A cell message as the server holds it: the result as the worker's JSON text. */
 export interface OutgoingCell extends Omit<CellMessage, "result"> {
@@ -47,7 +47,7 @@ export interface OutgoingCell extends Omit<CellMessage, "result"> {
 }
 
 /** A server → browser message as the server holds it (the page reads it as a `ServerMessage`). */
-export type Outgoing = DocumentMessage | OutgoingCell | RunMessage;
+export type Outgoing = DocumentMessage | OutgoingCell | RunMessage | ChangesMessage;
 
 /** What the channel needs of a socket (a WebSocket, or web_socket.ts's LiveSocket). */
 export interface LiveSink {

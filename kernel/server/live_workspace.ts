@@ -10,6 +10,9 @@
  *                                 │ onEvent ──▶ {type:"cell"} to every browser
  *                                 ▼
  *                           {type:"run", ran, ms}
+ *                                 │ recordRun (kernel/history): a record appended when the
+ *                                 ▼ inputs differ from the last one's
+ *                           {type:"changes", report, notes}   (kept for browsers that connect later)
  * ```
  *
  * Runs never overlap: a newer snapshot makes the running one stop at its next
@@ -42,7 +45,8 @@ import type { Registry } from "../contract/mod.ts";
 import { type RunReport, Session, type SessionEvent } from "../session/session.ts";
 import { documentMessage, type FileInfo } from "./document_message.ts";
 import type { Outgoing, OutgoingCell } from "./live_channel.ts";
-import type { DocumentMessage } from "./protocol.ts";
+import type { ChangesMessage, DocumentMessage } from "./protocol.ts";
+import { recordRun } from "../history/mod.ts";
 
 /** Options of a live workspace. */
 export interface LiveOptions {
@@ -71,6 +75,8 @@ export interface LastRun {
   report: RunReport;
   startedMs: number;
   durationMs: number;
+  /** What changed since the previous data revision, as the page was last told. */
+  changes: ChangesMessage | null;
 }
 
 interface Snapshot {
@@ -103,6 +109,8 @@ export class LiveWorkspace {
   #dirty = false;
   #loop: Promise<void> | null = null;
   #lastRun: LastRun | null = null;
+  /** The latest `changes` message (sent again to browsers that connect later). */
+  #changes: ChangesMessage | null = null;
 
   /** @param opts Document path, kinds, worker entry and the message sink. */
   constructor(opts: LiveOptions) {
@@ -113,6 +121,7 @@ export class LiveWorkspace {
       workerUrl: opts.workerUrl,
       dir: dirname(this.#abs),
       page: true,
+      history: true,
       onEvent: (e) => this.#onEvent(e),
     });
   }
@@ -150,7 +159,8 @@ export class LiveWorkspace {
    * @returns The document message, then the latest message of every cell.
    */
   welcome(): Outgoing[] {
-    return this.#doc ? [this.#doc, ...this.#cells.values()] : [];
+    if (!this.#doc) return [];
+    return [this.#doc, ...this.#cells.values(), ...(this.#changes ? [this.#changes] : [])];
   }
 
   /**
@@ -251,6 +261,7 @@ export class LiveWorkspace {
         report,
         startedMs,
         durationMs: Date.now() - startedMs,
+        changes: this.#changes,
       };
       this.#endGrace({
         type: "run",
@@ -260,9 +271,41 @@ export class LiveWorkspace {
         ms: Math.round(performance.now() - t0),
         errors: report.errors,
       });
+      await this.#record(snap, report);
     } finally {
       this.#runningPrint = null;
     }
+  }
+
+  /**
+   * Records a finished run in the document's history and tells the browsers
+   * what changed, when that differs from what they were last told. The
+   * history never stops the workspace: a failure is a note in the message.
+   */
+  async #record(snap: Snapshot, report: RunReport): Promise<void> {
+    let msg: ChangesMessage;
+    try {
+      const inputs = new Map(report.cells.map((c) => [c.name, c.inputs ?? []]));
+      const r = await recordRun({
+        document: this.#abs,
+        documentSha256: snap.version,
+        report,
+        registry: this.#opts.registry,
+        inputsOf: (cell) => inputs.get(cell) ?? [],
+      });
+      if (r === null) msg = { type: "changes", report: null, notes: [] }; // history: off
+      else msg = { type: "changes", report: r.report, notes: r.notes };
+    } catch (err) {
+      msg = {
+        type: "changes",
+        report: null,
+        notes: [`The run history failed: ${(err as Error).message}`],
+      };
+    }
+    const same = this.#changes !== null && JSON.stringify(this.#changes) === JSON.stringify(msg);
+    this.#changes = msg;
+    if (this.#lastRun) this.#lastRun.changes = msg;
+    if (!same) this.#opts.send(msg);
   }
 
   /** Starts a run's grace period (busy states of a superseded run still held stay held). */

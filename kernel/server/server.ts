@@ -28,6 +28,7 @@ import type { SaveHooks } from "./replace_if_unchanged.ts";
 import { shellHtml } from "./shell.ts";
 import { recordResponse } from "./record_route.ts";
 import { removeStrayTemps } from "./stray_temps.ts";
+import { historyPath, historyTempPath } from "../history/mod.ts";
 import { watchFolder } from "./watch_folder.ts";
 
 /** Options of {@link startServer}. */
@@ -126,8 +127,12 @@ export async function startServer(opts: ServerOptions): Promise<LiveServer> {
   const port = server.addr.port;
   for (const h of allowedHosts(hostname, port)) ctx.hosts.add(h);
   const ready = workspace.request();
+  // The run history beside the document is written after each run: not a change to run for.
+  const own = new Set([historyPath(workspace.documentPath)]);
+  own.add(historyTempPath([...own][0]));
   const watch = watchFolder(dirname(workspace.documentPath), (paths) => {
-    void workspace.request(paths);
+    for (const p of own) paths.delete(p);
+    if (paths.size > 0) void workspace.request(paths);
   }, opts.debounceMs);
   return {
     url: `http://${hostname}:${port}/enter/${token}`,

@@ -21,6 +21,7 @@ function base(node: CellNode) {
     name: node.name,
     kind: node.kind,
     line: node.line,
+    inputs: node.deps,
     warnings: [...node.warnings],
     result: null,
     summaryLine: null,
@@ -90,6 +91,7 @@ export function answerReport(
     ms: d.ms,
     cached,
     ...(d.omitted && d.omitted.length > 0 ? { omitted: d.omitted } : {}),
+    ...(d.kept !== undefined ? { kept: d.kept } : {}),
   };
   if (d.summaryJson !== undefined) {
     const id = outcome.shape ? `${key}+${outcome.shape}` : key;

@@ -28,6 +28,8 @@ export interface RunHost {
   outcomes: Map<string, Outcome>;
   /** Whether results are the page's copies (`SessionOptions.page`). */
   page: boolean;
+  /** Whether each answer carries what the run history keeps (`SessionOptions.history`). */
+  keep: boolean;
   /** Parses and checks a document (the last one is remembered). */
   prepare(source: string): Prepared;
   /** Keys every cell that can run, given the SHA-256 of each data file. */

@@ -231,12 +231,20 @@ export class Run {
   #finish(): RunReport {
     const ran = this.#sent.filter((s) => s.computed).map((s) => s.name);
     const settings = this.#plan.settings;
-    if (this.#superseded) return { settings, cells: [], errors: [], ran, superseded: true };
+    if (this.#superseded) {
+      return { settings, cells: [], errors: [], files: [], ran, superseded: true };
+    }
     this.#forgetUnused();
     return {
       settings,
       cells: this.#plan.graph.nodes.map((n) => this.#reports.get(n)!),
       errors: this.#plan.docErrors.map(located),
+      files: [...this.#fileData].map(([path, f]) => ({
+        path,
+        sha256: f.sha256,
+        bytes: f.bytes.length,
+        lines: countLines(f.bytes),
+      })),
       ran,
       superseded: false,
     };
@@ -331,7 +339,13 @@ export class Run {
   ): Promise<Outcome | undefined> {
     const holder = this.#host.pool.holderOf(key);
     if (holder === undefined) return undefined;
-    const d = await holder.summarize({ key, kind: node.kind, spec: node.spec, page });
+    const d = await holder.summarize({
+      key,
+      kind: node.kind,
+      spec: node.spec,
+      page,
+      ...(this.#host.keep ? { keep: true } : {}),
+    });
     if (!d.ok) return undefined;
     const again = { done: { ...d, warnings: outcome.done.warnings, ms: outcome.done.ms }, shape };
     this.#host.outcomes.set(key, again);
@@ -377,6 +391,7 @@ export class Run {
       inputs: Object.fromEntries(node.deps.map((d) => [d, this.#plan.keys.get(d)!])),
       files,
       page: this.#pageFields(node.name),
+      ...(this.#host.keep ? { keep: true } : {}),
       onProgress: (fraction, note) => {
         if (tell !== "nothing") this.#emit(node.name, "computing", fraction, note);
       },
@@ -415,4 +430,11 @@ export class Run {
     if (!this.#superseded) this.#host.emit({ name: report.name, state: report.state, report });
     return report;
   }
+}
+
+/** Text lines in a file's bytes: its line feeds, and one more when the last line has none. */
+function countLines(bytes: Uint8Array): number {
+  let lines = 0;
+  for (let at = bytes.indexOf(10); at !== -1; at = bytes.indexOf(10, at + 1)) lines++;
+  return bytes.length > 0 && bytes[bytes.length - 1] !== 10 ? lines + 1 : lines;
 }

@@ -65,6 +65,7 @@ export class Session {
       files: this.#files,
       outcomes: this.#outcomes,
       page: opts.page === true,
+      keep: opts.history === true,
       prepare: (source) => this.#prepare(source),
       keyed: (prep, shas) => this.#keyed(prep, shas),
       emit: (e) => opts.onEvent?.(e),

@@ -17,6 +17,8 @@ export interface CellReport {
   name: string;
   kind: string;
   line: number;
+  /** The cells it reads directly. */
+  inputs?: readonly string[];
   state: CellState;
   error: { message: string; line: number; column: number } | null;
   warnings: string[];
@@ -30,6 +32,11 @@ export interface CellReport {
   cached: boolean;
   /** With `page: true`: the fields of the complete result left out of `result`. */
   omitted?: string[];
+  /**
+   * With `history: true`, what the run history keeps of a current cell's result
+   * (the kind's `history.keep`; null when it failed, absent for a kind without one).
+   */
+  kept?: unknown;
   /**
    * With `page: true`, a current cell's result as the worker wrote it for the
    * page (`result` is then parsed from its text when first read).
@@ -54,6 +61,11 @@ export interface RunReport {
   cells: CellReport[];
   /** Errors outside cells: front matter, inline references in prose. */
   errors: { message: string; line: number; column: number }[];
+  /**
+   * The data files the run read, in the order first read: path as written,
+   * SHA-256, size and text lines (line feeds, plus an unterminated last line).
+   */
+  files: { path: string; sha256: string; bytes: number; lines: number }[];
   /** Names of the cells computed by this run, in the order they were sent to a worker. */
   ran: string[];
   superseded: boolean;
@@ -98,4 +110,9 @@ export interface SessionOptions {
   page?: boolean;
   /** Compute workers (default: two on four or more cores, else one; kernel/worker/pool.ts). */
   workers?: number;
+  /**
+   * Ask each kind for what the run history keeps of its results
+   * (`CellReport.kept`; kernel/history). Default false.
+   */
+  history?: boolean;
 }

@@ -15,7 +15,7 @@
  *
  * @module
  */
-import type { CellOutput, FileData, Registry } from "../contract/mod.ts";
+import type { CellKind, CellOutput, FileData, Registry } from "../contract/mod.ts";
 import { plainDeep } from "../arrays.ts";
 import { CellError } from "../errors.ts";
 import { pageCopy, pageLeavesOut } from "./page_copy.ts";
@@ -136,7 +136,7 @@ function summarise(
   const kind = registry.get(req.kind)!;
   if (req.page === undefined) {
     const summary = kind.summary(out, req.spec);
-    return { ok: true, summary, line: kind.line(summary) };
+    return { ok: true, summary, line: kind.line(summary), ...kept(kind, req, out, summary) };
   }
   const keep = new Set(req.page);
   const leave = pageLeavesOut(kind, keep);
@@ -145,7 +145,32 @@ function summarise(
   const omitted = [...new Set([...leave, ...page.omitted])];
   // Plain JSON from here on: the server forwards this text to the page as it is.
   const summaryJson = JSON.stringify(plainDeep(page.result));
-  return { ok: true, summaryJson, omitted, line: kind.line(summary) };
+  return {
+    ok: true,
+    summaryJson,
+    omitted,
+    line: kind.line(summary),
+    ...kept(kind, req, out, summary),
+  };
+}
+
+/**
+ * What the run history keeps of a result, when asked and the kind has a
+ * history face. A face that throws keeps nothing (null): the cell's result
+ * stands, the history records its state only.
+ */
+function kept(
+  kind: CellKind,
+  req: RunRequest | SummaryRequest,
+  out: CellOutput,
+  summary: unknown,
+): { kept?: unknown } {
+  if (!req.keep || !kind.history) return {};
+  try {
+    return { kept: plainDeep(kind.history.keep(out, req.spec, summary)) };
+  } catch {
+    return { kept: null };
+  }
 }
 
 /**

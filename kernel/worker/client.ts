@@ -177,6 +177,7 @@ export class ComputeWorker {
         inputs: job.inputs,
         files,
         ...(job.page === undefined ? {} : { page: job.page }),
+        ...(job.keep ? { keep: true } : {}),
       });
     });
   }

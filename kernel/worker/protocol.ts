@@ -59,6 +59,8 @@ export interface RunRequest {
    * name them). Absent: the complete summary.
    */
   page?: string[];
+  /** True: also answer with what the run history keeps (`DoneMessage.kept`). */
+  keep?: boolean;
 }
 
 /** Summarise an output the worker holds again, in another shape (nothing is recomputed). */
@@ -70,6 +72,8 @@ export interface SummaryRequest {
   spec: unknown;
   /** As in {@link RunRequest.page}. */
   page?: string[];
+  /** As in {@link RunRequest.keep}. */
+  keep?: boolean;
 }
 
 /** File content, sent once per distinct SHA-256. */
@@ -153,6 +157,11 @@ export interface DoneMessage {
   summaryJson?: string;
   /** Fields of the complete summary left out of this page copy (page requests only). */
   omitted?: string[];
+  /**
+   * What the run history keeps of the result (the kind's `history.keep`), when
+   * asked (`keep`) and the kind has a history face; null when keeping failed.
+   */
+  kept?: unknown;
   line?: string;
   error?: WireError;
   warnings: string[];

@@ -14,6 +14,7 @@
 import puppeteer, { type Browser, type Page } from "puppeteer-core";
 import type { ServerMessage } from "../../kernel/server/protocol.ts";
 import { printOnce } from "../_once.ts";
+import { copyDir } from "../_copy_dir.ts";
 
 /** The browser the suites drive. */
 export const CHROMIUM = "/usr/bin/chromium";
@@ -70,14 +71,6 @@ export interface Served {
   doc: string;
   /** Stops the server and removes the folder. */
   close(): Promise<void>;
-}
-
-function copyDir(from: string, to: string): void {
-  Deno.mkdirSync(to, { recursive: true });
-  for (const e of Deno.readDirSync(from)) {
-    if (e.isDirectory) copyDir(`${from}/${e.name}`, `${to}/${e.name}`);
-    else if (e.isFile) Deno.copyFileSync(`${from}/${e.name}`, `${to}/${e.name}`);
-  }
 }
 
 function freePort(): number {

@@ -187,3 +187,10 @@ Deno.test("extrusion: collinear throughput and screw speed, throughput kept, run
   const pi = (cell(json, "setpoint").at as { pi: number[] }[])[0].pi;
   ok(pi[1] < 140, "the set point stays below the 140 bar the prose names");
 });
+
+Deno.test("fade/generate_later.ts re-creates the demo's later file byte for byte", async () => {
+  const { makeLater } = await import("../../examples/fade/generate_later.ts");
+  const bytes = await Deno.readFile(join(EXAMPLES, "fade", "data", "batch7-later.csv"));
+  deepEqual(new TextEncoder().encode(makeLater()), bytes);
+  ok(/invented/i.test(await Deno.readTextFile(join(EXAMPLES, "fade", "data", "README.md"))));
+});

@@ -100,10 +100,13 @@ export const versionOf = async (data: string | Uint8Array): Promise<string> =>
   await sha256Hex(typeof data === "string" ? new TextEncoder().encode(data) : data);
 
 /**
- * The names in a folder.
+ * The names in a folder, less the run history the server keeps beside the
+ * document after each run (kernel/history: `doc.history.jsonl` and its
+ * temporary twin), which the save path never touches.
  *
  * @param dir The folder.
  * @returns Its entries' names, sorted.
  */
 export const namesIn = async (dir: string): Promise<string[]> =>
-  (await Array.fromAsync(Deno.readDir(dir))).map((e) => e.name).sort();
+  (await Array.fromAsync(Deno.readDir(dir))).map((e) => e.name)
+    .filter((n) => !/^\.?doc\.history\.jsonl(\.tmp)?$/.test(n)).sort();

@@ -142,7 +142,7 @@ Deno.test("POST /api/cell after the document was removed answers 404 naming it a
     const res = await post(ctx, "/api/cell", { name: "t", body: "x: 1\n", base: "0".repeat(64) });
     equal(res.status, 404);
     equal((await res.json()).error, `Cannot edit "doc.md": the file is no longer there`);
-    deepEqual((await Array.fromAsync(Deno.readDir(ctx.dir))).map((e) => e.name), ["a.csv"]);
+    deepEqual(await namesIn(ctx.dir), ["a.csv"]);
   });
 });
 
@@ -233,7 +233,7 @@ const KEPT = [
 
 Deno.test("startServer() removes its document's stray temporary files and nothing else", async () => {
   await withServer({ document: SIMPLE, files: { "a.csv": CSV }, prepare: strays }, async (ctx) => {
-    const names = (await Array.fromAsync(Deno.readDir(ctx.dir))).map((e) => e.name).sort();
+    const names = await namesIn(ctx.dir);
     deepEqual(names, KEPT);
     equal(await Deno.readTextFile(join(ctx.dir, "notes.tmp")), "the user's");
   });
@@ -249,7 +249,7 @@ Deno.test("POST /api/cell removes stray temporary files left since the start, an
     });
     equal(res.status, 200);
     await res.body?.cancel();
-    const names = (await Array.fromAsync(Deno.readDir(ctx.dir))).map((e) => e.name).sort();
+    const names = await namesIn(ctx.dir);
     deepEqual(names, KEPT);
   });
 });
