@@ -111,17 +111,8 @@ export function roleOfValue(value: unknown): LineRole | null {
   return "cell" in value ? { role: "cell", id } : { role: "other", id };
 }
 
-/** A record's head line, checked. */
-export interface Head {
-  version: number;
-  record: string;
-  time: string;
-  plumb: string;
-  document: { path: string; sha256: string };
-  files: RecordedFile[];
-  level: number;
-  cells: number;
-}
+/** A record's head line, checked: the record without its cells, its format and how many cells follow. */
+export type Head = Omit<HistoryRecord, "cells"> & { version: number; cells: number };
 
 /**
  * A parsed head line checked for shape; a newer format's head is accepted

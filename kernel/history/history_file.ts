@@ -184,19 +184,32 @@ async function appendOnce(
   return { written: true, records: records + 1, dropped: 0, repaired: 0 };
 }
 
-/** The file's bytes and what it was when read; null when there is none. */
+/** The file's bytes and what it was when read (the same handle's stat); null when there is none. */
 async function snapshot(path: string): Promise<{ bytes: Uint8Array; info: Deno.FileInfo } | null> {
-  for (;;) {
-    let bytes: Uint8Array, info: Deno.FileInfo;
-    try {
-      bytes = await Deno.readFile(path);
-      info = await Deno.stat(path);
-    } catch (err) {
-      if (err instanceof Deno.errors.NotFound) return null;
-      throw failedAt("reading", err);
+  let file: Deno.FsFile;
+  try {
+    file = await Deno.open(path, { read: true });
+  } catch (err) {
+    if (err instanceof Deno.errors.NotFound) return null;
+    throw failedAt("reading", err);
+  }
+  try {
+    for (let tries = 1;; tries++) {
+      const info = await at("reading", file.stat());
+      // Into a buffer of the file's size: Deno.readFile grows its buffer, twice as slow on 40 MB.
+      const bytes = new Uint8Array(info.size);
+      let got = 0;
+      for (let n: number | null = 0; n !== null && got < bytes.length; got += n ?? 0) {
+        n = await at("reading", file.read(bytes.subarray(got)));
+      }
+      const more = await at("reading", file.read(new Uint8Array(1)));
+      if ((got === info.size && more === null) || tries === MAX_TRIES) {
+        return { bytes: bytes.subarray(0, got), info };
+      }
+      await file.seek(0, Deno.SeekMode.Start); // appended to while being read: again
     }
-    if (info.size === bytes.length) return { bytes, info };
-    // Appended to between the read and the stat: read again.
+  } finally {
+    file.close();
   }
 }
 
@@ -317,6 +330,7 @@ async function writeWhole(
 }
 
 function sameVersion(a: Deno.FileInfo, b: Deno.FileInfo): boolean {
+  // Appends only grow a file and a rewrite gives it a new inode; an editor's save changes its time.
   return a.size === b.size && a.ino === b.ino && a.dev === b.dev &&
     a.mtime?.getTime() === b.mtime?.getTime();
 }
@@ -383,9 +397,8 @@ export async function lastRecord(path: string): Promise<HistoryRecord | null> {
 
 async function readBytes(path: string): Promise<Uint8Array> {
   try {
-    return await Deno.readFile(path);
+    return (await snapshot(path))?.bytes ?? new Uint8Array();
   } catch (err) {
-    if (err instanceof Deno.errors.NotFound) return new Uint8Array();
     throw historyFailure(path, "read", err);
   }
 }

@@ -1,5 +1,6 @@
 import { deepEqual, equal, match, ok, rejects } from "node:assert/strict";
 import { join } from "node:path";
+import { chmodStopsWrites } from "../../test/history/_chmod_stops_writes.ts";
 import { mulberry32 } from "../random.ts";
 import {
   appendRecord,
@@ -31,6 +32,14 @@ async function record(time: string, n = 3, cells?: RecordedCell[]): Promise<Hist
     cells: body,
   };
 }
+
+/** What appendRecord() returns when it wrote. */
+const wrote = (records: number, dropped: number, repaired: number) => ({
+  written: true,
+  records,
+  dropped,
+  repaired,
+});
 
 const at = (minute: number) => `2026-12-04T18:${String(minute).padStart(2, "0")}:02.000Z`;
 
@@ -112,8 +121,8 @@ Deno.test("appendRecord() and readHistory() round-trip odd cell names and unicod
     ];
     const a = await record(at(1), 0, odd);
     const b = await record(at(2), 2);
-    deepEqual(await appendRecord(path, a), { written: true, records: 1, dropped: 0, repaired: 0 });
-    deepEqual(await appendRecord(path, b), { written: true, records: 2, dropped: 0, repaired: 0 });
+    deepEqual(await appendRecord(path, a), wrote(1, 0, 0));
+    deepEqual(await appendRecord(path, b), wrote(2, 0, 0));
     const read = await readHistory(path);
     deepEqual(read, { records: [a, b], problems: [] });
     equal(await Deno.readTextFile(path), serialiseRecord(a) + serialiseRecord(b), "byte-identical");
@@ -179,12 +188,7 @@ Deno.test("readHistory() leaves out a record cut short, at a line break, in a li
       deepEqual(await lastRecord(path), rs[1], where);
       // The next append repairs the file: the fragment goes, the new record reads back.
       const next = await record(at(56));
-      deepEqual(await appendRecord(path, next), {
-        written: true,
-        records: 3,
-        dropped: 0,
-        repaired: 1,
-      }, where);
+      deepEqual(await appendRecord(path, next), wrote(3, 0, 1), where);
       deepEqual(
         await readHistory(path),
         { records: [...rs.slice(0, 2), next], problems: [] },
@@ -202,7 +206,7 @@ Deno.test("appendRecord() after a last line without its line break starts on a n
     const a = await record(at(1)), b = await record(at(2));
     await Deno.writeTextFile(path, serialiseRecord(a).slice(0, -1)); // whole, only the final \n missing
     deepEqual(await readHistory(path), { records: [a], problems: [] });
-    deepEqual(await appendRecord(path, b), { written: true, records: 2, dropped: 0, repaired: 0 });
+    deepEqual(await appendRecord(path, b), wrote(2, 0, 0));
     equal(await Deno.readTextFile(path), serialiseRecord(a) + serialiseRecord(b));
   } finally {
     await done();
@@ -271,12 +275,7 @@ Deno.test("readHistory() of two branches' histories merged line by line reads ev
       deepEqual(await readHistory(path), { records: want, problems: [] }, `trial ${trial}`);
       // Appending to the merged file rewrites nothing and keeps every record.
       const next = await record(at(8));
-      deepEqual(await appendRecord(path, next), {
-        written: true,
-        records: 8,
-        dropped: 0,
-        repaired: 0,
-      });
+      deepEqual(await appendRecord(path, next), wrote(8, 0, 0));
       deepEqual((await readHistory(path)).records, [...want, next]);
     }
   } finally {
@@ -296,12 +295,7 @@ Deno.test("appendRecord() keeping 3 of 5 records leaves the newest 3 and no temp
     deepEqual(await namesIn(dir), ["fade.history.jsonl"]);
     // A stale temporary file from a crash is overwritten, and goes.
     await Deno.writeTextFile(historyTempPath(path), "stale");
-    deepEqual(await appendRecord(path, await record(at(6)), { keep: 2 }), {
-      written: true,
-      records: 2,
-      dropped: 2,
-      repaired: 0,
-    });
+    deepEqual(await appendRecord(path, await record(at(6)), { keep: 2 }), wrote(2, 2, 0));
     deepEqual(await namesIn(dir), ["fade.history.jsonl"]);
   } finally {
     await done();
@@ -342,27 +336,12 @@ Deno.test("appendRecord() that cannot write says so in one sentence and changes 
   }
 });
 
-/** Whether this user is stopped by a folder's permission bits (root is not). */
-async function permissionsBind(): Promise<boolean> {
-  const dir = await Deno.makeTempDir();
-  try {
-    await Deno.chmod(dir, 0o555);
-    await Deno.writeTextFile(join(dir, "probe"), "x");
-    return false;
-  } catch {
-    return true;
-  } finally {
-    await Deno.chmod(dir, 0o755);
-    await Deno.remove(dir, { recursive: true });
-  }
-}
+const chmodBinds = await chmodStopsWrites();
 
 Deno.test({
-  name: "appendRecord() in a read-only folder or on a read-only file says which " +
-    (await permissionsBind()
-      ? ""
-      : "(skipped: this user writes through permission bits, as root does)"),
-  ignore: !(await permissionsBind()),
+  name: "appendRecord() in a read-only folder or on a read-only file says which" +
+    (chmodBinds ? "" : " (skipped: this user writes through permission bits, as root does)"),
+  ignore: !chmodBinds,
   fn: async () => {
     const { dir, path, done } = await scratch();
     try {
