@@ -9,19 +9,19 @@
  *
  * ```
  *  read the file, sort it into records (_history_scan.ts)
- *  ├─ clean and within `keep` ──▶ ONE write with O_APPEND (a line break first if the last
- *  │                              line has none), fsync; a crash leaves at most the new
- *  │                              record cut short, at the end, where the reader says so
- *  └─ a record cut short, or more than `keep` ──▶ rewrite: the newest `keep` records and the
- *         new one to .<name>.tmp, fsync; the file still as read (inode, size, time)? rename
- *         over it, fsync the folder; otherwise leave it and start again
+ *  ├─ clean and within `keep` ──▶ shared lock; ONE write with O_APPEND (a line break first if
+ *  │                              the last line has none); fsync. A crash leaves at most the
+ *  │                              new record cut short, at the end, where the reader says so
+ *  └─ a record cut short, or more than `keep` ──▶ exclusive lock; the file still as read
+ *         (inode, size, time)? the newest `keep` records and the new one to .<name>.tmp,
+ *         fsync, rename over the file, fsync the folder; otherwise start again
  * ```
  *
- * An append whose file was renamed away meanwhile (another process's
- * rewrite, between its read and its rename) is made again into the file now
- * there; the reader drops the copy should both land. A repaired file is never
- * left with a cut record in its middle, so a crash at any moment leaves at
- * most the last record cut short.
+ * The locks (advisory, on the history file) keep Plumb's own processes from
+ * renaming a file away under an append or under another rewrite; whoever
+ * waited finds the file renamed and starts again. A repair never leaves a cut
+ * record in the middle of the file, so a crash at any moment leaves at most
+ * the last record cut short. The reader drops a record written twice.
  *
  * @module
  */
@@ -30,7 +30,7 @@ import { sha256Hex } from "../hash.ts";
 import { syncFolder } from "../server/atomic_write.ts";
 import { at, failedAt, historyFailure } from "./_history_failure.ts";
 import { recordLines } from "./_history_lines.ts";
-import { type Group, readGroup, scanHistory } from "./_history_scan.ts";
+import { type Group, readGroup, type Scan, scanHistory } from "./_history_scan.ts";
 import type { HistoryRead, HistoryRecord } from "./types.ts";
 
 export { HistoryFileError } from "./_history_failure.ts";
@@ -154,22 +154,26 @@ export async function appendRecord(
   const keep = Math.max(1, Math.floor(opts.keep ?? Infinity));
   const bytes = new TextEncoder().encode(serialiseRecord(record));
   try {
-    for (let tries = 1;; tries++) {
+    for (let tries = 1; tries <= 10 * MAX_TRIES; tries++) {
       const done = await appendOnce(path, record, bytes, keep, tries >= MAX_TRIES);
       if (done) return done;
     }
+    throw new Error("other processes kept replacing it");
   } catch (err) {
     throw historyFailure(path, "written", err);
   }
 }
 
-/** One attempt; null when another process changed the file meanwhile. */
+/**
+ * One attempt; null when another process replaced or changed the file
+ * meanwhile. After `MAX_TRIES` attempts (`plain`) it appends without rewriting.
+ */
 async function appendOnce(
   path: string,
   record: HistoryRecord,
   bytes: Uint8Array,
   keep: number,
-  last: boolean,
+  plain: boolean,
 ): Promise<Appended | null> {
   const before = await snapshot(path);
   const scan = scanHistory(before?.bytes ?? new Uint8Array());
@@ -177,10 +181,10 @@ async function appendOnce(
   if (scan.complete.some((g) => g.id === record.record)) {
     return { written: false, records, dropped: 0, repaired: 0 };
   }
-  if (before && !last && (scan.cut > 0 || records + 1 > keep)) {
+  if (before && !plain && (scan.cut > 0 || records + 1 > keep)) {
     return await rewrite(path, before, scan, { record, bytes }, keep);
   }
-  if (!await appendBytes(path, bytes, before === null) && !last) return null;
+  if (!await appendBytes(path, bytes, before === null)) return null;
   return { written: true, records: records + 1, dropped: 0, repaired: 0 };
 }
 
@@ -214,54 +218,55 @@ async function snapshot(path: string): Promise<{ bytes: Uint8Array; info: Deno.F
 }
 
 /**
- * Writes the bytes at the end of the file in one call and flushes them.
+ * Writes the bytes at the end of the file in one call and flushes them,
+ * holding a shared lock so that no rewrite renames the file away meanwhile.
  *
- * @returns False when the file was renamed away while we wrote (our bytes went with it).
+ * @returns False, having written nothing, when the file was renamed away before the lock was held.
  */
 async function appendBytes(path: string, bytes: Uint8Array, create: boolean): Promise<boolean> {
   const file = await at(
     create ? "folder" : "file",
     Deno.open(path, { read: true, append: true, create: true }),
   );
-  let info: Deno.FileInfo;
   try {
-    info = await file.stat();
+    await file.lock(false);
+    const info = await file.stat();
+    if (!await isNamed(file, path)) return false;
     let out = bytes;
     if (info.size > 0) {
       // A last line without its line break (a write cut short, an editor): ours starts on a new line.
       const lastByte = new Uint8Array(1);
       await file.seek(-1, Deno.SeekMode.End);
       await file.read(lastByte);
-      if (lastByte[0] !== 10) out = concat([Uint8Array.of(10), bytes]);
+      if (lastByte[0] !== 10) out = concat([NEWLINE, bytes]);
     }
     // O_APPEND: the one write lands at the end as a whole, after any other process's.
     let done = await at("file", file.write(out));
     while (done < out.length) done += await at("file", file.write(out.subarray(done)));
     await at("file", file.sync());
   } finally {
-    file.close();
+    file.close(); // and the lock with it
   }
   if (create) await syncFolder(dirname(path));
-  const now = await Deno.stat(path).catch(() => null);
-  return info.ino === null || (now !== null && now.ino === info.ino && now.dev === info.dev);
+  return true;
 }
 
 /**
  * Replaces the file by its newest `keep` complete records, the new one among
  * them, in time order; records cut short and unreadable lines go, records of
- * a newer format stay. The rename happens only if the file is still the one read.
+ * a newer format stay. An exclusive lock on the file, held from the check
+ * that it is still as read until the rename, keeps appends and other
+ * rewrites out (they then find the file renamed and start again).
  *
  * @returns What was done, or null when the file changed since it was read.
  */
 async function rewrite(
   path: string,
   before: { bytes: Uint8Array; info: Deno.FileInfo },
-  scan: ReturnType<typeof scanHistory>,
+  scan: Scan,
   added: { record: HistoryRecord; bytes: Uint8Array },
   keep: number,
 ): Promise<Appended | null> {
-  // Leave to write the history itself, as an append would need: a read-only file stays as it is.
-  (await at("file", Deno.open(path, { append: true }))).close();
   type Part = { time: string; id: string; parts: Uint8Array[] };
   const own = (g: Group): Part => ({ time: g.head!.time, id: g.id, parts: linesOf(scan.bytes, g) });
   const all: Part[] = [...scan.complete.map(own), {
@@ -272,26 +277,42 @@ async function rewrite(
   all.sort(byTime);
   const kept = all.slice(-keep);
   const content = concat([...kept, ...scan.newer.map(own)].sort(byTime).flatMap((p) => p.parts));
-  const temp = historyTempPath(path);
-  await writeWhole(temp, content, before.info.mode ?? undefined);
+  // Opened for appending, as an append would: a read-only history stays as it is.
+  let file: Deno.FsFile;
   try {
-    const now = await Deno.stat(path);
-    if (!sameVersion(now, before.info)) {
-      await Deno.remove(temp);
-      return null;
-    }
-    await at("folder", Deno.rename(temp, path));
+    file = await Deno.open(path, { append: true });
   } catch (err) {
-    await Deno.remove(temp).catch(() => {});
-    throw err;
+    if (err instanceof Deno.errors.NotFound) return null; // removed since read: start again
+    throw failedAt("file", err);
   }
-  await syncFolder(dirname(path));
+  try {
+    await file.lock(true);
+    if (!await isNamed(file, path) || !sameVersion(await file.stat(), before.info)) return null;
+    const temp = historyTempPath(path);
+    await writeWhole(temp, content, before.info.mode ?? undefined);
+    try {
+      await at("folder", Deno.rename(temp, path));
+    } catch (err) {
+      await Deno.remove(temp).catch(() => {});
+      throw err;
+    }
+    await syncFolder(dirname(path));
+  } finally {
+    file.close();
+  }
   return {
     written: kept.some((p) => p.id === added.record.record),
     records: kept.length,
     dropped: all.length - kept.length,
     repaired: scan.cut + scan.damaged,
   };
+}
+
+/** Whether the open file is still the one the path names. */
+async function isNamed(file: Deno.FsFile, path: string): Promise<boolean> {
+  const held = await file.stat();
+  const now = await Deno.stat(path).catch(() => null);
+  return now !== null && (held.ino === null || (held.ino === now.ino && held.dev === now.dev));
 }
 
 /** A record's distinct lines, each with its line break. */
@@ -330,7 +351,7 @@ async function writeWhole(
 }
 
 function sameVersion(a: Deno.FileInfo, b: Deno.FileInfo): boolean {
-  // Appends only grow a file and a rewrite gives it a new inode; an editor's save changes its time.
+  // Appends grow a file and change its time; an editor's save changes its time.
   return a.size === b.size && a.ino === b.ino && a.dev === b.dev &&
     a.mtime?.getTime() === b.mtime?.getTime();
 }

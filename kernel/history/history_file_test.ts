@@ -349,6 +349,7 @@ Deno.test({
       await rejects(appendRecord(path, await record(at(1))), {
         message: "The run history fade.history.jsonl could not be written: the folder is read-only",
       });
+      deepEqual(await namesIn(dir), []);
       await Deno.chmod(dir, 0o755);
       await appendRecord(path, await record(at(1)));
       const before = await Deno.readFile(path);
@@ -359,6 +360,7 @@ Deno.test({
         });
       }
       deepEqual(await Deno.readFile(path), before);
+      deepEqual(await namesIn(dir), ["fade.history.jsonl"]);
     } finally {
       await Deno.chmod(dir, 0o755);
       await done();

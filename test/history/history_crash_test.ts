@@ -203,3 +203,27 @@ Deno.test("appendRecord() needs leave to write the history and its temporary nam
     await Deno.remove(dir, { recursive: true });
   }
 });
+
+Deno.test("three appenders at once lose no record, bounded or not", async () => {
+  const dir = await Deno.makeTempDir({ prefix: "plumb-history-race-" });
+  const path = join(dir, "fade.history.jsonl"), temp = historyTempPath(path);
+  try {
+    for (const [keep, seeds] of [[Infinity, [1, 2, 3]], [4, [4, 5, 6]]] as const) {
+      const runs = seeds.map((seed) => start(path, [path, temp], [keep, 15, 2, 1000, seed]));
+      for (const run of runs) {
+        equal((await run.child.status).code, 0, JSON.stringify(run.said));
+        await run.drained;
+      }
+      const acked = runs.flatMap((run) => run.said.map((s) => s.id as string));
+      equal(acked.length, 45);
+      const read = await readHistory(path);
+      deepEqual(read.problems, []);
+      // Unbounded: every record. Bounded: the newest 4 of all ever written (ids start with the time).
+      deepEqual(read.records.map((r) => r.record), acked.sort().slice(-keep), `keep ${keep}`);
+      await Deno.remove(path);
+    }
+    deepEqual(await namesIn(dir), []);
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+});
