@@ -78,6 +78,19 @@ async function cutLastRecord(path: string, random: () => number): Promise<string
   return id;
 }
 
+/** Runs `fn` with a fresh folder and the history's path and temporary name in it. */
+async function inScratch(
+  fn: (dir: string, path: string, temp: string) => Promise<void>,
+): Promise<void> {
+  const dir = await Deno.makeTempDir({ prefix: "plumb-history-" });
+  const path = join(dir, "fade.history.jsonl");
+  try {
+    await fn(dir, path, historyTempPath(path));
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+}
+
 async function namesIn(dir: string): Promise<string[]> {
   const out: string[] = [];
   for await (const e of Deno.readDir(dir)) out.push(e.name);
@@ -85,14 +98,12 @@ async function namesIn(dir: string): Promise<string[]> {
 }
 
 Deno.test("a history appender killed by SIGKILL at 30 seeded moments leaves whole records, the last one at most cut short", async () => {
-  const dir = await Deno.makeTempDir({ prefix: "plumb-history-crash-" });
-  const path = join(dir, "fade.history.jsonl"), temp = historyTempPath(path);
-  const random = mulberry32(15);
-  /** Acknowledged appends still in the history. */
-  const acked: string[] = [];
-  let appends = 0;
-  let records = 0, cut = 0, injected = 0, keep = Infinity;
-  try {
+  await inScratch(async (dir, path, temp) => {
+    const random = mulberry32(15);
+    /** Acknowledged appends still in the history. */
+    const acked: string[] = [];
+    let appends = 0;
+    let records = 0, cut = 0, injected = 0, keep = Infinity;
     for (let kill = 1; kill <= KILLS; kill++) {
       if (kill === KILLS / 2 + 1) keep = records + 4;
       if (kill % 3 === 0 && records > 0) {
@@ -172,15 +183,11 @@ Deno.test("a history appender killed by SIGKILL at 30 seeded moments leaves whol
       `${appends} appends acknowledged; ${injected} records cut before a round; ` +
         `${cut} of ${KILLS} kills left a record cut short`,
     );
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("appendRecord() needs leave to write the history and its temporary name only", async () => {
-  const dir = await Deno.makeTempDir({ prefix: "plumb-history-leave-" });
-  const path = join(dir, "fade.history.jsonl"), temp = historyTempPath(path);
-  try {
+  await inScratch(async (dir, path, temp) => {
     // Leave for both names: four appends keeping 2, the last two by a rewrite.
     const both = start(path, [path, temp], [2, 4, 1, 10, 1]);
     equal((await both.child.status).code, 0);
@@ -199,15 +206,11 @@ Deno.test("appendRecord() needs leave to write the history and its temporary nam
         "The run history fade.history.jsonl could not be written: this run has no leave to write in its folder",
     });
     deepEqual(await namesIn(dir), ["fade.history.jsonl"]);
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
 
 Deno.test("three appenders at once lose no record, bounded or not", async () => {
-  const dir = await Deno.makeTempDir({ prefix: "plumb-history-race-" });
-  const path = join(dir, "fade.history.jsonl"), temp = historyTempPath(path);
-  try {
+  await inScratch(async (dir, path, temp) => {
     for (const [keep, seeds] of [[Infinity, [1, 2, 3]], [4, [4, 5, 6]]] as const) {
       const runs = seeds.map((seed) => start(path, [path, temp], [keep, 15, 2, 1000, seed]));
       for (const run of runs) {
@@ -223,7 +226,5 @@ Deno.test("three appenders at once lose no record, bounded or not", async () => 
       await Deno.remove(path);
     }
     deepEqual(await namesIn(dir), []);
-  } finally {
-    await Deno.remove(dir, { recursive: true });
-  }
+  });
 });
