@@ -245,6 +245,43 @@ Deno.test("readHistory() skips lines that are not JSON or not of the format, nam
   }
 });
 
+Deno.test("readHistory() reads a history checked out with CRLF line breaks and a byte order mark", async () => {
+  const { path, done } = await scratch();
+  try {
+    const a = await record(at(1)), b = await record(at(2));
+    await Deno.writeTextFile(
+      path,
+      "\ufeff" + (serialiseRecord(a) + serialiseRecord(b)).replaceAll("\n", "\r\n"),
+    );
+    deepEqual(await readHistory(path), { records: [a, b], problems: [] });
+  } finally {
+    await done();
+  }
+});
+
+Deno.test("a record of a newer history format is not read, and a rewrite keeps it", async () => {
+  const { path, done } = await scratch();
+  try {
+    const a = await record(at(1)), b = await record(at(3));
+    const id = "2026-12-04T18:02:02.000Z-0f0f0f0f";
+    const newer = `{"history":2,"record":"${id}","time":"2026-12-04T18:02:02.000Z","parts":[]}\n` +
+      `{"record":"${id}","end":2}\n`;
+    const cut = serialiseRecord(await record(at(4))).slice(0, 150);
+    await Deno.writeTextFile(path, serialiseRecord(a) + newer + cut);
+    deepEqual(await readHistory(path), {
+      records: [a],
+      problems: [
+        "The record of 2026-12-04 18:02:02 UTC is in a newer history format (2); it is not read.",
+        "The last record (2026-12-04 18:04:02 UTC) was cut short in its first line; it is left out.",
+      ],
+    });
+    deepEqual(await appendRecord(path, b), wrote(2, 0, 1));
+    equal(await Deno.readTextFile(path), serialiseRecord(a) + newer + serialiseRecord(b));
+  } finally {
+    await done();
+  }
+});
+
 /** Interleaves two lists at random, each keeping its own order. */
 function interleave<T>(a: T[], b: T[], random: () => number): T[] {
   const out: T[] = [];
