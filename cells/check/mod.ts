@@ -52,6 +52,16 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
   line: lineOf,
   options: CHECK_OPTIONS,
   page: { omit: ["studentized_external", "dffits"], condense: condenseCharts },
+  rows: [
+    "rows",
+    "fitted",
+    "residuals",
+    "leverage",
+    "studentized_internal",
+    "studentized_external",
+    "cooks_distance",
+    "dffits",
+  ],
   template: (ctx) =>
     `fit: ${cellsOf(ctx, "Fit").at(-1)?.name ?? "fit1"}
 `,

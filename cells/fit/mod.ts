@@ -63,6 +63,7 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
   details: fitDetails,
   options: FIT_OPTIONS,
   page: { omit: ["fitted", "residuals", "rows", "rows_missing"] },
+  rows: ["fitted", "residuals", "rows", "rows_missing"],
   template: fitTemplate,
 };
 

@@ -44,6 +44,7 @@ export const tableKind: CellKind<TableSpec, TableOutput, TableResult> = {
   summary: (out) => summarizeTable(out),
   // Every kept row with a missing value: up to one entry a row, which no view reads.
   page: { omit: ["rows_missing"] },
+  rows: ["rows_missing"],
   line: tableLine,
   options: TABLE_OPTIONS,
   columns: (r) => r.columns.map(({ name, type, unit }) => ({ name, type, unit })),

@@ -46,6 +46,7 @@ export function runJson(
       error: c.error,
       warnings: c.warnings,
       result: c.state === "current" ? c.result : null,
+      ...(c.state === "current" && c.omitted ? { omitted: c.omitted } : {}),
     })),
     document_errors: report.errors,
     document_warnings: warnings,
@@ -114,21 +115,26 @@ interface RunArgs {
   json: boolean;
   /** `--no-history`: record nothing, report nothing. */
   history: boolean;
+  /** `--without-rows`: RUN-JSON without the per-row fields (`CellKind.rows`). */
+  withoutRows: boolean;
   /** Set by the relaunch that may write the history (never typed by a user). */
   narrowed: boolean;
 }
 
 function parseRunArgs(args: string[]): RunArgs | string {
-  const a: RunArgs = { path: "", json: false, history: true, narrowed: false };
+  const a: RunArgs = { path: "", json: false, history: true, withoutRows: false, narrowed: false };
   const paths: string[] = [];
   for (const x of args) {
     if (x === "--json") a.json = true;
     else if (x === "--no-history") a.history = false;
+    else if (x === "--without-rows") a.withoutRows = true;
     else if (x === "--narrowed") a.narrowed = true;
     else if (x.startsWith("-")) return `Unknown option "${x}"`;
     else paths.push(x);
   }
-  if (paths.length !== 1) return "Usage: plumb run <document.md> [--json] [--no-history]";
+  if (paths.length !== 1) {
+    return "Usage: plumb run <document.md> [--json] [--without-rows] [--no-history]";
+  }
   a.path = paths[0];
   return a;
 }
@@ -177,6 +183,8 @@ export async function runCommand(args: string[], product: Product): Promise<numb
     workerUrl: product.workerUrl,
     dir: dirname(file),
     history: wantHistory,
+    // The summary shows no per-row values: they never leave the compute worker.
+    lean: !a.json || a.withoutRows,
   });
   try {
     const report = await session.run(source);

@@ -133,6 +133,13 @@ export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R
   details?(result: R): string[];
   /** How the page's copy of a result is made smaller (optional: the whole result). */
   page?: PageCopy<R>;
+  /**
+   * The result's per-row fields: top-level RUN-JSON fields holding one value
+   * per used row (fitted values, residuals, row numbers). `plumb run` leaves
+   * them out unless asked for JSON with them (`--without-rows` leaves them out
+   * of RUN-JSON too), passing them to `summary` as `leaveOut`. Optional: none.
+   */
+  rows?: readonly string[];
   /** The columns a result offers other cells (tables; optional). */
   columns?(result: R): ColumnInfo[];
   /** The body of a new cell of this kind that runs on the document at hand. */

@@ -30,6 +30,8 @@ export interface RunHost {
   page: boolean;
   /** Whether each answer carries what the run history keeps (`SessionOptions.history`). */
   keep: boolean;
+  /** Whether results leave out per-row fields (`SessionOptions.lean`). */
+  lean: boolean;
   /** Parses and checks a document (the last one is remembered). */
   prepare(source: string): Prepared;
   /** Keys every cell that can run, given the SHA-256 of each data file. */

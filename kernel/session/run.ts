@@ -97,7 +97,7 @@ export class Run {
     await this.#readFiles(prep);
     const shas = new Map([...this.#fileData].map(([path, f]) => [path, f.sha256]));
     const plan = this.#plan = this.#host.keyed(prep, shas);
-    if (this.#host.page) this.#named = referencedFields(plan.doc);
+    if (this.#host.page || this.#host.lean) this.#named = referencedFields(plan.doc);
     this.#waiting = new Waiting(plan.graph.order, plan.graph.byName);
     for (const node of plan.graph.nodes) {
       if (!node.error && plan.keys.has(node.name)) this.#emit(node.name, "queued");
@@ -322,7 +322,16 @@ export class Run {
 
   /** With `page`: the fields kept beyond the page's copy for a cell (sorted); else undefined. */
   #pageFields(name: string): string[] | undefined {
-    return this.#host.page ? [...(this.#named.get(name) ?? [])].sort() : undefined;
+    return this.#host.page || this.#host.lean
+      ? [...(this.#named.get(name) ?? [])].sort()
+      : undefined;
+  }
+
+  /** The shape fields of a request: `page` or `lean` (the fields to keep), or neither. */
+  #shapeOf(name: string): { page?: string[]; lean?: string[] } {
+    const fields = this.#pageFields(name);
+    if (fields === undefined) return {};
+    return this.#host.page ? { page: fields } : { lean: fields };
   }
 
   /**
@@ -343,7 +352,7 @@ export class Run {
       key,
       kind: node.kind,
       spec: node.spec,
-      page,
+      ...(this.#host.page ? { page } : { lean: page }),
       ...(this.#host.keep ? { keep: true } : {}),
     });
     if (!d.ok) return undefined;
@@ -390,7 +399,7 @@ export class Run {
       settings: this.#plan.settings,
       inputs: Object.fromEntries(node.deps.map((d) => [d, this.#plan.keys.get(d)!])),
       files,
-      page: this.#pageFields(node.name),
+      ...this.#shapeOf(node.name),
       ...(this.#host.keep ? { keep: true } : {}),
       onProgress: (fraction, note) => {
         if (tell !== "nothing") this.#emit(node.name, "computing", fraction, note);

@@ -66,6 +66,7 @@ export class Session {
       outcomes: this.#outcomes,
       page: opts.page === true,
       keep: opts.history === true,
+      lean: opts.lean === true && opts.page !== true,
       prepare: (source) => this.#prepare(source),
       keyed: (prep, shas) => this.#keyed(prep, shas),
       emit: (e) => opts.onEvent?.(e),

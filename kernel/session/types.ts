@@ -111,6 +111,12 @@ export interface SessionOptions {
   /** Compute workers (default: two on four or more cores, else one; kernel/worker/pool.ts). */
   workers?: number;
   /**
+   * Complete results less each kind's per-row fields (`CellKind.rows`), except
+   * those the document's inline values name; `CellReport.omitted` lists what
+   * was left out. Ignored with `page`. Default false.
+   */
+  lean?: boolean;
+  /**
    * Ask each kind for what the run history keeps of its results
    * (`CellReport.kept`; kernel/history). Default false.
    */

@@ -134,6 +134,21 @@ function summarise(
   out: CellOutput,
 ): Partial<DoneMessage> {
   const kind = registry.get(req.kind)!;
+  if (req.page === undefined && req.lean !== undefined) {
+    const named = new Set(req.lean);
+    const leave = new Set((kind.rows ?? []).filter((f) => !named.has(f)));
+    const built = kind.summary(out, req.spec, leave) as Record<string, unknown>;
+    const summary = { ...built };
+    const omitted = [...leave];
+    for (const f of omitted) delete summary[f]; // a kind may have built them anyway
+    return {
+      ok: true,
+      summary,
+      ...(omitted.length > 0 ? { omitted } : {}),
+      line: kind.line(summary),
+      ...kept(kind, req, out, summary),
+    };
+  }
   if (req.page === undefined) {
     const summary = kind.summary(out, req.spec);
     return { ok: true, summary, line: kind.line(summary), ...kept(kind, req, out, summary) };

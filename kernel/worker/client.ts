@@ -178,6 +178,7 @@ export class ComputeWorker {
         files,
         ...(job.page === undefined ? {} : { page: job.page }),
         ...(job.keep ? { keep: true } : {}),
+        ...(job.lean === undefined ? {} : { lean: job.lean }),
       });
     });
   }

@@ -61,6 +61,12 @@ export interface RunRequest {
   page?: string[];
   /** True: also answer with what the run history keeps (`DoneMessage.kept`). */
   keep?: boolean;
+  /**
+   * Present (requests without `page`): leave the kind's per-row fields
+   * (`CellKind.rows`) out of the complete summary, except these (inline values
+   * name them); the answer's `omitted` lists what was left out.
+   */
+  lean?: string[];
 }
 
 /** Summarise an output the worker holds again, in another shape (nothing is recomputed). */
@@ -74,6 +80,8 @@ export interface SummaryRequest {
   page?: string[];
   /** As in {@link RunRequest.keep}. */
   keep?: boolean;
+  /** As in {@link RunRequest.lean}. */
+  lean?: string[];
 }
 
 /** File content, sent once per distinct SHA-256. */
@@ -155,7 +163,7 @@ export interface DoneMessage {
    * measured on a check's page copy with its counted charts (0.07 against 0.29 ms).
    */
   summaryJson?: string;
-  /** Fields of the complete summary left out of this page copy (page requests only). */
+  /** Fields of the complete summary left out of this page copy, or of a lean summary. */
   omitted?: string[];
   /**
    * What the run history keeps of the result (the kind's `history.keep`), when

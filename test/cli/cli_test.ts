@@ -83,3 +83,23 @@ Deno.test("plumb exits 2 for a usage error and for an unreadable document", asyn
   equal(missing.stdout, "");
   match(missing.stderr, /Cannot read document "\/nonexistent\/doc.md": no such file/);
 });
+
+Deno.test("plumb run --json --without-rows: the same result less each kind's per-row fields, named in omitted", async () => {
+  const full = JSON.parse((await plumb("run", DEMO, "--json", "--no-history")).stdout);
+  const lean = JSON.parse(
+    (await plumb("run", DEMO, "--json", "--no-history", "--without-rows")).stdout,
+  );
+  equal(lean.cells.length, full.cells.length);
+  let left = 0;
+  for (let i = 0; i < full.cells.length; i++) {
+    const f = full.cells[i], l = lean.cells[i];
+    const omitted: string[] = l.omitted ?? [];
+    left += omitted.length;
+    const expected = { ...f.result };
+    for (const k of omitted) delete expected[k];
+    deepEqual(l.result, expected, f.name);
+  }
+  const fit = lean.cells.find((c: { kind: string }) => c.kind === "fit");
+  deepEqual(fit.omitted, ["fitted", "residuals", "rows", "rows_missing"]);
+  ok(left > 0);
+});
