@@ -19,7 +19,15 @@ import { makeRecord, sameInputs } from "./record.ts";
 import { changeReport, type ReportChoice } from "./report.ts";
 import type { ChangeReport, HistoryRead } from "./types.ts";
 
-export { appendRecord, historyPath, historyTempPath, readHistory } from "./history_file.ts";
+export {
+  type Appended,
+  appendRecord,
+  HistoryFileError,
+  historyPath,
+  historyTempPath,
+  lastRecord,
+  readHistory,
+} from "./history_file.ts";
 export { makeRecord, sameData, sameInputs } from "./record.ts";
 export { changeReport, ChoiceError, type ReportChoice } from "./report.ts";
 export type * from "./types.ts";
@@ -91,10 +99,14 @@ export async function recordRun(opts: RecordRunOptions): Promise<Recorded | null
   let records = read.records;
   let written = false;
   if (!last || !sameInputs(last, record)) {
-    records = [...records, record].slice(-keep);
+    // Trimmed in batches: up to `slack` records beyond `keep` are let stand, so
+    // the file is rewritten once every `slack` runs, not on every run once full.
+    const slack = Math.max(10, Math.ceil(keep / 10));
+    const bound = records.length + 1 > keep + slack ? keep : keep + slack;
+    records = [...records, record].slice(-bound);
     try {
       if (!opts.dryRun) {
-        await appendRecord(path, record, { keep });
+        await appendRecord(path, record, { keep: bound });
         written = true;
       }
     } catch (err) {
