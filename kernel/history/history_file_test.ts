@@ -1,6 +1,6 @@
 import { deepEqual, equal, match, ok, rejects } from "node:assert/strict";
 import { join } from "node:path";
-import { chmodStopsWrites } from "../../test/history/_chmod_stops_writes.ts";
+import { chmodStopsWrites } from "../../test/_chmod_stops_writes.ts";
 import { mulberry32 } from "../random.ts";
 import {
   appendRecord,

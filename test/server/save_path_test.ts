@@ -9,6 +9,7 @@
 import { deepEqual, equal, match, ok } from "node:assert/strict";
 import { join } from "node:path";
 import { namesIn, post, versionOf, withServer } from "./_live_server.ts";
+import { chmodStopsWrites } from "../_chmod_stops_writes.ts";
 
 const F = "```";
 const enc = (s: string) => new TextEncoder().encode(s);
@@ -145,21 +146,6 @@ Deno.test("POST /api/cell after the document was removed answers 404 naming it a
     deepEqual(await namesIn(ctx.dir), ["a.csv"]);
   });
 });
-
-/** Whether chmod stops this process writing (not as root: then a hook fails the write instead). */
-async function chmodStopsWrites(): Promise<boolean> {
-  const dir = await Deno.makeTempDir();
-  try {
-    await Deno.chmod(dir, 0o555);
-    await Deno.writeTextFile(join(dir, "probe"), "x");
-    return false;
-  } catch {
-    return true;
-  } finally {
-    await Deno.chmod(dir, 0o755);
-    await Deno.remove(dir, { recursive: true });
-  }
-}
 
 Deno.test("POST /api/cell into a read-only folder answers 403 in words and leaves the file intact", async () => {
   const chmod = await chmodStopsWrites();
