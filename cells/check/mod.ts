@@ -21,6 +21,7 @@ import { type CheckSpec, parseCheckSpec } from "./spec.ts";
 import type { CheckResult, Diagnostics } from "./result.ts";
 import { diagnose } from "./diagnose.ts";
 import { CHECK_OPTIONS } from "./spec.ts";
+import { checkHistory } from "./history.ts";
 import { type CheckChartInput, checkDensity } from "./density.ts";
 import { cellsOf } from "../shared/template_cells.ts";
 
@@ -51,6 +52,7 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
   summary: (out) => out.result,
   line: lineOf,
   options: CHECK_OPTIONS,
+  history: checkHistory,
   page: { omit: ["studentized_external", "dffits"], condense: condenseCharts },
   rows: [
     "rows",

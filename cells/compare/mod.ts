@@ -22,6 +22,7 @@ import type { CompareResult, Comparison } from "./result.ts";
 import { runCompare } from "./run.ts";
 import { compareLine } from "./line.ts";
 import { COMPARE_OPTIONS } from "./spec.ts";
+import { compareHistory } from "./history.ts";
 import type { TemplateCell, TemplateContext } from "../../kernel/contract/mod.ts";
 import { cellsOf } from "../shared/template_cells.ts";
 
@@ -42,6 +43,7 @@ export const compareKind: CellKind<CompareSpec, Comparison, CompareResult> = {
   line: compareLine,
   options: COMPARE_OPTIONS,
   template: compareTemplate,
+  history: compareHistory,
 };
 
 /**

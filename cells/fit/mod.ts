@@ -28,6 +28,7 @@ import type { Fit } from "./fit.ts";
 import { type FitResult, summarizeFit } from "./result.ts";
 import { runFit } from "./run.ts";
 import { FIT_OPTIONS } from "./spec.ts";
+import { fitHistory } from "./history.ts";
 import type { TemplateContext } from "../../kernel/contract/mod.ts";
 import { numberColumns, tableFor } from "../shared/template_cells.ts";
 import {
@@ -64,6 +65,7 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
   options: FIT_OPTIONS,
   page: { omit: ["fitted", "residuals", "rows", "rows_missing"] },
   rows: ["fitted", "residuals", "rows", "rows_missing"],
+  history: fitHistory,
   template: fitTemplate,
 };
 

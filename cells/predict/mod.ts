@@ -34,6 +34,7 @@ import { parsePredictSpec, type PredictSpec } from "./spec.ts";
 import type { Predictions, PredictResult } from "./result.ts";
 import { runPredict } from "./run.ts";
 import { PREDICT_OPTIONS } from "./spec.ts";
+import { predictHistory } from "./history.ts";
 import type { TemplateContext } from "../../kernel/contract/mod.ts";
 import { cellsOf, fitColumns } from "../shared/template_cells.ts";
 import { formatEstimate, formatIntervalAt, formatNumber, withUnit } from "../shared/format.ts";
@@ -60,6 +61,7 @@ export const predictKind: CellKind<PredictSpec, Predictions, PredictResult> = {
   line: predictLine,
   options: PREDICT_OPTIONS,
   template: predictTemplate,
+  history: predictHistory,
 };
 
 /**

@@ -24,6 +24,7 @@ import { runTable, type TableOutput } from "./run.ts";
 import { parseTableSpec, type TableSpec } from "./spec.ts";
 import { summarizeTable, tableLine, type TableResult } from "./summary.ts";
 import { TABLE_OPTIONS } from "./spec.ts";
+import { tableHistory } from "./history.ts";
 
 export type { TableSpec } from "./spec.ts";
 export type { TableOutput } from "./run.ts";
@@ -45,6 +46,7 @@ export const tableKind: CellKind<TableSpec, TableOutput, TableResult> = {
   // Every kept row with a missing value: up to one entry a row, which no view reads.
   page: { omit: ["rows_missing"] },
   rows: ["rows_missing"],
+  history: tableHistory,
   line: tableLine,
   options: TABLE_OPTIONS,
   columns: (r) => r.columns.map(({ name, type, unit }) => ({ name, type, unit })),

@@ -28,6 +28,12 @@ import type {
 } from "./types.ts";
 import { sameData } from "./record.ts";
 
+/**
+ * Changes that decide what a reader does next, put before the other notable
+ * ones: the preferred model changed, a cell stopped or started computing.
+ */
+const LEADING = new Set(["preferred-changed", "cell-stopped", "cell-recovered"]);
+
 /** Which two records to compare. */
 export interface ReportChoice {
   /**
@@ -90,7 +96,8 @@ export function changeReport(
     document_changed: from.document.sha256 !== to.document.sha256,
     files: fileChanges(from, to),
     sentences: [
-      ...all.filter((c) => c.weight === "notable").map((c) => c.sentence),
+      ...all.filter((c) => c.weight === "notable" && LEADING.has(c.code)).map((c) => c.sentence),
+      ...all.filter((c) => c.weight === "notable" && !LEADING.has(c.code)).map((c) => c.sentence),
       ...all.filter((c) => c.weight !== "notable").map((c) => c.sentence),
     ],
     cells,
