@@ -13,6 +13,7 @@ import { useCallback, useEffect, useRef, useState } from "preact/hooks";
 import type { DocumentMessage } from "../kernel/server/protocol.ts";
 import { deleteCell, newCell, restoreCell, type SaveOutcome } from "./api.ts";
 import { CellBlock } from "./cell_block.tsx";
+import { ChangesPanel } from "./changes_panel.tsx";
 import { InlineRef } from "./inline_ref.tsx";
 import { Prose } from "./prose.tsx";
 import { Rail, type Removed } from "./rail.tsx";
@@ -203,6 +204,7 @@ export function App(props: { store: LiveStore }): VNode {
       <TopBar doc={doc} store={store} />
       <div class="pl-body">
         <main class="pl-main">
+          <ChangesPanel changes={store.changes.value} />
           {error !== null && (
             <p class="pl-error" role="alert">
               ✕ {error}{" "}

@@ -18,6 +18,7 @@
 import { batch, type Signal, signal } from "@preact/signals";
 import type {
   CellMessage,
+  ChangesMessage,
   DocumentMessage,
   LiveCellState,
   LivePosition,
@@ -80,6 +81,8 @@ export class LiveStore {
   /** The last finished run. */
   readonly lastRun: Signal<RunMessage | null> = signal(null);
   readonly connection: Signal<Connection> = signal("connecting");
+  /** What changed since the last data (the run history's report), or null before any. */
+  readonly changes: Signal<ChangesMessage | null> = signal(null);
   /** Messages dropped as out of date (for tests and the debugging eye). */
   dropped = 0;
   #cells = new Map<string, Signal<LiveCell>>();
@@ -147,6 +150,10 @@ export class LiveStore {
       if (msg.version !== this.doc.value?.version) return this.#drop();
       if (this.lastRun.value !== null && msg.run < this.lastRun.value.run) return this.#drop();
       this.lastRun.value = msg;
+      return true;
+    }
+    if (msg.type === "changes") {
+      this.changes.value = msg;
       return true;
     }
     return this.#drop();

@@ -82,6 +82,15 @@ Deno.test("plumb run records the run; after new rows the report names them, the 
     const a = report.trends.find((t) => t.cell === "root" && t.series === "a");
     equal(a?.points.length, 2);
 
+    // The static record carries the same report, its disclosures open (no script).
+    const exported = await task(dir, "plumb", "export", "fade.md");
+    equal(exported.code, 0, exported.stderr);
+    const html = await Deno.readTextFile(join(dir, "fade.record.html"));
+    match(html, /Since the last data/);
+    match(html, /preferred model of fade changed from root to root-linear/);
+    match(html, /<details class="pl-drift" open/);
+    ok((html.match(/class="pl-drift-chart"/g) ?? []).length >= 7);
+
     const text = await task(dir, "plumb", "changes", "fade.md");
     equal(text.code, 0, text.stderr);
     match(text.stdout, /Notable:/);

@@ -102,5 +102,6 @@ export async function gatherRecord(facts: RunFacts): Promise<RecordInput> {
       os: `${Deno.build.os} ${Deno.build.arch}`,
     },
     run: { utc: time.utc, ms: time.fixed ? null : facts.durationMs, reproducible: time.fixed },
+    changes: facts.changes ?? null,
   };
 }

@@ -20,6 +20,7 @@
 import type { ComponentChild, VNode } from "preact";
 import { renderToString } from "preact-render-to-string";
 import { STYLE } from "../style.ts";
+import { ChangesPanel } from "../changes_panel.tsx";
 import { Prose } from "../prose.tsx";
 import { resolveValue } from "../inline_value.ts";
 import type { ProseRef } from "../markdown.ts";
@@ -90,6 +91,7 @@ export function Record({ input }: { input: RecordInput }): VNode {
       </header>
       <p class="pl-record-caution">{CAUTION}</p>
       <Banner input={input} />
+      <ChangesPanel changes={input.changes ?? null} open />
       {input.blocks.map((b) =>
         b.type === "prose"
           ? (

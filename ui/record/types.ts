@@ -8,6 +8,7 @@
  */
 import type { CellReport } from "../../kernel/session/types.ts";
 import type { DocSettings } from "../../kernel/contract/mod.ts";
+import type { ChangeReport } from "../../kernel/history/types.ts";
 
 /** One block of the document, in order. */
 export type RecordBlock =
@@ -41,4 +42,9 @@ export interface RecordInput {
    * record is to be reproducible: `SOURCE_DATE_EPOCH` set).
    */
   run: { utc: string; ms: number | null; reproducible: boolean };
+  /**
+   * What changed since the previous data revision (the run history's report)
+   * and what the history could not do; absent or null without a history.
+   */
+  changes?: { report: ChangeReport | null; notes: string[] } | null;
 }

@@ -1,0 +1,82 @@
+/**
+ * The "Since the last data" panel in headless Chromium against the real
+ * `plumb serve` on a copy of the demo (invented data): no panel before there
+ * is a second data revision; after the rows of data/batch7-later.csv are
+ * appended to the copy's data/batch7.csv the panel appears without a reload,
+ * names the new rows, the change of preferred model and a parameter of `root`
+ * outside its previous interval, and draws the drift of the estimates; at a
+ * phone's (390 px), a half screen's (960 px) and a desktop's (1440 px) width
+ * it stays inside the viewport. Screenshots: test/artifacts/changes-*.png.
+ */
+import { ok } from "node:assert/strict";
+import { allCurrent, ARTIFACTS, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
+
+const ignore = skipWithoutBrowser("changes");
+
+const WIDTHS = [{ width: 390, height: 844 }, { width: 960, height: 800 }, {
+  width: 1440,
+  height: 900,
+}];
+
+Deno.test({
+  name: "changes: the panel appears live after a data append and fits at 390, 960 and 1440 px",
+  ignore,
+  sanitizeOps: false,
+  sanitizeResources: false,
+  async fn(t) {
+    await withServedBrowser("fade", "fade.md", async (served, b) => {
+      const { page } = b;
+      await page.goto(served.url);
+      await allCurrent(page);
+      ok(await page.$(".pl-changes") === null, "no panel with one revision");
+      const later = await Deno.readTextFile(`${served.dir}/data/batch7-later.csv`);
+      await Deno.writeTextFile(
+        `${served.dir}/data/batch7.csv`,
+        later.split("\n").slice(1).join("\n"),
+        { append: true },
+      );
+      await page.waitForFunction(
+        () => document.querySelector(".pl-changes")?.textContent?.includes("root-linear"),
+        { timeout: 30_000 },
+      );
+      const text = await page.$eval(".pl-changes", (e) => e.textContent ?? "");
+      ok(text.includes("40 rows added (rows 121–160)"), text);
+      ok(/preferred model of fade changed from root to root-linear/.test(text), text);
+      ok(/root: a moved from 9\.882 \[9\.828, 9\.936\]/.test(text), text);
+      ok(/outside its previous 95% interval/.test(text), text);
+      // The preferred model leads the list.
+      const first = await page.$eval(
+        ".pl-changes-list .pl-change",
+        (e) => e.getAttribute("data-code"),
+      );
+      ok(first === "preferred-changed", `first: ${first}`);
+      await page.click(".pl-drift > summary");
+      const charts = await page.$$eval(".pl-drift-chart svg", (s) => s.length);
+      ok(charts >= 7, `${charts} drift charts (one per fit parameter)`);
+      for (const vp of WIDTHS) {
+        await t.step(`${vp.width} px`, async () => {
+          await page.setViewport(vp);
+          await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => r(null))));
+          const box = await page.$eval(".pl-changes", (e) => {
+            const r = e.getBoundingClientRect();
+            return {
+              right: r.right,
+              vw: document.documentElement.clientWidth,
+              scroll: document.documentElement.scrollWidth,
+              inner: e.scrollWidth <= e.clientWidth + 1,
+            };
+          });
+          ok(
+            box.right <= box.vw + 1,
+            `panel past the right edge at ${vp.width}: ${JSON.stringify(box)}`,
+          );
+          ok(box.scroll <= box.vw, `sideways scroll at ${vp.width}: ${JSON.stringify(box)}`);
+          ok(box.inner, `panel content wider than the panel at ${vp.width}`);
+          const panel = await page.$(".pl-changes");
+          await panel!.screenshot({ path: new URL(`changes-${vp.width}.png`, ARTIFACTS).pathname });
+        });
+      }
+      ok(b.errors.length === 0, b.errors.join("\n"));
+    });
+  },
+});
