@@ -64,6 +64,27 @@ export interface RecordRunOptions {
   time?: Date;
   /** Write nothing: report as if the record had been appended (no leave to write). */
   dryRun?: boolean;
+  /**
+   * The history as this process last left it, kept by a caller that records
+   * many runs (the live workspace): while the file's size and modification
+   * time are as they were after our own write, it is not read again.
+   */
+  cache?: HistoryCache;
+}
+
+/** The history as a process last wrote it, and the file's size and time then. */
+export interface HistoryCache {
+  state: { size: number; mtimeMs: number; read: HistoryRead } | null;
+}
+
+/** The file's size and modification time, or null when it cannot be stat'ed. */
+async function stamp(path: string): Promise<{ size: number; mtimeMs: number } | null> {
+  try {
+    const s = await Deno.stat(path);
+    return { size: s.size, mtimeMs: s.mtime?.getTime() ?? -1 };
+  } catch {
+    return null;
+  }
 }
 
 /**
@@ -82,11 +103,19 @@ export async function recordRun(opts: RecordRunOptions): Promise<Recorded | null
   const path = historyPath(opts.document);
   const notes: string[] = [];
   let read: HistoryRead;
-  try {
-    read = await readHistory(path);
-  } catch (err) {
-    notes.push((err as Error).message);
-    read = { records: [], problems: [] };
+  const cached = opts.cache?.state ?? null;
+  const now = cached ? await stamp(path) : null;
+  if (cached && now && now.size === cached.size && now.mtimeMs === cached.mtimeMs) {
+    read = cached.read;
+  } else {
+    try {
+      const before = opts.cache ? await stamp(path) : null;
+      read = await readHistory(path);
+      if (opts.cache) opts.cache.state = before ? { ...before, read } : null;
+    } catch (err) {
+      notes.push((err as Error).message);
+      read = { records: [], problems: [] };
+    }
   }
   notes.push(...read.problems);
   const record = makeRecord({
@@ -108,6 +137,10 @@ export async function recordRun(opts: RecordRunOptions): Promise<Recorded | null
       if (!opts.dryRun) {
         await appendRecord(path, record, { keep: bound });
         written = true;
+        const after = opts.cache ? await stamp(path) : null;
+        if (opts.cache) {
+          opts.cache.state = after ? { ...after, read: { records, problems: [] } } : null;
+        }
       }
     } catch (err) {
       notes.push((err as Error).message);

@@ -193,3 +193,47 @@ Deno.test("changeReport: records picked by time, id and hash; fewer than two rec
   equal(changeReport(read(records.slice(0, 1)), registry, "h"), null);
   equal(changeReport(read([]), registry, "h"), null);
 });
+
+Deno.test("recordRun with a cache: the file is read again only when someone else wrote it", async () => {
+  const { recordRun } = await import("./mod.ts");
+  const dir = await Deno.makeTempDir({ prefix: "plumb-history-cache-" });
+  try {
+    const doc = `${dir}/a.md`;
+    const cache = { state: null };
+    const run = (data: string) => {
+      const r = rec(0, data, [["t", "rows", "current", { n: data.length }]]);
+      const report = {
+        settings: DEFAULT_SETTINGS,
+        cells: r.cells.map((c) => ({
+          name: c.name,
+          kind: c.kind,
+          line: 1,
+          state: c.state,
+          error: null,
+          warnings: [],
+          result: null,
+          summaryLine: null,
+          ms: 0,
+          cached: false,
+          kept: c.kept,
+        })),
+        errors: [],
+        files: r.files,
+        ran: [],
+        superseded: false,
+      };
+      return recordRun({ document: doc, documentSha256: "d", report, registry, cache });
+    };
+    equal((await run("a"))!.records, 1);
+    equal((await run("bb"))!.records, 2);
+    ok((cache as { state: unknown }).state !== null);
+    // Another process appends behind our back: its record is seen.
+    const other = await import("./history_file.ts");
+    await other.appendRecord(`${dir}/a.history.jsonl`, rec(5, "ccc", []), {});
+    const r = (await run("dddd"))!;
+    equal(r.records, 4, "the other process's record was read");
+    equal(r.report!.history.records, 4);
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+});

@@ -46,7 +46,7 @@ import { type RunReport, Session, type SessionEvent } from "../session/session.t
 import { documentMessage, type FileInfo } from "./document_message.ts";
 import type { Outgoing, OutgoingCell } from "./live_channel.ts";
 import type { ChangesMessage, DocumentMessage } from "./protocol.ts";
-import { recordRun } from "../history/mod.ts";
+import { type HistoryCache, recordRun } from "../history/mod.ts";
 
 /** Options of a live workspace. */
 export interface LiveOptions {
@@ -111,6 +111,8 @@ export class LiveWorkspace {
   #lastRun: LastRun | null = null;
   /** The latest `changes` message (sent again to browsers that connect later). */
   #changes: ChangesMessage | null = null;
+  /** The run history as this workspace last wrote it (not read again while unchanged on disk). */
+  #history: HistoryCache = { state: null };
 
   /** @param opts Document path, kinds, worker entry and the message sink. */
   constructor(opts: LiveOptions) {
@@ -292,6 +294,7 @@ export class LiveWorkspace {
         report,
         registry: this.#opts.registry,
         inputsOf: (cell) => inputs.get(cell) ?? [],
+        cache: this.#history,
       });
       if (r === null) msg = { type: "changes", report: null, notes: [] }; // history: off
       else msg = { type: "changes", report: r.report, notes: r.notes };
