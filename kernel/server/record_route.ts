@@ -68,7 +68,9 @@ export async function recordResponse(
     report: last.report,
     startedMs: last.startedMs,
     durationMs: last.durationMs,
-    changes: last.changes === null ? null : { report: last.changes.report, notes: last.changes.notes },
+    changes: last.changes === null
+      ? null
+      : { report: last.changes.report, notes: last.changes.notes },
   });
   const file = `${name.replace(/\.[^.]*$/, "")}.record.html`.replace(/["\\\r\n]/g, "_");
   return new Response(record.renderRecord(input), {
