@@ -1,12 +1,14 @@
 /**
  * LiveStore: a `document` message for a data-only change (same text) keeps
- * the blocks array, so prose and the outline are not redrawn.
+ * the blocks array, so prose and the outline are not redrawn; a `changes`
+ * message (the run history's report) is kept until the next one.
  *
  * @module
  */
-import { equal, notEqual } from "node:assert/strict";
+import { equal, notEqual, ok } from "node:assert/strict";
 import type { DocumentMessage } from "../kernel/server/protocol.ts";
 import { LiveStore } from "./store.ts";
+import { changesReport } from "./testdata/changes_report.ts";
 
 const doc = (source: string, rows: number): DocumentMessage => ({
   type: "document",
@@ -43,4 +45,17 @@ Deno.test("LiveStore.apply takes a data-only document message without its text",
   const { source: _s2, blocks: _b2, ...other } = doc("b", 6);
   equal(s.apply(other as DocumentMessage), false);
   equal(s.doc.value!.version, "v1");
+});
+
+Deno.test("LiveStore.apply keeps the latest changes message, a later one replacing it", () => {
+  const s = new LiveStore(() => 0);
+  // Read through a function: an assertion on the signal's value would narrow its type to null.
+  const latest = () => s.changes.peek();
+  equal(latest(), null);
+  ok(s.apply({ type: "changes", report: changesReport(), notes: [] }));
+  equal(latest()?.report?.cells.length, 3);
+  ok(s.apply({ type: "changes", report: null, notes: ["The run history could not be read"] }));
+  equal(latest()?.report, null);
+  equal(latest()?.notes[0], "The run history could not be read");
+  equal(s.dropped, 0);
 });

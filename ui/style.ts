@@ -143,29 +143,33 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-note { margin: .35rem 0; color: var(--muted); }
 .pl-warnings { margin: .3rem 0; padding: 0; list-style: none; font-size: 13.5px; }
 .pl-changes { border: 1px solid var(--rule); border-left: 4px solid var(--accent); background: var(--accent-wash);
-  padding: .6rem .9rem; margin: 0 0 1.4rem; overflow-wrap: anywhere; max-width: 100%; }
-.pl-changes-head { display: flex; flex-wrap: wrap; align-items: baseline; gap: .2rem 1rem; }
-.pl-changes-head h2 { font: 600 1rem/1.3 var(--sans); margin: 0; }
-.pl-changes-when { margin: 0; color: var(--muted); font-size: .85rem; }
+  padding: .6rem .9rem; margin: 0 0 1.4rem; overflow-wrap: anywhere; max-width: 100%; box-sizing: border-box; }
+.pl-changes h2 { font: 600 1rem/1.3 var(--sans); margin: 0 0 .3rem; }
+.pl-changes-compared { display: grid; grid-template-columns: max-content minmax(0, 1fr); gap: 0 .9rem;
+  margin: 0 0 .4rem; font-size: .85rem; }
+.pl-changes-compared dt { grid-column: 1; color: var(--muted); }
+.pl-changes-compared dd { grid-column: 2; margin: 0; }
+@media (max-width: 40rem) { .pl-changes-compared { display: block; }
+  .pl-changes-compared dt { margin-top: .15rem; font-size: .75rem; } }
 .pl-changes-list, .pl-changes-notes { margin: .4rem 0; padding-left: 1.1rem; }
-.pl-changes-notes { color: var(--ink); list-style: "! "; }
+.pl-changes-notes { list-style: "! "; }
 .pl-change { margin: .2rem 0; }
 .pl-change-notable .pl-change-text { font-weight: 500; }
-.pl-change-numbers { display: inline; font-size: .8rem; }
+.pl-change-numbers { display: inline; margin-left: .4em; font-size: .8rem; }
 .pl-change-numbers summary { display: inline; cursor: pointer; color: var(--accent); }
 .pl-change-numbers table { margin: .2rem 0 .4rem; border-collapse: collapse; font: .8rem/1.35 var(--mono); }
 .pl-change-numbers th { text-align: left; font-weight: 400; color: var(--muted); padding-right: .8rem; }
 .pl-changes-more > summary, .pl-drift > summary { cursor: pointer; color: var(--accent); margin-top: .3rem; }
-.pl-drift-grid { display: flex; flex-wrap: wrap; gap: .5rem 1rem; margin-top: .4rem; }
-.pl-drift-chart { margin: 0; max-width: 100%; }
-.pl-drift-chart svg { max-width: 100%; height: auto; background: var(--paper); border: 1px solid var(--rule); }
-.pl-drift-title { font: 600 10px var(--sans); fill: var(--ink); }
-.pl-drift-tick { font: 9px var(--mono); fill: var(--muted); }
-.pl-drift-axis { stroke: var(--rule); }
-.pl-drift-first { fill: var(--accent-wash); }
-.pl-drift-path { fill: none; stroke: var(--muted); stroke-width: 1; stroke-dasharray: 2 2; }
-.pl-drift-interval { stroke: var(--accent); stroke-width: 1.5; }
-.pl-drift-dot { fill: var(--accent); }
+.pl-drift-key { margin: .3rem 0 0; font-size: .8rem; color: var(--muted); }
+.pl-drift-group h3 { margin: .6rem 0 .25rem; font: 600 .85rem/1.3 var(--mono); }
+.pl-drift-kind { margin-left: .5em; font: 400 .75rem var(--sans); color: var(--muted); }
+.pl-drift-grid { display: flex; flex-wrap: wrap; gap: .4rem .8rem; }
+.pl-drift-chart { flex: 0 1 260px; min-width: 0; max-width: 100%; box-sizing: border-box; padding: .2rem .3rem 0;
+  background: var(--paper); border: 1px solid var(--rule); }
+.pl-drift-name { margin: 0; font: 600 .78rem/1.3 var(--sans); }
+.pl-drift-unit { margin-left: .3em; font-weight: 400; color: var(--muted); }
+.pl-drift-chart figure { margin: 0; }
+.pl-drift-chart svg { display: block; max-width: 100%; height: auto; }
 .pl-doc-errors { list-style: none; padding: .4rem .75rem; border-left: 3px solid var(--ink); }
 
 .pl-src { margin: .25rem 0 .5rem; padding: .4rem 0; background: var(--wash); overflow-x: auto; line-height: 1.45; }

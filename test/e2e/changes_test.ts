@@ -6,7 +6,10 @@
  * names the new rows, the change of preferred model and a parameter of `root`
  * outside its previous interval, and draws the drift of the estimates; at a
  * phone's (390 px), a half screen's (960 px) and a desktop's (1440 px) width
- * it stays inside the viewport. Screenshots: test/artifacts/changes-*.png.
+ * it stays inside the viewport; the numbers behind a sentence open on a
+ * click; a second append (three invented rows) updates the panel in place:
+ * the inputs compared and a third revision in the drift charts.
+ * Screenshots: test/artifacts/changes-*.png.
  */
 import { ok } from "node:assert/strict";
 import { allCurrent, ARTIFACTS, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
@@ -29,30 +32,41 @@ Deno.test({
       await page.goto(served.url);
       await allCurrent(page);
       ok(await page.$(".pl-changes") === null, "no panel with one revision");
+      /** Appends rows to the copy's batch7.csv and waits for the panel to say `expect`. */
+      const append = async (rows: string, expect: string) => {
+        await Deno.writeTextFile(`${served.dir}/data/batch7.csv`, rows, { append: true });
+        await page.waitForFunction(
+          (want) => document.querySelector(".pl-changes")?.textContent?.includes(want),
+          { timeout: 30_000 },
+          expect,
+        );
+      };
       const later = await Deno.readTextFile(`${served.dir}/data/batch7-later.csv`);
-      await Deno.writeTextFile(
-        `${served.dir}/data/batch7.csv`,
-        later.split("\n").slice(1).join("\n"),
-        { append: true },
-      );
-      await page.waitForFunction(
-        () => document.querySelector(".pl-changes")?.textContent?.includes("root-linear"),
-        { timeout: 30_000 },
-      );
+      await append(later.split("\n").slice(1).join("\n"), "root-linear");
       const text = await page.$eval(".pl-changes", (e) => e.textContent ?? "");
       ok(text.includes("40 rows added (rows 121–160)"), text);
       ok(/preferred model of fade changed from root to root-linear/.test(text), text);
       ok(/root: a moved from 9\.882 \[9\.828, 9\.936\]/.test(text), text);
       ok(/outside its previous 95% interval/.test(text), text);
+      ok(text.includes("data/batch7.csv: 121 → 161 lines (+40)"), text);
       // The preferred model leads the list.
       const first = await page.$eval(
         ".pl-changes-list .pl-change",
         (e) => e.getAttribute("data-code"),
       );
       ok(first === "preferred-changed", `first: ${first}`);
+      // The numbers behind the first sentence, on request.
+      await page.click(".pl-changes-list .pl-change .pl-change-numbers > summary");
+      const numbers = await page.$eval(
+        ".pl-changes-list .pl-change .pl-change-numbers table",
+        (e) => (e as HTMLElement).offsetHeight > 0 ? e.textContent ?? "" : "",
+      );
+      ok(numbers.length > 0, "the numbers table shows once asked for");
       await page.click(".pl-drift > summary");
-      const charts = await page.$$eval(".pl-drift-chart svg", (s) => s.length);
+      const charts = await page.$$eval(".pl-drift-chart svg.plumb-chart", (s) => s.length);
       ok(charts >= 7, `${charts} drift charts (one per fit parameter)`);
+      const groups = await page.$$eval(".pl-drift-group h3", (hs) => hs.map((h) => h.textContent));
+      ok(groups.some((g) => g?.startsWith("root")), `drift groups: ${groups.join(", ")}`);
       for (const vp of WIDTHS) {
         await t.step(`${vp.width} px`, async () => {
           await page.setViewport(vp);
@@ -76,6 +90,14 @@ Deno.test({
           await panel!.screenshot({ path: new URL(`changes-${vp.width}.png`, ARTIFACTS).pathname });
         });
       }
+      // A second append: the panel updates in place (no reload), now over three revisions.
+      await append("805,2199.6,25.1\n810,2198.1,24.9\n815,2196.0,25.2\n", "161 → 164 lines");
+      const summary = await page.$eval(".pl-drift > summary", (e) => e.textContent ?? "");
+      ok(summary.includes("3 recorded revisions"), summary);
+      ok(
+        await page.$eval(".pl-drift", (e) => (e as HTMLDetailsElement).open),
+        "the drift disclosure stays open across the update",
+      );
       ok(b.errors.length === 0, b.errors.join("\n"));
     });
   },
