@@ -250,5 +250,6 @@ export async function allCurrent(page: Page, timeout = 30_000): Promise<void> {
   }, { timeout, polling: 50 });
 }
 
-/** Where screenshots go (git-ignored). */
+/** Where screenshots go (git-ignored; made here, so the first suite to run finds it). */
 export const ARTIFACTS = new URL("test/artifacts/", REPO);
+Deno.mkdirSync(ARTIFACTS, { recursive: true });
