@@ -44,6 +44,13 @@ export interface Generated {
   result: string;
 }
 
+/** Generated statements and one result expression per tree (see {@link generateAll}). */
+export interface GeneratedAll {
+  pre: string[];
+  body: string[];
+  results: string[];
+}
+
 type IdNode = Extract<Expr, { op: "id" }>;
 
 function fn(n: Extract<Expr, { op: "call" }>) {
@@ -77,6 +84,25 @@ function children(e: Expr): Expr[] {
  * @param hoist True inside a row loop: put row-independent work in `pre`.
  */
 export function generate(e: Expr, resolve: (node: IdNode) => Resolved, hoist: boolean): Generated {
+  const g = generateAll([e], resolve, hoist);
+  return { pre: g.pre, body: g.body, result: g.results[0] };
+}
+
+/**
+ * Generates source for several trees evaluated together (a model's partial
+ * derivatives): a subtree that occurs in more than one of them is computed
+ * once, as a repeated subtree of one tree is. Each value is the same double
+ * as the tree compiled alone gives (the same operations on the same inputs).
+ *
+ * @param es The trees.
+ * @param resolve Source and row-dependence of each identifier.
+ * @param hoist True inside a row loop: put row-independent work in `pre`.
+ */
+export function generateAll(
+  es: readonly Expr[],
+  resolve: (node: IdNode) => Resolved,
+  hoist: boolean,
+): GeneratedAll {
   const key = new Map<Expr, string>();
   const count = new Map<string, number>();
   const varies = new Map<Expr, boolean>();
@@ -107,7 +133,7 @@ export function generate(e: Expr, resolve: (node: IdNode) => Resolved, hoist: bo
     count.set(k, (count.get(k) ?? 0) + 1);
     return k;
   };
-  analyse(e);
+  for (const e of es) analyse(e);
 
   const pre: string[] = [], body: string[] = [];
   const named = new Map<string, string>();
@@ -141,6 +167,6 @@ export function generate(e: Expr, resolve: (node: IdNode) => Resolved, hoist: bo
     named.set(key.get(n)!, name);
     return name;
   };
-  const result = emit(e);
-  return { pre, body, result };
+  const results = es.map(emit);
+  return { pre, body, results };
 }

@@ -1,5 +1,12 @@
 import assert from "node:assert/strict";
-import { compile, compileScalar, derivative, ExprError, parseExpression } from "./mod.ts";
+import {
+  compile,
+  compileColumns,
+  compileScalar,
+  derivative,
+  ExprError,
+  parseExpression,
+} from "./mod.ts";
 import { evaluate, randomExpr, rng } from "./_testing.ts";
 
 const same = (a: number, b: number) => Object.is(a, b) || (Number.isNaN(a) && Number.isNaN(b));
@@ -30,6 +37,38 @@ Deno.test("compile() evaluates repeated and row-independent subtrees correctly",
   const x = [0, 0.5, 1, 2];
   const out = f([x], [1.5, 0.7, -0.2], x.length);
   x.forEach((v, r) => assert.ok(same(out[r], evaluate(e, { x: v, a: 1.5, b: 0.7, c: -0.2 }))));
+});
+
+Deno.test("compileColumns() gives each tree's column bit for bit as compile() does", () => {
+  // One row loop sharing subtrees performs the same operations on the same inputs as one loop
+  // per tree, so the values are identical (exact arithmetic: IEEE rounding is deterministic).
+  const next = rng(7);
+  const n = 30;
+  for (let i = 0; i < 300; i++) {
+    const e = randomExpr(next, ["x", "y", "a", "b"], 6);
+    const trees = [e, derivative(e, "a"), derivative(e, "b")];
+    const cols = [0, 1].map(() => Float64Array.from({ length: n }, () => 8 * next() - 4));
+    const params = [4 * next() - 2, 4 * next() - 2];
+    const all = compileColumns(trees, ["x", "y"], ["a", "b"])(cols, params, n);
+    assert.equal(all.length, 3 * n);
+    trees.forEach((t, j) => {
+      const one = compile(t, ["x", "y"], ["a", "b"])(cols, params, n);
+      for (let r = 0; r < n; r++) {
+        assert.ok(
+          same(all[r + j * n], one[r]),
+          `tree ${j} row ${r}: ${all[r + j * n]} vs ${one[r]}`,
+        );
+      }
+    });
+  }
+});
+
+Deno.test("compileColumns() refuses an output shorter than n times the trees", () => {
+  const f = compileColumns([parseExpression("x"), parseExpression("a")], ["x"], ["a"]);
+  assert.throws(() => f([[1, 2]], [3], 2, new Float64Array(3)), {
+    name: "RangeError",
+    message: "Output has 3 values: 4 needed",
+  });
 });
 
 Deno.test("compile() compiles derivatives, including sign and ifpos", () => {

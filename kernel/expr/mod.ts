@@ -53,7 +53,7 @@ export { simplify } from "./simplify.ts";
 export { derivative } from "./derivative.ts";
 export { format } from "./format.ts";
 export { freeNames } from "./free_names.ts";
-export { compile, type Compiled } from "./compile.ts";
+export { compile, compileColumns, type Compiled, type CompiledColumns } from "./compile.ts";
 export { compileScalar } from "./compile_scalar.ts";
 export { compileDD, type CompiledDD } from "./compile_dd.ts";
 export { isLinearIn } from "./is_linear_in.ts";

@@ -11,17 +11,8 @@
  *
  * @module
  */
-import {
-  compile,
-  type Compiled,
-  compileDD,
-  derivative,
-  type Expr,
-  format,
-  freeNames,
-  isLinearIn,
-  type Model,
-} from "../expr/mod.ts";
+import { compile, type Expr, format, freeNames, type Model } from "../expr/mod.ts";
+import { type CompiledModel, compiledModel } from "./_compiled_model.ts";
 import type { LeastSquaresProblem } from "./lmder.ts";
 import type { PolishProblem } from "./polish.ts";
 import { lsqSolve } from "./_lsq_solve.ts";
@@ -104,15 +95,13 @@ export interface ModelFunctions {
  */
 export function modelFunctions(data: ModelData): ModelFunctions {
   const { model, n, columns, y } = data;
-  const params = model.parameters, p = params.length;
-  const fc = compile(model.rhs, model.columns, params);
-  const trees = params.map((k) => derivative(model.rhs, k));
-  const dc: Compiled[] = trees.map((d) => compile(d, model.columns, params));
-  const jac = (x: Float64Array, out: Float64Array) => {
-    for (let j = 0; j < p; j++) dc[j](columns, x, n, out.subarray(j * n, (j + 1) * n));
-  };
+  const p = model.parameters.length;
+  const cm = compiledModel(model);
+  const fc = cm.f;
+  const jac = (x: Float64Array, out: Float64Array) => void cm.jac(columns, x, n, out);
   const w = data.weights ?? null;
   const sqrtW = w === null ? new Float64Array(n).fill(1) : w.map(Math.sqrt);
+  // Without weights √w = 1 and the products below would change nothing: they are skipped.
   const weighRows = (out: Float64Array, cols: number) => {
     if (w === null) return;
     for (let j = 0; j < cols; j++) for (let i = 0; i < n; i++) out[i + j * n] *= sqrtW[i];
@@ -121,17 +110,22 @@ export function modelFunctions(data: ModelData): ModelFunctions {
   const problem: LeastSquaresProblem = {
     m: n,
     n: p,
-    fcn(x, out) {
-      fc(columns, x, n, out);
-      for (let i = 0; i < n; i++) out[i] = sqrtW[i] * (out[i] - y[i]);
-    },
+    fcn: w === null
+      ? (x, out) => {
+        fc(columns, x, n, out);
+        for (let i = 0; i < n; i++) out[i] = out[i] - y[i];
+      }
+      : (x, out) => {
+        fc(columns, x, n, out);
+        for (let i = 0; i < n; i++) out[i] = sqrtW[i] * (out[i] - y[i]);
+      },
     jac: wjac,
   };
-  const unweighted = accurateResiduals(data, fc);
+  const unweighted = accurateResiduals(data, cm);
+  let wmax = 0;
+  for (let i = 0; i < n; i++) wmax = Math.max(wmax, sqrtW[i]);
   const residuals = (x: Float64Array, r: Float64Array, xlo?: Float64Array) => {
     const noise = unweighted(x, r, xlo);
-    let wmax = 0;
-    for (let i = 0; i < n; i++) wmax = Math.max(wmax, sqrtW[i]);
     weighRows(r, 1);
     return noise * wmax * wmax;
   };
@@ -142,7 +136,7 @@ export function modelFunctions(data: ModelData): ModelFunctions {
     jac,
     sqrtW,
     accurate: { m: n, n: p, residuals, jac: wjac },
-    project: linearProjection(data, fc, jac, sqrtW),
+    project: linearProjection(data, cm, sqrtW),
     gradientNorm(x) {
       const r = new Float64Array(n), J = new Float64Array(n * p);
       residuals(x, r);
@@ -155,8 +149,19 @@ export function modelFunctions(data: ModelData): ModelFunctions {
       }
       return Math.sqrt(s);
     },
-    notFinite: (x) => whereNotFinite(data, trees, x),
+    notFinite: (x) => allFinite(data, cm, x) ? null : whereNotFinite(data, cm.trees, x),
   };
+}
+
+/** Whether f and every ∂f/∂θ_j are finite at every row (the usual case, by the compiled forms). */
+function allFinite(data: ModelData, cm: CompiledModel, x: Float64Array): boolean {
+  const { n, columns, model } = data;
+  const v = new Float64Array(n * Math.max(1, model.parameters.length));
+  cm.f(columns, x, n, v);
+  for (let i = 0; i < n; i++) if (!Number.isFinite(v[i])) return false;
+  cm.jac(columns, x, n, v);
+  for (let i = 0; i < v.length; i++) if (!Number.isFinite(v[i])) return false;
+  return true;
 }
 
 /**
@@ -219,13 +224,13 @@ function whereNotFinite(data: ModelData, trees: Expr[], x: Float64Array): NotFin
 /** y − f(θ): in double-double from the printed data when corrections exist, else in double. */
 function accurateResiduals(
   data: ModelData,
-  fc: Compiled,
+  cm: CompiledModel,
 ): (x: Float64Array, r: Float64Array, xlo?: Float64Array) => number {
-  const { model, n, columns, y, lo } = data;
+  const { n, columns, y, lo } = data;
   if (lo === undefined || lo === null) {
     // In double each r_i carries an error of about ε·|f_i|, so Σr² one of 2ε·Σ|f_i·r_i|.
     return (x, r) => {
-      fc(columns, x, n, r);
+      cm.f(columns, x, n, r);
       let noise = 0;
       for (let i = 0; i < n; i++) {
         const f = r[i];
@@ -235,14 +240,8 @@ function accurateResiduals(
       return 4 * EPS * noise;
     };
   }
-  const yd = compileDD(model.response, [model.responseColumn], [])(
-    [lo.response.hi],
-    [lo.response.lo],
-    [],
-    null,
-    n,
-  );
-  const fd = compileDD(model.rhs, model.columns, model.parameters);
+  const yd = cm.responseDD()([lo.response.hi], [lo.response.lo], [], null, n);
+  const fd = cm.fDD();
   const hi = new Float64Array(n), lw = new Float64Array(n);
   return (x, r, xlo) => {
     fd(columns, lo.columns, x, xlo ?? null, n, hi, lw);
@@ -255,28 +254,27 @@ function accurateResiduals(
 }
 
 /**
- * The largest set L of parameters the model is jointly linear in (greedy: those
- * linear alone, dropping from the end until jointly linear), and the map that
- * sets θ_L by least squares given the others: f = f(θ with θ_L = 0) + Σ θ_l ∂f/∂θ_l.
+ * The map that sets the linearly entering parameters θ_L (kernel `linear` of
+ * the compiled model) by least squares given the others:
+ * f = f(θ with θ_L = 0) + Σ θ_l ∂f/∂θ_l.
  */
 function linearProjection(
   data: ModelData,
-  fc: Compiled,
-  jac: (x: Float64Array, out: Float64Array) => void,
+  cm: CompiledModel,
   sqrtW: Float64Array,
 ): ((x: Float64Array) => boolean) | undefined {
-  const { model, n, columns, y } = data;
-  const params = model.parameters, p = params.length;
-  let L = params.filter((k) => !freeNames(derivative(model.rhs, k)).has(k));
-  while (L.length > 0 && !isLinearIn(model.rhs, L)) L = L.slice(0, -1);
-  if (L.length === 0) return undefined;
-  const idx = L.map((k) => params.indexOf(k));
-  const J = new Float64Array(n * p), G = new Float64Array(n * idx.length);
-  const f0 = new Float64Array(n), b = new Float64Array(n);
+  const { n, columns, y } = data;
+  const idx = cm.linear, p = data.model.parameters.length;
+  if (idx.length === 0) return undefined;
+  let J: Float64Array, G: Float64Array, f0: Float64Array, b: Float64Array;
   return (x) => {
+    J ??= new Float64Array(n * p);
+    G ??= new Float64Array(n * idx.length);
+    f0 ??= new Float64Array(n);
+    b ??= new Float64Array(n);
     for (const j of idx) x[j] = 0;
-    fc(columns, x, n, f0);
-    jac(x, J);
+    cm.f(columns, x, n, f0);
+    cm.jac(columns, x, n, J);
     idx.forEach((j, k) => {
       for (let i = 0; i < n; i++) G[i + k * n] = sqrtW[i] * J[i + j * n];
     });
