@@ -33,7 +33,7 @@
  * @module
  */
 import { enorm } from "./enorm.ts";
-import { qrfac } from "./qrfac.ts";
+import { qrfac, qrfacWork } from "./qrfac.ts";
 import { lmpar } from "./lmpar.ts";
 
 const EPSMCH = 2.220446049250313e-16;
@@ -157,6 +157,9 @@ export function lmder(
   const diag = new Float64Array(n), qtf = new Float64Array(n);
   const wa1 = new Float64Array(n), wa2 = new Float64Array(n), wa3 = new Float64Array(n);
   const sdiag = new Float64Array(n);
+  // Work arrays made once per call, not once per step (as MINPACK's lmder passes its wa2, wa3
+  // to lmpar as scratch; they hold nothing across that call).
+  const qrWork = qrfacWork(n), wqtf = new Float64Array(m), swa = new Float64Array(n);
   const out = (info: LmderInfo): LmderResult => ({
     x,
     fvec,
@@ -179,7 +182,7 @@ export function lmder(
     if (!allFinite(fjac)) return out("jacobian-not-finite");
     if (bounded) holdActive(m, n, x, fvec, fjac, lower, upper);
     if (jcopy) jcopy.set(fjac);
-    const { ipvt, rdiag, acnorm } = qrfac(m, n, fjac, true);
+    const { ipvt, rdiag, acnorm } = qrfac(m, n, fjac, true, qrWork);
     if (iter === 1) {
       for (let j = 0; j < n; j++) diag[j] = acnorm[j] === 0 ? 1 : acnorm[j];
       for (let j = 0; j < n; j++) wa3[j] = diag[j] * x[j];
@@ -187,13 +190,13 @@ export function lmder(
       delta = o.factor * xnorm;
       if (delta === 0) delta = o.factor;
     }
-    formQtf(m, n, fjac, rdiag, fvec, qtf);
+    formQtf(m, n, fjac, rdiag, fvec, qtf, wqtf);
     gnorm = gradientCosine(m, n, fjac, ipvt, acnorm, qtf, fnorm);
     if (gnorm <= o.gtol) return out("gtol");
     for (let j = 0; j < n; j++) diag[j] = Math.max(diag[j], acnorm[j]);
     // Inner loop: shrink Δ until a step is accepted.
     for (;;) {
-      par = lmpar(n, fjac, m, ipvt, diag, qtf, delta, par, wa1, sdiag);
+      par = lmpar(n, fjac, m, ipvt, diag, qtf, delta, par, wa1, sdiag, wa2, wa3, swa);
       let clipped = false;
       for (let j = 0; j < n; j++) {
         wa1[j] = -wa1[j];
@@ -281,7 +284,7 @@ function holdActive(
   }
 }
 
-/** Qᵀ·fvec (first n components into qtf), then R's diagonal back into the matrix. */
+/** Qᵀ·fvec (first n components into qtf, `w` of m values as scratch), then R's diagonal back into the matrix. */
 function formQtf(
   m: number,
   n: number,
@@ -289,8 +292,9 @@ function formQtf(
   rdiag: Float64Array,
   fvec: Float64Array,
   qtf: Float64Array,
+  w: Float64Array,
 ): void {
-  const w = Float64Array.from(fvec);
+  w.set(fvec);
   for (let j = 0; j < n; j++) {
     const cj = j * m, ajj = fjac[j + cj];
     if (ajj !== 0) {

@@ -32,6 +32,9 @@ const DWARF = 2.2250738585072014e-308;
  * @param par0 A starting estimate of λ.
  * @param x Out: the step.
  * @param sdiag Out: diagonal of S (see `qrsolv`).
+ * @param wa1 Scratch of n values (MINPACK's `wa1`; fresh when omitted).
+ * @param wa2 Scratch of n values (MINPACK's `wa2`).
+ * @param wa3 Scratch of n values for `qrsolv` (its `wa`).
  * @returns The Levenberg–Marquardt parameter λ.
  * @example
  * ```ts
@@ -54,8 +57,10 @@ export function lmpar(
   par0: number,
   x: Float64Array,
   sdiag: Float64Array,
+  wa1: Float64Array = new Float64Array(n),
+  wa2: Float64Array = new Float64Array(n),
+  wa3: Float64Array = new Float64Array(n),
 ): number {
-  const wa1 = new Float64Array(n), wa2 = new Float64Array(n);
   const R = (i: number, j: number) => r[i + j * ldr];
   // The Gauss–Newton direction; a least-squares solution if R is singular.
   let nsing = n;
@@ -106,7 +111,7 @@ export function lmpar(
     if (par === 0) par = Math.max(DWARF, 0.001 * paru);
     const temp = Math.sqrt(par);
     for (let j = 0; j < n; j++) wa1[j] = temp * diag[j];
-    qrsolv(n, r, ldr, ipvt, wa1, qtb, x, sdiag);
+    qrsolv(n, r, ldr, ipvt, wa1, qtb, x, sdiag, wa3);
     for (let j = 0; j < n; j++) wa2[j] = diag[j] * x[j];
     dxnorm = enorm(wa2);
     const fpOld = fp;

@@ -13,7 +13,7 @@
  *
  * @module
  */
-import { lsqSolve } from "./_lsq_solve.ts";
+import { lsqSolve, lsqWork } from "./_lsq_solve.ts";
 import { fastTwoSum, twoSum } from "../linalg/mod.ts";
 
 /** Relative rise of the RSS treated as rounding noise (common practice, no source). */
@@ -83,11 +83,13 @@ export function polish(
   let x = Float64Array.from(x0), xlo = new Float64Array(n), r = new Float64Array(m);
   let noise = problem.residuals(x, r, xlo);
   let rss = sumSquares(r), steps = 0, prev = Infinity;
-  const fjac = new Float64Array(m * n), rt = new Float64Array(m);
+  const fjac = new Float64Array(m * n), work = lsqWork(m, n);
+  // The trial point and its residuals; swapped with the current ones when a step is kept.
+  let rt = new Float64Array(m), xt = new Float64Array(n), xtlo = new Float64Array(n);
   for (let k = 0; k < maxSteps && rss > 0; k++) {
     problem.jac(x, fjac);
     for (let j = 0; j < n; j++) if (held[j]) fjac.fill(0, j * m, j * m + m);
-    const delta = lsqSolve(m, n, fjac, r);
+    const delta = lsqSolve(m, n, fjac, r, work);
     if (delta === null) break;
     // Relative size of the correction: Gauss–Newton contracts near a solution
     // (only linearly when the residuals are large, as in ENSO); once it stops
@@ -95,7 +97,6 @@ export function polish(
     let size = 0;
     for (let j = 0; j < n; j++) size = Math.max(size, Math.abs(delta[j]) / (Math.abs(x[j]) || 1));
     if (size === 0 || !(size < prev)) break;
-    const xt = new Float64Array(n), xtlo = new Float64Array(n);
     for (let j = 0; j < n; j++) {
       const [s, e] = twoSum(x[j], delta[j]);
       [xt[j], xtlo[j]] = fastTwoSum(s, e + xlo[j]);
@@ -105,8 +106,8 @@ export function polish(
     // The RSS cannot resolve the last digits of weakly determined parameters,
     // so a contracting step is kept unless it raises the RSS beyond rounding.
     if (!(rssT <= rss * (1 + RSS_NOISE) + noise + noiseT)) break;
-    [x, xlo, rss, prev, noise] = [xt, xtlo, rssT, size, noiseT];
-    r = Float64Array.from(rt);
+    [x, xt, xlo, xtlo, r, rt] = [xt, x, xtlo, xlo, rt, r];
+    [rss, prev, noise] = [rssT, size, noiseT];
     steps++;
   }
   return { x, xlo, r, rss, steps };

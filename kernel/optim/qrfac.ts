@@ -32,6 +32,28 @@ export interface QRFac {
   acnorm: Float64Array;
 }
 
+/** Arrays of n values for {@link qrfac} to write into, as MINPACK's caller passes them. */
+export interface QRFacWork extends QRFac {
+  /** Scratch (MINPACK's `wa`). */
+  wa: Float64Array;
+}
+
+/**
+ * Arrays for {@link qrfac} on n columns, for a caller that factors many times
+ * (allocating a typed array costs about as much as a Householder step on 100 rows).
+ *
+ * @param n Columns.
+ * @returns Fresh arrays.
+ */
+export function qrfacWork(n: number): QRFacWork {
+  return {
+    ipvt: new Int32Array(n),
+    rdiag: new Float64Array(n),
+    acnorm: new Float64Array(n),
+    wa: new Float64Array(n),
+  };
+}
+
 /**
  * Factors `a` (m×n, m ≥ n, column-major, leading dimension m) in place.
  *
@@ -39,7 +61,8 @@ export interface QRFac {
  * @param n Columns.
  * @param a The matrix; overwritten (see the module doc).
  * @param pivot Whether to pivot columns by largest remaining norm.
- * @returns Pivots, R's diagonal and the original column norms.
+ * @param work Arrays to write into (from {@link qrfacWork}); fresh ones when omitted.
+ * @returns Pivots, R's diagonal and the original column norms (`work`'s arrays when given).
  * @example
  * ```ts
  * import { qrfac } from "./qrfac.ts";
@@ -48,9 +71,14 @@ export interface QRFac {
  * if (ipvt[0] !== 0 || Math.abs(Math.abs(rdiag[0]) - 5) > 1e-15) throw new Error("pivot");
  * ```
  */
-export function qrfac(m: number, n: number, a: Float64Array, pivot: boolean): QRFac {
-  const ipvt = new Int32Array(n), rdiag = new Float64Array(n), acnorm = new Float64Array(n);
-  const wa = new Float64Array(n);
+export function qrfac(
+  m: number,
+  n: number,
+  a: Float64Array,
+  pivot: boolean,
+  work: QRFacWork = qrfacWork(n),
+): QRFac {
+  const { ipvt, rdiag, acnorm, wa } = work;
   for (let j = 0; j < n; j++) {
     acnorm[j] = enorm(a, j * m, j * m + m);
     rdiag[j] = acnorm[j];
@@ -103,5 +131,5 @@ export function qrfac(m: number, n: number, a: Float64Array, pivot: boolean): QR
     }
     rdiag[j] = -ajnorm;
   }
-  return { ipvt, rdiag, acnorm };
+  return work;
 }

@@ -29,6 +29,7 @@
  * @param qtb The first n elements of Qᵀb.
  * @param x Out: the solution.
  * @param sdiag Out: the diagonal of S.
+ * @param wa Scratch of n values (MINPACK's `wa`; fresh when omitted).
  * @returns Nothing (writes `x`, `sdiag` and the lower triangle of `r`).
  * @example
  * ```ts
@@ -48,8 +49,8 @@ export function qrsolv(
   qtb: Float64Array,
   x: Float64Array,
   sdiag: Float64Array,
+  wa: Float64Array = new Float64Array(n),
 ): void {
-  const wa = new Float64Array(n);
   // Copy R and Qᵀb to preserve input and initialise S; save R's diagonal in x.
   for (let j = 0; j < n; j++) {
     for (let i = j; i < n; i++) r[i + j * ldr] = r[j + i * ldr];
