@@ -47,14 +47,12 @@ const valueKind = {
 } as unknown as CellKind;
 const registry: Registry = new Map([["rows", rowsKind], ["value", valueKind]]);
 
-/** A record at minute `m` with data hash `data`, the given cells (name, kind, state, kept). */
-function rec(
-  m: number,
-  data: string,
+/** A run's report with the given cells (name, kind, state, kept) and data files. */
+function runReport(
   cells: [string, string, CellReport["state"], unknown][],
-  doc = "d0",
-): HistoryRecord {
-  const report: RunReport = {
+  files: RunReport["files"],
+): RunReport {
+  return {
     settings: DEFAULT_SETTINGS,
     cells: cells.map(([name, kind, state, kept]) => ({
       name,
@@ -70,10 +68,20 @@ function rec(
       kept,
     })),
     errors: [],
-    files: [{ path: "a.csv", sha256: data, bytes: 10, lines: 2 }],
+    files,
     ran: [],
     superseded: false,
   };
+}
+
+/** A record at minute `m` with data hash `data`, the given cells (name, kind, state, kept). */
+function rec(
+  m: number,
+  data: string,
+  cells: [string, string, CellReport["state"], unknown][],
+  doc = "d0",
+): HistoryRecord {
+  const report = runReport(cells, [{ path: "a.csv", sha256: data, bytes: 10, lines: 2 }]);
   return makeRecord({
     documentPath: "a.md",
     documentSha256: doc,
@@ -202,26 +210,12 @@ Deno.test("recordRun with a cache: the file is read again only when someone else
     const cache = { state: null };
     const run = (data: string) => {
       const r = rec(0, data, [["t", "rows", "current", { n: data.length }]]);
-      const report = {
-        settings: DEFAULT_SETTINGS,
-        cells: r.cells.map((c) => ({
-          name: c.name,
-          kind: c.kind,
-          line: 1,
-          state: c.state,
-          error: null,
-          warnings: [],
-          result: null,
-          summaryLine: null,
-          ms: 0,
-          cached: false,
-          kept: c.kept,
-        })),
-        errors: [],
-        files: r.files,
-        ran: [],
-        superseded: false,
-      };
+      const report = runReport(
+        r.cells.map((c) =>
+          [c.name, c.kind, c.state, c.kept] as [string, string, CellReport["state"], unknown]
+        ),
+        r.files,
+      );
       return recordRun({ document: doc, documentSha256: "d", report, registry, cache });
     };
     equal((await run("a"))!.records, 1);
