@@ -9,10 +9,13 @@
  *   extending the available precision", Numer. Math. 18), from their one
  *   home `kernel/dd.ts`.
  * - Addition (accurate two-TwoSum form), multiplication, division (three
- *   partial quotients), square root (one Newton step from 1/√hi) and exp
- *   (reduction by ln 2 and by 2⁹, Taylor series, squaring back) as in the QD
- *   library's dd_real (Hida, Li & Bailey 2001, "Algorithms for quad-double
- *   precision floating point arithmetic", ARITH-15).
+ *   partial quotients) and square root (one Newton step from 1/√hi) as in
+ *   the QD library's dd_real (Hida, Li & Bailey 2001, "Algorithms for
+ *   quad-double precision floating point arithmetic", ARITH-15).
+ * - exp: reduction by m·ln 2 and by two tables, e^(j/64) and e^(k/4096),
+ *   then a short series (Tang 1989, ACM TOMS 15, table-driven exp, in
+ *   double-double; QD's reduction by 2⁹ and nine squarings took three times
+ *   as long).
  * - log: one Newton step x + a·e^(−x) − 1 from the double logarithm (QD).
  * - sin, cos: reduction by π/2 with a three-part π/2, then Taylor series on
  *   [−π/4, π/4] (QD reduces further by π/16 with a table; we take more terms
@@ -137,35 +140,74 @@ const INV_FACT: [number, number][] = (() => {
 
 // ---- elementary functions ----------------------------------------------------------------
 
-/** r = e^a. */
+/** e^(num/den) in fixed point, by its Taylor series (|num/den| ≤ 1). */
+function expFixed(num: bigint, den: bigint): bigint {
+  let sum = 0n, term = ONE, k = 1n;
+  while (term !== 0n) {
+    sum += term;
+    term = (term * num) / (den * k++);
+  }
+  return sum;
+}
+
+/** e^(j/den) for j = −half … half as double-doubles, by exact fixed-point powers. */
+function expTable(den: bigint, half: number): [number, number][] {
+  const up = expFixed(1n, den), down = expFixed(-1n, den);
+  const out: [number, number][] = new Array(2 * half + 1);
+  out[half] = [1, 0];
+  for (let j = 1, pu = ONE, pd = ONE; j <= half; j++) {
+    pu = (pu * up) >> BITS;
+    pd = (pd * down) >> BITS;
+    out[half + j] = fromFixed(pu);
+    out[half - j] = fromFixed(pd);
+  }
+  return out;
+}
+
+// Reduction tables of exp: e^(j/64) for |j| ≤ 22 (|a − m·ln 2| ≤ ln2/2 < 22.5/64) and
+// e^(k/4096) for |k| ≤ 32 (what is left, ≤ 1/128, is within 32.5/4096).
+const EXP_64 = expTable(64n, 22);
+const EXP_4096 = expTable(4096n, 32);
+// 1/4! … 1/7! as doubles (their terms are below 1e−17).
+const [C4, C5, C6, C7] = [4, 5, 6, 7].map((k) => INV_FACT[k][0]);
+
+/**
+ * r = e^a. Reduced as e^a = 2^m · e^(j/64) · e^(k/4096) · e^t with |t| ≤ 1/8192
+ * (Tang 1989, "Table-driven implementation of the exponential function in
+ * IEEE floating-point arithmetic", ACM TOMS 15, carried to double-double;
+ * from memory for the reference): e^t − 1 = t + t²/2 + t³/6 in double-double
+ * and t⁴/4! + … + t⁷/7! in double (below 1e−17, so their rounding is below
+ * 1e−33; t⁸/8! < 1.2e−36 is left out).
+ */
 export function exp(ah: number, al: number, r: Out): void {
   if (Number.isNaN(ah)) return void (r[0] = NaN, r[1] = 0);
   if (ah > 709.79) return void (r[0] = Infinity, r[1] = 0);
   if (ah < -745.2) return void (r[0] = 0, r[1] = 0);
   if (ah === 0 && al === 0) return void (r[0] = 1, r[1] = 0);
   const m = Math.floor(ah / LN2[0] + 0.5);
-  // t = (a − m·ln2)/512, |t| ≤ 6.8e−4
+  // a − m·ln 2, then less j/64 and k/4096 (exact doubles)
   mul(LN2[0], LN2[1], m, 0, T);
   add(ah, al, -T[0], -T[1], T);
-  const th = T[0] / 512, tl = T[1] / 512;
-  // s = e^t − 1 by Taylor series: t + t²/2! + …
-  let sh = th, sl = tl, ph = th, pl = tl;
-  for (let k = 2; k < 16; k++) {
-    mul(ph, pl, th, tl, T);
-    ph = T[0], pl = T[1];
-    mul(ph, pl, INV_FACT[k][0], INV_FACT[k][1], T);
-    const ch = T[0], cl = T[1];
-    add(sh, sl, ch, cl, T);
-    sh = T[0], sl = T[1];
-    if (Math.abs(ch) < 1e-35 * Math.abs(sh)) break;
-  }
-  // e^(2t) − 1 = 2s + s², nine times: e^(512 t) − 1
-  for (let k = 0; k < 9; k++) {
-    mul(sh, sl, sh, sl, T);
-    add(2 * sh, 2 * sl, T[0], T[1], T);
-    sh = T[0], sl = T[1];
-  }
-  add(sh, sl, 1, 0, T);
+  const j = Math.round(T[0] * 64);
+  add(T[0], T[1], -j / 64, 0, T);
+  const k = Math.round(T[0] * 4096);
+  add(T[0], T[1], -k / 4096, 0, T);
+  const th = T[0], tl = T[1];
+  // s = e^t − 1
+  mul(th, tl, th, tl, T);
+  const p2h = T[0], p2l = T[1];
+  mul(p2h, p2l, th, tl, T);
+  mul(T[0], T[1], INV_FACT[3][0], INV_FACT[3][1], T);
+  const p3h = T[0], p3l = T[1];
+  add(th, tl, 0.5 * p2h, 0.5 * p2l, T);
+  add(T[0], T[1], p3h, p3l, T);
+  const t2 = th * th;
+  add(T[0], T[1], t2 * t2 * (C4 + th * (C5 + th * (C6 + th * C7))), 0, T);
+  // e^t · e^(k/4096) · e^(j/64)
+  add(1, 0, T[0], T[1], T);
+  const ek = EXP_4096[k + 32], ej = EXP_64[j + 22];
+  mul(T[0], T[1], ek[0], ek[1], T);
+  mul(T[0], T[1], ej[0], ej[1], T);
   // × 2^m in two exact steps (2^m alone may overflow or underflow)
   const m1 = Math.trunc(m / 2), f1 = 2 ** m1, f2 = 2 ** (m - m1);
   r[0] = T[0] * f1 * f2;

@@ -13,15 +13,19 @@
  *
  * Method: each value is hi + lo, two doubles (about 32 significant digits);
  * the scalar routines are in `_dd_math.ts` (Dekker 1971; Hida, Li & Bailey
- * 2001, the QD library). The tree is evaluated one node at a time over all
- * rows (column-at-a-time), not compiled to source: each node becomes a pair
- * of Float64Arrays, or one double-double when it does not depend on the row
- * (numbers, parameters, `pi`, `e`), and repeated subtrees are evaluated once.
+ * 2001, the QD library). The tree is compiled to one row loop (as
+ * {@link compile} does for doubles) that calls those routines node by node
+ * on pairs of locals: a node that does not depend on the row (numbers,
+ * parameters, `pi`, `e`) is computed once before the loop, and repeated
+ * subtrees once per row. Nothing is allocated per node or per row (the
+ * node-by-node evaluation over whole columns it replaced made two arrays
+ * per node and call, and took about 1.2× as long on 100 rows); the values
+ * are the same, operation for operation.
  *
  * ```
- *  b1*exp(-b2*x)            x: (hi[], lo[])   b1, b2: (hi, lo)
+ *  b1*exp(-b2*x)            x: (hi[i], lo[i])   b1, b2: (hi, lo)
  *
- *   neg b2 ─▶ scalar    × x ─▶ rows    exp ─▶ rows    b1 × ─▶ rows ─▶ out
+ *   neg b2 ─▶ before the loop    per row: × x ─▶ exp ─▶ b1 × ─▶ out[i]
  * ```
  *
  * Semantics follow {@link compile}: `x^k` with an integer k is binary
@@ -39,6 +43,7 @@ import type { Expr } from "./expr.ts";
 import { ExprError } from "./expr_error.ts";
 import * as D from "./_dd_math.ts";
 import { makeInterner } from "./_interner.ts";
+import { cachedFunction } from "./_kernel_cache.ts";
 
 /** A function evaluated in double-double (see the module header). */
 export type CompiledDD = (
@@ -50,11 +55,6 @@ export type CompiledDD = (
   outHi?: Float64Array,
   outLo?: Float64Array,
 ) => { hi: Float64Array; lo: Float64Array };
-
-/** A node's value: one double-double (`c`) or one per row (`v`). */
-type Val =
-  | { c: true; h: number; l: number }
-  | { c: false; h: ArrayLike<number>; l: ArrayLike<number> | null };
 
 type Unary = (ah: number, al: number, r: Float64Array) => void;
 type Binary = (ah: number, al: number, bh: number, bl: number, r: Float64Array) => void;
@@ -141,8 +141,9 @@ export function compileDD(
   params: readonly string[],
 ): CompiledDD {
   check(e, columns, params);
-  const keyOf = structuralKeys();
   const nc = columns.length, np = params.length;
+  // One generated loop per pattern of columns without low parts (usually one pattern).
+  const kernels = new Map<string, Kernel>();
   return (colsHi, colsLo, paramsHi, paramsLo, n, outHi, outLo) => {
     if (colsHi.length !== nc || colsLo.length !== nc) {
       throw new RangeError(`Expected ${nc} columns, got ${colsHi.length}`);
@@ -153,46 +154,187 @@ export function compileDD(
     if (!Number.isInteger(n) || n < 0) {
       throw new RangeError(`Row count "${n}" is not a whole number`);
     }
+    let exact = "";
     for (let j = 0; j < nc; j++) {
       const lo = colsLo[j];
       if (colsHi[j].length < n || (lo !== null && lo.length < n)) {
         throw new RangeError(`Column "${columns[j]}" has ${colsHi[j].length} rows: ${n} needed`);
       }
+      exact += lo === null ? "1" : "0";
     }
     const hi = outHi ?? new Float64Array(n), lo = outLo ?? new Float64Array(n);
     if (hi.length < n || lo.length < n) {
       throw new RangeError(`Output has ${Math.min(hi.length, lo.length)} rows: ${n} needed`);
     }
-    const ctx: Ctx = {
-      columns,
-      params,
-      colsHi,
-      colsLo,
-      paramsHi,
-      paramsLo,
-      n,
-      memo: new Map(),
-      keyOf,
-    };
-    const v = evaluate(e, ctx);
-    for (let i = 0; i < n; i++) {
-      hi[i] = v.c ? v.h : v.h[i];
-      lo[i] = v.c ? v.l : v.l === null ? 0 : v.l[i];
+    let kernel = kernels.get(exact);
+    if (kernel === undefined) {
+      kernel = rowLoop(e, columns, params, [...exact].map((c) => c === "1"));
+      kernels.set(exact, kernel);
     }
+    kernel(colsHi, colsLo, paramsHi, paramsLo, n, hi, lo, UNARY, BINARY, R);
     return { hi, lo };
   };
 }
 
-interface Ctx {
-  columns: readonly string[];
-  params: readonly string[];
-  colsHi: readonly ArrayLike<number>[];
-  colsLo: readonly (ArrayLike<number> | null)[];
-  paramsHi: ArrayLike<number>;
-  paramsLo: ArrayLike<number> | null;
-  n: number;
-  memo: Map<string, Val>;
-  keyOf: (e: Expr) => string;
+type Kernel = (
+  colsHi: readonly ArrayLike<number>[],
+  colsLo: readonly (ArrayLike<number> | null)[],
+  paramsHi: ArrayLike<number>,
+  paramsLo: ArrayLike<number> | null,
+  n: number,
+  hi: Float64Array,
+  lo: Float64Array,
+  unary: Record<string, Unary>,
+  binary: Record<string, Binary>,
+  r: Float64Array,
+) => void;
+
+/** A node's value in the generated code: its hi and lo as source, and whether it varies by row. */
+interface Code {
+  h: string;
+  l: string;
+  row: boolean;
+}
+
+/**
+ * One row loop evaluating the whole tree in double-double, as JavaScript
+ * source (built with `new Function` and kept by its text, `_kernel_cache.ts`).
+ * Each distinct subtree (by structural key) is computed once: before the loop
+ * when it does not depend on the row, else once per row. Every node calls
+ * the routine of `UNARY`/`BINARY` on the same operands a node-by-node
+ * evaluation over whole columns would, so the values are the same; a column
+ * without low parts (`exact`) reads as low part 0, as does its negation.
+ *
+ * ```
+ *  b1*exp(-b2*x)          x exact: its low part is the literal 0
+ *
+ *  const p1h = paramsHi[1], p1l = …;          pre: the row-independent nodes
+ *  const v0h = (- p1h), v0l = (- p1l);
+ *  for (let i = 0; i < n; i++) {
+ *    const c0h = ch0[i];
+ *    f_mul(v0h, v0l, c0h, 0, r); const v1h = r[0], v1l = r[1];
+ *    f_exp(v1h, v1l, r); const v2h = r[0], v2l = r[1];
+ *    …
+ *    hi[i] = v3h; lo[i] = v3l;
+ *  }
+ * ```
+ */
+function rowLoop(
+  e: Expr,
+  columns: readonly string[],
+  params: readonly string[],
+  exact: readonly boolean[],
+): Kernel {
+  const keyOf = structuralKeys();
+  const done = new Map<string, Code>();
+  const pre: string[] = [], body: string[] = [], fns = new Map<string, string>();
+  const fn = (table: "unary" | "binary", name: string) => {
+    const k = `${table}:${name}`;
+    let v = fns.get(k);
+    if (v === undefined) {
+      v = `f${fns.size}`;
+      fns.set(k, v);
+      pre.push(`const ${v} = ${table}[${JSON.stringify(name)}];`);
+    }
+    return v;
+  };
+  let count = 0;
+  /** Binds the routine's result (in r) to new names, before the loop or in it. */
+  const result = (call: string, row: boolean): Code => {
+    const v = `v${count++}`;
+    (row ? body : pre).push(`${call}; const ${v}h = r[0], ${v}l = r[1];`);
+    return { h: `${v}h`, l: `${v}l`, row };
+  };
+  const bind = (h: string, l: string, row: boolean): Code => {
+    const v = `v${count++}`;
+    (row ? body : pre).push(`const ${v}h = ${h}, ${v}l = ${l};`);
+    return { h: `${v}h`, l: `${v}l`, row };
+  };
+  const gen = (n: Expr): Code => {
+    const key = keyOf(n);
+    let c = done.get(key);
+    if (c === undefined) {
+      c = genNode(n);
+      done.set(key, c);
+    }
+    return c;
+  };
+  const genNode = (n: Expr): Code => {
+    switch (n.op) {
+      case "num":
+        return { h: literal(n.value), l: "0", row: false };
+      case "id":
+        return leafCode(n.name);
+      case "neg": {
+        const a = gen(n.arg);
+        // A column's missing low part stays 0 under negation (not −0).
+        return bind(`(- ${a.h})`, a.row && a.l === "0" ? "0" : `(- ${a.l})`, a.row);
+      }
+      case "call": {
+        const args = n.args.map(gen);
+        const row = args.some((a) => a.row);
+        if (n.fn === "ifpos") {
+          const [c, t, f] = args;
+          return bind(`(${c.h} > 0 ? ${t.h} : ${f.h})`, `(${c.h} > 0 ? ${t.l} : ${f.l})`, row);
+        }
+        if (args.length === 1) {
+          return result(`${fn("unary", n.fn)}(${args[0].h}, ${args[0].l}, r)`, row);
+        }
+        return result(`${fn("binary", n.fn)}(${operands(args)}, r)`, row);
+      }
+      default: {
+        const a = gen(n.left), b = gen(n.right);
+        return result(`${fn("binary", n.op)}(${operands([a, b])}, r)`, a.row || b.row);
+      }
+    }
+  };
+  const reads: string[] = [];
+  const leafCode = (name: string): Code => {
+    if (name === "pi") return { h: literal(D.PI[0]), l: literal(D.PI[1]), row: false };
+    if (name === "e") return { h: literal(D.E[0]), l: literal(D.E[1]), row: false };
+    const c = columns.indexOf(name);
+    if (c >= 0) {
+      if (!done.has(`column ${c}`)) {
+        done.set(`column ${c}`, { h: "", l: "", row: true });
+        pre.push(`const ch${c} = colsHi[${c}]${exact[c] ? "" : `, cl${c} = colsLo[${c}]`};`);
+        reads.push(`const c${c}h = ch${c}[i]${exact[c] ? "" : `, c${c}l = cl${c}[i]`};`);
+      }
+      return { h: `c${c}h`, l: exact[c] ? "0" : `c${c}l`, row: true };
+    }
+    const p = params.indexOf(name);
+    if (!done.has(`param ${p}`)) {
+      done.set(`param ${p}`, { h: "", l: "", row: false });
+      pre.push(`const p${p}h = paramsHi[${p}], p${p}l = paramsLo === null ? 0 : paramsLo[${p}];`);
+    }
+    return { h: `p${p}h`, l: `p${p}l`, row: false };
+  };
+  const out = gen(e);
+  const src = [
+    '"use strict";',
+    ...pre,
+    "for (let i = 0; i < n; i++) {",
+    ...reads.map((s) => `  ${s}`),
+    ...body.map((s) => `  ${s}`),
+    `  hi[i] = ${out.h}; lo[i] = ${out.l};`,
+    "}",
+  ].join("\n");
+  return cachedFunction(
+    ["colsHi", "colsLo", "paramsHi", "paramsLo", "n", "hi", "lo", "unary", "binary", "r"],
+    src,
+  ) as Kernel;
+}
+
+function operands(args: readonly Code[]): string {
+  return args.map((a) => `${a.h}, ${a.l}`).join(", ");
+}
+
+/** A double as JavaScript source that reads back as the same double (−0 included). */
+function literal(v: number): string {
+  if (Number.isNaN(v)) return "NaN";
+  if (v === Infinity) return "Infinity";
+  if (v === -Infinity) return "(-Infinity)";
+  if (v < 0 || Object.is(v, -0)) return `(-${String(-v)})`;
+  return String(v);
 }
 
 /** Throws the errors {@link compile} would, before any row is seen. */
@@ -252,93 +394,4 @@ function structuralKeys(): (e: Expr) => string {
     return k;
   };
   return keyOf;
-}
-
-function evaluate(e: Expr, ctx: Ctx): Val {
-  const key = ctx.keyOf(e);
-  const done = ctx.memo.get(key);
-  if (done !== undefined) return done;
-  const v = evaluateNode(e, ctx);
-  ctx.memo.set(key, v);
-  return v;
-}
-
-function evaluateNode(e: Expr, ctx: Ctx): Val {
-  switch (e.op) {
-    case "num":
-      return { c: true, h: e.value, l: 0 };
-    case "id":
-      return leaf(e.name, ctx);
-    case "neg": {
-      const a = evaluate(e.arg, ctx);
-      if (a.c) return { c: true, h: -a.h, l: -a.l };
-      return { c: false, h: Float64Array.from(a.h, (x) => -x), l: negated(a.l, ctx.n) };
-    }
-    case "call": {
-      const args = e.args.map((a) => evaluate(a, ctx));
-      if (e.fn === "ifpos") return choose(args, ctx.n);
-      if (args.length === 1) return unary(UNARY[e.fn], args[0], ctx.n);
-      return binary(BINARY[e.fn], args[0], args[1], ctx.n);
-    }
-    default:
-      return binary(BINARY[e.op], evaluate(e.left, ctx), evaluate(e.right, ctx), ctx.n);
-  }
-}
-
-function leaf(name: string, ctx: Ctx): Val {
-  if (name === "pi") return { c: true, h: D.PI[0], l: D.PI[1] };
-  if (name === "e") return { c: true, h: D.E[0], l: D.E[1] };
-  const c = ctx.columns.indexOf(name);
-  if (c >= 0) return { c: false, h: ctx.colsHi[c], l: ctx.colsLo[c] };
-  const p = ctx.params.indexOf(name);
-  return { c: true, h: ctx.paramsHi[p], l: ctx.paramsLo === null ? 0 : ctx.paramsLo[p] };
-}
-
-function negated(l: ArrayLike<number> | null, n: number): Float64Array | null {
-  if (l === null) return null;
-  const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) out[i] = -l[i];
-  return out;
-}
-
-function unary(f: Unary, a: Val, n: number): Val {
-  if (a.c) {
-    f(a.h, a.l, R);
-    return { c: true, h: R[0], l: R[1] };
-  }
-  const H = new Float64Array(n), L = new Float64Array(n);
-  const ah = a.h, al = a.l;
-  for (let i = 0; i < n; i++) {
-    f(ah[i], al === null ? 0 : al[i], R);
-    H[i] = R[0];
-    L[i] = R[1];
-  }
-  return { c: false, h: H, l: L };
-}
-
-function binary(f: Binary, a: Val, b: Val, n: number): Val {
-  if (a.c && b.c) {
-    f(a.h, a.l, b.h, b.l, R);
-    return { c: true, h: R[0], l: R[1] };
-  }
-  const H = new Float64Array(n), L = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const ah = a.c ? a.h : a.h[i], al = a.c ? a.l : a.l === null ? 0 : a.l[i];
-    const bh = b.c ? b.h : b.h[i], bl = b.c ? b.l : b.l === null ? 0 : b.l[i];
-    f(ah, al, bh, bl, R);
-    H[i] = R[0];
-    L[i] = R[1];
-  }
-  return { c: false, h: H, l: L };
-}
-
-/** `ifpos(c, t, f)`: t where c > 0, otherwise f (also where c is NaN). */
-function choose(args: Val[], n: number): Val {
-  const [c, t, f] = args;
-  const at = (v: Val, i: number): [number, number] =>
-    v.c ? [v.h, v.l] : [v.h[i], v.l === null ? 0 : v.l[i]];
-  if (c.c) return c.h > 0 ? t : f;
-  const H = new Float64Array(n), L = new Float64Array(n);
-  for (let i = 0; i < n; i++) [H[i], L[i]] = at(c.h[i] > 0 ? t : f, i);
-  return { c: false, h: H, l: L };
 }
