@@ -83,7 +83,9 @@ export function solveNonlinear(problem: FitProblem): FitSolution {
   const x = pol.x;
   const jac = new Float64Array(problem.n * p);
   fns.jac(x, jac);
-  const wjac = jac.map((v, k) => v * fns.sqrtW[k % problem.n]);
+  // Without weights √w = 1: J itself (the products would change nothing).
+  const weighted = problem.weights !== undefined && problem.weights !== null;
+  const wjac = weighted ? jac.map((v, k) => v * fns.sqrtW[k % problem.n]) : jac;
   const free = params.map((_, j) => j).filter((j) => !atBound[j]);
   const cov = freeCovariance(problem.n, p, wjac, free);
   if (cov.unidentifiable.length > 0) throw singularError(problem, cov.unidentifiable, wjac);
@@ -96,7 +98,7 @@ export function solveNonlinear(problem: FitProblem): FitSolution {
     estimates: x,
     unscaledCovariance: cov.unscaled,
     fitted: fns.f(x),
-    residuals: pol.r.map((v, i) => v / fns.sqrtW[i]),
+    residuals: weighted ? pol.r.map((v, i) => v / fns.sqrtW[i]) : pol.r,
     rss: pol.rss,
     hasIntercept: inColumnSpace(qr, new Float64Array(problem.n).fill(1)),
     conditionNumber: conditionNumber(wjac, problem.n, p),
@@ -216,6 +218,7 @@ function startText(problem: FitProblem, x: Float64Array): string {
 /** (JᵀJ)⁻¹ over the free parameters, NaN for held ones. */
 function freeCovariance(n: number, p: number, jac: Float64Array, free: number[]) {
   const q = free.length;
+  if (q === p) return covar(n, p, jac); // every parameter free: J as it is (covar copies it)
   const sub = new Float64Array(n * q);
   free.forEach((j, k) => sub.set(jac.subarray(j * n, (j + 1) * n), k * n));
   const c = covar(n, q, sub);

@@ -15,8 +15,8 @@ import { compile, type Expr, format, freeNames, type Model } from "../expr/mod.t
 import { type CompiledModel, compiledModel } from "./_compiled_model.ts";
 import type { LeastSquaresProblem } from "./lmder.ts";
 import type { PolishProblem } from "./polish.ts";
-import { lsqSolve } from "./_lsq_solve.ts";
-import { twoSum } from "../linalg/mod.ts";
+import { lsqSolve, type LsqWork, lsqWork } from "./_lsq_solve.ts";
+import { sumError } from "../dd.ts";
 
 const EPS = 2.220446049250313e-16;
 
@@ -246,8 +246,8 @@ function accurateResiduals(
   return (x, r, xlo) => {
     fd(columns, lo.columns, x, xlo ?? null, n, hi, lw);
     for (let i = 0; i < n; i++) {
-      const [s, e] = twoSum(yd.hi[i], -hi[i]);
-      r[i] = s + (e + (yd.lo[i] - lw[i]));
+      const a = yd.hi[i], b = -hi[i], s = a + b; // TwoSum: s + e = a + b exactly
+      r[i] = s + (sumError(a, b, s) + (yd.lo[i] - lw[i]));
     }
     return 0;
   };
@@ -266,23 +266,35 @@ function linearProjection(
   const { n, columns, y } = data;
   const idx = cm.linear, p = data.model.parameters.length;
   if (idx.length === 0) return undefined;
-  let J: Float64Array, G: Float64Array, f0: Float64Array, b: Float64Array;
+  const q = idx.length;
+  let J: Float64Array, G: Float64Array, f0: Float64Array, b: Float64Array, work: LsqWork;
   return (x) => {
+    // Made on the first call (only the multi-start search projects), then reused.
     J ??= new Float64Array(n * p);
-    G ??= new Float64Array(n * idx.length);
+    G ??= new Float64Array(n * q);
     f0 ??= new Float64Array(n);
     b ??= new Float64Array(n);
+    work ??= lsqWork(n, q);
     for (const j of idx) x[j] = 0;
     cm.f(columns, x, n, f0);
     cm.jac(columns, x, n, J);
-    idx.forEach((j, k) => {
-      for (let i = 0; i < n; i++) G[i + k * n] = sqrtW[i] * J[i + j * n];
-    });
-    for (let i = 0; i < n; i++) b[i] = sqrtW[i] * (y[i] - f0[i]);
-    if (!b.every(Number.isFinite) || !G.every(Number.isFinite)) return false;
-    const theta = lsqSolve(n, idx.length, G, b);
+    let finite = true;
+    for (let k = 0; k < q; k++) {
+      const j = idx[k];
+      for (let i = 0; i < n; i++) {
+        const g = sqrtW[i] * J[i + j * n];
+        G[i + k * n] = g;
+        if (!Number.isFinite(g)) finite = false;
+      }
+    }
+    for (let i = 0; i < n; i++) {
+      b[i] = sqrtW[i] * (y[i] - f0[i]);
+      if (!Number.isFinite(b[i])) finite = false;
+    }
+    if (!finite) return false;
+    const theta = lsqSolve(n, q, G, b, work);
     if (theta === null) return false;
-    idx.forEach((j, k) => (x[j] = theta[k]));
+    for (let k = 0; k < q; k++) x[idx[k]] = theta[k];
     return true;
   };
 }
