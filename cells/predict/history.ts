@@ -1,25 +1,51 @@
 /**
  * The prediction's face in the run history: each point's estimate with its
  * intervals, each solve's x with its interval; what changed between two
- * records. A prediction that left its earlier confidence interval is notable;
- * one whose interval moved by more than a tenth of its width is worth a
- * minor sentence (our threshold: smaller moves are rounding of little
- * consequence; common practice, no source).
+ * records, and each estimate as a drift series.
+ *
+ * A prediction whose new estimate lies outside its earlier confidence
+ * interval is notable. One that stayed inside, but whose interval moved (an
+ * end by more than a tenth of the earlier interval's width), is worth a
+ * minor sentence: our threshold, common practice, no source; smaller moves
+ * are of little consequence at the digits an interval is quoted to. Intervals
+ * at two different levels are not compared that way. Numbers in sentences
+ * are rounded to their uncertainty (a quarter of the interval's width, as the
+ * predict view rounds a solve).
+ *
+ * Records of older versions may lack fields: a comparison that needs a
+ * missing field is skipped, never made against zero.
  *
  * @module
  */
 import type { Change, ChangeContext, HistoryFace, TrendSample } from "../../kernel/contract/mod.ts";
 import type { PredictSpec } from "./spec.ts";
 import type { Predictions, PredictResult } from "./result.ts";
-import { formatNumber, withUnit } from "../shared/format.ts";
+import { formatEstimate, formatIntervalAt, formatNumber, withUnit } from "../shared/format.ts";
+import { quarterWidth } from "./_digits.ts";
 
-/** What a record keeps of one point or solve. */
+/** What a record keeps of one point of `at`. */
 export interface PointKept {
-  /** The point, in words: `cycle = 700` or `capacity = 2300`. */
+  /** The point in words, which also identifies it: `cycle = 700`. */
   at: string;
+  /** The predictor values. */
+  x: Record<string, number>;
+  /** The estimate of the mean response. */
   value: number | null;
   ci: [number, number] | null;
   pi: [number, number] | null;
+  unit: string | null;
+}
+
+/** What a record keeps of one `solve`. */
+export interface SolveKept {
+  /** The response value in words, which also identifies it: `capacity = 2300`. */
+  at: string;
+  y: Record<string, number>;
+  x: Record<string, number>;
+  /** The x solved for (the only value of `x`). */
+  value: number | null;
+  ci: [number, number] | null;
+  /** The unit of x. */
   unit: string | null;
 }
 
@@ -28,82 +54,134 @@ export interface PredictKept {
   fit: string;
   level: number;
   at: PointKept[];
-  solve: PointKept[];
+  solve: SolveKept[];
 }
 
+/** Values in words at full precision (they are the values written in the cell). */
 const place = (x: Record<string, number>) =>
-  Object.entries(x).map(([k, v]) => `${k} = ${formatNumber(v, 6)}`).join(", ");
+  Object.entries(x).map(([k, v]) => `${k} = ${v}`).join(", ");
 
 function keep(_out: Predictions, _spec: PredictSpec, r: PredictResult): PredictKept {
   return {
     fit: r.fit,
     level: r.level,
-    at: r.at.map((p) => ({ at: place(p.x), value: p.estimate, ci: p.ci, pi: p.pi, unit: p.unit })),
-    solve: r.solve.map((s) => {
-      const [name] = Object.keys(s.x);
-      return {
-        at: place(s.y),
-        value: name === undefined ? null : s.x[name],
-        ci: s.ci,
-        pi: null,
-        unit: s.unit,
-      };
-    }),
+    at: r.at.map((p) => ({
+      at: place(p.x),
+      x: p.x,
+      value: p.estimate,
+      ci: p.ci,
+      pi: p.pi,
+      unit: p.unit,
+    })),
+    solve: r.solve.map((s) => ({
+      at: place(s.y),
+      y: s.y,
+      x: s.x,
+      value: Object.values(s.x)[0] ?? null,
+      ci: s.ci,
+      unit: s.unit,
+    })),
   };
 }
 
+/**
+ * The relative move of an interval worth a minor sentence: an end moved by
+ * more than this fraction of the earlier interval's width (our threshold,
+ * common practice, no source).
+ */
+export const INTERVAL_MOVE = 0.1;
+
+type Kept = Partial<PointKept> | Partial<SolveKept>;
+
 const num = (x: unknown): x is number => typeof x === "number" && Number.isFinite(x);
-const iv = (ci: [number, number] | null, unit: string | null) =>
-  ci ? withUnit(`[${formatNumber(ci[0], 5)}, ${formatNumber(ci[1], 5)}]`, unit) : "no interval";
+const isInterval = (x: unknown): x is [number, number] =>
+  Array.isArray(x) && x.length === 2 && num(x[0]) && num(x[1]);
+const str = (x: unknown): x is string => typeof x === "string";
+
+/** An estimate and its interval, rounded to the interval's quarter width: `2241.3 [2239.7, 2242.9] mAh`. */
+function shown(p: Kept): string {
+  const ci = isInterval(p.ci) ? p.ci : null;
+  const u = quarterWidth(ci);
+  const interval = ci ? ` ${formatIntervalAt(ci, u, p.value as number)}` : "";
+  return withUnit(`${formatEstimate(p.value as number, u)}${interval}`, p.unit);
+}
+
+/** What a sentence calls a point or a solve. */
+function label(what: "prediction" | "solve", p: Kept): string {
+  if (what === "prediction") return `the prediction at ${p.at}`;
+  const x = (p as Partial<SolveKept>).x;
+  const name = x && typeof x === "object" ? Object.keys(x)[0] : undefined;
+  return name ? `the ${name} that gives ${p.at}` : `the solution for ${p.at}`;
+}
+
+function moved(
+  cell: string,
+  what: "prediction" | "solve",
+  was: Kept,
+  p: Kept,
+  sameLevel: boolean,
+): Change | null {
+  if (!num(was.value) || !num(p.value)) return null;
+  const before = isInterval(was.ci) ? was.ci : null, after = isInterval(p.ci) ? p.ci : null;
+  const outside = before !== null && (p.value < before[0] || p.value > before[1]);
+  const width = before ? before[1] - before[0] : 0;
+  const shift = before && after
+    ? Math.max(Math.abs(after[0] - before[0]), Math.abs(after[1] - before[1]))
+    : 0;
+  const drifted = sameLevel && width > 0 && shift > INTERVAL_MOVE * width;
+  if (!outside && !drifted) return null;
+  return {
+    code: what === "prediction" ? "prediction-moved" : "solve-moved",
+    weight: outside ? "notable" : "minor",
+    sentence: `${cell}: ${label(what, p)} is ${shown(p)} (was ${shown(was)})${
+      outside
+        ? ", outside its earlier interval"
+        : `, inside its earlier interval; an end of the interval moved by ${
+          formatNumber(100 * shift / width, 2)
+        } % of its earlier width`
+    }.`,
+    numbers: {
+      at: p.at,
+      before: was.value,
+      after: p.value,
+      before_ci: before,
+      after_ci: after,
+      outside_previous_interval: outside,
+      interval_shift: before && after ? shift / width : null,
+      unit: str(p.unit) ? p.unit : null,
+    },
+  };
+}
 
 function compare(
   cell: string,
   what: "prediction" | "solve",
-  a: PointKept[],
-  b: PointKept[],
+  a: Kept[],
+  b: Kept[],
+  sameLevel: boolean,
 ): Change[] {
+  const listed = (list: Kept[]) => list.filter((p) => str(p?.at));
+  const before = new Map(listed(a).map((p) => [p.at, p]));
+  const after = new Map(listed(b).map((p) => [p.at, p]));
   const out: Change[] = [];
-  const before = new Map(a.map((p) => [p.at, p]));
-  for (const p of b) {
-    const was = before.get(p.at);
-    if (!was || !num(was.value) || !num(p.value)) continue;
-    const outside = was.ci !== null && (p.value < was.ci[0] || p.value > was.ci[1]);
-    const width = was.ci ? was.ci[1] - was.ci[0] : null;
-    const shift = was.ci && p.ci
-      ? Math.max(Math.abs(p.ci[0] - was.ci[0]), Math.abs(p.ci[1] - was.ci[1]))
-      : null;
-    const moved = width !== null && shift !== null && width > 0 && shift > width / 10;
-    if (!outside && !moved) continue;
-    const label = what === "prediction" ? `the prediction at ${p.at}` : `the solution for ${p.at}`;
-    out.push({
-      code: what === "prediction" ? "prediction-moved" : "solve-moved",
-      weight: outside ? "notable" : "minor",
-      sentence: `${cell}: ${label} is ${formatNumber(p.value, 6)} ${iv(p.ci, p.unit)} (was ${
-        formatNumber(was.value, 6)
-      } ${iv(was.ci, was.unit)})${outside ? ", outside its earlier interval" : ""}.`,
-      numbers: {
-        at: p.at,
-        before: was.value,
-        after: p.value,
-        before_ci: was.ci,
-        after_ci: p.ci,
-        outside_previous_interval: outside,
-        unit: p.unit,
-      },
-    });
+  for (const [at, p] of after) {
+    const was = before.get(at);
+    const c = was && moved(cell, what, was, p, sameLevel);
+    if (c) out.push(c);
   }
-  const added = b.filter((p) => !before.has(p.at)).map((p) => p.at);
-  const gone = a.filter((p) => !b.some((q) => q.at === p.at)).map((p) => p.at);
-  if (added.length + gone.length > 0) {
+  const added = [...after.keys()].filter((at) => !before.has(at));
+  const removed = [...before.keys()].filter((at) => !after.has(at));
+  if (added.length + removed.length > 0) {
+    const many = what === "prediction" ? "points" : "solves";
+    const parts = [
+      ...(added.length ? [`new ${many} ${added.join("; ")}`] : []),
+      ...(removed.length ? [`no longer ${removed.join("; ")}`] : []),
+    ];
     out.push({
-      code: what === "prediction" ? "points-changed" : "solves-changed",
+      code: `${many}-changed`,
       weight: "minor",
-      sentence: `${cell}: ${
-        added.length ? `new ${what === "prediction" ? "points" : "solves"} ${added.join("; ")}` : ""
-      }${added.length && gone.length ? "; " : ""}${
-        gone.length ? `no longer ${gone.join("; ")}` : ""
-      }.`,
-      numbers: { added, removed: gone },
+      sentence: `${cell}: ${parts.join("; ")}.`,
+      numbers: { added, removed },
     });
   }
   return out;
@@ -111,30 +189,42 @@ function compare(
 
 function changes(a: PredictKept, b: PredictKept, ctx: ChangeContext): Change[] {
   if (!Array.isArray(a?.at) || !Array.isArray(b?.at)) return [];
-  if (a.fit !== b.fit) {
+  if (str(a.fit) && str(b.fit) && a.fit !== b.fit) {
     return [{
       code: "fit-changed",
       weight: "notable",
-      sentence: `${ctx.cell} now predicts from ${b.fit} (was ${a.fit}).`,
+      sentence:
+        `${ctx.cell} now predicts from ${b.fit} (was ${a.fit}); its values are not compared.`,
       numbers: { before: a.fit, after: b.fit },
     }];
   }
+  const sameLevel = num(a.level) && a.level === b.level;
   return [
-    ...compare(ctx.cell, "prediction", a.at, b.at),
-    ...compare(ctx.cell, "solve", a.solve ?? [], b.solve ?? []),
+    ...compare(ctx.cell, "prediction", a.at, b.at, sameLevel),
+    ...(Array.isArray(a.solve) && Array.isArray(b.solve)
+      ? compare(ctx.cell, "solve", a.solve, b.solve, sameLevel)
+      : []),
   ];
 }
 
+/** Each point's estimate and each solved x, with its confidence interval. */
 function trend(k: PredictKept): TrendSample[] {
   if (!Array.isArray(k?.at)) return [];
-  return [...k.at, ...(k.solve ?? [])].filter((p) => num(p.value)).map((p) => ({
-    series: p.at,
-    unit: p.unit,
+  const sample = (series: string, p: Kept): TrendSample => ({
+    series,
+    unit: str(p.unit) ? p.unit : null,
     value: p.value as number,
-    lower: p.ci ? p.ci[0] : null,
-    upper: p.ci ? p.ci[1] : null,
+    lower: isInterval(p.ci) ? p.ci[0] : null,
+    upper: isInterval(p.ci) ? p.ci[1] : null,
     n: null,
-  }));
+  });
+  const ok = (p: Kept) => str(p?.at) && num(p.value);
+  return [
+    ...k.at.filter(ok).map((p) => sample(p.at, p)),
+    ...(Array.isArray(k.solve) ? k.solve : []).filter(ok).map((s) =>
+      sample(label("solve", s).replace(/^the /, ""), s)
+    ),
+  ];
 }
 
 /** The prediction's history face. */
