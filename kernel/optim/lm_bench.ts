@@ -2,6 +2,11 @@
  * Nonlinear fits per second: y = a·exp(−b·x) + c with n = 100 seeded rows,
  * the whole solver path (compile the model and its derivatives, lmder from
  * a fixed start, polishing, covariance). Fits/s = 1 / (time per iteration).
+ * The model's compiled forms are kept by its text (`_compiled_model.ts`), so
+ * after the first iteration "compile" is that lookup, as in every run of a
+ * document after its first. The polish here works on double residuals (no
+ * decimal corrections given); the fit cell's path, with the double-double
+ * polish and the statistics, is cells/fit/nonlinear_bench.ts.
  *
  * @module
  */
