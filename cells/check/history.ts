@@ -195,7 +195,21 @@ function testsCrossed(
   return out;
 }
 
-/** The check's history face. */
+/**
+ * The check's history face.
+ *
+ * @example
+ * ```ts
+ * import { checkHistory } from "./history.ts";
+ * const kept = (rows: number[]) => ({
+ *   fit: "root", n: 20, significance: 0.05, durbin_watson: null, durbin_watson_p: null,
+ *   breusch_pagan_p: null, shapiro_wilk_p: null, condition_number: null, lack_of_fit_p: null,
+ *   findings: rows.length ? [{ code: "outlier", rows, row_count: rows.length, message: "" }] : [],
+ * });
+ * const [c] = checkHistory.changes(kept([]), kept([17]), { cell: "c", level: 0.95, rows: null });
+ * if (c.code !== "finding-appeared" || c.weight !== "notable") throw new Error(c.sentence);
+ * ```
+ */
 export const checkHistory: HistoryFace<CheckSpec, Diagnostics, CheckResult, CheckKept> = {
   keep,
   changes,

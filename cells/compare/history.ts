@@ -92,7 +92,7 @@ function candidates(k: Partial<CompareKept> | null): Map<string, Partial<Candida
 }
 
 /** " with 40 new rows", " with 3 rows gone, 2 rows changed", or "". */
-export function rowsPhrase(ctx: ChangeContext): string {
+function rowsPhrase(ctx: ChangeContext): string {
   const r = ctx.rows;
   if (!r || r.added + r.removed + r.changed === 0) return "";
   const rows = (n: number) => `${n} ${n === 1 ? "row" : "rows"}`;
@@ -299,7 +299,22 @@ function testsFlipped(a: CompareKept, b: CompareKept, ctx: ChangeContext): Chang
   return out;
 }
 
-/** The comparison's history face. */
+/**
+ * The comparison's history face.
+ *
+ * @example
+ * ```ts
+ * import { compareHistory } from "./history.ts";
+ * const kept = (root: number, linear: number) => ({
+ *   by: "aicc", criterion: "AICc", preferred: root < linear ? "root" : "linear",
+ *   rows: [{ fit: "root", n: 20, k: 3, value: root, delta: null, weight: null },
+ *     { fit: "linear", n: 20, k: 4, value: linear, delta: null, weight: null }],
+ *   nested: [], significance: 0.05, verdict: "",
+ * });
+ * const [c] = compareHistory.changes(kept(10, 11), kept(10, 6), { cell: "fade", level: 0.95, rows: null });
+ * if (c.sentence !== "The preferred model of fade changed from root to linear: ΔAICc of linear against root (linear's minus root's) went from +1 to −4.") throw new Error(c.sentence);
+ * ```
+ */
 export const compareHistory: HistoryFace<CompareSpec, Comparison, CompareResult, CompareKept> = {
   keep,
   changes,

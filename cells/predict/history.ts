@@ -227,7 +227,22 @@ function trend(k: PredictKept): TrendSample[] {
   ];
 }
 
-/** The prediction's history face. */
+/**
+ * The prediction's history face.
+ *
+ * @example
+ * ```ts
+ * import { predictHistory } from "./history.ts";
+ * const kept = (value: number, ci: [number, number]) => ({
+ *   fit: "root", level: 0.95, solve: [],
+ *   at: [{ at: "cycle = 700", x: { cycle: 700 }, value, ci, pi: null, unit: "mAh" }],
+ * });
+ * const [c] = predictHistory.changes(kept(2250, [2248, 2252]), kept(2241, [2239, 2243]), {
+ *   cell: "p", level: 0.95, rows: null,
+ * });
+ * if (c.code !== "prediction-moved" || c.weight !== "notable") throw new Error(c.sentence);
+ * ```
+ */
 export const predictHistory: HistoryFace<PredictSpec, Predictions, PredictResult, PredictKept> = {
   keep,
   changes,
