@@ -1,29 +1,31 @@
 /**
  * The table's face in the run history: what a record keeps of a table and
- * which rows changed between two records, by row content, not only counts.
+ * what changed between two records: rows added, removed or changed by their
+ * content (not only counts), exclusions, columns, units and the source.
  *
  * ```
- *  keep:    each used row ─FNV-1a over its values' bits─▶ 8 hex digits   (≤ 20,000 rows)
- *           blocks of 1,000 rows ─▶ one hash each                         (more rows)
- *  changes: multiset of old hashes − multiset of new ─▶ removed / added
- *           a removed and an added row at the same source row number ─▶ changed
+ *  keep:    used rows ─hash of the source columns' values─▶ 8 hex digits a row   (≤ 20,000 rows)
+ *           blocks of 1,000 rows ─▶ 8 hex digits a block                         (more rows)
+ *           all used rows in order ─▶ one content hash
+ *  changes: rows by content (_history_rows.ts), then exclusions, columns, units
  * ```
  *
  * A 32-bit hash a row: a changed row passes for unchanged only when its new
- * content hashes like its old (odds 2⁻³² a row).
+ * content hashes like its old (odds 2⁻³² a row). Derived columns are left out
+ * of the hash: a new or edited `derive` changes no row, and the fits that use
+ * it report their own changes.
  *
  * @module
  */
-import type { Change, HistoryFace, RowChanges } from "../../kernel/contract/mod.ts";
+import type { Change, ChangeContext, HistoryFace } from "../../kernel/contract/mod.ts";
 import type { TableOutput } from "./run.ts";
 import type { TableSpec } from "./spec.ts";
 import type { TableResult } from "./summary.ts";
-import { fromRuns, rowsInWords, toRuns } from "../shared/row_list.ts";
+import { rowsInWords, toRuns } from "../shared/row_list.ts";
+import { blockHashes, hashOfRows, hex8, ROW_HASH, rowHashes } from "./_row_hash.ts";
+import { BLOCK_ROWS, ROW_HASHES_UP_TO, rowChanges } from "./_history_rows.ts";
 
-/** Tables up to this many used rows keep a hash of every row. */
-export const ROW_HASHES_UP_TO = 20_000;
-/** Larger tables keep a hash of each block of this many rows. */
-export const BLOCK_ROWS = 1_000;
+export { BLOCK_ROWS, LISTED_ROWS, ROW_HASHES_UP_TO } from "./_history_rows.ts";
 
 /** What a record keeps of a table. */
 export interface TableKept {
@@ -35,277 +37,154 @@ export interface TableKept {
   columns: { name: string; type: string; unit: string | null }[];
   /** Source row numbers of the used rows, as inclusive runs. */
   row_runs: [number, number][];
+  /** The row fingerprint's method ({@link ROW_HASH}); records without it hashed rows otherwise. */
+  hash: string;
+  /** The columns the row hashes cover, in order: those read from the source. */
+  hashed: string[];
+  /** 8 hex digits over every used row's hash, in order. */
+  content: string;
   /** 8 hex digits a used row, in order (up to {@link ROW_HASHES_UP_TO} rows), else null. */
   row_hashes: string | null;
   /** 8 hex digits a block of {@link BLOCK_ROWS} used rows (larger tables), else null. */
   block_hashes: string | null;
 }
 
-const f64 = new Float64Array(1);
-const u32 = new Uint32Array(f64.buffer);
-
-function mix(h: number, x: number): number {
-  return Math.imul(h ^ x, 0x01000193) >>> 0;
-}
-
-/** One hash per used row, over every column's value (FNV-1a, 32 bits). */
-function rowHashes(out: TableOutput): Uint32Array {
-  const n = out.rows.length;
-  const h = new Uint32Array(n).fill(0x811c9dc5);
-  for (const c of out.columns) {
-    if (c.type === "number") {
-      const v = c.values;
-      for (let i = 0; i < n; i++) {
-        f64[0] = v[i];
-        h[i] = mix(mix(h[i], u32[0]), u32[1]);
-      }
-    } else {
-      for (let i = 0; i < n; i++) {
-        const s = c.values[i];
-        let x = s === null ? 0xfffffffe : mix(h[i], 0x1f);
-        if (s !== null) { for (let k = 0; k < s.length; k++) x = mix(x, s.charCodeAt(k)); }
-        h[i] = mix(x, 0x1e);
-      }
-    }
-  }
-  return h;
-}
-
-const hex8 = (x: number) => x.toString(16).padStart(8, "0");
-
-function blockHashes(h: Uint32Array): string {
-  let out = "";
-  for (let b = 0; b < h.length; b += BLOCK_ROWS) {
-    let x = 0x811c9dc5;
-    for (let i = b; i < Math.min(h.length, b + BLOCK_ROWS); i++) x = mix(x, h[i]);
-    out += hex8(x);
-  }
-  return out;
-}
-
-function splitHex(s: string | null | undefined): string[] | null {
-  if (typeof s !== "string") return null;
-  const out: string[] = [];
-  for (let i = 0; i + 8 <= s.length; i += 8) out.push(s.slice(i, i + 8));
-  return out;
-}
-
 /**
  * What a record keeps of a table.
  *
  * @param out The table.
- * @param _spec Its spec.
+ * @param spec Its spec (its derived columns are left out of the row hashes).
  * @param result Its RUN-JSON result.
  * @returns The kept value.
  */
-function keep(out: TableOutput, _spec: TableSpec, result: TableResult): TableKept {
-  const h = rowHashes(out);
-  const small = h.length <= ROW_HASHES_UP_TO;
+function keep(out: TableOutput, spec: TableSpec, result: TableResult): TableKept {
+  const derived = new Set(spec.derive.map((d) => d.name));
+  const read = out.columns.filter((c) => !derived.has(c.name));
+  const n = out.rows.length;
+  const h = rowHashes(read, n);
   let rows = "";
-  if (small) { for (let i = 0; i < h.length; i++) rows += hex8(h[i]); }
+  if (n <= ROW_HASHES_UP_TO) { for (let i = 0; i < n; i++) rows += hex8(h[i]); }
   return {
     source: out.source,
     sha256: out.sha256,
     rows_read: out.rowsRead,
-    rows_used: out.rows.length,
+    rows_used: n,
     excluded: out.excluded.map((e) => ({ row: e.row, why: e.why })),
     columns: result.columns.map((c) => ({ name: c.name, type: c.type, unit: c.unit })),
     row_runs: toRuns(out.rows),
-    row_hashes: small ? rows : null,
-    block_hashes: small ? null : blockHashes(h),
+    hash: ROW_HASH,
+    hashed: read.map((c) => c.name),
+    content: hex8(hashOfRows(h, 0, n)),
+    row_hashes: n <= ROW_HASHES_UP_TO ? rows : null,
+    block_hashes: n <= ROW_HASHES_UP_TO ? null : blockHashes(h, BLOCK_ROWS),
   };
 }
 
-function change(
-  code: string,
-  weight: Change["weight"],
-  sentence: string,
-  numbers: Record<string, unknown>,
-  rows?: RowChanges,
-): Change {
-  return { code, weight, sentence, numbers, ...(rows ? { rows } : {}) };
+const isObject = (x: unknown): x is Record<string, unknown> =>
+  typeof x === "object" && x !== null && !Array.isArray(x);
+
+/** A record's exclusions by row (an older or damaged record: the readable ones). */
+function exclusions(k: Partial<TableKept>): Map<number, string> {
+  const list = Array.isArray(k.excluded) ? k.excluded : [];
+  return new Map(
+    list.filter((e) => isObject(e) && Number.isInteger(e.row)).map((e) => [e.row, String(e.why)]),
+  );
 }
 
-/** Added, removed and changed rows by content (both records keep row hashes). */
-function byRows(cell: string, a: TableKept, b: TableKept): Change[] {
-  const oldH = splitHex(a.row_hashes)!, newH = splitHex(b.row_hashes)!;
-  const oldRows = fromRuns(a.row_runs), newRows = fromRuns(b.row_runs);
-  if (oldH.length !== oldRows.length || newH.length !== newRows.length) return [];
-  const pool = new Map<string, number[]>();
-  oldH.forEach((h, i) => {
-    const list = pool.get(h);
-    if (list) list.push(oldRows[i]);
-    else pool.set(h, [oldRows[i]]);
-  });
-  const fresh: number[] = [];
-  newH.forEach((h, i) => {
-    const list = pool.get(h);
-    if (list && list.length > 0) list.shift();
-    else fresh.push(newRows[i]);
-  });
-  const gone = [...pool.values()].flat().sort((x, y) => x - y);
-  const goneSet = new Set(gone);
-  const changed = fresh.filter((r) => goneSet.has(r));
-  const changedSet = new Set(changed);
-  const added = fresh.filter((r) => !changedSet.has(r));
-  const removed = gone.filter((r) => !changedSet.has(r));
-  const rows = { added: added.length, removed: removed.length, changed: changed.length };
-  const listed = (list: number[]) => ({ count: list.length, rows: list.slice(0, 50) });
+/** A record's columns by name. */
+function columnsOf(k: Partial<TableKept>): Map<string, { unit: string | null }> {
+  const list = Array.isArray(k.columns) ? k.columns : [];
+  return new Map(
+    list.filter((c) => isObject(c) && typeof c.name === "string").map((c) => [c.name, c]),
+  );
+}
+
+function exclusionChanges(cell: string, exA: Map<number, string>, exB: Map<number, string>) {
   const out: Change[] = [];
-  if (added.length > 0) {
-    out.push(change(
-      "rows-added",
-      "notable",
-      `${cell}: ${added.length} ${added.length === 1 ? "row" : "rows"} added (${
-        rowsInWords(added)
-      }).`,
-      listed(added),
-      rows,
-    ));
+  const newlyOut = [...exB.keys()].filter((r) => !exA.has(r)).sort((x, y) => x - y);
+  const backIn = [...exA.keys()].filter((r) => !exB.has(r)).sort((x, y) => x - y);
+  if (newlyOut.length > 0) {
+    const why = [...new Set(newlyOut.map((r) => exB.get(r)))];
+    out.push({
+      code: "exclusions-added",
+      weight: "notable",
+      sentence: `${cell}: ${rowsInWords(newlyOut)} now excluded (${why.join("; ")}).`,
+      numbers: { rows: newlyOut, why: newlyOut.map((r) => exB.get(r)) },
+    });
   }
-  if (removed.length > 0) {
-    out.push(change(
-      "rows-removed",
-      "notable",
-      `${cell}: ${removed.length} ${
-        removed.length === 1 ? "row" : "rows"
-      } gone since the earlier run (${rowsInWords(removed)} of the earlier table).`,
-      listed(removed),
-      added.length > 0 ? undefined : rows,
-    ));
-  }
-  if (changed.length > 0) {
-    out.push(change(
-      "rows-changed",
-      "notable",
-      `${cell}: ${changed.length} ${changed.length === 1 ? "row" : "rows"} changed in place (${
-        rowsInWords(changed)
-      }).`,
-      listed(changed),
-      added.length + removed.length > 0 ? undefined : rows,
-    ));
+  if (backIn.length > 0) {
+    out.push({
+      code: "exclusions-removed",
+      weight: "notable",
+      sentence: `${cell}: ${rowsInWords(backIn)} no longer excluded.`,
+      numbers: { rows: backIn },
+    });
   }
   return out;
 }
 
-/** Rows compared by blocks (a large table on either side). */
-function byBlocks(cell: string, a: TableKept, b: TableKept): Change[] {
-  const oldB = splitHex(a.block_hashes), newB = splitHex(b.block_hashes);
-  const na = a.rows_used, nb = b.rows_used;
-  let same = 0;
-  if (oldB && newB) {
-    while (same < oldB.length && same < newB.length && oldB[same] === newB[same]) same++;
+function columnChanges(cell: string, a: Partial<TableKept>, b: Partial<TableKept>): Change[] {
+  if (!Array.isArray(a.columns) || !Array.isArray(b.columns)) return [];
+  const out: Change[] = [];
+  const cA = columnsOf(a), cB = columnsOf(b);
+  const added = [...cB.keys()].filter((c) => !cA.has(c));
+  const gone = [...cA.keys()].filter((c) => !cB.has(c));
+  if (added.length + gone.length > 0) {
+    const parts = [
+      ...(added.length ? [`new column${added.length > 1 ? "s" : ""} ${added.join(", ")}`] : []),
+      ...(gone.length ? [`column${gone.length > 1 ? "s" : ""} ${gone.join(", ")} gone`] : []),
+    ];
+    out.push({
+      code: "columns-changed",
+      weight: "minor",
+      sentence: `${cell}: ${parts.join("; ")}.`,
+      numbers: { added, removed: gone },
+    });
   }
-  const fullOld = Math.floor(na / BLOCK_ROWS);
-  const unchangedUpTo = Math.min(same * BLOCK_ROWS, na, nb);
-  const note = `compared by blocks of ${BLOCK_ROWS.toLocaleString("en")} rows`;
-  if (same >= fullOld && nb >= na) {
-    if (nb === na && a.sha256 === b.sha256) return [];
-    const added = nb - na;
-    if (added === 0) return [];
-    return [change(
-      "rows-added",
-      "notable",
-      `${cell}: ${added.toLocaleString("en")} rows added after the first ${
-        na.toLocaleString("en")
-      } (${note}).`,
-      { count: added, after: na, compared: "blocks" },
-      { added, removed: 0, changed: 0 },
-    )];
+  for (const [name, c] of cB) {
+    const was = cA.get(name);
+    if (!was || !("unit" in was) || !("unit" in c) || (was.unit ?? null) === (c.unit ?? null)) {
+      continue;
+    }
+    out.push({
+      code: "unit-changed",
+      weight: "notable",
+      sentence: `${cell}: the unit of ${name} is now ${c.unit ?? "none"} (was ${
+        was.unit ?? "none"
+      }).`,
+      numbers: { column: name, before: was.unit ?? null, after: c.unit ?? null },
+    });
   }
-  const changed = Math.max(0, Math.min(na, nb) - unchangedUpTo);
-  const rows = { added: Math.max(0, nb - na), removed: Math.max(0, na - nb), changed };
-  return [change(
-    "rows-changed",
-    "notable",
-    `${cell}: the content differs from used row ${
-      (unchangedUpTo + 1).toLocaleString("en")
-    } on (${note}); ${na.toLocaleString("en")} → ${nb.toLocaleString("en")} rows.`,
-    { from_row: unchangedUpTo + 1, rows_before: na, rows_after: nb, compared: "blocks" },
-    rows,
-  )];
+  return out;
 }
 
 /**
- * What changed in a table between two records.
+ * What changed in a table between two records. Fields an older record lacks
+ * leave their comparison out; nothing here throws on them.
  *
  * @param a The earlier kept value.
  * @param b The newer kept value.
  * @param ctx The cell.
- * @returns Sentences with their numbers; row changes carry `rows`.
+ * @returns Sentences with their numbers; `rows-*` changes carry their row changes.
  */
-function changes(a: TableKept, b: TableKept, ctx: { cell: string }): Change[] {
+function changes(a: TableKept, b: TableKept, ctx: ChangeContext): Change[] {
+  if (!isObject(a) || !isObject(b)) return [];
   const cell = ctx.cell;
   const out: Change[] = [];
-  if (typeof a?.rows_used !== "number" || typeof b?.rows_used !== "number") return out;
-  if (a.source !== b.source && a.source && b.source) {
-    out.push(
-      change("source-changed", "notable", `${cell} now reads ${b.source} (was ${a.source}).`, {
-        before: a.source,
-        after: b.source,
-      }),
-    );
+  if (typeof a.source === "string" && typeof b.source === "string" && a.source !== b.source) {
+    out.push({
+      code: "source-changed",
+      weight: "notable",
+      sentence: `${cell} now reads ${b.source} (was ${a.source}).`,
+      numbers: { before: a.source, after: b.source },
+    });
   }
-  if (typeof a.row_hashes === "string" && typeof b.row_hashes === "string") {
-    out.push(...byRows(cell, a, b));
-  } else if (a.row_hashes !== undefined && b.row_hashes !== undefined) {
-    out.push(...byBlocks(cell, a, b));
-  }
-  const ex = (k: TableKept) => new Map((k.excluded ?? []).map((e) => [e.row, e.why]));
-  const exA = ex(a), exB = ex(b);
-  const newlyOut = [...exB.keys()].filter((r) => !exA.has(r));
-  const backIn = [...exA.keys()].filter((r) => !exB.has(r));
-  if (newlyOut.length > 0) {
-    out.push(change(
-      "exclusions-added",
-      "notable",
-      `${cell}: ${rowsInWords(newlyOut)} now excluded (${
-        newlyOut.map((r) => exB.get(r)).join("; ")
-      }).`,
-      { rows: newlyOut },
-    ));
-  }
-  if (backIn.length > 0) {
-    out.push(
-      change(
-        "exclusions-removed",
-        "notable",
-        `${cell}: ${rowsInWords(backIn)} no longer excluded.`,
-        {
-          rows: backIn,
-        },
-      ),
-    );
-  }
-  const cols = (k: TableKept) => new Map((k.columns ?? []).map((c) => [c.name, c]));
-  const cA = cols(a), cB = cols(b);
-  const addedCols = [...cB.keys()].filter((c) => !cA.has(c));
-  const goneCols = [...cA.keys()].filter((c) => !cB.has(c));
-  if (addedCols.length + goneCols.length > 0) {
-    const parts = [
-      ...(addedCols.length
-        ? [`new column${addedCols.length > 1 ? "s" : ""} ${addedCols.join(", ")}`]
-        : []),
-      ...(goneCols.length
-        ? [`column${goneCols.length > 1 ? "s" : ""} ${goneCols.join(", ")} gone`]
-        : []),
-    ];
-    out.push(change("columns-changed", "minor", `${cell}: ${parts.join("; ")}.`, {
-      added: addedCols,
-      removed: goneCols,
-    }));
-  }
-  for (const [name, c] of cB) {
-    const was = cA.get(name);
-    if (was && (was.unit ?? null) !== (c.unit ?? null)) {
-      out.push(change(
-        "unit-changed",
-        "notable",
-        `${cell}: the unit of ${name} is now ${c.unit ?? "none"} (was ${was.unit ?? "none"}).`,
-        { column: name, before: was.unit ?? null, after: c.unit ?? null },
-      ));
-    }
-  }
+  const known = Array.isArray(a.excluded) && Array.isArray(b.excluded);
+  const exA = exclusions(a), exB = exclusions(b);
+  const newlyOut = new Set(known ? [...exB.keys()].filter((r) => !exA.has(r)) : []);
+  out.push(...rowChanges(cell, a, b, newlyOut));
+  if (known) out.push(...exclusionChanges(cell, exA, exB));
+  out.push(...columnChanges(cell, a, b));
   return out;
 }
 
