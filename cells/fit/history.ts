@@ -6,9 +6,16 @@
  * rows used, σ, convergence.
  *
  * The difference test is the normal test of two independent estimates,
- * z = (b₂ − b₁)/√(se₁² + se₂²), two-sided at the document's level. Two runs
- * that share rows give positively correlated estimates, so the true variance
- * of the difference is smaller than se₁² + se₂² and the test is conservative.
+ * z = (b₂ − b₁)/√(se₁² + se₂²), two-sided at the newer record's level
+ * (common practice, no source: the standard normal test of a difference of
+ * two independent estimates). Two runs that share rows give positively
+ * correlated estimates, so the true variance of the difference is smaller
+ * than se₁² + se₂² and the test is conservative: it calls fewer changes
+ * significant than a test knowing the correlation would.
+ *
+ * A field an older record lacks leaves its comparison out (a missing
+ * standard error: no test; a missing interval: no verdict on it), never
+ * read as zero.
  *
  * @module
  */
@@ -36,6 +43,7 @@ export interface FitKept {
   n: number;
   p: number;
   df_residual: number;
+  /** The level of the parameters' intervals. */
   level: number;
   sigma: number | null;
   sigma_unit: string | null;
@@ -48,6 +56,11 @@ export interface FitKept {
   converged: boolean;
   parameters: ParameterKept[];
 }
+
+/** The test named in every parameter comparison's numbers. */
+export const DIFFERENCE_TEST = "normal test of two independent estimates, z = Δ/√(se₁² + se₂²), " +
+  "two-sided; conservative when the runs share rows (their estimates are then positively " +
+  "correlated, so the difference varies less than this assumes)";
 
 function keep(_out: Fit, _spec: FitSpec, r: FitResult): FitKept {
   return {
@@ -78,67 +91,195 @@ function keep(_out: Fit, _spec: FitSpec, r: FitResult): FitKept {
 }
 
 const num = (x: unknown): x is number => typeof x === "number" && Number.isFinite(x);
+const level = (x: unknown): x is number => num(x) && x > 0 && x < 1;
+
+/** An interval with both limits known, else null. */
+function interval(ci: unknown): [number, number] | null {
+  return Array.isArray(ci) && num(ci[0]) && num(ci[1]) ? [ci[0], ci[1]] : null;
+}
+
+/** The parameters a record keeps that carry a name and an estimate. */
+function parametersOf(k: FitKept): ParameterKept[] {
+  return k.parameters.filter((q) =>
+    typeof q === "object" && q !== null && typeof q.name === "string" && num(q.estimate)
+  );
+}
 
 /** An estimate with its interval, rounded to its uncertainty: `9.882 [9.828, 9.936]`. */
 function shown(q: ParameterKept): string {
   const u = num(q.std_error) ? q.std_error : null;
-  return `${formatEstimate(q.estimate, u)}${
-    q.ci ? ` ${formatIntervalAt(q.ci, u, q.estimate)}` : ""
-  }`;
+  const ci = interval(q.ci);
+  return `${formatEstimate(q.estimate, u)}${ci ? ` ${formatIntervalAt(ci, u, q.estimate)}` : ""}`;
 }
 
-/** One parameter's comparison: the numbers, and whether it is notable. */
-export function compareParameter(a: ParameterKept, b: ParameterKept, level: number) {
+/** The numbers of one parameter's comparison (a change's `numbers`). */
+export interface ParameterShift {
+  name: string;
+  before: number;
+  after: number;
+  before_ci: [number, number] | null;
+  after_ci: [number, number] | null;
+  change: number;
+  /** change / |before|; null when before is 0. */
+  relative: number | null;
+  /** Whether `after` lies outside `before_ci`; null without an earlier interval. */
+  outside_previous_interval: boolean | null;
+  /** Δ/√(se₁² + se₂²); null without both standard errors. */
+  z: number | null;
+  p_value: number | null;
+  /** p < 1 − level; null without a test. */
+  significant: boolean | null;
+  /** The level the test was judged at. */
+  level: number;
+  test: string;
+  unit: string | null;
+}
+
+/**
+ * One parameter's comparison between two records.
+ *
+ * @param a The earlier record's parameter.
+ * @param b The newer record's.
+ * @param at The level to judge the difference at.
+ * @returns The numbers behind its sentence.
+ */
+export function compareParameter(a: ParameterKept, b: ParameterKept, at: number): ParameterShift {
   const delta = b.estimate - a.estimate;
-  const relative = a.estimate !== 0 ? delta / Math.abs(a.estimate) : null;
-  const outside = a.ci !== null && Array.isArray(a.ci) &&
-    (b.estimate < a.ci[0] || b.estimate > a.ci[1]);
+  const before = interval(a.ci);
   const se = num(a.std_error) && num(b.std_error) ? Math.hypot(a.std_error, b.std_error) : null;
   const z = se !== null && se > 0 ? delta / se : null;
   const p = z === null ? null : 2 * standardNormal.upper(Math.abs(z));
-  const significant = p !== null && p < 1 - level;
   return {
     name: b.name,
     before: a.estimate,
     after: b.estimate,
-    before_ci: a.ci,
-    after_ci: b.ci,
+    before_ci: before,
+    after_ci: interval(b.ci),
     change: delta,
-    relative,
-    outside_previous_interval: outside,
+    relative: a.estimate !== 0 ? delta / Math.abs(a.estimate) : null,
+    outside_previous_interval: before === null
+      ? null
+      : b.estimate < before[0] || b.estimate > before[1],
     z,
     p_value: p,
-    significant,
-    test: "normal test of two independent estimates, z = Δ/√(se₁² + se₂²); " +
-      "conservative when the runs share rows",
-    unit: b.unit,
+    significant: p === null ? null : p < 1 - at,
+    level: at,
+    test: DIFFERENCE_TEST,
+    unit: b.unit ?? null,
   };
 }
 
+const percent = (x: number) => `${formatNumber(x * 100, 3)}%`;
+
+/** "with 40 new rows" from the rows of the tables the fit reads; "" without. */
 function rowsPhrase(ctx: ChangeContext): string {
   const r = ctx.rows;
   if (!r) return "";
+  const rows = (n: number) => (n === 1 ? "row" : "rows");
   const parts = [
-    ...(r.added ? [`${r.added} new ${r.added === 1 ? "row" : "rows"}`] : []),
-    ...(r.removed ? [`${r.removed} ${r.removed === 1 ? "row" : "rows"} gone`] : []),
-    ...(r.changed ? [`${r.changed} changed`] : []),
+    ...(r.added ? [`${r.added} new ${rows(r.added)}`] : []),
+    ...(r.removed ? [`${r.removed} ${rows(r.removed)} gone`] : []),
+    ...(r.changed ? [`${r.changed} ${rows(r.changed)} changed`] : []),
   ];
   return parts.length ? ` with ${parts.join(", ")}` : "";
 }
 
+/** Why a parameter's move is notable, in words. */
+function why(c: ParameterShift, previousLevel: number | null): string {
+  const test = c.z !== null && c.p_value !== null
+    ? `z = ${formatNumber(c.z, 2)}, p = ${formatP(c.p_value)}`
+    : null;
+  const where = previousLevel !== null
+    ? `its previous ${percent(previousLevel)} interval`
+    : "its previous interval";
+  if (c.outside_previous_interval && c.significant) return `outside ${where} (${test})`;
+  if (c.outside_previous_interval) {
+    return `outside ${where}${test ? `, though not a significant change (${test})` : ""}`;
+  }
+  return `a significant change (${test}), though inside ${where}`;
+}
+
+function parameterChanges(cell: string, a: FitKept, b: FitKept, at: number): Change[] {
+  const before = new Map(parametersOf(a).map((q) => [q.name, q]));
+  const previousLevel = level(a.level) ? a.level : null;
+  const out: Change[] = [];
+  const steady: ParameterShift[] = [];
+  for (const q of parametersOf(b)) {
+    const was = before.get(q.name);
+    if (!was) continue;
+    const c = compareParameter(was, q, at);
+    if (c.outside_previous_interval === null && c.significant === null) {
+      if (c.change !== 0) out.push(unjudged(cell, was, q, c));
+    } else if (c.outside_previous_interval || c.significant) {
+      out.push({
+        code: "parameter-moved",
+        weight: "notable",
+        sentence: `${cell}: ${q.name} moved from ${shown(was)} to ${shown(q)}${
+          q.unit ? ` ${q.unit}` : ""
+        }, ${why(c, previousLevel)}.`,
+        numbers: { ...c },
+      });
+    } else steady.push(c);
+  }
+  if (steady.some((c) => c.change !== 0)) {
+    const tested = steady.filter((c) => c.z !== null);
+    const most = tested.length
+      ? tested.reduce((m, c) => (Math.abs(c.z!) > Math.abs(m.z!) ? c : m))
+      : null;
+    const names = steady.map((c) => c.name);
+    const list = names.length === 1
+      ? names[0]
+      : `${names.slice(0, -1).join(", ")} and ${names[names.length - 1]}`;
+    const within = steady.every((c) => c.outside_previous_interval === false);
+    const where = previousLevel !== null ? `previous ${percent(previousLevel)}` : "previous";
+    const said = within
+      ? `stayed within ${names.length === 1 ? "its" : "their"} ${where} ${
+        names.length === 1 ? "interval" : "intervals"
+      }`
+      : "did not change significantly";
+    out.push({
+      code: "parameters-steady",
+      weight: "minor",
+      sentence: `${cell}: ${list} ${said}${
+        most
+          ? ` (largest shift: ${most.name}, ${formatNumber(Math.abs(most.z!), 2)} standard ` +
+            `errors of the difference)`
+          : ""
+      }.`,
+      numbers: { parameters: steady, largest: most?.name ?? null },
+    });
+  }
+  return out;
+}
+
+/** A shift that neither an interval nor standard errors let us judge (an older record). */
+function unjudged(cell: string, was: ParameterKept, q: ParameterKept, c: ParameterShift): Change {
+  return {
+    code: "parameter-not-judged",
+    weight: "minor",
+    sentence: `${cell}: ${q.name} moved from ${shown(was)} to ${shown(q)}${
+      q.unit ? ` ${q.unit}` : ""
+    }; without an earlier interval or both standard errors the move is not judged.`,
+    numbers: { ...c },
+  };
+}
+
+function names(k: FitKept): string[] {
+  return k.parameters.filter((q) => typeof q?.name === "string").map((q) => q.name);
+}
+
 function changes(a: FitKept, b: FitKept, ctx: ChangeContext): Change[] {
   const cell = ctx.cell;
+  if (!Array.isArray(a?.parameters) || !Array.isArray(b?.parameters)) return [];
   const out: Change[] = [];
-  if (!Array.isArray(a?.parameters) || !Array.isArray(b?.parameters)) return out;
   if (typeof a.model === "string" && typeof b.model === "string" && a.model !== b.model) {
-    out.push({
+    return [{
       code: "model-changed",
       weight: "notable",
       sentence:
         `${cell}: the model is now ${b.model} (was ${a.model}); its estimates are not compared.`,
       numbers: { before: a.model, after: b.model },
-    });
-    return out;
+    }];
   }
   if (a.converged === true && b.converged === false) {
     out.push({
@@ -151,63 +292,23 @@ function changes(a: FitKept, b: FitKept, ctx: ChangeContext): Change[] {
     out.push({
       code: "convergence-regained",
       weight: "notable",
-      sentence: `${cell}: the fit converges again.`,
+      sentence: `${cell}: the fit converges again${rowsPhrase(ctx)}.`,
       numbers: {},
     });
   }
-  const before = new Map(a.parameters.map((q) => [q.name, q]));
-  const level = num(b.level) ? b.level : ctx.level;
-  const steady: ReturnType<typeof compareParameter>[] = [];
-  for (const q of b.parameters) {
-    const was = before.get(q.name);
-    if (!was || !num(was.estimate) || !num(q.estimate)) continue;
-    const c = compareParameter(was, q, level);
-    if (c.outside_previous_interval || c.significant) {
-      const why = [
-        ...(c.outside_previous_interval
-          ? [`outside its previous ${formatNumber(level * 100, 3)}% interval`]
-          : []),
-        ...(c.significant && c.z !== null
-          ? [`a significant change (z = ${formatNumber(c.z, 3)}, p = ${formatP(c.p_value!)})`]
-          : []),
-      ];
-      out.push({
-        code: "parameter-moved",
-        weight: "notable",
-        sentence: `${cell}: ${q.name} moved from ${shown(was)} to ${shown(q)}${
-          q.unit ? ` ${q.unit}` : ""
-        }, ${why.join(" and ")}.`,
-        numbers: c,
-      });
-    } else steady.push(c);
-  }
-  if (steady.length > 0) {
-    const by = (c: ReturnType<typeof compareParameter>) => Math.abs(c.z ?? 0);
-    const most = steady.reduce((m, c) => (by(c) > by(m) ? c : m));
-    const moved = steady.some((c) => c.change !== 0);
-    if (moved) {
-      out.push({
-        code: "parameters-steady",
-        weight: "minor",
-        sentence: `${cell}: ${steady.map((c) => c.name).join(", ")} stayed within ${
-          steady.length === 1 ? "its" : "their"
-        } previous intervals${
-          most.z !== null ? ` (largest shift: ${most.name}, z = ${formatNumber(most.z, 2)})` : ""
-        }.`,
-        numbers: { parameters: steady },
-      });
-    }
-  }
-  const names = (k: FitKept) => new Set(k.parameters.map((q) => q.name));
-  const added = [...names(b)].filter((n) => !names(a).has(n));
-  const gone = [...names(a)].filter((n) => !names(b).has(n));
+  out.push(...parameterChanges(cell, a, b, level(b.level) ? b.level : ctx.level));
+  const namesA = new Set(names(a)), namesB = new Set(names(b));
+  const added = [...namesB].filter((n) => !namesA.has(n));
+  const gone = [...namesA].filter((n) => !namesB.has(n));
   if (added.length + gone.length > 0) {
+    const parts = [
+      ...(added.length ? [`added: ${added.join(", ")}`] : []),
+      ...(gone.length ? [`removed: ${gone.join(", ")}`] : []),
+    ];
     out.push({
       code: "parameters-changed",
       weight: "notable",
-      sentence: `${cell}: parameters ${added.length ? `added: ${added.join(", ")}` : ""}${
-        added.length && gone.length ? "; " : ""
-      }${gone.length ? `removed: ${gone.join(", ")}` : ""}.`,
+      sentence: `${cell}: parameters ${parts.join("; ")}.`,
       numbers: { added, removed: gone },
     });
   }
@@ -215,34 +316,43 @@ function changes(a: FitKept, b: FitKept, ctx: ChangeContext): Change[] {
     out.push({
       code: "rows-used-changed",
       weight: "minor",
-      sentence: `${cell}: fitted to ${b.n} rows (was ${a.n}).`,
-      numbers: { before: a.n, after: b.n },
+      sentence: `${cell}: fitted to ${b.n} rows (was ${a.n})${rowsPhrase(ctx)}.`,
+      numbers: { before: a.n, after: b.n, rows: ctx.rows },
     });
   }
-  if (num(a.sigma) && num(b.sigma) && a.sigma !== b.sigma) {
-    const rel = (b.sigma - a.sigma) / a.sigma;
-    out.push({
-      code: "sigma-changed",
-      weight: Math.abs(rel) > 0.5 ? "notable" : "minor",
-      sentence: `${cell}: the residual standard error is ${formatNumber(b.sigma, 3)}${
-        b.sigma_unit ? ` ${b.sigma_unit}` : ""
-      } (was ${formatNumber(a.sigma, 3)}, ${rel > 0 ? "+" : ""}${formatNumber(rel * 100, 2)}%).`,
-      numbers: { before: a.sigma, after: b.sigma, relative: rel },
-    });
-  }
+  out.push(...sigmaChange(cell, a, b));
   return out;
+}
+
+function sigmaChange(cell: string, a: FitKept, b: FitKept): Change[] {
+  if (!num(a.sigma) || !num(b.sigma) || a.sigma === 0) return [];
+  const rel = (b.sigma - a.sigma) / a.sigma;
+  // Below a millionth, a change of σ is rounding, not news (common practice, no source).
+  if (Math.abs(rel) < 1e-6) return [];
+  const unit = typeof b.sigma_unit === "string" && b.sigma_unit ? ` ${b.sigma_unit}` : "";
+  return [{
+    code: "sigma-changed",
+    weight: Math.abs(rel) > 0.5 ? "notable" : "minor",
+    sentence: `${cell}: the residual standard error is ${formatNumber(b.sigma, 3)}${unit} (was ${
+      formatNumber(a.sigma, 3)
+    }, ${rel > 0 ? "+" : "−"}${formatNumber(Math.abs(rel) * 100, 2)}%).`,
+    numbers: { before: a.sigma, after: b.sigma, relative: rel },
+  }];
 }
 
 function trend(k: FitKept): TrendSample[] {
   if (!Array.isArray(k?.parameters)) return [];
-  return k.parameters.filter((q) => num(q.estimate)).map((q) => ({
-    series: q.name,
-    unit: q.unit ?? null,
-    value: q.estimate,
-    lower: q.ci ? q.ci[0] : null,
-    upper: q.ci ? q.ci[1] : null,
-    n: num(k.n) ? k.n : null,
-  }));
+  return parametersOf(k).map((q) => {
+    const ci = interval(q.ci);
+    return {
+      series: q.name,
+      unit: typeof q.unit === "string" ? q.unit : null,
+      value: q.estimate,
+      lower: ci ? ci[0] : null,
+      upper: ci ? ci[1] : null,
+      n: num(k.n) ? k.n : null,
+    };
+  });
 }
 
 /** The fit's history face. */
