@@ -61,7 +61,8 @@ function fn(n: Extract<Expr, { op: "call" }>) {
   return info;
 }
 
-function literal(v: number): string {
+/** A double as JavaScript source that reads back as the same double (−0 included). */
+export function literal(v: number): string {
   if (Number.isNaN(v)) return "NaN";
   if (v === Infinity) return "Infinity";
   if (v === -Infinity) return "(-Infinity)";

@@ -44,6 +44,7 @@ import { ExprError } from "./expr_error.ts";
 import * as D from "./_dd_math.ts";
 import { makeInterner } from "./_interner.ts";
 import { cachedFunction } from "./_kernel_cache.ts";
+import { literal } from "./_codegen.ts";
 
 /** A function evaluated in double-double (see the module header). */
 export type CompiledDD = (
@@ -326,15 +327,6 @@ function rowLoop(
 
 function operands(args: readonly Code[]): string {
   return args.map((a) => `${a.h}, ${a.l}`).join(", ");
-}
-
-/** A double as JavaScript source that reads back as the same double (−0 included). */
-function literal(v: number): string {
-  if (Number.isNaN(v)) return "NaN";
-  if (v === Infinity) return "Infinity";
-  if (v === -Infinity) return "(-Infinity)";
-  if (v < 0 || Object.is(v, -0)) return `(-${String(-v)})`;
-  return String(v);
 }
 
 /** Throws the errors {@link compile} would, before any row is seen. */
