@@ -22,8 +22,16 @@ import type { TableOutput } from "./run.ts";
 import type { TableSpec } from "./spec.ts";
 import type { TableResult } from "./summary.ts";
 import { rowsInWords, toRuns } from "../shared/row_list.ts";
-import { blockHashes, hashOfRows, hex8, ROW_HASH, rowHashes } from "./_row_hash.ts";
-import { BLOCK_ROWS, ROW_HASHES_UP_TO, rowChanges } from "./_history_rows.ts";
+import {
+  BLOCK_ROWS,
+  blockHashes,
+  hashOfRows,
+  hex8,
+  ROW_HASH,
+  ROW_HASHES_UP_TO,
+  rowChanges,
+  rowHashes,
+} from "./_history_rows.ts";
 
 export { BLOCK_ROWS, LISTED_ROWS, ROW_HASHES_UP_TO } from "./_history_rows.ts";
 
