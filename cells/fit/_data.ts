@@ -4,7 +4,9 @@
  * with missing values (with a warning that counts and names them) and
  * evaluate the response as written (`log(y)` included). The problem also
  * carries the columns' decimal corrections (`lo`), for the double-double
- * solvers.
+ * solvers. When no row is left out the problem reads the table's own
+ * arrays in place: a million-row column copied costs about 25 ms here, most
+ * of it touching the new memory, and outputs are never written to.
  *
  * @module
  */
@@ -36,10 +38,13 @@ export function buildProblem(
   );
   const { keep, left } = rowsWithoutMissing(used, table, warn);
   const n = keep === null ? table.rows.length : keep.length;
-  // With every row kept, a copy of the whole array.
-  const pick = (v: Float64Array) => keep === null ? v.slice(0, n) : gather(v, keep);
-  const rows = keep === null ? table.rows.slice(0, n) : gatherInt(table.rows, keep);
-  const y = compile(model.response, [model.responseColumn], [])([pick(used[0].values)], [], n);
+  // With every row kept, the table's own arrays, read in place (outputs are never written to).
+  const pick = (v: Float64Array) => keep === null ? v : gather(v, keep);
+  const rows = keep === null ? table.rows : gatherInt(table.rows, keep);
+  const raw = pick(used[0].values);
+  const y = model.response.op === "id"
+    ? raw
+    : compile(model.response, [model.responseColumn], [])([raw], [], n);
   const bad = notFinite(y, rows);
   if (bad.length > 0) {
     const written = model.text.slice(model.response.start, model.response.end);
@@ -64,7 +69,7 @@ export function buildProblem(
     ...(left.length > 0 ? { rowsMissing: Int32Array.from(left) } : {}),
     lo: {
       columns: used.slice(1).map(pickLo),
-      response: { hi: pick(used[0].values), lo: pickLo(used[0]) },
+      response: { hi: raw, lo: pickLo(used[0]) },
     },
   };
 }

@@ -6,7 +6,9 @@
  * block by successive double-double products (Dekker 1971, mul2, as
  * kernel/dd.ts `productError` and `fastSumError` compose it), in buffers
  * reused from block to block; any other term is evaluated once by
- * kernel/expr `compileDD` and read. Measured on 1,000,000 rows of
+ * kernel/expr `compileDD` and read. A column whose table kept no
+ * corrections has them recovered block by block too (`PrintedColumn`), so
+ * the refinement of a million-row fit allocates no column-long arrays. Measured on 1,000,000 rows of
  * polynomial(x, 10): 26–33 ms a pass for the rows, against about 500 ms to
  * evaluate and keep the ten columns in double-double (their 80 MB of low
  * parts alone take about 200 ms to allocate and touch on this project's
@@ -19,6 +21,7 @@ import { fastSumError, productError } from "../../kernel/dd.ts";
 import { type DDRows, ROW_BLOCK } from "../../kernel/linalg/mod.ts";
 import type { FitProblem } from "./problem.ts";
 import { type DDColumn, type Monomial, monomialOf } from "./_dd_design.ts";
+import { PrintedColumn } from "./_printed_lo.ts";
 
 /**
  * The design's rows in double-double on demand (see the module notes).
@@ -37,7 +40,8 @@ export function ddRows(
   const scans = new Map<number, { largest: number; integers: boolean }>();
   const scan = (c: number) => {
     if (!scans.has(c)) {
-      let a = 0, integers = cols[c].lo === null;
+      // A recovered column's corrections are 0 exactly at whole numbers (_printed_lo.ts).
+      let a = 0, integers = cols[c] instanceof PrintedColumn || cols[c].lo === null;
       const v = cols[c].hi;
       for (let i = 0; i < v.length; i++) {
         a = Math.max(a, Math.abs(v[i]));
@@ -91,6 +95,8 @@ class MonomialRows implements DDRows {
   readonly #powers = new Map<number, { hi: Float64Array[]; lo: Float64Array[] }>();
   /** A buffer per term that is a product or a multiple of powers. */
   readonly #own: ({ hi: Float64Array; lo: Float64Array } | null)[];
+  /** A block of corrections per column recovered from its doubles (PrintedColumn). */
+  readonly #printed = new Map<number, Float64Array>();
 
   constructor(
     private readonly data: readonly DDColumn[],
@@ -105,6 +111,7 @@ class MonomialRows implements DDRows {
       }
     }
     const buf = () => new Float64Array(ROW_BLOCK);
+    for (const c of top.keys()) if (data[c] instanceof PrintedColumn) this.#printed.set(c, buf());
     for (const [c, k] of top) {
       this.#powers.set(c, {
         hi: Array.from({ length: k + 1 }, buf),
@@ -124,7 +131,11 @@ class MonomialRows implements DDRows {
   ): void {
     const len = end - start;
     for (const [c, pw] of this.#powers) {
-      powersOf(this.data[c], start, len, pw.hi, this.exact.has(c) ? null : pw.lo);
+      const x = this.data[c], buf = this.#printed.get(c);
+      const xl = buf === undefined
+        ? (x.lo === null ? null : x.lo.subarray(start, start + len))
+        : (x as PrintedColumn).block(start, len, buf);
+      powersOf(x.hi.subarray(start, start + len), xl, len, pw.hi, this.exact.has(c) ? null : pw.lo);
     }
     this.plans.forEach((m, j) => {
       if (!("powers" in m)) {
@@ -150,19 +161,17 @@ class MonomialRows implements DDRows {
 }
 
 /**
- * x^0 … x^top of rows start … start + len − 1 of x, x^k = x^(k−1)·x (Dekker's
+ * x^0 … x^top of a block of rows of x (xh + xl), x^k = x^(k−1)·x (Dekker's
  * mul2); with pl null, in double (for whole numbers whose powers are exact).
  */
 function powersOf(
-  x: DDColumn,
-  start: number,
+  xh: Float64Array,
+  xl: Float64Array | null,
   len: number,
   ph: Float64Array[],
   pl: Float64Array[] | null,
 ): void {
   ph[0].fill(1, 0, len);
-  const xh = x.hi.subarray(start, start + len);
-  const xl = x.lo === null ? null : x.lo.subarray(start, start + len);
   if (pl === null) {
     for (let k = 1; k < ph.length; k++) {
       const a = ph[k - 1], b = ph[k];

@@ -1,7 +1,8 @@
 import assert from "node:assert/strict";
 import { dyadic } from "../../kernel/dd.ts";
+import { mulberry32Uint } from "../../kernel/random.ts";
 import { dec, type Q, q, sub, val } from "./_rational_test.ts";
-import { printedLo } from "./_dd_design.ts";
+import { PrintedColumn, printedLo } from "./_printed_lo.ts";
 
 /** A double's exact value as a fraction, from its IEEE 754 fields (kernel/dd.ts `dyadic`). */
 function exact(v: number): Q {
@@ -33,4 +34,47 @@ Deno.test("printedLo() leaves integers, binary fractions and values of more than
   const lo = printedLo([0.1 + 0.2, 0.3])!;
   assert.equal(lo[0], 0);
   assert.ok(lo[1] !== 0);
+});
+
+Deno.test("printedLo() recovers decimals of 1 to 15 digits to 22 decimals, as exact rational arithmetic does", () => {
+  // Source: exact rational arithmetic (BigInt fractions), as above; seeded decimals d·10^−k.
+  const next = mulberry32Uint(16);
+  const printed: string[] = [];
+  for (let i = 0; i < 2000; i++) {
+    const digits = 1 + (next() % 15);
+    const mantissa = String(1 + (next() % 9)) + String(next()).padStart(10, "0").repeat(2);
+    const m = mantissa.slice(0, digits);
+    const point = next() % 23; // up to 22 decimals (10^22 is the largest exact power of ten)
+    const sign = next() % 2 ? "-" : "";
+    const s = point === 0 ? `${sign}${m}.5` : `${sign}${m}e-${point}`;
+    printed.push(digits < 15 || point > 0 ? s : `${sign}${m}`);
+  }
+  const values = printed.map(Number);
+  const lo = printedLo(values) ?? new Float64Array(values.length);
+  printed.forEach((s, i) => {
+    const v = values[i];
+    if (Number.isInteger(v) || Math.abs(v) >= 1e15 || !Object.is(Number(String(v)), v)) return;
+    // Only decimals of at most 15 digits that are the shortest form of their double are recovered.
+    if (String(v).replace(/^-|\.|e.*$/g, "").replace(/^0+/, "").length > 15) return;
+    const want = val(sub(dec(String(v)), exact(v)));
+    assert.ok(Math.abs(lo[i] - want) <= 1e-15 * Math.abs(want), `${s} (${v}): ${lo[i]} vs ${want}`);
+  });
+});
+
+Deno.test("PrintedColumn.block() gives the whole column's corrections, a block at a time", () => {
+  // Source: the same function value by value (each correction is independent of its neighbours).
+  const next = mulberry32Uint(7);
+  const hi = Float64Array.from({ length: 1000 }, () => (next() % 1e7) / 10 ** (next() % 9));
+  const whole = printedLo(hi)!;
+  const buf = new Float64Array(64);
+  const lazy = new PrintedColumn(hi);
+  for (let start = 0; start < hi.length; start += 64) {
+    const len = Math.min(64, hi.length - start);
+    const block = lazy.block(start, len, buf);
+    for (let i = 0; i < len; i++) {
+      assert.ok(Object.is(block[i], whole[start + i]), `row ${start + i}`);
+    }
+  }
+  assert.deepEqual(lazy.lo, whole);
+  assert.equal(new PrintedColumn(Float64Array.of(1, 2, 0.5)).lo, null);
 });

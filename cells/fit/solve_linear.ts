@@ -171,9 +171,16 @@ function product(design: readonly Float64Array[], beta: Float64Array): Float64Ar
   return out;
 }
 
-/** A term evaluated in double on the rows used. */
+/**
+ * A term evaluated in double on the rows used; a term that is a bare column
+ * is that column, read in place (no copy: see `_data.ts`).
+ */
 function evaluate(problem: FitProblem, e: Expr): Float64Array {
   const { model, n } = problem;
+  if (e.op === "id") {
+    const c = model.columns.indexOf(e.name);
+    if (c >= 0) return problem.columns[c];
+  }
   const zeros = new Float64Array(model.parameters.length);
   return compile(e, model.columns, model.parameters)(problem.columns, zeros, n);
 }

@@ -36,52 +36,45 @@ export class NumberPass implements FieldSink {
   badSamples: BadValue[][];
   /** Columns read by the scanner's fused number path (see FieldSink). */
   readonly numbers: readonly boolean[];
-  private cap: number;
-  private readonly rowsWithLo: number;
+  /** Rows the columns have room for (they grow by doubling past it). */
+  capacity: number;
   /** Some marker reads as a number (a sentinel such as -999): test markers before parsing. */
-  private readonly markersFirst: boolean;
+  readonly markersFirst: boolean;
 
   /**
    * @param bytes The file.
    * @param parse Column indexes to parse as numbers (others: skipped).
-   * @param parser The decimal parser (its `wantLo` is switched off past the limit).
+   * @param parser The decimal parser (its `wantLo` is set to `keepLo`).
    * @param markers Missing-value markers.
-   * @param loLimit Largest rows × parsed columns for which corrections are kept.
-   * @param capacity Initial row capacity.
+   * @param keepLo Whether decimal corrections are kept.
+   * @param capacity Initial row capacity (the reader gives an upper bound of the rows).
    */
   constructor(
     private readonly bytes: Uint8Array,
     parse: readonly boolean[],
     readonly parser: DecimalParser,
-    private readonly markers: MissingMarkers,
-    loLimit: number,
+    readonly markers: MissingMarkers,
+    keepLo: boolean,
     capacity: number,
   ) {
     const n = parse.length;
     this.markersFirst = markers.numeric(parser);
     this.numbers = this.markersFirst ? [] : parse;
-    const parsed = parse.filter((p) => p).length;
-    this.cap = Math.max(16, capacity);
-    this.rowsWithLo = parsed === 0 ? Infinity : Math.floor(loLimit / parsed);
-    const keepLo = parser.wantLo && this.rowsWithLo > 0;
+    this.capacity = Math.max(1, capacity);
     this.parser.wantLo = keepLo;
-    this.values = parse.map((p) => (p ? new Float64Array(this.cap) : null));
-    this.lo = parse.map((p) => (p && keepLo ? new Float64Array(this.cap) : null));
+    this.values = parse.map((p) => (p ? new Float64Array(this.capacity) : null));
+    this.lo = parse.map((p) => (p && keepLo ? new Float64Array(this.capacity) : null));
     this.numeric = new Array(n).fill(0);
     this.missing = new Array(n).fill(0);
     this.bad = new Array(n).fill(0);
     this.badSamples = Array.from({ length: n }, () => []);
   }
 
-  /** Prepares row `r` (0-based): grows the columns, drops corrections past the limit. */
+  /** Prepares row `r` (0-based): grows the columns when they are full. */
   startRow(r: number): void {
     this.row = r;
-    if (r === this.rowsWithLo) {
-      this.lo = this.lo.map(() => null);
-      this.parser.wantLo = false;
-    }
-    if (r < this.cap) return;
-    const cap = this.cap * 2;
+    if (r < this.capacity) return;
+    const cap = this.capacity * 2;
     const grow = (a: Float64Array | null) => {
       if (a === null) return null;
       const b = new Float64Array(cap);
@@ -90,7 +83,7 @@ export class NumberPass implements FieldSink {
     };
     this.values = this.values.map(grow);
     this.lo = this.lo.map(grow);
-    this.cap = cap;
+    this.capacity = cap;
   }
 
   number(col: number, x: number): void {
@@ -147,7 +140,7 @@ export class TextPass implements FieldSink {
     private readonly bytes: Uint8Array,
     text: readonly boolean[],
     rows: number,
-    private readonly markers: MissingMarkers,
+    readonly markers: MissingMarkers,
   ) {
     this.values = text.map((t) => (t ? new Array<string | null>(rows).fill(null) : null));
     this.missing = new Array(text.length).fill(0);

@@ -35,7 +35,7 @@ import { productError } from "../dd.ts";
 import { exactLo } from "./_exact_lo.ts";
 
 /** 10^0 … 10^22, each an exact double: 10^k = 5^k · 2^k and 5^22 < 2^53. */
-const POW10: Float64Array = (() => {
+export const POW10: Float64Array = (() => {
   const p = new Float64Array(23);
   let v = 1;
   for (let i = 0; i <= 22; i++) {
@@ -45,7 +45,8 @@ const POW10: Float64Array = (() => {
   return p;
 })();
 
-const MAX_EXACT = 9007199254740991; // 2^53 − 1
+/** 2^53 − 1: mantissas up to this are exact doubles (Clinger's fast path). */
+export const MAX_EXACT = 9007199254740991;
 
 /** Options of {@link DecimalParser}. */
 export interface DecimalParserOptions {

@@ -25,3 +25,4 @@ export { DecimalParser, type DecimalParserOptions, parseDecimal } from "./decima
 export { DEFAULT_LO_LIMIT, DEFAULT_MISSING } from "./_options.ts";
 export { MOSTLY_NUMBERS } from "./_typing.ts";
 export { makeNumericCsv } from "./make_numeric_csv.ts";
+export { countLineFeeds } from "./line_feeds.ts";

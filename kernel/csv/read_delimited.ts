@@ -31,9 +31,11 @@
 import { DecimalParser } from "./decimal_parser.ts";
 import { DelimitedError } from "./delimited_error.ts";
 import { decodeField, MissingMarkers } from "./_fields.ts";
-import { resolveOptions } from "./_options.ts";
+import { type ResolvedOptions, resolveOptions } from "./_options.ts";
 import { NumberPass, TextPass } from "./_passes.ts";
 import { type FieldSink, Scanner } from "./_scanner.ts";
+import { PlainRows } from "./_plain_rows.ts";
+import { recordBound } from "./line_feeds.ts";
 import { checkHeader, checkTypes, decideTypes } from "./_typing.ts";
 
 import type { ReadDelimitedOptions } from "./_options.ts";
@@ -125,17 +127,23 @@ export function readDelimited(
   const declaredText = names.map((n) => o.types[n] === "text");
   const markers = new MissingMarkers(o.missing);
   const parser = new DecimalParser({ decimal: o.decimal });
-  const estimate = Math.ceil((bytes.length - scanner.pos) / Math.max(8, scanner.pos - start)) + 1;
-  const pass1 = new NumberPass(
-    bytes,
-    declaredText.map((t) => !t),
-    parser,
-    markers,
-    o.loLimit,
-    Math.min(estimate, 1 << 20),
-  );
   const dataStart = scanner.pos;
-  const rows = scan(scanner, pass1, ncols, o.label, (f) => o.onProgress?.(0.9 * f));
+  const parse = declaredText.map((t) => !t);
+  // Room for every record at once (no growing, no trimming copy for the usual file).
+  const bound = recordBound(bytes, dataStart);
+  const parsed = parse.filter((p) => p).length;
+  const rowsWithLo = parsed === 0 ? Infinity : Math.floor(o.loLimit / parsed);
+  const progress = (f: number) => o.onProgress?.(0.9 * f);
+  let pass1 = new NumberPass(bytes, parse, parser, markers, bound < rowsWithLo, bound);
+  let rows = readRows(bytes, dataStart, o, pass1, ncols, progress);
+  if (bound >= rowsWithLo && rows < rowsWithLo) {
+    // Fewer records than the bound said (blank lines, quoted line ends) and few enough to keep
+    // their corrections: read again with them.
+    pass1 = new NumberPass(bytes, parse, parser, markers, true, rows);
+    rows = readRows(bytes, dataStart, o, pass1, ncols, progress);
+  }
+  // More records than the bound said (lone CR line ends among line feeds): too many to keep them.
+  if (rows >= rowsWithLo) pass1.lo.fill(null);
   const kinds = decideTypes(names, o.types, pass1);
   const textCols = kinds.map((k) => k === "text");
   let pass2: TextPass | null = null;
@@ -149,16 +157,77 @@ export function readDelimited(
     if (pass2 !== null && textCols[c]) {
       return { name, type: "text", values: pass2.values[c]!, missing: pass2.missing[c] };
     }
-    const lo = pass1.lo[c];
     return {
       name,
       type: "number",
-      values: pass1.values[c]!.slice(0, rows),
-      lo: lo === null ? null : lo.slice(0, rows),
+      values: exactly(pass1.values[c]!, rows),
+      lo: pass1.lo[c] === null ? null : exactly(pass1.lo[c]!, rows),
       missing: pass1.missing[c],
     };
   });
   return { rowCount: rows, columns, delimiter: o.delimiter, decimal: o.decimal };
+}
+
+/** The first `rows` values: the array itself when it has exactly that many (the usual case). */
+function exactly(a: Float64Array, rows: number): Float64Array {
+  return a.length === rows ? a : a.slice(0, rows);
+}
+
+/**
+ * Pass 1 over the data records: plain records by the fast lane
+ * (`_plain_rows.ts`), any other record by the general scanner.
+ *
+ * @returns The row count.
+ */
+function readRows(
+  bytes: Uint8Array,
+  dataStart: number,
+  o: ResolvedOptions,
+  pass: NumberPass,
+  ncols: number,
+  progress: (fraction: number) => void,
+): number {
+  const scanner = new Scanner(bytes, dataStart, o.delimByte, o.label);
+  const plain = pass.markersFirst
+    ? null
+    : new PlainRows(bytes, o.delimByte, pass.markers, pass.parser, ncols);
+  const end = bytes.length;
+  let r = 0, report = PROGRESS_EVERY;
+  for (;;) {
+    if (plain !== null) {
+      r = plain.read(scanner.pos, r, Math.min(pass.capacity, report), end, pass);
+      scanner.pos = plain.pos;
+    }
+    if (r >= report) {
+      progress(scanner.progress());
+      report += PROGRESS_EVERY;
+      continue;
+    }
+    if (!moreRecords(bytes, scanner.pos)) break;
+    const full = r === pass.capacity;
+    pass.startRow(r); // grows the columns when they are full
+    if (plain !== null && full) continue;
+    // A record the fast lane left: the general scanner reads it.
+    scanner.row = r + 1;
+    const n = scanner.next(pass);
+    if (n !== ncols) throw wrongCount(o.label, r + 1, n, ncols);
+    r++;
+  }
+  return r;
+}
+
+/** Whether a record follows `pos` (past any blank lines). */
+function moreRecords(bytes: Uint8Array, pos: number): boolean {
+  while (pos < bytes.length && (bytes[pos] === 0x0a || bytes[pos] === 0x0d)) pos++;
+  return pos < bytes.length;
+}
+
+function wrongCount(label: string, row: number, n: number, ncols: number): DelimitedError {
+  return new DelimitedError(
+    `File "${label}": row ${row} has ${n} field${n === 1 ? "" : "s"}, expected ${ncols} ` +
+      `as in the header`,
+    { row },
+  );
 }
 
 /** Runs one pass over the data records; returns the row count. */
@@ -176,13 +245,7 @@ function scan(
     scanner.row = r + 1;
     const n = scanner.next(sink);
     if (n < 0) break;
-    if (n !== ncols) {
-      throw new DelimitedError(
-        `File "${label}": row ${r + 1} has ${n} field${n === 1 ? "" : "s"}, expected ${ncols} ` +
-          `as in the header`,
-        { row: r + 1 },
-      );
-    }
+    if (n !== ncols) throw wrongCount(label, r + 1, n, ncols);
     r++;
     if (r % PROGRESS_EVERY === 0) progress(scanner.progress());
   }

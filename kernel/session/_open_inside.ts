@@ -20,10 +20,12 @@
  *
  * @module
  */
+import { createHash } from "node:crypto";
 import { promises as fsp } from "node:fs";
 import fs from "node:fs";
 import { isAbsolute, join, relative } from "node:path";
 import { CellError, type OptionPath } from "../errors.ts";
+import { countLineFeeds } from "../csv/mod.ts";
 
 /** An open data file with the status of what was opened. */
 export interface OpenedFile {
@@ -119,20 +121,56 @@ export async function openInside(
   }
 }
 
+/** What {@link readOpened} gives: the bytes, their SHA-256 and their line feeds. */
+export interface ReadBytes {
+  /** The content, in a SharedArrayBuffer (handed to the compute worker without a copy). */
+  bytes: Uint8Array;
+  /** Lower-case hex SHA-256 of `bytes`. */
+  sha256: string;
+  /** How many of the bytes are line feeds. */
+  lineFeeds: number;
+}
+
+/** Bytes read per request: big enough that requests cost nothing, small enough to overlap. */
+const CHUNK = 1 << 22;
+
 /**
- * Reads an opened file from its handle: the size fstat gave, no more (a file
- * growing meanwhile is read again on the watcher's next change).
+ * Reads an opened file from its handle into one buffer of the size fstat gave
+ * (no more: a file growing meanwhile is read again on the watcher's next
+ * change), hashing and counting line feeds chunk by chunk while the next
+ * chunk is being read.
+ *
+ * The buffer is a SharedArrayBuffer: the compute worker is handed the same
+ * memory (postMessage shares it), where a copy would cost as much again as
+ * the read, since touching new memory is what reading a large file costs
+ * (about 2.8 ms a MB on this project's machines, more than the copy itself).
+ * SHA-256 is node:crypto's (hardware SHA where the processor has it: 85 ms
+ * for 137 MB here, against 750 ms for `crypto.subtle.digest`, which also
+ * refuses shared memory).
  *
  * @param file From {@link openInside}.
- * @returns The bytes.
+ * @returns The bytes (shorter when the file shrank meanwhile), their SHA-256 and line feeds.
  */
-export async function readOpened(file: OpenedFile): Promise<Uint8Array> {
-  const bytes = new Uint8Array(file.size);
-  let at = 0;
-  while (at < file.size) {
-    const { bytesRead } = await file.handle.read(bytes, at, file.size - at, at);
-    if (bytesRead === 0) return bytes.subarray(0, at); // shrank meanwhile
-    at += bytesRead;
+export async function readOpened(file: OpenedFile): Promise<ReadBytes> {
+  const bytes = new Uint8Array(new SharedArrayBuffer(file.size));
+  const hash = createHash("sha256");
+  const readAt = (at: number) =>
+    file.handle.read(bytes, at, Math.min(CHUNK, file.size - at), at).then((r) => r.bytesRead);
+  let at = 0, lineFeeds = 0;
+  let next = file.size > 0 ? readAt(0) : null;
+  while (next !== null) {
+    const got = await next;
+    if (got === 0) break; // shrank meanwhile
+    const end = at + got;
+    next = end < file.size ? readAt(end) : null;
+    const chunk = bytes.subarray(at, end);
+    hash.update(chunk);
+    lineFeeds += countLineFeeds(chunk);
+    at = end;
   }
-  return bytes;
+  return {
+    bytes: at === file.size ? bytes : bytes.subarray(0, at),
+    sha256: hash.digest("hex"),
+    lineFeeds,
+  };
 }

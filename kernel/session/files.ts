@@ -1,6 +1,9 @@
 /**
  * Reading the data files cells name. The main thread reads them (the compute
- * worker has no permissions) and hands over bytes with their SHA-256.
+ * worker has no permissions) and hands over bytes with their SHA-256: the
+ * bytes are read once into one SharedArrayBuffer of the file's size, hashed
+ * and their line feeds counted while read (`readOpened`), and the compute
+ * worker is given that same memory, not a copy (kernel/worker/client.ts).
  *
  * A path must stay inside the document's folder: absolute paths, `..`
  * escapes and symbolic links leading out are refused, and only regular files
@@ -15,9 +18,30 @@
 import { isAbsolute, relative, resolve } from "node:path";
 import type { FileData } from "../contract/mod.ts";
 import { CellError, type OptionPath } from "../errors.ts";
-import { sha256Hex } from "../hash.ts";
+import { countLineFeeds } from "../csv/mod.ts";
 import { formatBytes } from "../format_bytes.ts";
-import { openInside, readOpened } from "./_open_inside.ts";
+import { openInside, type ReadBytes, readOpened } from "./_open_inside.ts";
+
+/** Line feeds of the bytes {@link FileStore.read} gave, counted while they were read. */
+const LINE_FEEDS = new WeakMap<Uint8Array, number>();
+
+/**
+ * Text lines in a file's bytes: its line feeds, and one more when the last
+ * line has none. Free for bytes {@link FileStore.read} gave (counted while
+ * read); other bytes are counted now.
+ *
+ * @param bytes A file's content.
+ * @returns The number of lines.
+ * @example
+ * ```ts
+ * import { lineCount } from "./files.ts";
+ * if (lineCount(new TextEncoder().encode("x\n1\n2")) !== 3) throw new Error("three lines");
+ * ```
+ */
+export function lineCount(bytes: Uint8Array): number {
+  const feeds = LINE_FEEDS.get(bytes) ?? countLineFeeds(bytes);
+  return bytes.length > 0 && bytes[bytes.length - 1] !== 10 ? feeds + 1 : feeds;
+}
 
 interface Entry {
   /** Device and inode of the file read. */
@@ -86,13 +110,15 @@ export class FileStore {
       if (hit && hit.id === file.id && hit.size === file.size && hit.mtime === file.mtime) {
         return { ...hit.data, path };
       }
-      let bytes: Uint8Array;
+      let read: ReadBytes;
       try {
-        bytes = await readOpened(file);
+        read = await readOpened(file);
       } catch (err) {
         throw new CellError(`Cannot read file "${path}": ${(err as Error).message}`, option);
       }
-      const data = { path, bytes, sha256: await sha256Hex(bytes) };
+      const { bytes, sha256, lineFeeds } = read;
+      LINE_FEEDS.set(bytes, lineFeeds);
+      const data = { path, bytes, sha256 };
       this.#cache.set(abs, { id: file.id, size: bytes.length, mtime: file.mtime, data });
       return data;
     } finally {

@@ -33,6 +33,7 @@ import type { DoneMessage } from "../worker/protocol.ts";
 import { answerReport, failedReport, heldReport } from "./_cell_report.ts";
 import { isTransient, located, type Outcome, type Prepared, type RunHost } from "./_run_parts.ts";
 import { referencedFields } from "./inline_refs.ts";
+import { lineCount } from "./files.ts";
 import { Waiting } from "./_waiting.ts";
 import type { CellReport, CellState, Plan, RunReport } from "./types.ts";
 
@@ -243,7 +244,7 @@ export class Run {
         path,
         sha256: f.sha256,
         bytes: f.bytes.length,
-        lines: countLines(f.bytes),
+        lines: lineCount(f.bytes),
       })),
       ran,
       superseded: false,
@@ -439,11 +440,4 @@ export class Run {
     if (!this.#superseded) this.#host.emit({ name: report.name, state: report.state, report });
     return report;
   }
-}
-
-/** Text lines in a file's bytes: its line feeds, and one more when the last line has none. */
-function countLines(bytes: Uint8Array): number {
-  let lines = 0;
-  for (let at = bytes.indexOf(10); at !== -1; at = bytes.indexOf(10, at + 1)) lines++;
-  return bytes.length > 0 && bytes[bytes.length - 1] !== 10 ? lines + 1 : lines;
 }

@@ -1,0 +1,278 @@
+/**
+ * The reader's fast lane: records made only of plain fields, read in one
+ * tight loop straight into the Float64Array columns.
+ *
+ * A plain record is ASCII with no quote, its fields unquoted, every number
+ * field a decimal in the reader's grammar written without spaces, every other
+ * field a missing-value marker (or a column not parsed, skipped), and exactly
+ * as many fields as the header. The loop reads such records one after the
+ * other; at the first record that is anything else (a quote, a byte ≥ 0x80, a
+ * space, a stray value, a wrong field count, no room left) it stops at that
+ * record's first byte, and the general scanner (`_scanner.ts` with
+ * `NumberPass`) reads it, with every check and message of the reader. So the
+ * lane changes nothing a caller sees, only how fast plain files go.
+ *
+ * ```
+ *  bytes ──plain record?──yes──▶ digits → m, point, exponent → Clinger's fast path → column[c][r]
+ *            │                                       (long mantissas: DecimalParser.scan)
+ *            └─no──▶ stop here; the general scanner reads this one record
+ * ```
+ *
+ * Numbers: the mantissa M is accumulated while it stays below 2^53 and the
+ * decimal exponent k = exponent − digits after the point; with |k| ≤ 22 the
+ * value is M·10^k or M/10^−k, one correctly rounded IEEE operation (Clinger
+ * 1990, "How to read floating point numbers accurately", PLDI '90, fast
+ * path), with the correction `lo` by Dekker's exact product error, exactly as
+ * `DecimalParser` computes them (`decimal_parser.ts`); any other number is
+ * handed to `DecimalParser.scan` (`Number()` and a BigInt residual).
+ *
+ * @module
+ */
+import { productError } from "../dd.ts";
+import { type DecimalParser, MAX_EXACT, POW10 } from "./decimal_parser.ts";
+import type { MissingMarkers } from "./_fields.ts";
+
+const LF = 0x0a, CR = 0x0d, QUOTE = 0x22, MINUS = 0x2d, PLUS = 0x2b;
+
+/** Where the lane writes: the pass's columns and counts (see `NumberPass`). */
+export interface PlainTarget {
+  /** Per column: its values, or null for a column not parsed (skipped). */
+  readonly values: readonly (Float64Array | null)[];
+  /** Per column: decimal corrections, or null where none are kept. */
+  readonly lo: readonly (Float64Array | null)[];
+  /** Numbers read per column. */
+  readonly numeric: number[];
+  /** Missing values per column. */
+  readonly missing: number[];
+}
+
+/** Reads plain records into a {@link PlainTarget} (see the module notes). */
+export class PlainRows {
+  /** After {@link PlainRows.read}: the first byte not read (a record's start, or the end). */
+  pos = 0;
+  readonly #bytes: Uint8Array;
+  readonly #delim: number;
+  readonly #point: number;
+  readonly #markers: MissingMarkers;
+  readonly #parser: DecimalParser;
+  /** Columns with a missing value in the record being read (committed when it is whole). */
+  readonly #holes: Int32Array;
+  /** Missing values per column in the current call, committed record by record. */
+  readonly #missed: Int32Array;
+
+  /**
+   * @param bytes The whole file.
+   * @param delim The delimiter's byte.
+   * @param markers Missing-value markers (none of which reads as a number).
+   * @param parser The decimal parser, for numbers off the fast path.
+   * @param ncols Fields per record.
+   */
+  constructor(
+    bytes: Uint8Array,
+    delim: number,
+    markers: MissingMarkers,
+    parser: DecimalParser,
+    ncols: number,
+  ) {
+    this.#bytes = bytes;
+    this.#delim = delim;
+    this.#point = parser.decimalByte;
+    this.#markers = markers;
+    this.#parser = parser;
+    this.#holes = new Int32Array(ncols);
+    this.#missed = new Int32Array(ncols);
+  }
+
+  /**
+   * Reads plain records from byte `start` as rows `row`, `row + 1`, … up to
+   * (not including) row `limit`, skipping blank lines before each.
+   *
+   * @param start A record's first byte (or blank lines before one).
+   * @param row The row index of that record.
+   * @param limit No row at or beyond this index is written.
+   * @param end One past the last byte to read.
+   * @param to The columns and counts.
+   * @returns The index of the next row; {@link PlainRows.pos} is where it starts.
+   */
+  read(start: number, row: number, limit: number, end: number, to: PlainTarget): number {
+    const missed = this.#missed;
+    missed.fill(0);
+    const r = plainLoop(this, start, row, limit, end, to.values, to.lo);
+    const read = r - row;
+    for (let c = 0; c < missed.length; c++) {
+      if (to.values[c] === null) continue;
+      to.numeric[c] += read - missed[c];
+      to.missing[c] += missed[c];
+    }
+    return r;
+  }
+
+  /** The field is a missing-value marker (or empty). */
+  marker(start: number, end: number): boolean {
+    return this.#markers.test(this.#bytes, start, end);
+  }
+
+  /** A number off the fast path (`DecimalParser.scan`); NaN unless it ends at `stop`. */
+  slow(start: number, stop: number, end: number): number {
+    const x = this.#parser.scan(this.#bytes, start, end);
+    this.lo = this.#parser.lo;
+    return this.#parser.stop === stop ? x : NaN;
+  }
+
+  /** The correction of the last {@link PlainRows.slow} number. */
+  lo = 0;
+
+  /** The lane's fixed inputs, for {@link plainLoop}. */
+  get bytes(): Uint8Array {
+    return this.#bytes;
+  }
+  get delim(): number {
+    return this.#delim;
+  }
+  get point(): number {
+    return this.#point;
+  }
+  get holes(): Int32Array {
+    return this.#holes;
+  }
+  get missed(): Int32Array {
+    return this.#missed;
+  }
+}
+
+/**
+ * The lane's loop (a function of its own, so the engine optimises it alone):
+ * reads plain records into `values` and `los` from row `row`; sets
+ * `lane.pos` and returns the next row (see {@link PlainRows.read}).
+ */
+function plainLoop(
+  lane: PlainRows,
+  start: number,
+  row: number,
+  limit: number,
+  end: number,
+  values: readonly (Float64Array | null)[],
+  los: readonly (Float64Array | null)[],
+): number {
+  const b = lane.bytes, D = lane.delim, P = lane.point;
+  const n = values.length, last = n - 1;
+  const holes = lane.holes, missed = lane.missed;
+  let pos = start, r = row, rowStart = start;
+  rows: while (r < limit) {
+    while (pos < end && (b[pos] === LF || b[pos] === CR)) pos++;
+    if (pos >= end) break;
+    rowStart = pos;
+    let nh = 0;
+    for (let c = 0; c < n; c++) {
+      const v = values[c];
+      const fieldStart = pos;
+      let i = pos, number = false;
+      if (v !== null) {
+        // [+-]? digits [point digits]? ([eE] [+-]? digits)?  (or [+-]? point digits …)
+        let neg = false;
+        const ch = i < end ? b[i] : -1;
+        if (ch === MINUS || ch === PLUS) {
+          neg = ch === MINUS;
+          i++;
+        }
+        let m = 0, exact = true, digits = 0, frac = 0;
+        for (; i < end; i++) {
+          const d = b[i] - 0x30;
+          if (d < 0 || d > 9) break;
+          digits++;
+          const t = m * 10 + d;
+          if (t > MAX_EXACT) exact = false;
+          else m = t;
+        }
+        if (i < end && b[i] === P) {
+          for (i++; i < end; i++) {
+            const d = b[i] - 0x30;
+            if (d < 0 || d > 9) break;
+            digits++;
+            frac++;
+            const t = m * 10 + d;
+            if (t > MAX_EXACT) exact = false;
+            else m = t;
+          }
+        }
+        if (digits > 0) {
+          let exp = 0, expDigits = 0;
+          if (i < end && (b[i] | 0x20) === 0x65) {
+            i++;
+            let eneg = false;
+            if (i < end && (b[i] === MINUS || b[i] === PLUS)) {
+              eneg = b[i] === MINUS;
+              i++;
+            }
+            for (; i < end; i++) {
+              const d = b[i] - 0x30;
+              if (d < 0 || d > 9) break;
+              expDigits++;
+              if (exp < 100000) exp = exp * 10 + d;
+            }
+            if (expDigits === 0) break rows; // "1e": not a number; the scanner says so
+            if (eneg) exp = -exp;
+          }
+          const k = exp - frac;
+          let hi: number, lo = 0;
+          const lc = los[c];
+          if (exact && k >= -22 && k <= 22) {
+            if (k >= 0) {
+              const p = POW10[k];
+              hi = m * p;
+              if (lc !== null) lo = productError(m, p, hi);
+            } else {
+              const p = POW10[-k];
+              hi = m / p;
+              if (lc !== null) {
+                const ph = hi * p;
+                lo = ((m - ph) - productError(hi, p, ph)) / p;
+              }
+            }
+            if (neg) {
+              hi = -hi;
+              lo = 0 - lo; // 0 - 0 is +0: no negative-zero corrections
+            }
+          } else {
+            hi = lane.slow(fieldStart, i, end);
+            if (hi !== hi) break rows;
+            lo = lane.lo;
+          }
+          v[r] = hi;
+          if (lc !== null) lc[r] = lo;
+          number = true;
+        }
+      }
+      if (!number) {
+        // Not a number (or a column not parsed): the field must be plain ASCII.
+        for (; i < end; i++) {
+          const ch = b[i];
+          if (ch === D || ch === LF || ch === CR) break;
+          if (ch === QUOTE || ch >= 0x80) break rows;
+        }
+        if (v !== null) {
+          if (!lane.marker(fieldStart, i)) break rows; // a stray value: the scanner keeps it
+          v[r] = NaN;
+          holes[nh++] = c;
+        }
+      }
+      // The field's end: the delimiter, or after the last field a line end (or the end).
+      if (c < last) {
+        if (i >= end || b[i] !== D) break rows;
+        pos = i + 1;
+      } else if (i < end) {
+        const ch = b[i];
+        if (ch === LF) pos = i + 1;
+        else if (ch === CR) pos = i + 1 < end && b[i + 1] === LF ? i + 2 : i + 1;
+        else break rows;
+      } else {
+        pos = i;
+      }
+    }
+    for (let h = 0; h < nh; h++) missed[holes[h]]++;
+    r++;
+    rowStart = pos;
+  }
+  lane.pos = rowStart;
+  return r;
+}
