@@ -15,10 +15,11 @@ import type { TableSpec } from "./spec.ts";
  *
  * @param spec The spec (its exclusions).
  * @param rowsRead Number of data rows read.
- * @returns Kept row indexes, ascending.
+ * @returns Kept row indexes, ascending; null when nothing is excluded (every row is kept).
  * @throws {CellError} On ["exclude", i, "rows", j] for a row beyond the data.
  */
-export function keptAfterExclusions(spec: TableSpec, rowsRead: number): Int32Array {
+export function keptAfterExclusions(spec: TableSpec, rowsRead: number): Int32Array | null {
+  if (spec.exclude.length === 0) return null;
   const out = new Uint8Array(rowsRead).fill(1);
   spec.exclude.forEach((entry, i) => {
     entry.rows.forEach((r, j) => {
@@ -48,6 +49,9 @@ export function indexesOf(flags: Uint8Array): Int32Array {
   return idx;
 }
 
+/** Stands for every row in {@link gather} (never indexed). */
+const EVERY = new Int32Array(0);
+
 function countNaN(v: Float64Array): number {
   let m = 0;
   for (let i = 0; i < v.length; i++) if (v[i] !== v[i]) m++;
@@ -59,18 +63,19 @@ function countNaN(v: Float64Array): number {
  * its missing count taken over those rows.
  *
  * @param c The column as read (or as built).
- * @param idx Row indexes to keep.
+ * @param idx Row indexes to keep; null for all of them.
  * @param total Number of rows `c` has.
  * @param unit The column's unit, or null.
  * @returns The column over the kept rows.
  */
 export function gather(
   c: DelimitedColumn | Column,
-  idx: Int32Array,
+  idx: Int32Array | null,
   total: number,
   unit: string | null,
 ): Column {
-  const all = idx.length === total;
+  if (idx === null) idx = EVERY;
+  const all = idx === EVERY || idx.length === total;
   if (c.type === "number") {
     const values = all ? c.values : gatherValues(c.values, idx);
     const lo = c.lo === null ? null : all ? c.lo : gatherValues(c.lo, idx);

@@ -29,12 +29,9 @@ export interface TableOutput extends Table {
   rowsFiltered: number;
 }
 
-function applyWhere(spec: TableSpec, columns: Column[], rows: Int32Array): Int32Array {
-  if (spec.where === null) {
-    const all = new Int32Array(rows.length);
-    for (let i = 0; i < all.length; i++) all[i] = i;
-    return all;
-  }
+/** Indexes of the rows the filter keeps; null without a filter (every row). */
+function applyWhere(spec: TableSpec, columns: Column[], rows: Int32Array): Int32Array | null {
+  if (spec.where === null) return null;
   const numeric = columns.filter((c): c is NumberColumn => c.type === "number");
   const text = columns.filter((c) => c.type === "text").map((c) => c.name);
   try {
@@ -70,14 +67,14 @@ export function runTable(spec: TableSpec, ctx: RunContext): TableOutput {
   const columns = data.columns.map((c) =>
     gather(c, kept, data.rowCount, ownValue(spec.units, c.name) ?? null)
   );
-  const source = new Int32Array(kept.length);
-  for (let k = 0; k < kept.length; k++) source[k] = kept[k] + 1;
+  const source = new Int32Array(kept === null ? data.rowCount : kept.length);
+  if (kept === null) { for (let k = 0; k < source.length; k++) source[k] = k + 1; }
+  else for (let k = 0; k < source.length; k++) source[k] = kept[k] + 1;
   addDerived(spec.derive, columns, source, spec.units, ctx.warn);
   const pass = applyWhere(spec, columns, source);
-  const final = pass.length === source.length
-    ? columns
-    : columns.map((c) => gather(c, pass, source.length, c.unit));
-  const rows = pass.length === source.length ? source : gatherInt(source, pass);
+  const all = pass === null || pass.length === source.length;
+  const final = all ? columns : columns.map((c) => gather(c, pass, source.length, c.unit));
+  const rows = all ? source : gatherInt(source, pass);
   if (spec.where !== null && rows.length === 0 && source.length > 0) {
     ctx.warn(`Filter "${spec.where}" keeps no rows`);
   }
