@@ -191,11 +191,10 @@ function readRows(
   const plain = pass.markersFirst
     ? null
     : new PlainRows(bytes, o.delimByte, pass.markers, pass.parser, ncols);
-  const end = bytes.length;
   let r = 0, report = PROGRESS_EVERY;
   for (;;) {
     if (plain !== null) {
-      r = plain.read(scanner.pos, r, Math.min(pass.capacity, report), end, pass);
+      r = plain.read(scanner.pos, r, Math.min(pass.capacity, report), pass);
       scanner.pos = plain.pos;
     }
     if (r >= report) {
