@@ -72,7 +72,7 @@ export interface ScaleFigure {
     peer_read: Timed | null;
     peer_start: Timed | null;
   };
-  ingest_mb_per_second: number;
+  ingest_mb_per_second: number | null;
   peer_ingest_mb_per_second: number | null;
   ingest_ratio: number | null;
   run_ratio: number | null;
@@ -198,7 +198,9 @@ export async function scaleFigures(root: URL, options: ScaleOptions = {}): Promi
   }
   const [run, json, table, empty, fit, read, start] = series.map((s) => s.figure());
   const mb = csv.bytes / 1e6;
-  const rate = (a: Timed, b: Timed) => round(mb / ((a.median_ms - b.median_ms) / 1000));
+  // Null when the difference is lost in the machine's noise (a small file on a busy machine).
+  const rate = (a: Timed, b: Timed) =>
+    a.median_ms > b.median_ms ? round(mb / ((a.median_ms - b.median_ms) / 1000)) : null;
   const ingest = rate(table, empty);
   const peerIngest = fit ? rate(read, start) : null;
   const ratio = (a: number, b: number | undefined) => (b ? round(a / b) : null);
@@ -220,7 +222,7 @@ export async function scaleFigures(root: URL, options: ScaleOptions = {}): Promi
     },
     ingest_mb_per_second: ingest,
     peer_ingest_mb_per_second: peerIngest,
-    ingest_ratio: peerIngest === null ? null : round(peerIngest / ingest),
+    ingest_ratio: peerIngest === null || ingest === null ? null : round(peerIngest / ingest),
     run_ratio: ratio(run.median_ms, fit?.median_ms),
     json_ratio: ratio(json.median_ms, fit?.median_ms),
     json_over_run: round(json.median_ms / run.median_ms),
