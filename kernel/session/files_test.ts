@@ -7,7 +7,7 @@
  */
 import { equal, rejects } from "node:assert/strict";
 import { CellError } from "../errors.ts";
-import { FileStore } from "./files.ts";
+import { FileStore, lineCount } from "./files.ts";
 
 async function withFolder(fn: (dir: string, root: string) => Promise<void>) {
   const root = await Deno.makeTempDir({ prefix: "plumb-files-" });
@@ -87,5 +87,22 @@ Deno.test("FileStore.read() gives the cached bytes for an unchanged file, new by
         `File "data/a.csv" is 4 bytes, over the limit of 3 bytes (set max_file_size in the front matter to raise it)`,
       ),
     );
+  });
+});
+
+Deno.test("FileStore.read() reads into shared memory once, hashing and counting lines as it reads", async () => {
+  // Source: SHA-256 by crypto.subtle over a copy (FIPS 180-4); lines counted by splitting the text.
+  await withFolder(async (dir) => {
+    const text = Array.from({ length: 250_000 }, (_, i) => `${i},${i / 7}`).join("\n"); // > 4 MiB: two chunks
+    await Deno.writeTextFile(`${dir}/big.csv`, text);
+    const store = new FileStore(dir);
+    const data = await store.read("big.csv", ["from"], 1 << 30);
+    equal(data.bytes.buffer instanceof SharedArrayBuffer, true);
+    equal(data.bytes.length, new TextEncoder().encode(text).length);
+    const digest = new Uint8Array(await crypto.subtle.digest("SHA-256", data.bytes.slice()));
+    equal(data.sha256, Array.from(digest, (b) => b.toString(16).padStart(2, "0")).join(""));
+    equal(lineCount(data.bytes), text.split("\n").length); // no final line feed: one more line
+    equal(lineCount(new TextEncoder().encode("a\nb\n")), 2);
+    equal(lineCount(new Uint8Array()), 0);
   });
 });

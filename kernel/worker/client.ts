@@ -158,6 +158,8 @@ export class ComputeWorker {
     const files: Record<string, string> = {};
     for (const [path, f] of Object.entries(job.files)) {
       if (!this.#files.has(f.sha256)) {
+        // Bytes in a SharedArrayBuffer (FileStore reads them so) cross as that same memory, not a
+        // copy: 137 MB copied cost 0.75 s here. Both sides only read them.
         this.#post({ op: "file", sha256: f.sha256, path, bytes: f.bytes });
         this.#files.add(f.sha256);
       }

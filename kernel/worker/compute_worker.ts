@@ -32,7 +32,11 @@ import {
   transientAnswer,
 } from "./protocol.ts";
 
-/** Keeps a file's content under its SHA-256 (sent once per distinct content). */
+/**
+ * Keeps a file's content under its SHA-256 (sent once per distinct content):
+ * a view of the main thread's SharedArrayBuffer when the file store read it
+ * so (kernel/session/files.ts), never written to by either side.
+ */
 function storeFile(store: WorkerStore, msg: FileMessage): void {
   store.files.set(msg.sha256, { path: msg.path, bytes: msg.bytes, sha256: msg.sha256 });
 }
