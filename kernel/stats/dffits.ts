@@ -28,10 +28,5 @@ export function dffits(external: readonly (number | null)[], hat: Float64Array):
       `Cannot compute DFFITS: ${external.length} residuals, ${hat.length} hat values`,
     );
   }
-  const out = new Array<number | null>(external.length);
-  for (let i = 0; i < external.length; i++) {
-    const t = external[i];
-    out[i] = t === null ? null : t * Math.sqrt(hat[i] / (1 - hat[i]));
-  }
-  return out;
+  return external.map((t, i) => t === null ? null : t * Math.sqrt(hat[i] / (1 - hat[i])));
 }

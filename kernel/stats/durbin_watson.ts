@@ -20,33 +20,17 @@
  * denominator; Durbin & Watson 1950, §3). The traces use an orthonormal basis
  * Q₁ of the design (H = Q₁Q₁ᵀ), never an n×n matrix:
  * tr(MA) = tr(A) − Σₖ qₖᵀAqₖ and tr((MA)²) = tr(A²) − 2Σₖ‖Aqₖ‖² + ‖Q₁ᵀAQ₁‖²_F,
- * with tr(A) = 2(n − 1), tr(A²) = 6n − 8, all summed in one pass over
- * Q₁'s rows (`_dw_traces.ts`); beyond {@link EXACT_DF} df a caller may give
- * those rows through the fit's factor instead of the basis, which is then
- * never formed (1,000,000 × 11: p n-long columns and O(np²) work saved,
- * issue 16). Both one-sided p-values are given: P(d ≤ observed) against
- * positive serial correlation (drift in measurements taken in sequence) and
- * P(d ≥ observed) against negative correlation (alternation). Rows are taken
- * in the fit's row order; a weighted fit uses √wᵢ·eᵢ and √W·X.
+ * with tr(A) = 2(n − 1), tr(A²) = 6n − 8. Both one-sided p-values are
+ * given: P(d ≤ observed) against positive serial correlation (drift in
+ * measurements taken in sequence) and P(d ≥ observed) against negative
+ * correlation (alternation). Rows are taken in the fit's row order; a
+ * weighted fit uses √wᵢ·eᵢ and √W·X.
  *
  * @module
  */
 import { orthonormalBasis } from "./_orthonormal_basis.ts";
 import { regularizedBeta } from "./incomplete_beta.ts";
 import { durbinWatsonCdf } from "./durbin_watson_exact.ts";
-import { type DesignTraces, tracesOfBasis } from "./_dw_traces.ts";
-
-export type { DesignTraces } from "./_dw_traces.ts";
-
-/**
- * What the moments can be read from without the basis: the design's rank and
- * the traces from Q₁'s rows (`_dw_traces.ts` `TraceSums`, e.g. through a
- * fit's factor with kernel/linalg `qRows`), computed only when asked.
- */
-export interface RowTraces {
-  rank: number;
-  traces(): DesignTraces;
-}
 
 /** Residual degrees of freedom up to which the distribution is computed exactly (about 12 ms at 2,000). */
 export const EXACT_DF = 2000;
@@ -87,6 +71,24 @@ export function durbinWatson(residuals: ArrayLike<number>): number | null {
   return residuals.length > 1 && den > 0 ? num / den : null;
 }
 
+/** A·q for the differencing matrix A = DᵀD. */
+function applyDifference(q: Float64Array): Float64Array {
+  const n = q.length, out = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let v = 0;
+    if (i > 0) v += q[i] - q[i - 1];
+    if (i < n - 1) v += q[i] - q[i + 1];
+    out[i] = v;
+  }
+  return out;
+}
+
+function dot(a: Float64Array, b: Float64Array): number {
+  let s = 0;
+  for (let i = 0; i < a.length; i++) s += a[i] * b[i];
+  return s;
+}
+
 /**
  * Durbin–Watson d with its exact null mean and variance for this design and
  * both one-sided p-values from its null distribution.
@@ -95,10 +97,7 @@ export function durbinWatson(residuals: ArrayLike<number>): number | null {
  * @param design The model's design (or Jacobian) columns.
  * @param weights wᵢ per row, or null.
  * @param basis An orthonormal basis of the (√w-scaled) design's column space
- *   when the caller has one (`orthonormalBasis(design, weights)`), or a function
- *   that makes it when asked; else made here.
- * @param rows The rank and the traces without the basis: used beyond
- *   {@link EXACT_DF} residual df, where the basis is then never made.
+ *   when the caller has one (`orthonormalBasis(design, weights)`); else made here.
  * @returns The test, or null when d does not exist or n − p < 1.
  * @example
  * ```ts
@@ -114,29 +113,30 @@ export function durbinWatsonTest(
   residuals: Float64Array,
   design: readonly Float64Array[],
   weights: Float64Array | null,
-  basis?: readonly Float64Array[] | (() => readonly Float64Array[]),
-  rows?: RowTraces,
+  basis?: readonly Float64Array[],
 ): DurbinWatsonTest | null {
   const n = residuals.length;
   const e = weights ? residuals.map((v, i) => v * Math.sqrt(weights[i])) : residuals;
   const d = durbinWatson(e);
   if (d === null) return null;
-  let q: readonly Float64Array[] | null = null;
-  const made = () =>
-    q ??= typeof basis === "function" ? basis() : basis ?? orthonormalBasis(design, weights);
-  const m = n - (rows?.rank ?? made().length);
+  basis ??= orthonormalBasis(design, weights);
+  const m = n - basis.length;
   if (m < 1) return null;
-  const exact = m <= EXACT_DF;
-  const { trHA, trHA2, trHAHA } = rows !== undefined && !exact
-    ? rows.traces()
-    : tracesOfBasis(made(), n);
+  const aq = basis.map(applyDifference);
+  let trHA = 0, trHA2 = 0, trHAHA = 0;
+  basis.forEach((qk, k) => {
+    trHA += dot(qk, aq[k]);
+    trHA2 += dot(aq[k], aq[k]);
+    basis.forEach((ql) => trHAHA += dot(ql, aq[k]) ** 2);
+  });
   const P = 2 * (n - 1) - trHA;
   const Q = 6 * n - 8 - 2 * trHA2 + trHAHA;
   const expected = P / m;
   const variance = 2 * (m * Q - P * P) / (m * m * (m + 2));
   const z = variance > 0 ? (d - expected) / Math.sqrt(variance) : 0;
+  const exact = m <= EXACT_DF;
   const below = exact
-    ? durbinWatsonCdf(d, made(), n, Q - 2 * d * P + d * d * m)
+    ? durbinWatsonCdf(d, basis, n, Q - 2 * d * P + d * d * m)
     : betaCdf(d, expected, variance);
   return {
     statistic: d,

@@ -40,17 +40,13 @@ export { type StudentizedResiduals, studentizedResiduals } from "./studentized_r
 export { cooksDistance } from "./cooks_distance.ts";
 export { dffits } from "./dffits.ts";
 export { varianceInflation, type VifForm, vifForm } from "./variance_inflation.ts";
-export { varianceInflationOfFactor } from "./variance_inflation_of_factor.ts";
 export { conditionNumber } from "./condition_number.ts";
-export { conditionNumberOfFactor } from "./condition_number_of_factor.ts";
 export {
   durbinWatson,
   type DurbinWatsonTest,
   durbinWatsonTest,
   EXACT_DF as DURBIN_WATSON_EXACT_DF,
-  type RowTraces,
 } from "./durbin_watson.ts";
-export { tracesOfFactor as durbinWatsonTracesOfFactor } from "./_dw_traces.ts";
 export { durbinWatsonCdf } from "./durbin_watson_exact.ts";
 export {
   type BreuschPagan,
@@ -61,7 +57,6 @@ export {
 export { type ShapiroWilk, shapiroWilk } from "./shapiro_wilk.ts";
 export { type JarqueBera, jarqueBera } from "./jarque_bera.ts";
 export { type SignRuns, signRuns } from "./sign_runs.ts";
-export { orderBy } from "./_order_by.ts";
 export { ramseyReset, type Reset } from "./ramsey_reset.ts";
 export { type LackOfFit, lackOfFit } from "./lack_of_fit.ts";
 export {

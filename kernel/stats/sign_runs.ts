@@ -39,10 +39,10 @@ export interface SignRuns {
  * ```
  */
 export function signRuns(residuals: ArrayLike<number>, order?: ArrayLike<number>): SignRuns | null {
+  const idx = order ?? Array.from({ length: residuals.length }, (_, i) => i);
   let runs = 0, positive = 0, negative = 0, last = 0;
-  const count = order ? order.length : residuals.length;
-  for (let k = 0; k < count; k++) {
-    const s = Math.sign(residuals[order ? order[k] : k]);
+  for (let k = 0; k < idx.length; k++) {
+    const s = Math.sign(residuals[idx[k]]);
     if (s === 0) continue;
     if (s > 0) positive++;
     else negative++;

@@ -56,26 +56,22 @@ export function studentizedResiduals(
   if (n <= p) {
     throw new RangeError(`Cannot studentize residuals: ${n} rows for ${p} parameters`);
   }
-  // One pass for s, one for both residuals, into arrays of their final length (no per-row growth).
-  const e = weights === null ? residuals : new Float64Array(n);
+  const e = weights ? residuals.map((v, i) => v * Math.sqrt(weights[i])) : residuals;
   let rss = 0;
-  for (let i = 0; i < n; i++) {
-    if (weights !== null) e[i] = residuals[i] * Math.sqrt(weights[i]);
-    rss += e[i] * e[i];
-  }
+  for (const v of e) rss += v * v;
   const df = n - p;
   const sigma = Math.sqrt(rss / df);
-  const internal = new Array<number | null>(n), external = new Array<number | null>(n);
+  const internal: (number | null)[] = [], external: (number | null)[] = [];
   for (let i = 0; i < n; i++) {
     const gap = 1 - hat[i];
     if (gap < LEVERAGE_ONE_TOLERANCE) {
-      internal[i] = null;
-      external[i] = null;
+      internal.push(null);
+      external.push(null);
       continue;
     }
-    internal[i] = sigma > 0 ? e[i] / (sigma * Math.sqrt(gap)) : null;
+    internal.push(sigma > 0 ? e[i] / (sigma * Math.sqrt(gap)) : null);
     const loo = df > 1 ? (rss - e[i] * e[i] / gap) / (df - 1) : NaN;
-    external[i] = loo > 0 ? e[i] / Math.sqrt(loo * gap) : null;
+    external.push(loo > 0 ? e[i] / Math.sqrt(loo * gap) : null);
   }
   return { internal, external, sigma };
 }
