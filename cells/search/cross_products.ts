@@ -92,6 +92,7 @@ export function crossProducts(columns: readonly Float64Array[], centred: boolean
     for (let j = i; j < m; j++) {
       a[i * m + j] = norm[i] > 0 && norm[j] > 0 ? a[i * m + j] / norm[i] / norm[j] : 0;
     }
+    if (norm[i] > 0) a[i * m + i] = 1;
   }
   return { m, a, sumOfSquares };
 }

@@ -43,20 +43,29 @@ export function searchLine(r: SearchResult): string {
 }
 
 /**
- * The best model of each size, one line each: `3 candidates: temp + feed + age, BIC 815.1 (Δ 2.7)`.
+ * The best model of each size, one line each, by the candidates it chose:
+ * `3 candidates: temp + feed + age, BIC 815.1 (Δ 2.7)`; first, when some
+ * columns are in every model, a line naming them.
  *
  * @param r The search result.
  * @returns The lines.
  */
 export function searchDetails(r: SearchResult): string[] {
-  return r.sizes.flatMap((s) => {
-    const m = s.best[0];
-    if (m === undefined) return [];
-    const size = `${s.size} ${s.size === 1 ? "candidate" : "candidates"}`;
-    return [
-      `${size}: ${predictorsText(m)}, ${r.criterion} ${value(m.criterion)} (Δ ${
-        formatNumber(m.delta, 3)
-      })`,
-    ];
-  });
+  const held = r.always.length > 0 ? [`every model holds ${r.always.join(" + ")}`] : [];
+  return [
+    ...held,
+    ...r.sizes.flatMap((s) => {
+      const m = s.best[0];
+      if (m === undefined) return [];
+      const size = `${s.size} ${s.size === 1 ? "candidate" : "candidates"}`;
+      const chosen = m.chosen.length > 0
+        ? m.chosen.join(" + ")
+        : r.always.length > 0 || !r.intercept
+        ? "none"
+        : "intercept only";
+      return [
+        `${size}: ${chosen}, ${r.criterion} ${value(m.criterion)} (Δ ${formatNumber(m.delta, 3)})`,
+      ];
+    }),
+  ];
 }

@@ -28,14 +28,15 @@ const LIVE = typeof globalThis.document !== "undefined" &&
  * @returns The block's content.
  * @example
  * ```ts
+ * import { h } from "preact";
  * import { renderToString } from "preact-render-to-string";
  * import { SearchView } from "./view.tsx";
- * const html = renderToString(SearchView({ name: "s", result: {
+ * const html = renderToString(h(SearchView, { name: "s", result: {
  *   on: "t", response: "y", response_unit: null, by: "bic", criterion: "BIC",
  *   larger_is_better: false, candidates: ["x"], always: [], intercept: true, n: 3, keep: 5,
  *   largest: 1, subsets_evaluated: 2, aliased: 0, aliased_examples: [], exact: true,
  *   k_convention: "k = p + 1", count_variance: true, best: [], sizes: [], method: "By sweeps",
- * } }));
+ * } as never }));
  * if (!html.includes("No subset could be ranked")) throw new Error(html);
  * ```
  */
@@ -152,7 +153,12 @@ function columnTexts(r: SearchResult, models: SearchModel[]): string[][] {
   ];
   if (r.by !== "adj_r2") columns.push([(m) => m.adj_r2, near]);
   if (r.by !== "loo") columns.push([(m) => m.loo_rmse, sig(4)]);
-  const byColumn = columns.map(([get, format]) => distinctTexts(models.map(get), format));
+  // Subsets with one column space (x1 + x2 and x1 + x12 when x12 = x1 + x2) tie up to rounding:
+  // 12 digits keep every real difference and print such ties alike.
+  const tie = (x: number | null) => x === null ? null : Number(x.toPrecision(12));
+  const byColumn = columns.map(([get, format]) =>
+    distinctTexts(models.map((m) => tie(get(m))), format)
+  );
   return models.map((_, i) => byColumn.map((c) => c[i]));
 }
 
@@ -171,9 +177,7 @@ function verdict(r: SearchResult): string {
   const next = r.best[1];
   const second = next === undefined
     ? ""
-    : ` The next, ${modelWords(next)}, is ${formatNumber(next.delta, 3)} ${
-      r.larger_is_better ? "lower" : "higher"
-    }.`;
+    : ` The next: ${modelWords(next)} (Δ ${r.criterion} ${formatNumber(next.delta, 3)}).`;
   return `Best by ${r.criterion}: ${modelWords(best)} (${r.criterion} ${value}, k ${best.k}) of ${
     r.subsets_evaluated.toLocaleString("en-US")
   } subsets of ${r.candidates.length} candidates on ${r.n.toLocaleString("en-US")} rows.${second}`;
