@@ -7,7 +7,12 @@
 import type { SearchModel, SearchResult } from "./result.ts";
 import { formatNumber } from "../shared/format.ts";
 
-/** A model's predictors in words: `temp + feed`, or `intercept only`. */
+/**
+ * A model's predictors in words.
+ *
+ * @param m The model.
+ * @returns `temp + feed`, or `intercept only` for a model of none.
+ */
 export function predictorsText(m: SearchModel): string {
   return m.predictors.length > 0 ? m.predictors.join(" + ") : "intercept only";
 }

@@ -100,7 +100,6 @@ function ModelTable(props: {
     ...(r.by === "adj_r2" ? [] : ["adjusted R²"]),
     ...(r.by === "loo" || !r.loo_given ? [] : ["LOO RMSE"]),
   ];
-  let rank = 0;
   return (
     <table class="plumb-search-models">
       <caption>{props.caption}</caption>
@@ -112,7 +111,6 @@ function ModelTable(props: {
       </thead>
       <tbody>
         {rows.map((row, i) => {
-          rank = row.size ? 1 : rank + 1;
           const first = bySize ? (row.size ? String(row.size.size) : "") : String(i + 1);
           return (
             <tr key={i} class={row.m === r.best[0] ? "plumb-search-best" : undefined}>
