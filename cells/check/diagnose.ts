@@ -5,12 +5,25 @@
  *  Fit ─ design (or Jacobian), weights, residuals
  *   ├─ fitLeverage (once per fit) ─┬─ studentized (internal, external) ─ Cook's D, DFFITS
  *   │                              └─ PRESS
- *   ├─ fitFactor ─ robust covariance, t, p, intervals (option; robust.ts)
- *   ├─ VIF, condition number, Durbin–Watson, RESET (on the design)
- *   ├─ Breusch–Pagan (on the design; on 1 and ŷ for a nonlinear fit)
+ *   ├─ fitFactor ─┬─ robust covariance, t, p, intervals (option; robust.ts)
+ *   │             └─ VIF, condition number (R̃ only: no auxiliary regression)
+ *   ├─ Durbin–Watson: moments from Q₁'s rows through the factor, or fitBasis
+ *   │  for the exact law (up to 2,000 residual df; then the beta law)
+ *   ├─ designQR (linear fits) ─ RESET, Breusch–Pagan (only the added vectors through Qᵀ)
+ *   ├─ Breusch–Pagan on 1 and ŷ for a nonlinear fit
  *   ├─ Shapiro–Wilk, Jarque–Bera (on √w·e), runs (signs in x order), lack of fit (replicates)
  *   └─ findings (findings.ts)
  * ```
+ *
+ * Every step is linear in the rows n (issue 16: 1,000,000 × 10 in 12–15 s
+ * before, see check_bench.ts): VIF and the condition number come from the
+ * fit's p × p factor (kernel/stats `varianceInflationOfFactor`,
+ * `conditionNumberOfFactor`; the auxiliary regressions of
+ * `varianceInflation` and the QR of `conditionNumber` remain for a
+ * rank-deficient Jacobian, where the factor covers fewer columns); RESET
+ * and Breusch–Pagan carry only their added vectors through the fit's Qᵀ;
+ * lack of fit groups rows by hashing (kernel/stats `lack_of_fit.ts`); the
+ * runs test orders rows by x with a radix sort (kernel/stats `orderBy`).
  *
  * Weighted fits use √wᵢ-scaled residuals and design throughout. Nonlinear
  * fits use the Jacobian at the solution (Fit.design holds it) over the
@@ -27,20 +40,26 @@ import {
   breuschPagan,
   breuschPaganOnFitted,
   conditionNumber,
+  conditionNumberOfFactor,
   cooksDistance,
   dffits,
   durbinWatsonTest,
+  durbinWatsonTracesOfFactor,
   jarqueBera,
   lackOfFit,
+  orderBy,
   press,
   ramseyReset,
+  type RowTraces,
   shapiroWilk,
   signRuns,
   studentizedResiduals,
   varianceInflation,
+  varianceInflationOfFactor,
   vifForm,
 } from "../../kernel/stats/mod.ts";
-import { type Fit, fitBasis, fitLeverage } from "../fit/mod.ts";
+import type { QRFactorization } from "../../kernel/linalg/mod.ts";
+import { type Fit, fitBasis, fitFactor, fitLeverage } from "../fit/mod.ts";
 import type { CheckSpec } from "./spec.ts";
 import type { CheckResult } from "./result.ts";
 import { findingsOf } from "./findings.ts";
@@ -62,8 +81,9 @@ export function diagnose(fit: Fit, spec: CheckSpec, level: number): CheckResult 
   const st = studentizedResiduals(residuals, h, p, weights);
   const we = weights ? residuals.map((e, i) => e * Math.sqrt(weights[i])) : residuals;
   const loo = press(residuals, h, weights);
-  const dw = durbinWatsonTest(residuals, design, weights, fitBasis(fit));
+  const dw = durbinWatsonTest(residuals, design, weights, () => fitBasis(fit), rowsOf(fit));
   const free = freeColumns(fit);
+  const qr = ownQR(fit);
   const base: Omit<CheckResult, "findings"> = {
     fit: spec.fit,
     n,
@@ -80,9 +100,9 @@ export function diagnose(fit: Fit, spec: CheckSpec, level: number): CheckResult 
     studentized_external: st.external,
     cooks_distance: cooksDistance(st.internal, h, p),
     dffits: dffits(st.external, h),
-    vif: varianceInflation(free.design, free.names, weights),
+    vif: vifOf(fit, free),
     vif_form: vifForm(free.design),
-    condition_number: conditionNumber(free.design, weights),
+    condition_number: conditionOf(fit, free),
     durbin_watson: dw?.statistic ?? null,
     durbin_watson_test: dw && {
       expected: dw.expected,
@@ -92,10 +112,10 @@ export function diagnose(fit: Fit, spec: CheckSpec, level: number): CheckResult 
       p_value_negative: dw.p_value_negative,
       distribution: dw.distribution,
     },
-    breusch_pagan: varianceTest(fit, spec),
+    breusch_pagan: varianceTest(fit, spec, qr),
     shapiro_wilk: n >= 3 && n <= 5000 && spread(we) ? shapiroWilk(we) : null,
     jarque_bera: jarqueBera(we),
-    reset: ramseyReset(residuals, fit.fitted, design, weights),
+    reset: ramseyReset(residuals, fit.fitted, design, weights, qr),
     runs: runsOf(fit),
     lack_of_fit: lofOf(fit, p),
     press: loo.press,
@@ -117,15 +137,13 @@ function spread(x: Float64Array): boolean {
 /** Signs in order of the one predictor column (ties in row order), else row order. */
 function runsOf(fit: Fit): CheckResult["runs"] {
   const byX = fit.columns.length === 1;
-  const n = fit.residuals.length;
-  const order = new Array<number>(n);
-  for (let i = 0; i < n; i++) order[i] = i;
+  let order: Int32Array | undefined;
   if (byX) {
     const x = fit.columns[0];
     // Rows already in x order (a series read in time order) need no sort.
     let sorted = true;
-    for (let i = 1; i < n && sorted; i++) sorted = x[i - 1] <= x[i];
-    if (!sorted) order.sort((a, b) => x[a] - x[b] || a - b);
+    for (let i = 1; i < x.length && sorted; i++) sorted = x[i - 1] <= x[i];
+    if (!sorted) order = orderBy(x);
   }
   const r = signRuns(fit.residuals, order);
   return r &&
@@ -145,20 +163,69 @@ function lofOf(fit: Fit, p: number): CheckResult["lack_of_fit"] {
   };
 }
 
-/** The design (or Jacobian) columns and names of the parameters not held at a bound. */
-function freeColumns(fit: Fit): { design: Float64Array[]; names: string[] } {
-  const keep = fit.parameters.map((_, j) => !(fit.atBound?.[j] ?? false));
+/** The design (or Jacobian) columns, names and numbers of the parameters not held at a bound. */
+interface Free {
+  design: Float64Array[];
+  names: string[];
+  index: number[];
+}
+
+function freeColumns(fit: Fit): Free {
+  const index = fit.parameters.map((_, j) => j).filter((j) => !(fit.atBound?.[j] ?? false));
   return {
-    design: fit.design.filter((_, j) => keep[j]),
-    names: fit.parameters.filter((_, j) => keep[j]),
+    design: index.map((j) => fit.design[j]),
+    names: index.map((j) => fit.parameters[j]),
+    index,
   };
 }
 
+/** VIF through the fit's factor; by auxiliary regressions where it covers fewer columns. */
+function vifOf(fit: Fit, free: Free): CheckResult["vif"] {
+  return varianceInflationOfFactor(
+    fitFactor(fit),
+    fit.design,
+    fit.parameters,
+    fit.weights,
+    free.index,
+  ) ?? varianceInflation(free.design, free.names, fit.weights);
+}
+
+/** σ_max/σ_min through the fit's factor; by a QR of the design where it covers fewer columns. */
+function conditionOf(fit: Fit, free: Free): number | null {
+  const f = fitFactor(fit);
+  return f.p === free.index.length
+    ? conditionNumberOfFactor(f)
+    : conditionNumber(free.design, fit.weights);
+}
+
+/** The linear solver's own QR of the (√w-scaled) design, when it is of these rows and full rank. */
+function ownQR(fit: Fit): QRFactorization | null {
+  const f = fit.designQR;
+  return f !== undefined && f.m === fit.residuals.length && f.rank === fit.design.length &&
+      f.n === fit.design.length
+    ? f
+    : null;
+}
+
+/**
+ * The Durbin–Watson traces through the fit's factor (Q₁ row by row), when it
+ * covers the whole design: beyond the exact law's df the basis is not formed.
+ */
+function rowsOf(fit: Fit): RowTraces | undefined {
+  const f = fitFactor(fit);
+  if (f.p !== fit.design.length) return undefined;
+  return { rank: f.p, traces: () => durbinWatsonTracesOfFactor(f, fit.design, fit.weights) };
+}
+
 /** Breusch–Pagan on the design (linear fits) or on 1 and ŷ (nonlinear fits). */
-function varianceTest(fit: Fit, spec: CheckSpec): CheckResult["breusch_pagan"] {
+function varianceTest(
+  fit: Fit,
+  spec: CheckSpec,
+  base: QRFactorization | null,
+): CheckResult["breusch_pagan"] {
   const onFitted = fit.method === "nonlinear";
   const t = onFitted
     ? breuschPaganOnFitted(fit.residuals, fit.fitted, fit.weights, spec.varianceTest)
-    : breuschPagan(fit.residuals, fit.design, fit.weights, spec.varianceTest);
+    : breuschPagan(fit.residuals, fit.design, fit.weights, spec.varianceTest, base);
   return t && { ...t, regressors: onFitted ? "fitted" : "design" };
 }

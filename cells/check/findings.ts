@@ -78,10 +78,33 @@ function manyRows(
   what: string,
   rule: string,
 ): string {
-  const top = [...idx].sort((a, b) => size(b) - size(a) || a - b).slice(0, NAMED_ROWS);
+  const top = largest(idx, size, NAMED_ROWS);
   return `${idx.length} rows have ${what} ${rule}; the ${NAMED_ROWS} largest: ${
     top.map((i) => `row ${r.rows[i]} (${show(i)})`).join(", ")
   }.`;
+}
+
+/**
+ * The k rows of largest size, largest first (ties in row order): one pass
+ * keeping the k best in order, so a rule that flags 100,000 rows of a
+ * million costs no sort of them.
+ */
+function largest(idx: readonly number[], size: (i: number) => number, k: number): number[] {
+  const top: number[] = [], sizes: number[] = [];
+  for (const i of idx) {
+    const s = size(i);
+    // Rows come in increasing order, so a tie goes after the rows already kept.
+    let at = top.length;
+    while (at > 0 && sizes[at - 1] < s) at--;
+    if (at >= k) continue;
+    top.splice(at, 0, i);
+    sizes.splice(at, 0, s);
+    if (top.length > k) {
+      top.pop();
+      sizes.pop();
+    }
+  }
+  return top;
 }
 
 function rowFindings(r: Base, add: Add): void {

@@ -16,7 +16,9 @@
  *
  * A design without a constant column gets one. For a weighted fit eᵢ is
  * √wᵢ·eᵢ (constant variance under the model) regressed on the unweighted
- * design.
+ * design. An unweighted fit's own QR of the design is reused when given
+ * (`_auxiliary.ts` `splitOnBase`): only e² is carried through Qᵀ, and R² is
+ * summed from what the regression explains.
  *
  * On the fitted values ({@link breuschPaganOnFitted}): the auxiliary
  * regression of eᵢ² on 1 and ŷᵢ, df = 1, for models whose design is not a
@@ -32,7 +34,8 @@
  */
 import { chiSquared } from "./chi_squared.ts";
 import { fisherF } from "./fisher_f.ts";
-import { auxiliaryRegression, constantColumn } from "./_auxiliary.ts";
+import type { QRFactorization } from "../linalg/mod.ts";
+import { type Auxiliary, auxiliaryRegression, constantColumn, splitOnBase } from "./_auxiliary.ts";
 
 /** Which form of the statistic. */
 export type BreuschPaganVariant = "koenker" | "original";
@@ -55,6 +58,8 @@ export interface BreuschPagan {
  * @param design The model's design columns (or Jacobian), each n long.
  * @param weights wᵢ per row, or null.
  * @param variant "koenker" (default) or "original".
+ * @param base The fit's own QR of the design (unweighted fits; its span is what counts), to
+ *   regress on without factoring the design again (`splitOnBase`); null to factor it here.
  * @returns The statistic, df and p-value; null when the test does not exist (no
  *   non-constant column, a rank-deficient auxiliary design, or all residuals 0).
  * @throws {RangeError} When the lengths differ.
@@ -71,6 +76,7 @@ export function breuschPagan(
   design: readonly Float64Array[],
   weights: Float64Array | null,
   variant: BreuschPaganVariant = "koenker",
+  base: QRFactorization | null = null,
 ): BreuschPagan | null {
   const n = residuals.length;
   if (design.some((c) => c.length !== n)) {
@@ -81,12 +87,17 @@ export function breuschPagan(
   const cols = k >= 0 ? [...design] : [new Float64Array(n).fill(1), ...design];
   const q = cols.length;
   if (q < 2 || n <= q) return null;
-  const rss = e2.reduce((a, b) => a + b, 0);
+  let rss = 0;
+  for (let i = 0; i < n; i++) rss += e2[i];
   if (!(rss > 0)) return null;
-  const aux = auxiliaryRegression(cols, e2);
+  const fast = base === null || weights !== null || base.n !== design.length
+    ? null
+    : onBase(base, e2, k >= 0 ? null : cols[0]);
+  const aux = fast ?? auxiliaryRegression(cols, e2);
   if (aux === null || !(aux.tss > 0)) return null;
   // original: e²/(RSS/n) has the same R², and its ESS = R²·TSS·(n/RSS)².
-  const statistic = variant === "koenker" ? n * aux.r2 : (aux.tss - aux.rss) * (n / rss) ** 2 / 2;
+  const ess = fast?.ess ?? aux.tss - aux.rss;
+  const statistic = variant === "koenker" ? n * aux.r2 : ess * (n / rss) ** 2 / 2;
   const df = q - 1;
   const f = (aux.r2 / df) / ((1 - aux.r2) / (n - q));
   return {
@@ -99,9 +110,43 @@ export function breuschPagan(
   };
 }
 
+/**
+ * The auxiliary regression through the fit's own QR of the design (and a
+ * constant column when the design has none): e² less its mean goes through
+ * Qᵀ (the mean is in the span, so RSS does not change), and what the
+ * regression explains is summed directly, ESS = ‖Q₁ᵀ(e² − ē²)‖² (and the
+ * constant's share), R² = ESS/TSS: an R² of 1e-5 on a million rows keeps its
+ * digits, where 1 − RSS/TSS would cancel them. Null where `splitOnBase`
+ * cannot decide.
+ */
+function onBase(
+  base: QRFactorization,
+  e2: Float64Array,
+  constant: Float64Array | null,
+): (Auxiliary & { ess: number }) | null {
+  const n = e2.length;
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += e2[i];
+  mean /= n;
+  const work = new Float64Array((constant === null ? 1 : 2) * n), at = constant === null ? 0 : n;
+  if (constant !== null) work.set(constant);
+  let tss = 0;
+  for (let i = 0; i < n; i++) {
+    const c = e2[i] - mean;
+    work[at + i] = c;
+    tss += c * c;
+  }
+  const split = splitOnBase(base, work, constant === null ? 0 : 1);
+  return split && { rss: split.rss, tss, r2: split.explained / tss, ess: split.explained };
+}
+
 /** wᵢ·eᵢ² (eᵢ² unweighted). */
 function squaredResiduals(residuals: Float64Array, weights: Float64Array | null): Float64Array {
-  return residuals.map((e, i) => e * e * (weights ? weights[i] : 1));
+  const out = new Float64Array(residuals.length);
+  for (let i = 0; i < out.length; i++) {
+    out[i] = residuals[i] * residuals[i] * (weights ? weights[i] : 1);
+  }
+  return out;
 }
 
 /**

@@ -33,5 +33,10 @@ export function cooksDistance(
       `Cannot compute Cook's distance: ${internal.length} residuals, ${hat.length} hat values`,
     );
   }
-  return internal.map((r, i) => r === null ? null : r * r * hat[i] / (p * (1 - hat[i])));
+  const out = new Array<number | null>(internal.length);
+  for (let i = 0; i < internal.length; i++) {
+    const r = internal[i];
+    out[i] = r === null ? null : r * r * hat[i] / (p * (1 - hat[i]));
+  }
+  return out;
 }

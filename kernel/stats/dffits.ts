@@ -28,5 +28,10 @@ export function dffits(external: readonly (number | null)[], hat: Float64Array):
       `Cannot compute DFFITS: ${external.length} residuals, ${hat.length} hat values`,
     );
   }
-  return external.map((t, i) => t === null ? null : t * Math.sqrt(hat[i] / (1 - hat[i])));
+  const out = new Array<number | null>(external.length);
+  for (let i = 0; i < external.length; i++) {
+    const t = external[i];
+    out[i] = t === null ? null : t * Math.sqrt(hat[i] / (1 - hat[i]));
+  }
+  return out;
 }

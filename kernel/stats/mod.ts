@@ -39,13 +39,20 @@ export { orthonormalBasis } from "./_orthonormal_basis.ts";
 export { type StudentizedResiduals, studentizedResiduals } from "./studentized_residuals.ts";
 export { cooksDistance } from "./cooks_distance.ts";
 export { dffits } from "./dffits.ts";
-export { varianceInflation, type VifForm, vifForm } from "./variance_inflation.ts";
-export { conditionNumber } from "./condition_number.ts";
+export {
+  varianceInflation,
+  varianceInflationOfFactor,
+  type VifForm,
+  vifForm,
+} from "./variance_inflation.ts";
+export { conditionNumber, conditionNumberOfFactor } from "./condition_number.ts";
 export {
   durbinWatson,
   type DurbinWatsonTest,
   durbinWatsonTest,
   EXACT_DF as DURBIN_WATSON_EXACT_DF,
+  type RowTraces,
+  tracesOfFactor as durbinWatsonTracesOfFactor,
 } from "./durbin_watson.ts";
 export { durbinWatsonCdf } from "./durbin_watson_exact.ts";
 export {
@@ -56,7 +63,7 @@ export {
 } from "./breusch_pagan.ts";
 export { type ShapiroWilk, shapiroWilk } from "./shapiro_wilk.ts";
 export { type JarqueBera, jarqueBera } from "./jarque_bera.ts";
-export { type SignRuns, signRuns } from "./sign_runs.ts";
+export { orderBy, type SignRuns, signRuns } from "./sign_runs.ts";
 export { ramseyReset, type Reset } from "./ramsey_reset.ts";
 export { type LackOfFit, lackOfFit } from "./lack_of_fit.ts";
 export {

@@ -56,22 +56,26 @@ export function studentizedResiduals(
   if (n <= p) {
     throw new RangeError(`Cannot studentize residuals: ${n} rows for ${p} parameters`);
   }
-  const e = weights ? residuals.map((v, i) => v * Math.sqrt(weights[i])) : residuals;
+  // One pass for s, one for both residuals, into arrays of their final length (no per-row growth).
+  const e = weights === null ? residuals : new Float64Array(n);
   let rss = 0;
-  for (const v of e) rss += v * v;
+  for (let i = 0; i < n; i++) {
+    if (weights !== null) e[i] = residuals[i] * Math.sqrt(weights[i]);
+    rss += e[i] * e[i];
+  }
   const df = n - p;
   const sigma = Math.sqrt(rss / df);
-  const internal: (number | null)[] = [], external: (number | null)[] = [];
+  const internal = new Array<number | null>(n), external = new Array<number | null>(n);
   for (let i = 0; i < n; i++) {
     const gap = 1 - hat[i];
     if (gap < LEVERAGE_ONE_TOLERANCE) {
-      internal.push(null);
-      external.push(null);
+      internal[i] = null;
+      external[i] = null;
       continue;
     }
-    internal.push(sigma > 0 ? e[i] / (sigma * Math.sqrt(gap)) : null);
+    internal[i] = sigma > 0 ? e[i] / (sigma * Math.sqrt(gap)) : null;
     const loo = df > 1 ? (rss - e[i] * e[i] / gap) / (df - 1) : NaN;
-    external.push(loo > 0 ? e[i] / Math.sqrt(loo * gap) : null);
+    external[i] = loo > 0 ? e[i] / Math.sqrt(loo * gap) : null;
   }
   return { internal, external, sigma };
 }
