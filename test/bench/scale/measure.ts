@@ -9,6 +9,10 @@
  * (the high-water mark only grows, so the last reading before exit is the
  * peak but for a rise in its last 50 ms). Null where neither exists.
  *
+ * Processor time (user + system, all threads; GNU time's `%U` and `%S`):
+ * on a machine others share, wall time grows with their load and processor
+ * time much less, so it is the steadier figure there. Null without GNU time.
+ *
  * @module
  */
 
@@ -17,6 +21,8 @@ export interface Measured {
   ms: number;
   /** Peak resident memory in MB (2^20 bytes), or null when it cannot be read here. */
   peakMb: number | null;
+  /** User + system processor time in ms, or null without GNU time. */
+  cpuMs: number | null;
   code: number;
   /** Standard output when asked for (`stdout: "piped"`), else "". */
   stdout: string;
@@ -82,7 +88,7 @@ export async function measure(command: string[], options: MeasureOptions = {}): 
   const viaTime = (options.peak ?? "time") === "time" && await hasGnuTime();
   const peakFile = viaTime ? await Deno.makeTempFile({ prefix: "plumb-peak-" }) : "";
   const [cmd, ...args] = viaTime
-    ? ["/usr/bin/time", "-f", "%M", "-o", peakFile, ...command]
+    ? ["/usr/bin/time", "-f", "%U %S %M", "-o", peakFile, ...command]
     : command;
   const t0 = performance.now();
   const child = new Deno.Command(cmd, {
@@ -105,17 +111,20 @@ export async function measure(command: string[], options: MeasureOptions = {}): 
   const ms = performance.now() - t0;
   done = true;
   await polling;
-  let kb: number | null = hwm;
+  let kb: number | null = hwm, cpuMs: number | null = null;
   if (viaTime) {
+    // "Command exited with non-zero status N" may come first.
     const text = await Deno.readTextFile(peakFile);
     await Deno.remove(peakFile);
-    const m = /(\d+)\s*$/.exec(text);
-    kb = m ? Number(m[1]) : null;
+    const m = /([\d.]+) ([\d.]+) (\d+)\s*$/.exec(text);
+    kb = m ? Number(m[3]) : null;
+    cpuMs = m ? (Number(m[1]) + Number(m[2])) * 1000 : null;
   }
   const decode = (b: Uint8Array) => new TextDecoder().decode(b);
   return {
     ms,
     peakMb: kb === null ? null : kb / 1024,
+    cpuMs,
     code: out.code,
     stdout: options.stdout === "null" ? "" : decode(out.stdout),
     stderr: decode(out.stderr).slice(-2000),

@@ -23,6 +23,10 @@ for (const peak of ["time", "proc"] as const) {
       ok(m.peakMb !== null && m.peakMb >= 150, `peak ${m.peakMb} MB, touched 150 MiB`);
       ok(m.peakMb! < 150 + 400, `peak ${m.peakMb} MB: the runtime takes well under 400 MB more`);
       ok(m.ms > 300, "wall time covers the 300 ms the child waits");
+      // Filling 150 MiB takes processor time; the 300 ms of waiting takes none.
+      if (peak === "time") {
+        ok(m.cpuMs !== null && m.cpuMs > 0 && m.cpuMs < m.ms, `cpu ${m.cpuMs} ms`);
+      } else equal(m.cpuMs, null);
     },
   });
 }

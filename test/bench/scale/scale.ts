@@ -51,8 +51,12 @@ export const MILLION = 1_000_000;
 /** The quick size. */
 export const QUICK_ROWS = 100_000;
 
-/** Timings of one command and its peak memory (MB; null where it cannot be read). */
+/**
+ * Timings of one command, its processor time (user + system, median, ms) and
+ * its peak memory (MB); the last two null where they cannot be read.
+ */
 export interface Timed extends Spread {
+  cpu_median_ms: number | null;
   peak_mb: number | null;
   peak_mb_max: number | null;
 }
@@ -80,6 +84,8 @@ export interface ScaleFigure {
   json_over_run: number;
   peak_mb: number | null;
   json_peak_mb: number | null;
+  /** The machine's one-minute load average at the start and at the end: above 1 others shared it. */
+  load_average: { start: number | null; end: number | null };
   target_run_ratio?: number;
   target_json_over_run?: number;
   target_peak_mb?: number;
@@ -96,10 +102,12 @@ export interface ScaleOptions {
   say?: (line: string) => void;
 }
 
-function timed(ms: number[], peaks: (number | null)[]): Timed {
+function timed(ms: number[], cpu: (number | null)[], peaks: (number | null)[]): Timed {
   const known = peaks.filter((p): p is number => p !== null).sort((a, b) => a - b);
+  const cpuKnown = cpu.filter((c): c is number => c !== null);
   return {
     ...spread(ms),
+    cpu_median_ms: cpuKnown.length ? spread(cpuKnown).median_ms : null,
     peak_mb: known.length ? Math.round(known[known.length >> 1]) : null,
     peak_mb_max: known.length ? Math.round(known[known.length - 1]) : null,
   };
@@ -125,11 +133,27 @@ class Series {
     this.runs.push(m);
   }
   figure(): Timed {
-    return timed(this.runs.map((r) => r.ms), this.runs.map((r) => r.peakMb));
+    return timed(
+      this.runs.map((r) => r.ms),
+      this.runs.map((r) => r.cpuMs),
+      this.runs.map((r) => r.peakMb),
+    );
   }
 }
 
 const round = (x: number, digits = 3) => Number(x.toPrecision(digits));
+
+/** The one-minute load average (through `cat`: Deno opens /proc only with every permission). */
+async function loadAverage(): Promise<number | null> {
+  try {
+    const out = await new Deno.Command("cat", { args: ["/proc/loadavg"], stdout: "piped" })
+      .output();
+    const first = Number(new TextDecoder().decode(out.stdout).split(" ")[0]);
+    return Number.isFinite(first) ? first : null;
+  } catch {
+    return null;
+  }
+}
 
 /**
  * Measures the side-by-side figure.
@@ -188,6 +212,7 @@ export async function scaleFigures(root: URL, options: ScaleOptions = {}): Promi
     );
   }
   // Uncounted: fills Deno's transpile and code caches and the page cache with the file.
+  const loadAtStart = await loadAverage();
   say("scale: warm-up (a run of each small command, the table read once)");
   for (const s of series.slice(2)) await s.once(csv.dir), s.runs.pop();
   for (let r = 1; r <= runs; r++) {
@@ -228,6 +253,7 @@ export async function scaleFigures(root: URL, options: ScaleOptions = {}): Promi
     json_over_run: round(json.median_ms / run.median_ms),
     peak_mb: run.peak_mb,
     json_peak_mb: json.peak_mb,
+    load_average: { start: loadAtStart, end: await loadAverage() },
   };
   if (rows === MILLION) {
     Object.assign(figure, {
