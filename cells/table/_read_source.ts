@@ -14,7 +14,12 @@
  */
 import { CellError, type OptionPath } from "../../kernel/errors.ts";
 import { formatBytes } from "../../kernel/format_bytes.ts";
-import { type DelimitedData, DelimitedError, readDelimited } from "../../kernel/csv/mod.ts";
+import {
+  type DelimitedData,
+  DelimitedError,
+  HALVES_FROM,
+  readDelimited,
+} from "../../kernel/csv/mod.ts";
 import type { RunContext } from "../../kernel/contract/mod.ts";
 import type { InlineData, TableSpec } from "./spec.ts";
 
@@ -78,6 +83,7 @@ export function readSource(spec: TableSpec, ctx: RunContext): DelimitedData {
       onProgress: spec.from !== null
         ? (f) => ctx.progress(0.9 * f, `reading ${spec.from}`)
         : undefined,
+      halvesFrom: HALVES_FROM,
     });
   } catch (e) {
     if (e instanceof DelimitedError) throw new CellError(e.message, place(e, spec));

@@ -22,6 +22,12 @@ export interface ReadDelimitedOptions {
   loLimit?: number;
   /** Called now and then with the fraction of the work done. */
   onProgress?: (fraction: number) => void;
+  /**
+   * Read a large plain file in two halves at once, the second on a helper
+   * thread (`_halves.ts`), from this many bytes (default: never). The
+   * columns are then in shared memory.
+   */
+  halvesFrom?: number;
 }
 
 /** The reader's default missing-value markers (besides the empty field). */
@@ -40,6 +46,7 @@ export interface ResolvedOptions {
   types: Readonly<Record<string, "number" | "text">>;
   loLimit: number;
   onProgress: ((fraction: number) => void) | null;
+  halvesFrom: number;
 }
 
 /**
@@ -77,5 +84,6 @@ export function resolveOptions(options: ReadDelimitedOptions): ResolvedOptions {
     types: options.types ?? {},
     loLimit: options.loLimit ?? DEFAULT_LO_LIMIT,
     onProgress: options.onProgress ?? null,
+    halvesFrom: options.halvesFrom ?? Infinity,
   };
 }

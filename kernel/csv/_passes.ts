@@ -2,8 +2,10 @@
  * The reader's two passes over the records, as field sinks.
  *
  * Pass 1 ({@link NumberPass}) parses every field of every column not declared
- * text straight from bytes into a growing Float64Array (and its decimal
- * correction), counting missing and non-numeric values. Pass 2
+ * text straight from bytes into a Float64Array with room for every record
+ * (and its decimal correction), counting missing and non-numeric values; the
+ * reader fills it through the fast lane (`_plain_rows.ts`) and gives it the
+ * records the lane leaves. Pass 2
  * ({@link TextPass}) runs only when some column turned out (or was declared)
  * text, and decodes just those columns' fields. No per-row objects, no
  * strings for numeric data.
@@ -48,6 +50,7 @@ export class NumberPass implements FieldSink {
    * @param markers Missing-value markers.
    * @param keepLo Whether decimal corrections are kept.
    * @param capacity Initial row capacity (the reader gives an upper bound of the rows).
+   * @param shared Columns in shared memory (for a helper thread to fill half of them).
    */
   constructor(
     private readonly bytes: Uint8Array,
@@ -56,13 +59,18 @@ export class NumberPass implements FieldSink {
     readonly markers: MissingMarkers,
     keepLo: boolean,
     capacity: number,
+    shared = false,
   ) {
     const n = parse.length;
     this.markersFirst = markers.numeric(parser);
     this.numbers = this.markersFirst ? [] : parse;
     this.capacity = Math.max(1, capacity);
     this.parser.wantLo = keepLo;
-    this.values = parse.map((p) => (p ? new Float64Array(this.capacity) : null));
+    const column = () =>
+      shared
+        ? new Float64Array(new SharedArrayBuffer(8 * this.capacity))
+        : new Float64Array(this.capacity);
+    this.values = parse.map((p) => (p ? column() : null));
     this.lo = parse.map((p) => (p && keepLo ? new Float64Array(this.capacity) : null));
     this.numeric = new Array(n).fill(0);
     this.missing = new Array(n).fill(0);

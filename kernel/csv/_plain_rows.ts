@@ -42,7 +42,7 @@ import { productError } from "../dd.ts";
 import { type DecimalParser, POW10 } from "./decimal_parser.ts";
 import type { MissingMarkers } from "./_fields.ts";
 
-const LF = 0x0a, CR = 0x0d, QUOTE = 0x22, MINUS = 0x2d, PLUS = 0x2b;
+const LF = 0x0a;
 
 /** Where the lane writes: the pass's columns and counts (see `NumberPass`). */
 export interface PlainTarget {
@@ -64,7 +64,7 @@ export class PlainRows {
   lo = 0;
   /** The file. */
   readonly bytes: Uint8Array;
-  /** One past the file's last line feed: the lane reads no record beyond it. */
+  /** One past a line feed (by default the file's last): the lane reads no record beyond it. */
   readonly end: number;
   /** The delimiter's byte. */
   readonly delim: number;
@@ -83,6 +83,7 @@ export class PlainRows {
    * @param markers Missing-value markers (none of which reads as a number).
    * @param parser The decimal parser, for numbers off the fast path.
    * @param ncols Fields per record.
+   * @param stop Read no record at or after this byte (default: the end).
    */
   constructor(
     bytes: Uint8Array,
@@ -90,9 +91,10 @@ export class PlainRows {
     markers: MissingMarkers,
     parser: DecimalParser,
     ncols: number,
+    stop: number = bytes.length,
   ) {
     this.bytes = bytes;
-    this.end = bytes.lastIndexOf(LF) + 1;
+    this.end = stop > 0 ? bytes.lastIndexOf(LF, stop - 1) + 1 : 0;
     this.delim = delim;
     this.point = parser.decimalByte;
     this.#markers = markers;
@@ -137,19 +139,28 @@ export class PlainRows {
   }
 }
 
+/** What {@link plainLoop} reads of its lane (a {@link PlainRows}, or a helper thread's own). */
+export type Lane = Pick<
+  PlainRows,
+  "bytes" | "end" | "delim" | "point" | "holes" | "missed" | "pos" | "lo" | "marker" | "slow"
+>;
+
 /**
  * The lane's loop (a function of its own, so the engine optimises it alone):
  * reads plain records into `values` and `los` from row `row`; sets
- * `lane.pos` and returns the next row (see {@link PlainRows.read}).
+ * `lane.pos` and returns the next row (see {@link PlainRows.read}). It
+ * refers to nothing outside itself but `productError` and `POW10`, so a
+ * helper thread can be given its source (`_halves.ts`).
  */
-function plainLoop(
-  lane: PlainRows,
+export function plainLoop(
+  lane: Lane,
   start: number,
   row: number,
   limit: number,
   values: readonly (Float64Array | null)[],
   los: readonly (Float64Array | null)[],
 ): number {
+  const LF = 0x0a, CR = 0x0d, QUOTE = 0x22, MINUS = 0x2d, PLUS = 0x2b;
   const b = lane.bytes, end = lane.end, D = lane.delim, P = lane.point - 0x30;
   const n = values.length, last = n - 1;
   const holes = lane.holes, missed = lane.missed;

@@ -34,8 +34,9 @@ import { decodeField, MissingMarkers } from "./_fields.ts";
 import { type ResolvedOptions, resolveOptions } from "./_options.ts";
 import { NumberPass, TextPass } from "./_passes.ts";
 import { type FieldSink, Scanner } from "./_scanner.ts";
-import { PlainRows } from "./_plain_rows.ts";
-import { recordBound } from "./line_feeds.ts";
+import { PROGRESS_EVERY, readRows, wrongCount } from "./_read_rows.ts";
+import { readInHalves } from "./_halves.ts";
+import { countLineFeeds, recordBound } from "./line_feeds.ts";
 import { checkHeader, checkTypes, decideTypes } from "./_typing.ts";
 
 import type { ReadDelimitedOptions } from "./_options.ts";
@@ -83,8 +84,6 @@ class HeaderSink implements FieldSink {
     this.starts[col] = start;
   }
 }
-
-const PROGRESS_EVERY = 65536;
 
 /**
  * Reads delimited text into typed columns, working on bytes.
@@ -134,13 +133,19 @@ export function readDelimited(
   const parsed = parse.filter((p) => p).length;
   const rowsWithLo = parsed === 0 ? Infinity : Math.floor(o.loLimit / parsed);
   const progress = (f: number) => o.onProgress?.(0.9 * f);
-  let pass1 = new NumberPass(bytes, parse, parser, markers, bound < rowsWithLo, bound);
-  let rows = readRows(bytes, dataStart, o, pass1, ncols, progress);
+  const keepLo = bound < rowsWithLo;
+  const split = keepLo ? null : halves(bytes, dataStart, o);
+  let pass1 = new NumberPass(bytes, parse, parser, markers, keepLo, bound, split !== null);
+  let rows =
+    (split === null || pass1.markersFirst
+      ? null
+      : readInHalves(bytes, o, pass1, ncols, progress, dataStart, split.mid, split.firstRows)) ??
+      readRows(bytes, o, pass1, ncols, progress, { pos: dataStart, row: 0 }).row;
   if (bound >= rowsWithLo && rows < rowsWithLo) {
     // Fewer records than the bound said (blank lines, quoted line ends) and few enough to keep
     // their corrections: read again with them.
     pass1 = new NumberPass(bytes, parse, parser, markers, true, rows);
-    rows = readRows(bytes, dataStart, o, pass1, ncols, progress);
+    rows = readRows(bytes, o, pass1, ncols, progress, { pos: dataStart, row: 0 }).row;
   }
   // More records than the bound said (lone CR line ends among line feeds): too many to keep them.
   if (rows >= rowsWithLo) pass1.lo.fill(null);
@@ -168,65 +173,25 @@ export function readDelimited(
   return { rowCount: rows, columns, delimiter: o.delimiter, decimal: o.decimal };
 }
 
-/** The first `rows` values: the array itself when it has exactly that many (the usual case). */
-function exactly(a: Float64Array, rows: number): Float64Array {
-  return a.length === rows ? a : a.slice(0, rows);
-}
-
 /**
- * Pass 1 over the data records: plain records by the fast lane
- * (`_plain_rows.ts`), any other record by the general scanner.
- *
- * @returns The row count.
+ * Where to cut a file read in halves (`_halves.ts`): after the line feed
+ * nearest the middle of the records, with the line feeds before it; null
+ * for a file under `halvesFrom` bytes or too short to cut.
  */
-function readRows(
+function halves(
   bytes: Uint8Array,
   dataStart: number,
   o: ResolvedOptions,
-  pass: NumberPass,
-  ncols: number,
-  progress: (fraction: number) => void,
-): number {
-  const scanner = new Scanner(bytes, dataStart, o.delimByte, o.label);
-  const plain = pass.markersFirst
-    ? null
-    : new PlainRows(bytes, o.delimByte, pass.markers, pass.parser, ncols);
-  let r = 0, report = PROGRESS_EVERY;
-  for (;;) {
-    if (plain !== null) {
-      r = plain.read(scanner.pos, r, Math.min(pass.capacity, report), pass);
-      scanner.pos = plain.pos;
-    }
-    if (r >= report) {
-      progress(scanner.progress());
-      report += PROGRESS_EVERY;
-      continue;
-    }
-    if (!moreRecords(bytes, scanner.pos)) break;
-    const full = r === pass.capacity;
-    pass.startRow(r); // grows the columns when they are full
-    if (plain !== null && full) continue;
-    // A record the fast lane left: the general scanner reads it.
-    scanner.row = r + 1;
-    const n = scanner.next(pass);
-    if (n !== ncols) throw wrongCount(o.label, r + 1, n, ncols);
-    r++;
-  }
-  return r;
+): { mid: number; firstRows: number } | null {
+  if (bytes.length < o.halvesFrom || bytes.length >= 2 ** 31) return null;
+  const mid = bytes.indexOf(0x0a, (dataStart + bytes.length) >> 1) + 1;
+  if (mid <= dataStart || mid >= bytes.length) return null;
+  return { mid, firstRows: countLineFeeds(bytes, dataStart, mid) };
 }
 
-/** Whether a record follows `pos` (past any blank lines). */
-function moreRecords(bytes: Uint8Array, pos: number): boolean {
-  while (pos < bytes.length && (bytes[pos] === 0x0a || bytes[pos] === 0x0d)) pos++;
-  return pos < bytes.length;
-}
-
-function wrongCount(label: string, row: number, n: number, ncols: number): DelimitedError {
-  return new DelimitedError(
-    `File "${label}": row ${row} has ${n} field${n === 1 ? "" : "s"}, expected ${ncols} ` +
-      `as in the header`,
-    { row },
-  );
+/** The first `rows` values: the array itself when it has exactly that many (the usual case). */
+function exactly(a: Float64Array, rows: number): Float64Array {
+  return a.length === rows ? a : a.slice(0, rows);
 }
 
 /** Runs one pass over the data records; returns the row count. */

@@ -1,0 +1,246 @@
+/**
+ * A large file's records read in two halves at once: the second half by a
+ * helper thread running the fast lane (`plainLoop` of `_plain_rows.ts`),
+ * while this thread reads the first half as usual.
+ *
+ * ```
+ *  bytes:  header │ first half ··········· │ second half ··········· │
+ *                 dataStart                 mid (after a line feed)
+ *  this thread:   readRows(dataStart → mid, rows 0 … F−1)      F = line feeds before mid
+ *  helper:                                  plainLoop(mid →, rows F …) into the same
+ *                                           shared columns, stopping at the first record
+ *                                           that is not plain
+ *  then:   first half ended exactly at mid on row F?  yes ─▶ take the helper's rows, read on
+ *                                                     no  ─▶ stop the helper, read on from
+ *                                                            where this thread stopped
+ * ```
+ *
+ * The helper is a worker with no permissions made from source text (a
+ * worker without permissions cannot load modules from files): `plainLoop`,
+ * `MissingMarkers` and `productError` given as their own source, so it runs
+ * the same code. Its rows are taken only when the first half had exactly as
+ * many records as line feeds (no blank line, no quoted line break, no lone
+ * CR): otherwise its row numbers would be off, and this thread reads the
+ * rest itself, as a one-thread read would. Long numbers, quotes, stray
+ * values: the helper stops there and this thread reads on from that record.
+ * The two threads meet through a small shared status array (Atomics), so the
+ * reader stays synchronous.
+ *
+ * @module
+ */
+import { productError } from "../dd.ts";
+import { MissingMarkers } from "./_fields.ts";
+import type { NumberPass } from "./_passes.ts";
+import { plainLoop } from "./_plain_rows.ts";
+import { POW10 } from "./decimal_parser.ts";
+import { type Place, readRows } from "./_read_rows.ts";
+import type { ResolvedOptions } from "./_options.ts";
+
+/** Files from this size are read in halves (smaller ones take less than a helper's start). */
+export const HALVES_FROM = 32 << 20;
+
+// The status array: [state, row reached, byte reached, rows done so far, missing per column …].
+const STATE = 0, ROW = 1, POS = 2, DONE = 3, MISSED = 4;
+// Its states: 0 posted, 1 working, 2 finished, 3 asked to stop, 4 stopped, 5 failed, 6 taken
+// back before it began (the helper, run from its source text, writes them as numbers).
+const POSTED = 0, WORKING = 1, FINISHED = 2, STOP = 3, FAILED = 5, TAKEN_BACK = 6;
+/** How long a helper may go without finishing a block of rows before it is given up. */
+const STALL_MS = 10_000;
+
+/** The helper's job, as posted. */
+interface Job {
+  bytes: Uint8Array;
+  values: (Float64Array | null)[];
+  status: SharedArrayBuffer;
+  start: number;
+  row: number;
+  limit: number;
+  end: number;
+  delim: number;
+  point: number;
+  markers: readonly string[];
+}
+
+/** The helper thread's message loop (run there from its source text; see the module notes). */
+function helperMain(): void {
+  self.onmessage = (e: MessageEvent<Job>) => {
+    const m = e.data, st = new Int32Array(m.status), n = m.values.length;
+    if (Atomics.compareExchange(st, 0, 0, 1) !== 0) return; // taken back before it began
+    const missed = new Int32Array(n);
+    let row = m.row, pos = m.start, ok = false;
+    try {
+      const markers = new MissingMarkers(m.markers);
+      const lane = {
+        bytes: m.bytes,
+        end: m.end,
+        delim: m.delim,
+        point: m.point,
+        holes: new Int32Array(n),
+        missed: new Int32Array(n),
+        pos: 0,
+        lo: 0,
+        marker: (s: number, t: number) => markers.test(m.bytes, s, t),
+        slow: () => NaN, // a long number: this thread stops there
+      };
+      const los = m.values.map(() => null);
+      while (row < m.limit && Atomics.load(st, 0) === 1) {
+        const next = Math.min(m.limit, row + 65536);
+        lane.missed.fill(0);
+        const r = plainLoop(lane, pos, row, next, m.values, los);
+        for (let c = 0; c < n; c++) missed[c] += lane.missed[c];
+        row = r;
+        pos = lane.pos;
+        Atomics.store(st, 3, row);
+        if (r < next) break;
+      }
+      ok = true;
+    } finally {
+      st[1] = row;
+      st[2] = pos;
+      for (let c = 0; c < n; c++) st[4 + c] = missed[c];
+      if (Atomics.compareExchange(st, 0, 1, ok ? 2 : 5) === 3) Atomics.store(st, 0, ok ? 4 : 5);
+      Atomics.notify(st, 0);
+    }
+  };
+}
+
+let helper: Worker | null | undefined;
+
+/**
+ * For tests: `waitForHelper` makes this thread wait for the helper to begin
+ * rather than take its job back (so the helper's paths run every time);
+ * `taken` counts the reads whose second half the helper's rows gave.
+ */
+export const halvesForTests = { waitForHelper: false, taken: 0 };
+
+/** The helper thread, started on first use; null where none can be started. */
+function helperThread(): Worker | null {
+  if (helper !== undefined) return helper;
+  try {
+    const source = [
+      `"use strict";`,
+      `const SPLITTER = 134217729;`, // 2^27 + 1, as kernel/dd.ts (productError's splitter)
+      `const POW10 = new Float64Array([${Array.from(POW10).join(", ")}]);`,
+      `const productError = ${productError.toString()};`,
+      `const encoder = new TextEncoder();`,
+      `const MissingMarkers = ${MissingMarkers.toString()};`,
+      `const plainLoop = ${plainLoop.toString()};`,
+      `(${helperMain.toString()})();`,
+    ].join("\n");
+    const url = URL.createObjectURL(new Blob([source], { type: "application/javascript" }));
+    // The cast: with the DOM library loaded (for views), WorkerOptions lacks Deno's `deno` field.
+    const options = { type: "module", deno: { permissions: "none" } } as WorkerOptions;
+    const w = new Worker(url, options);
+    w.onerror = (e) => {
+      e.preventDefault();
+      helper = null;
+    };
+    helper = w;
+  } catch {
+    helper = null;
+  }
+  return helper;
+}
+
+/** Stops the helper thread, if one was started (tests, and a worker shutting down). */
+export function stopHalvesHelper(): void {
+  helper?.terminate();
+  helper = undefined;
+}
+
+/**
+ * Reads the records from `dataStart` on in two halves (see the module notes).
+ *
+ * @param bytes The file.
+ * @param o The reader's options.
+ * @param pass Pass 1, its columns in shared memory, room for every record.
+ * @param ncols Fields per record.
+ * @param progress Progress callback.
+ * @param dataStart The first record's byte.
+ * @param mid One past a line feed near the middle.
+ * @param firstRows Line feeds between `dataStart` and `mid`.
+ * @returns The row count, or null when no helper thread could be had (read it in one).
+ */
+export function readInHalves(
+  bytes: Uint8Array,
+  o: ResolvedOptions,
+  pass: NumberPass,
+  ncols: number,
+  progress: (fraction: number) => void,
+  dataStart: number,
+  mid: number,
+  firstRows: number,
+): number | null {
+  const thread = helperThread();
+  if (thread === null) return null;
+  const st = new Int32Array(new SharedArrayBuffer(4 * (MISSED + ncols)));
+  const job: Job = {
+    bytes,
+    values: pass.values,
+    status: st.buffer as SharedArrayBuffer,
+    start: mid,
+    row: firstRows,
+    limit: pass.capacity,
+    end: bytes.lastIndexOf(0x0a) + 1,
+    delim: o.delimByte,
+    point: pass.parser.decimalByte,
+    markers: o.missing,
+  };
+  thread.postMessage(job);
+  let first: Place;
+  try {
+    first = readRows(bytes, o, pass, ncols, progress, { pos: dataStart, row: 0 }, {
+      pos: mid,
+      row: firstRows,
+    });
+  } catch (err) {
+    settle(st, true);
+    throw err;
+  }
+  const joined = first.row === firstRows && first.pos === mid;
+  const state = settle(st, !joined);
+  let from = first;
+  if (joined) {
+    from = { pos: mid, row: firstRows };
+    if (state === FINISHED) {
+      halvesForTests.taken++;
+      from = { pos: st[POS], row: st[ROW] };
+      const rows = from.row - firstRows;
+      for (let c = 0; c < ncols; c++) {
+        if (pass.values[c] === null) continue;
+        pass.numeric[c] += rows - st[MISSED + c];
+        pass.missing[c] += st[MISSED + c];
+      }
+    }
+  }
+  return readRows(bytes, o, pass, ncols, progress, from).row;
+}
+
+/**
+ * Waits for the helper to be done with the job (asking it to stop first, or
+ * taking back a job it has not begun), and says how it ended.
+ */
+function settle(st: Int32Array, stop: boolean): number {
+  const until = Date.now() + STALL_MS;
+  while (halvesForTests.waitForHelper && Atomics.load(st, STATE) === POSTED && Date.now() < until) {
+    Atomics.wait(st, STATE, POSTED, 10);
+  }
+  if (Atomics.compareExchange(st, STATE, POSTED, TAKEN_BACK) === POSTED) return TAKEN_BACK;
+  if (stop) Atomics.compareExchange(st, STATE, WORKING, STOP);
+  let seen = Atomics.load(st, DONE), since = Date.now();
+  for (;;) {
+    const state = Atomics.load(st, STATE);
+    if (state !== WORKING && state !== STOP) return state;
+    Atomics.wait(st, STATE, state, 50);
+    const done = Atomics.load(st, DONE);
+    if (done !== seen) {
+      seen = done;
+      since = Date.now();
+    } else if (Date.now() - since > STALL_MS) {
+      // No block of rows in ten seconds: the helper is gone. Its rows are not taken.
+      stopHalvesHelper();
+      helper = null;
+      return FAILED;
+    }
+  }
+}
