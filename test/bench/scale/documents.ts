@@ -56,3 +56,27 @@ export function tableOnlyDocument(csv: string): string {
 
 /** A document with no cell: what a run costs before it reads anything. */
 export const EMPTY_DOCUMENT = front("No cells") + "Start-up only.\n";
+
+/**
+ * The command that runs a document as the benchmark does: `plumb run` with
+ * the Deno running this, no npx, no task runner, no run history.
+ *
+ * @param root The root folder of the repository whose `plumb` runs.
+ * @param doc The document's path (relative to the working folder the command gets).
+ * @param extra Further arguments of `plumb run`, such as `--json`.
+ * @returns The program and its arguments.
+ */
+export function plumbRunCommand(root: URL, doc: string, ...extra: string[]): string[] {
+  return [
+    Deno.execPath(),
+    "run",
+    `--config=${new URL("deno.json", root).pathname}`,
+    "--allow-read",
+    "--allow-env=LOG_TOKENS,LOG_STREAM",
+    new URL("cells/main.ts", root).pathname,
+    "run",
+    doc,
+    "--no-history",
+    ...extra,
+  ];
+}

@@ -1,23 +1,19 @@
 import { equal, ok } from "node:assert/strict";
-import { EMPTY_DOCUMENT, fiveCellDocument, tableOnlyDocument } from "./documents.ts";
+import {
+  EMPTY_DOCUMENT,
+  fiveCellDocument,
+  plumbRunCommand,
+  tableOnlyDocument,
+} from "./documents.ts";
 import { writeScaleCsv } from "./generate.ts";
 
 const root = new URL("../../../", import.meta.url);
 
 async function plumbRun(dir: string, doc: string, text: string) {
   await Deno.writeTextFile(`${dir}/${doc}`, text);
-  const out = await new Deno.Command(Deno.execPath(), {
-    args: [
-      "run",
-      `--config=${new URL("deno.json", root).pathname}`,
-      "--allow-read",
-      "--allow-env=LOG_TOKENS,LOG_STREAM",
-      new URL("cells/main.ts", root).pathname,
-      "run",
-      doc,
-      "--no-history",
-      "--json",
-    ],
+  const [deno, ...args] = plumbRunCommand(root, doc, "--json");
+  const out = await new Deno.Command(deno, {
+    args,
     cwd: dir,
     stdout: "piped",
     stderr: "piped",

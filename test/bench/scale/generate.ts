@@ -30,8 +30,10 @@ export const SCALE_SEED = 20261216;
 /** Predictors in the data. */
 export const PREDICTORS = 10;
 
-/** Intercept and the coefficients b₁…b₁₀ of the response (invented). */
+/** The intercept of the response (invented). */
 export const INTERCEPT = 2;
+
+/** The coefficients b₁…b₁₀ of the response (invented): term k varies with sd (11 − k)/10. */
 export const COEFFICIENTS: readonly number[] = Array.from(
   { length: PREDICTORS },
   (_, i) => (i % 2 === 0 ? 1 : -1) * ((10 - i) / 10) * 10 ** (-(i + 1) / 3),

@@ -41,7 +41,12 @@
 import { resolve } from "node:path";
 import { pathToFileURL } from "node:url";
 import { type Spread, spread } from "../startup.ts";
-import { EMPTY_DOCUMENT, fiveCellDocument, tableOnlyDocument } from "./documents.ts";
+import {
+  EMPTY_DOCUMENT,
+  fiveCellDocument,
+  plumbRunCommand,
+  tableOnlyDocument,
+} from "./documents.ts";
 import { scaleCsv } from "./generate.ts";
 import { measure, type Measured } from "./measure.ts";
 import { preparePeer } from "./peer.ts";
@@ -176,18 +181,7 @@ export async function scaleFigures(root: URL, options: ScaleOptions = {}): Promi
   for (const [name, text] of Object.values(documents)) {
     await Deno.writeTextFile(`${csv.dir}/${name}`, text);
   }
-  const plumb = (doc: string, ...extra: string[]) => [
-    Deno.execPath(),
-    "run",
-    `--config=${new URL("deno.json", root).pathname}`,
-    "--allow-read",
-    "--allow-env=LOG_TOKENS,LOG_STREAM",
-    new URL("cells/main.ts", root).pathname,
-    "run",
-    doc,
-    "--no-history",
-    ...extra,
-  ];
+  const plumb = (doc: string, ...extra: string[]) => plumbRunCommand(root, doc, ...extra);
   const counted = (n: number) => (m: Measured) => m.stdout.includes(`${n} current, 0 failed`);
   const series = [
     new Series("plumb run", plumb(documents.five[0]), counted(5)),
