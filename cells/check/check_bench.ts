@@ -9,12 +9,14 @@
  *
  * Run: deno bench cells/check/check_bench.ts
  *
- * Time and peak memory of one check (the process's peak resident set,
+ * Time (wall and processor, the latter steadier on a shared machine) and
+ * peak memory of one check (the process's peak resident set,
  * reset through /proc/self/clear_refs just before the check where Linux
  * allows it) are printed by
  *
  *   deno run -A cells/check/check_bench.ts [rows]    (Deno reads /proc/self only with -A)
  */
+import { cpuUsage } from "node:process";
 import { seededRandom } from "../../kernel/random.ts";
 import type { Fit } from "../fit/mod.ts";
 import { fitOf } from "../predict/_fixtures_test.ts";
@@ -53,12 +55,14 @@ if (import.meta.main) {
   const mb = (b: number) => (b / 2 ** 20).toFixed(0);
   const before = Deno.memoryUsage().rss;
   const reset = resetPeak();
-  const t0 = performance.now();
+  const c0 = cpuUsage(), t0 = performance.now();
   const r = checkOnce(fit);
-  const ms = performance.now() - t0;
+  const ms = performance.now() - t0, cpu = cpuUsage(c0);
   const peak = peakResident();
   console.log(
-    `check of ${rows} × 10: ${ms.toFixed(0)} ms; resident before ${mb(before)} MB, ` +
+    `check of ${rows} × 10: ${ms.toFixed(0)} ms (processor ${
+      ((cpu.user + cpu.system) / 1000).toFixed(0)
+    } ms); resident before ${mb(before)} MB, ` +
       (reset && peak !== null
         ? `peak during the check ${mb(peak)} MB (+${mb(peak - before)} MB)`
         : "peak not measurable here") +
