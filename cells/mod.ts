@@ -11,6 +11,7 @@ import { predictKind } from "./predict/mod.ts";
 import { compareKind } from "./compare/mod.ts";
 import { chartKind } from "./chart/mod.ts";
 import { checkKind } from "./check/mod.ts";
+import { searchKind } from "./search/mod.ts";
 
 /** Every kind Plumb knows, by name. */
 export const registry: Registry = makeRegistry([
@@ -20,4 +21,5 @@ export const registry: Registry = makeRegistry([
   compareKind,
   checkKind,
   chartKind,
+  searchKind,
 ]);

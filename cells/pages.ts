@@ -18,13 +18,15 @@ import { comparePage } from "./compare/view.tsx";
 import { checkPage } from "./check/view.tsx";
 import { predictPage } from "./predict/view.tsx";
 import { chartPage } from "./chart/view.tsx";
+import { searchPage } from "./search/view.tsx";
 
 // deno-lint-ignore no-explicit-any
 type AnyPage = PageFace<any, VNode>;
 
 /** Every page face, by kind name. */
 export const pages: ReadonlyMap<string, AnyPage> = new Map(
-  [tablePage, fitPage, comparePage, checkPage, predictPage, chartPage].map((p) => [p.kind, p]),
+  [tablePage, fitPage, comparePage, checkPage, predictPage, chartPage, searchPage]
+    .map((p) => [p.kind, p]),
 );
 
 /**

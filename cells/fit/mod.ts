@@ -46,6 +46,7 @@ export type { FitParameterResult, FitResult } from "./result.ts";
 export type { FitProblem, FitSolution } from "./problem.ts";
 export { refit, refitProblem } from "./refit.ts";
 export { fitBasis, fitFactor, fitLeverage, fitRobust, preciseAt } from "./fit_leverage.ts";
+export { type Likelihood, likelihood } from "./_likelihood.ts";
 
 /** The `fit` kind record. */
 export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
