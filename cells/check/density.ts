@@ -12,7 +12,7 @@
 import { standardNormal } from "../../kernel/stats/mod.ts";
 import type { ChartBins } from "../shared/chart_data.ts";
 import { countCells } from "../shared/count_cells.ts";
-import { cellEdges, cellOf, density, DENSITY_GRID } from "../shared/density.ts";
+import { cellEdges, cellOf, density, DENSITY_GRID, max, min } from "../shared/density.ts";
 
 /** The `check` result fields these charts read (RUN-JSON `check`). */
 export interface CheckChartInput {
@@ -48,22 +48,47 @@ export interface CheckDensity {
 /** Rows above which the residual charts draw counts instead of dots. */
 export const DENSE_ROWS = 5000;
 
-/** Counts of the sorted values against their normal quantiles, columns found by the CDF. */
+/**
+ * Counts of the values, in rank order, against their normal quantiles: the
+ * point of rank i (0 the smallest) is (Φ⁻¹(position(i)), its value), its
+ * column found by the CDF. The values need not be sorted: the rows of the
+ * grid are ordered as the values are, so the values in row j are those of
+ * ranks c₀ + … + c_{j−1} up to c₀ + … + c_j − 1 (c_j how many values fall in
+ * row j), and counting them by row gives each rank its row without a sort
+ * (100,000 values: a sort took about 7 ms of each update of a large check).
+ *
+ * @param values Finite values, in any order (at least one).
+ * @param q0 The first column's left edge (the normal quantile of rank 0).
+ * @param q1 The last column's right edge (that of rank n − 1).
+ * @param position The plotting position of a rank.
+ * @returns The counted cells; the same as counting the sorted values point by point.
+ * @example
+ * ```ts
+ * import { quantileDensity } from "./density.ts";
+ * const p = (i: number) => (i + 0.625) / 4.25;
+ * const a = quantileDensity([3, 1, 2, 0], -1, 1, p), b = quantileDensity([0, 1, 2, 3], -1, 1, p);
+ * if (JSON.stringify(a) !== JSON.stringify(b)) throw new Error("order matters");
+ * ```
+ */
 export function quantileDensity(
-  sorted: ArrayLike<number>,
+  values: ArrayLike<number>,
   q0: number,
   q1: number,
   position: (i: number) => number,
 ): ChartBins {
+  const n = values.length;
   const xEdges = cellEdges(q0, q1, DENSITY_GRID.nx);
-  const yEdges = cellEdges(sorted[0], sorted[sorted.length - 1], DENSITY_GRID.ny);
+  const yEdges = cellEdges(min(values), max(values), DENSITY_GRID.ny);
   const pEdges = xEdges.map((e) => standardNormal.cdf(e));
-  const xc = new Int32Array(sorted.length), yc = new Int32Array(sorted.length);
-  let k = 0;
-  for (let i = 0; i < sorted.length; i++) {
+  const inRow = new Int32Array(DENSITY_GRID.ny);
+  for (let i = 0; i < n; i++) inRow[cellOf(values[i], yEdges)]++;
+  const xc = new Int32Array(n), yc = new Int32Array(n);
+  let k = 0, j = 0, rowEnd = inRow[0];
+  for (let i = 0; i < n; i++) {
     while (k < DENSITY_GRID.nx - 1 && position(i) >= pEdges[k + 1]) k++;
+    while (i >= rowEnd) rowEnd += inRow[++j];
     xc[i] = k;
-    yc[i] = cellOf(sorted[i], yEdges);
+    yc[i] = j;
   }
   return countCells(xc, yc, xEdges, yEdges);
 }
@@ -91,9 +116,10 @@ export function checkDensity(r: CheckChartInput): CheckDensity | null {
   const scale = finitePairs(r.fitted, r.studentized_internal, Math.abs);
   const lev = finitePairs(r.leverage, r.studentized_internal);
   if (fitted.n <= DENSE_ROWS || scale.n <= DENSE_ROWS || lev.n <= DENSE_ROWS) return null;
-  const s = finiteSorted(r.studentized_internal);
+  const s = finite(r.studentized_internal);
   const n = s.length;
   if (n <= DENSE_ROWS) return null;
+  const lo = min(s), hi = max(s);
   const position = (i: number) => (i + 1 - 0.375) / (n + 0.25);
   const q0 = standardNormal.quantile(position(0)), q1 = standardNormal.quantile(position(n - 1));
   let trace = 0, hMax = -Infinity, rMax = -Infinity;
@@ -107,7 +133,7 @@ export function checkDensity(r: CheckChartInput): CheckDensity | null {
     quantiles: quantileDensity(s, q0, q1, position),
     scale: density(scale.x, scale.y),
     leverage: density(lev.x, lev.y),
-    line: [Math.min(q0, s[0]), Math.max(q1, s[n - 1])],
+    line: [Math.min(q0, lo), Math.max(q1, hi)],
     trace,
     hMax,
     rMax,
@@ -132,10 +158,10 @@ function finitePairs(
   return { x: x.subarray(0, n), y: y.subarray(0, n), n };
 }
 
-/** The finite values, sorted ascending (a typed array sorts numerically without a comparator). */
-function finiteSorted(a: (number | null)[]): Float64Array {
+/** The finite values, in row order (the quantile plot needs their ranks only: no sort). */
+function finite(a: (number | null)[]): Float64Array {
   const out = new Float64Array(a.length);
   let n = 0;
   for (const v of a) if (v !== null && Number.isFinite(v)) out[n++] = v;
-  return out.subarray(0, n).sort();
+  return out.subarray(0, n);
 }
