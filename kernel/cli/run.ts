@@ -185,6 +185,8 @@ export async function runCommand(args: string[], product: Product): Promise<numb
     history: wantHistory,
     // The summary shows no per-row values: they never leave the compute worker.
     lean: !a.json || a.withoutRows,
+    // One run: each data file's bytes are let go once the cells reading it have settled.
+    once: true,
   });
   try {
     const report = await session.run(source);

@@ -213,7 +213,11 @@ export function readInHalves(
       }
     }
   }
-  return readRows(bytes, o, pass, ncols, progress, from).row;
+  const rows = readRows(bytes, o, pass, ncols, progress, from).row;
+  // A helper kept for the next read would hold this file's memory: an idle thread never
+  // collects its garbage. A new one costs a thread's start, small beside a read this size.
+  stopHalvesHelper();
+  return rows;
 }
 
 /**

@@ -32,6 +32,8 @@ export interface RunHost {
   keep: boolean;
   /** Whether results leave out per-row fields (`SessionOptions.lean`). */
   lean: boolean;
+  /** Whether data files are let go once read (`SessionOptions.once`). */
+  once: boolean;
   /** Parses and checks a document (the last one is remembered). */
   prepare(source: string): Prepared;
   /** Keys every cell that can run, given the SHA-256 of each data file. */

@@ -36,6 +36,10 @@ import { referencedFields } from "./inline_refs.ts";
 import { lineCount } from "./files.ts";
 import { Waiting } from "./_waiting.ts";
 import type { CellReport, CellState, Plan, RunReport } from "./types.ts";
+import { collectGarbage } from "./_collect.ts";
+
+/** Bytes let go at once from which a run collects garbage at once (`once`; _collect.ts). */
+const COLLECT_FROM = 32 << 20;
 
 /** A cell sent into a worker's queue before its inputs' answers (`settled`) came back. */
 interface Ahead {
@@ -56,6 +60,8 @@ export class Run {
   #superseded = false;
   #plan!: Plan;
   #fileData = new Map<string, FileData>();
+  /** With `once`: the files let go, as the report gives them. */
+  #filesLetGo = new Map<string, RunReport["files"][number]>();
   #fileErrors = new Map<CellNode, LocatedError>();
   /** With `page`: per cell, the fields its inline values name. */
   #named = new Map<string, Set<string>>();
@@ -194,6 +200,7 @@ export class Run {
     const report = this.#answer(node, ahead).then((r) => {
       this.#reports.set(node, r);
       this.#computingOn.delete(node);
+      if (this.#host.once) this.#letGoOfFiles(node);
       return r;
     });
     this.#answers.set(node, report);
@@ -240,15 +247,37 @@ export class Run {
       settings,
       cells: this.#plan.graph.nodes.map((n) => this.#reports.get(n)!),
       errors: this.#plan.docErrors.map(located),
-      files: [...this.#fileData].map(([path, f]) => ({
-        path,
-        sha256: f.sha256,
-        bytes: f.bytes.length,
-        lines: lineCount(f.bytes),
-      })),
+      files: [...this.#fileData].map(([path, f]) => this.#filesLetGo.get(path) ?? fileFacts(f)),
       ran,
       superseded: false,
     };
+  }
+
+  /**
+   * With `once`: lets go of the bytes of each file the settled cell read when
+   * no cell still to settle reads it (a million-row CSV is 137 MB: kept to
+   * the end of a run, it was held beside every fit's arrays).
+   */
+  #letGoOfFiles(node: CellNode): void {
+    const settled = (n: CellNode) => this.#reports.has(n);
+    let dropped = 0;
+    for (const { path, option } of node.files) {
+      const data = this.#fileData.get(path);
+      if (data === undefined || this.#filesLetGo.has(path)) continue;
+      const readers = this.#plan.graph.nodes.filter((n) => n.files.some((f) => f.path === path));
+      if (!readers.every(settled)) continue;
+      this.#filesLetGo.set(path, fileFacts(data));
+      this.#fileData.set(path, { ...data, bytes: new Uint8Array(0) }); // its facts: #filesLetGo
+      this.#host.files.forget(this.#host.files.resolvePath(path, option));
+      dropped += data.bytes.length;
+    }
+    if (dropped === 0) return;
+    const kept = [...this.#fileData].filter(([p]) => !this.#filesLetGo.has(p));
+    // The workers keep every output (a later cell may read it) and the files still to be read.
+    this.#host.pool.retain(this.#plan.keys.values(), kept.map(([, f]) => f.sha256));
+    // This thread allocates little from here on: collect soon (once the frames of the answer
+    // that settled have let go of the bytes too), or they stay resident.
+    if (dropped >= COLLECT_FROM) setTimeout(collectGarbage, 0);
   }
 
   /** Drops cached outcomes and worker outputs that the current document no longer uses. */
@@ -440,4 +469,9 @@ export class Run {
     if (!this.#superseded) this.#host.emit({ name: report.name, state: report.state, report });
     return report;
   }
+}
+
+/** A file as a run's report gives it. */
+function fileFacts(f: FileData): RunReport["files"][number] {
+  return { path: f.path, sha256: f.sha256, bytes: f.bytes.length, lines: lineCount(f.bytes) };
 }

@@ -67,6 +67,7 @@ export class Session {
       page: opts.page === true,
       keep: opts.history === true,
       lean: opts.lean === true && opts.page !== true,
+      once: opts.once === true,
       prepare: (source) => this.#prepare(source),
       keyed: (prep, shas) => this.#keyed(prep, shas),
       emit: (e) => opts.onEvent?.(e),

@@ -142,6 +142,44 @@ Deno.test("Session.run() reruns a file's readers when the file changes, and only
   });
 });
 
+Deno.test("Session.run() with once: true lets go of a file after its last reader, and its readers' outputs stay", async () => {
+  const dir = await Deno.makeTempDir({ prefix: "plumb-session-" });
+  const s = new Session({ registry: fakeRegistry, workerUrl: WORKER, dir, once: true });
+  try {
+    const path = join(dir, "data.txt");
+    await Deno.writeTextFile(path, "abcde");
+    // raw2 settles while l waits in the worker's queue: the file is let go then (raw2 is its
+    // last reader), and the outputs of raw2 and l must stay for the cells after them.
+    const doc = cell("bytes", "raw", "from: data.txt") + cell("bytes", "raw2", "from: data.txt") +
+      cell("length", "l", "of: raw2") + cell("sum", "t", "of: [l]") +
+      cell("length", "m", "of: raw");
+    let r = await s.run(doc);
+    deepEqual(r.cells.map((c) => [c.name, c.state]), [
+      ["raw", "current"],
+      ["raw2", "current"],
+      ["l", "current"],
+      ["t", "current"],
+      ["m", "current"],
+    ]);
+    equal((stateOf(r, "t").result as { value: number }).value, 5);
+    equal((stateOf(r, "m").result as { value: number }).value, 5);
+    // SHA-256 of "abcde" (common practice, no source: any sha256sum gives it).
+    deepEqual(r.files, [{
+      path: "data.txt",
+      sha256: "36bbe50ed96841d10443bcb670d6554f0a34b761be67ec9c4a8ad2c0c44ca42c",
+      bytes: 5,
+      lines: 1,
+    }]);
+    // Let go of, so read again without a forget from a watcher.
+    await Deno.writeTextFile(path, "abcdefg");
+    r = await s.run(doc);
+    equal((stateOf(r, "l").result as { value: number }).value, 7);
+  } finally {
+    s.close();
+    await Deno.remove(dir, { recursive: true });
+  }
+});
+
 Deno.test("Session.run() locates a missing file and a path leaving the folder at the option", async () => {
   await withSession(async (s) => {
     const r = await s.run(

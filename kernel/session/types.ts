@@ -121,4 +121,12 @@ export interface SessionOptions {
    * (`CellReport.kept`; kernel/history). Default false.
    */
   history?: boolean;
+  /**
+   * The session runs its document once (`plumb run`): a data file's bytes are
+   * let go (here and in the workers) as soon as every cell reading it has
+   * settled, since no later run will want them; the run's report still gives
+   * each file's SHA-256, size and lines. Default false (a live session keeps
+   * them for the next run).
+   */
+  once?: boolean;
 }

@@ -238,7 +238,10 @@ export class ComputeWorker {
     const k = new Set(keys), s = new Set(shas);
     for (const x of this.#outputs) if (!k.has(x)) this.#outputs.delete(x);
     for (const x of this.#files) if (!s.has(x)) this.#files.delete(x);
-    this.#post({ op: "retain", keys: [...this.#outputs], shas: [...this.#files] });
+    // Outputs of runs still in its queue are kept too when listed (a retain sent mid-run).
+    const coming = [...this.#pending.values()].filter((p) => p.run && k.has(p.key));
+    const kept = [...new Set([...this.#outputs, ...coming.map((p) => p.key)])];
+    this.#post({ op: "retain", keys: kept, shas: [...this.#files] });
   }
 
   /** Stops the worker. */

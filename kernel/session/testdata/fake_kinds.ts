@@ -75,6 +75,20 @@ export const bytesKind: CellKind<{ from: string }, Num, { value: number }> = {
   ...plain,
 };
 
+/** `length l` with `of: raw` gives the value of a `bytes` cell (a reader of a "Table"). */
+export const lengthKind: CellKind<{ of: string }, Num, { value: number }> = {
+  kind: "length",
+  body: "yaml",
+  output: "Value",
+  description: "the length a bytes cell read",
+  parse: (ctx) => ({ of: String(ctx.options.of) }),
+  inputs: (spec) => [{ name: spec.of, accepts: ["Table"] as const, path: ["of"] }],
+  run: (spec, ctx) => ({ type: "Value", value: (ctx.inputs[spec.of] as Num).value }),
+  summary: (out) => ({ value: out.value }),
+  line: (r) => String(r.value),
+  ...plain,
+};
+
 /** `peek p` tries to read a file from inside the worker (it must be refused). */
 export const peekKind: CellKind<{ path: string }, Num, { value: number }> = {
   kind: "peek",
@@ -114,4 +128,11 @@ export const spinKind: CellKind<{ ms: number; tag: number }, Num, { value: numbe
 };
 
 /** The test registry. */
-export const fakeRegistry = makeRegistry([numKind, sumKind, bytesKind, peekKind, spinKind]);
+export const fakeRegistry = makeRegistry([
+  numKind,
+  sumKind,
+  bytesKind,
+  lengthKind,
+  peekKind,
+  spinKind,
+]);
