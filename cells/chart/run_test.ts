@@ -199,3 +199,42 @@ Deno.test("chartKind.summary() rounds to 7 significant digits", async () => {
   for (const v of r.curves[0].y) ok(v === null || Number(v.toPrecision(7)) === v);
   equal(chartKind.line(r), "y against x · 5 points · 1 curve");
 });
+
+Deno.test("runChart() leaves out a row with a missing value and gives plain arrays", async () => {
+  const cells: Cells = {};
+  await addTable(cells, "t", {
+    columns: ["x", "y"],
+    rows: [[1, 1.1], [2, null], [3, 3.2], [4, 3.8], [5, 5.1]],
+  });
+  await addFit(cells, "line", "t", "y = a + b*x");
+  const { out } = await runChartCell(cells, {
+    on: "t",
+    x: "x",
+    y: "y",
+    fits: ["line"],
+    residuals: true,
+  });
+  deepEqual(out.data.data, { x: [1, 3, 4, 5], y: [1.1, 3.2, 3.8, 5.1] });
+  const series = out.data.residuals!.series[0];
+  deepEqual(series.x, [1, 3, 4, 5]);
+  ok(Array.isArray(series.r) && series.r.length === 4);
+  // The summary is plain JSON: arrays stay arrays (a typed array would become an object).
+  const r = chartKind.summary(out, {} as never);
+  ok(Array.isArray(r.residuals!.series[0].x) && Array.isArray(r.data!.x));
+});
+
+Deno.test("runChart() with every row drawn reads the table's columns without changing them", async () => {
+  const cells = await lineCells();
+  const before = JSON.stringify(cells.t);
+  const { out } = await runChartCell(cells, {
+    on: "t",
+    x: "x",
+    y: "y",
+    fits: ["line"],
+    residuals: true,
+  });
+  deepEqual(out.data.data, { x: XS, y: YS });
+  deepEqual(out.data.residuals!.series[0].x, XS);
+  ok(Array.isArray(out.data.residuals!.series[0].r));
+  equal(JSON.stringify(cells.t), before);
+});
