@@ -20,6 +20,7 @@ import { sha256Hex } from "../hash.ts";
 import { historyPath, historyTempPath, type Recorded, recordRun } from "../history/mod.ts";
 import { mayRelaunch, relaunch } from "./relaunch.ts";
 import { formatHuman } from "./format_human.ts";
+import { progressOnStderr } from "./progress.ts";
 import type { Product } from "./product.ts";
 
 /**
@@ -187,6 +188,8 @@ export async function runCommand(args: string[], product: Product): Promise<numb
     lean: !a.json || a.withoutRows,
     // One run: each data file's bytes are let go once the cells reading it have settled.
     once: true,
+    // Long cells (a search of many candidates) say how far they are, on standard error.
+    onEvent: progressOnStderr(),
   });
   try {
     const report = await session.run(source);
