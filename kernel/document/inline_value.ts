@@ -96,7 +96,7 @@ function show(value: unknown, where: string, digits: number | null): Resolved {
   if (typeof value === "string") return { ok: true, text: value };
   if (typeof value === "boolean") return { ok: true, text: value ? "yes" : "no" };
   if (value === null) return { ok: true, text: "none" };
-  if (Array.isArray(value)) {
+  if (isList(value)) {
     return {
       ok: false,
       error: `"${where}" is a list of ${value.length} values: pick one with [i]`,
@@ -200,15 +200,16 @@ function walk(
     const step = path[i];
     const here = describe(cell, [...prefix, ...path.slice(0, i)]);
     if (typeof step === "number") {
-      if (!Array.isArray(value)) return { ok: false, error: `"${here}" is not a list` };
+      if (!isList(value)) return { ok: false, error: `"${here}" is not a list` };
       if (step >= value.length) {
         return { ok: false, error: `"${here}" has ${value.length} items: no [${step}]` };
       }
       value = value[step];
-    } else if (Array.isArray(value)) {
-      const found = byName(value, step);
+    } else if (isList(value)) {
+      const list = Array.isArray(value) ? value : []; // numbers have no names
+      const found = byName(list, step);
       if (found === undefined) {
-        const names = value.flatMap((e) => {
+        const names = list.flatMap((e) => {
           const n = (e as { name?: unknown; fit?: unknown } | null)?.name ??
             (e as { fit?: unknown } | null)?.fit;
           return typeof n === "string" ? [n] : [];
@@ -235,4 +236,13 @@ function walk(
     }
   }
   return show(value, describe(cell, [...prefix, ...path]), digits);
+}
+
+/**
+ * Whether a result's value is a list: a plain array, or a typed array (long
+ * per-row fields cross from the compute worker as Float64Array:
+ * kernel/worker/protocol.ts, `packRows`).
+ */
+function isList(v: unknown): v is ArrayLike<unknown> {
+  return Array.isArray(v) || (ArrayBuffer.isView(v) && !(v instanceof DataView));
 }

@@ -46,3 +46,14 @@ Deno.test("formatValue() never rounds a value that is not 1 or 0 to 1 or 0", () 
   assert.equal(formatValue(0.998, 2), "0.998");
   assert.equal(formatValue(0.97, 2), "0.97");
 });
+
+Deno.test("resolveValue() reads a per-row field that crossed from the worker as a Float64Array", () => {
+  const fit = { n: 3, fitted: new Float64Array([1.5, 2.25, 3]) };
+  assert.deepEqual(resolveValue(fit, "line", ["fitted", 1], null), { ok: true, text: "2.25" });
+  const whole = resolveValue(fit, "line", ["fitted"], null);
+  assert.match((whole as { error: string }).error, /is a list of 3 values: pick one with \[i\]/);
+  const past = resolveValue(fit, "line", ["fitted", 3], null);
+  assert.match((past as { error: string }).error, /has 3 items: no \[3\]/);
+  const named = resolveValue(fit, "line", ["fitted", "x"], null);
+  assert.match((named as { error: string }).error, /is a list: pick an item with \[i\]/);
+});

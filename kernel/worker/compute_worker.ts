@@ -27,6 +27,7 @@ import {
   type FromWorker,
   type ImportMessage,
   type OutputMessage,
+  packRows,
   type RetainMessage,
   type ToWorker,
   transientAnswer,
@@ -100,7 +101,12 @@ class InOrder {
 export function serveComputeWorker(registry: Registry): void {
   const store: WorkerStore = { outputs: new Map(), files: new Map() };
   const cancelled = new Set<number>();
-  const post = (m: FromWorker) => self.postMessage(m);
+  // A summary's per-row arrays are moved as Float64Array, not copied as objects (packRows).
+  const post = (m: FromWorker) => {
+    if (m.op !== "done" || m.summary === undefined) return self.postMessage(m);
+    const { summary, buffers } = packRows(m.summary);
+    self.postMessage({ ...m, summary }, buffers);
+  };
   // Messages are handled one at a time, in arrival order: a run may read the
   // output of the run just before it, and a retain must not overtake a run.
   // A cancel and an export are answered at once (between runs, since runs are
