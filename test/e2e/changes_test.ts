@@ -62,9 +62,21 @@ Deno.test({
         (e) => (e as HTMLElement).offsetHeight > 0 ? e.textContent ?? "" : "",
       );
       ok(numbers.length > 0, "the numbers table shows once asked for");
+      // Closed, the disclosure's charts wait undrawn (ui/charts/chart_figure.tsx); opened, they are drawn.
+      const waiting = await page.$$eval(".pl-drift-chart [data-pending]", (s) => s.length);
+      const early = await page.$$eval(".pl-drift-chart svg.plumb-chart", (s) => s.length);
+      ok(waiting >= 7 && early === 0, `closed: ${waiting} waiting, ${early} drawn`);
       await page.click(".pl-drift > summary");
+      await page.waitForFunction(
+        () => document.querySelectorAll(".pl-drift-chart svg.plumb-chart").length >= 7,
+        { timeout: 10_000 },
+      );
       const charts = await page.$$eval(".pl-drift-chart svg.plumb-chart", (s) => s.length);
       ok(charts >= 7, `${charts} drift charts (one per fit parameter)`);
+      ok(
+        await page.$(".pl-drift-chart [data-pending]") === null,
+        "no drift chart waits once the disclosure is open",
+      );
       const groups = await page.$$eval(".pl-drift-group h3", (hs) => hs.map((h) => h.textContent));
       ok(groups.some((g) => g?.startsWith("root")), `drift groups: ${groups.join(", ")}`);
       for (const vp of WIDTHS) {
@@ -97,6 +109,10 @@ Deno.test({
       ok(
         await page.$eval(".pl-drift", (e) => (e as HTMLDetailsElement).open),
         "the drift disclosure stays open across the update",
+      );
+      ok(
+        await page.$(".pl-drift-chart [data-pending]") === null,
+        "open, the drift charts are drawn from the new revisions at once",
       );
       ok(b.errors.length === 0, b.errors.join("\n"));
     });
