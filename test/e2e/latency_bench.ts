@@ -189,8 +189,10 @@ export async function updateLatency(
           ) => [e, Number(e.getAttribute("data-computed"))]),
         );
         w.observer?.disconnect();
-        // Charts off screen may wait to be drawn (data-pending); none on screen may.
+        // Charts off screen or in a closed disclosure may wait to be drawn (data-pending);
+        // none shown on screen may (checkVisibility: false inside a closed <details>).
         const onScreen = (e: Element) => {
+          if (!e.checkVisibility()) return false;
           const r = e.getBoundingClientRect();
           return r.bottom > 0 && r.top < innerHeight;
         };
