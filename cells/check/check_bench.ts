@@ -66,7 +66,7 @@ if (import.meta.main) {
       (reset && peak !== null
         ? `peak during the check ${mb(peak)} MB (+${mb(peak - before)} MB)`
         : "peak not measurable here") +
-      `; findings ${r.findings.map((f) => f.code).join(", ") || "none"}`,
+      `; findings ${r.result.findings.map((f) => f.code).join(", ") || "none"}`,
   );
 }
 

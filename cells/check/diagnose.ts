@@ -61,10 +61,9 @@ import {
 import type { QRFactorization } from "../../kernel/linalg/mod.ts";
 import { type Fit, fitBasis, fitFactor, fitLeverage } from "../fit/mod.ts";
 import type { CheckSpec } from "./spec.ts";
-import type { CheckResult } from "./result.ts";
+import type { CheckResult, CheckRows, CheckScalars } from "./result.ts";
 import { findingsOf } from "./findings.ts";
 import { robustOf } from "./robust.ts";
-import { plainArray } from "../../kernel/arrays.ts";
 
 /**
  * All diagnostics of a fit as the RUN-JSON `check` object.
@@ -74,7 +73,11 @@ import { plainArray } from "../../kernel/arrays.ts";
  * @param level The level of robust intervals (the document's confidence).
  * @returns The result, findings included.
  */
-export function diagnose(fit: Fit, spec: CheckSpec, level: number): CheckResult {
+export function diagnose(
+  fit: Fit,
+  spec: CheckSpec,
+  level: number,
+): { result: CheckScalars; perRow: CheckRows } {
   const { design, weights, residuals } = fit;
   const n = residuals.length, p = design.length;
   const h = fitLeverage(fit);
@@ -84,7 +87,17 @@ export function diagnose(fit: Fit, spec: CheckSpec, level: number): CheckResult 
   const dw = durbinWatsonTest(residuals, design, weights, () => fitBasis(fit), rowsOf(fit));
   const free = freeColumns(fit);
   const qr = ownQR(fit);
-  const base: Omit<CheckResult, "findings"> = {
+  const perRow: CheckRows = {
+    rows: fit.rows,
+    fitted: fit.fitted,
+    residuals,
+    leverage: h,
+    studentized_internal: st.internal,
+    studentized_external: st.external,
+    cooks_distance: cooksDistance(st.internal, h, p),
+    dffits: dffits(st.external, h),
+  };
+  const base: Omit<CheckScalars, "findings"> = {
     fit: spec.fit,
     n,
     p,
@@ -92,14 +105,6 @@ export function diagnose(fit: Fit, spec: CheckSpec, level: number): CheckResult 
     weighted: fit.weighted,
     significance: spec.significance,
     sigma_unit: fit.units?.response ?? null,
-    rows: plainArray(fit.rows),
-    fitted: plainArray(fit.fitted),
-    residuals: plainArray(residuals),
-    leverage: plainArray(h),
-    studentized_internal: st.internal,
-    studentized_external: st.external,
-    cooks_distance: cooksDistance(st.internal, h, p),
-    dffits: dffits(st.external, h),
     vif: vifOf(fit, free),
     vif_form: vifForm(free.design),
     condition_number: conditionOf(fit, free),
@@ -122,7 +127,7 @@ export function diagnose(fit: Fit, spec: CheckSpec, level: number): CheckResult 
     loo_rmse: loo.looRmse,
     robust: spec.robust === null ? null : robustOf(fit, spec.robust, level),
   };
-  return { ...base, findings: findingsOf(base) };
+  return { result: { ...base, findings: findingsOf({ ...base, ...perRow }) }, perRow };
 }
 
 function spread(x: Float64Array): boolean {

@@ -26,12 +26,13 @@
  * @module
  */
 import { fisherF } from "../../kernel/stats/mod.ts";
-import type { CheckResult, Finding } from "./result.ts";
+import type { CheckRows, CheckScalars, Finding } from "./result.ts";
 import { fmt, fmtVif } from "./_format.ts";
 import { formatPPhrase } from "../shared/format.ts";
 import { rowsInFull } from "../shared/rows.ts";
 
-type Base = Omit<CheckResult, "findings">;
+/** Every diagnostic but the findings, the per-row fields as the worker keeps them (NaN: none). */
+type Base = Omit<CheckScalars, "findings"> & CheckRows;
 
 /**
  * The findings of a check, in order of seriousness.
@@ -109,7 +110,7 @@ function largest(idx: readonly number[], size: (i: number) => number, k: number)
 
 function rowFindings(r: Base, add: Add): void {
   const { n, p } = r;
-  const one = pick(r, (i) => r.studentized_internal[i] === null && 1 - r.leverage[i] < 1e-10);
+  const one = pick(r, (i) => Number.isNaN(r.studentized_internal[i]) && 1 - r.leverage[i] < 1e-10);
   if (one.length) {
     add(
       "determined-by-one-row",
@@ -121,7 +122,8 @@ function rowFindings(r: Base, add: Add): void {
       } alone determines a parameter (the fit passes through it exactly), so its studentized residuals, Cook's distance and DFFITS do not exist.`,
     );
   }
-  const out = pick(r, (i) => Math.abs(r.studentized_external[i] ?? 0) > 3);
+  // NaN (no residual: leverage 1) compares false: never flagged here.
+  const out = pick(r, (i) => Math.abs(r.studentized_external[i]) > 3);
   if (out.length) {
     add(
       "outlier",
@@ -130,7 +132,7 @@ function rowFindings(r: Base, add: Add): void {
         ? manyRows(
           r,
           out,
-          (i) => Math.abs(r.studentized_external[i] ?? 0),
+          (i) => Math.abs(r.studentized_external[i]),
           (i) => fmt(r.studentized_external[i]),
           "externally studentized residuals",
           "beyond ±3 (common practice)",
@@ -145,7 +147,7 @@ function rowFindings(r: Base, add: Add): void {
   if (n > p) {
     const median = fisherF(p, n - p).quantile(0.5);
     const cut = Math.max(4 / n, median);
-    const inf = pick(r, (i) => (r.cooks_distance[i] ?? 0) > cut);
+    const inf = pick(r, (i) => r.cooks_distance[i] > cut);
     if (inf.length) {
       const rule = `above 4/n = ${fmt(4 / n)} and the median of F(${p}, ${n - p}) = ${
         fmt(median)
@@ -157,7 +159,7 @@ function rowFindings(r: Base, add: Add): void {
           ? manyRows(
             r,
             inf,
-            (i) => r.cooks_distance[i] ?? 0,
+            (i) => r.cooks_distance[i],
             (i) => fmt(r.cooks_distance[i]),
             "Cook's distance",
             rule,

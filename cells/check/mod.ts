@@ -18,7 +18,7 @@ import { CellError } from "../../kernel/errors.ts";
 import type { CellKind } from "../../kernel/contract/mod.ts";
 import type { Fit } from "../fit/mod.ts";
 import { type CheckSpec, parseCheckSpec } from "./spec.ts";
-import type { CheckResult, Diagnostics } from "./result.ts";
+import { type CheckResult, type Diagnostics, ROW_FIELDS, type RowField } from "./result.ts";
 import { diagnose } from "./diagnose.ts";
 import { CHECK_OPTIONS } from "./spec.ts";
 import { checkHistory } from "./history.ts";
@@ -47,27 +47,50 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
         ["fit"],
       );
     }
-    return { type: "Diagnostics", result: diagnose(fit, spec, ctx.settings.confidence) };
+    return { type: "Diagnostics", ...diagnose(fit, spec, ctx.settings.confidence) };
   },
-  summary: (out) => out.result,
+  summary: summaryOf,
   line: lineOf,
   options: CHECK_OPTIONS,
   history: checkHistory,
   page: { omit: ["studentized_external", "dffits"], condense: condenseCharts },
-  rows: [
-    "rows",
-    "fitted",
-    "residuals",
-    "leverage",
-    "studentized_internal",
-    "studentized_external",
-    "cooks_distance",
-    "dffits",
-  ],
+  rows: ROW_FIELDS,
   template: (ctx) =>
     `fit: ${cellsOf(ctx, "Fit").at(-1)?.name ?? "fit1"}
 `,
 };
+
+/**
+ * The RUN-JSON `check` object: the per-row fields asked for made plain arrays
+ * (NaN: null), placed after `sigma_unit` as they always were.
+ */
+function summaryOf(
+  out: Diagnostics,
+  _spec: CheckSpec,
+  leaveOut?: ReadonlySet<string>,
+): CheckResult {
+  const { fit, n, p, method, weighted, significance, sigma_unit, ...rest } = out.result;
+  const rows: Partial<Record<RowField, (number | null)[]>> = {};
+  for (const f of ROW_FIELDS) if (!leaveOut?.has(f)) rows[f] = nullable(out.perRow[f]);
+  return {
+    fit,
+    n,
+    p,
+    method,
+    weighted,
+    significance,
+    sigma_unit,
+    ...rows,
+    ...rest,
+  } as CheckResult;
+}
+
+/** A plain array of the values, NaN as null (JSON has no NaN). */
+function nullable(a: ArrayLike<number>): (number | null)[] {
+  const out = new Array<number | null>(a.length);
+  for (let i = 0; i < a.length; i++) out[i] = Number.isNaN(a[i]) ? null : a[i];
+  return out;
+}
 
 function lineOf(r: CheckResult): string {
   if (r.findings.length === 0) return "no findings";
@@ -93,7 +116,10 @@ const CHART_ARRAYS = [
 /** A large check's charts counted once (`density`) instead of five per-row arrays. */
 function condenseCharts(r: CheckResult) {
   const fields = r as unknown as Record<string, unknown>;
-  if (!CHART_ARRAYS.every((f) => Array.isArray(fields[f]))) return null;
+  // Typed arrays too: a complete result read back on the main thread has its long
+  // per-row fields as Float64Array (kernel/worker/protocol.ts, packRows).
+  const list = (v: unknown) => Array.isArray(v) || ArrayBuffer.isView(v);
+  if (!CHART_ARRAYS.every((f) => list(fields[f]))) return null;
   const density = checkDensity(r as unknown as CheckChartInput);
   return density === null ? null : { add: { density }, omit: CHART_ARRAYS };
 }

@@ -120,8 +120,35 @@ export interface CheckResult {
   findings: Finding[];
 }
 
+/** The per-row fields of the RUN-JSON `check` object (`CellKind.rows`), in their order there. */
+export const ROW_FIELDS = [
+  "rows",
+  "fitted",
+  "residuals",
+  "leverage",
+  "studentized_internal",
+  "studentized_external",
+  "cooks_distance",
+  "dffits",
+] as const;
+
+/** One of {@link ROW_FIELDS}. */
+export type RowField = typeof ROW_FIELDS[number];
+
+/**
+ * The per-row fields as the compute worker keeps them: typed arrays, NaN where
+ * a value does not exist (null in RUN-JSON). Plain arrays are made by the
+ * summary only for the fields asked for: a million rows of them, with nulls,
+ * were millions of heap numbers that every later collection walked.
+ */
+export type CheckRows = Record<RowField, ArrayLike<number>>;
+
+/** Everything a check gives but its per-row fields. */
+export type CheckScalars = Omit<CheckResult, RowField>;
+
 /** What a check cell gives other cells (charts, the record). */
 export interface Diagnostics extends CellOutput {
   type: "Diagnostics";
-  result: CheckResult;
+  result: CheckScalars;
+  perRow: CheckRows;
 }

@@ -11,27 +11,26 @@
 /**
  * DFFITS per row.
  *
- * @param external Externally studentized residuals (null where undefined).
+ * @param external Externally studentized residuals (NaN where undefined).
  * @param hat hᵢ per row.
- * @returns DFFITSᵢ per row, null where tᵢ is null.
+ * @returns DFFITSᵢ per row, NaN where tᵢ is NaN.
  * @throws {RangeError} When the lengths differ.
  * @example
  * ```ts
  * import { dffits } from "./dffits.ts";
  * // t = 3, h = 0.5: 3·√1 = 3 (hand computation).
- * if (dffits([3], new Float64Array([0.5]))[0] !== 3) throw new Error();
+ * if (dffits(new Float64Array([3]), new Float64Array([0.5]))[0] !== 3) throw new Error();
  * ```
  */
-export function dffits(external: readonly (number | null)[], hat: Float64Array): (number | null)[] {
+export function dffits(external: Float64Array, hat: Float64Array): Float64Array {
   if (external.length !== hat.length) {
     throw new RangeError(
       `Cannot compute DFFITS: ${external.length} residuals, ${hat.length} hat values`,
     );
   }
-  const out = new Array<number | null>(external.length);
+  const out = new Float64Array(external.length);
   for (let i = 0; i < external.length; i++) {
-    const t = external[i];
-    out[i] = t === null ? null : t * Math.sqrt(hat[i] / (1 - hat[i]));
+    out[i] = external[i] * Math.sqrt(hat[i] / (1 - hat[i])); // NaN stays NaN
   }
   return out;
 }

@@ -9,17 +9,20 @@
  *   s₍ᵢ₎² = ((n − p)·s² − ẽᵢ²/(1 − hᵢ)) / (n − p − 1), no refit needed.
  *
  * ẽᵢ = √wᵢ·eᵢ for a weighted fit (hᵢ then from √W·X). A leverage of 1
- * (1 − hᵢ < 1e-10) leaves the residual undefined: null. With n − p − 1 ≤ 0
- * (or s₍ᵢ₎ = 0) the external residual is null too.
+ * (1 − hᵢ < 1e-10) leaves the residual undefined: NaN. With n − p − 1 ≤ 0
+ * (or s₍ᵢ₎ = 0) the external residual is NaN too. Float64Arrays, not plain
+ * arrays with nulls: a million rows of those were two million heap numbers,
+ * and every later collection in the worker walked them (RUN-JSON writes NaN
+ * as null).
  *
  * @module
  */
 import { LEVERAGE_ONE_TOLERANCE } from "./leverage.ts";
 
-/** Both kinds of studentized residual, per row; null where undefined. */
+/** Both kinds of studentized residual, per row; NaN where undefined. */
 export interface StudentizedResiduals {
-  internal: (number | null)[];
-  external: (number | null)[];
+  internal: Float64Array;
+  external: Float64Array;
   /** s = √(Σẽ²/(n − p)). */
   sigma: number;
 }
@@ -38,7 +41,7 @@ export interface StudentizedResiduals {
  * import { studentizedResiduals } from "./studentized_residuals.ts";
  * // e = (1, −2, 1, 0), h = 0.5 each, p = 2: s² = 6/2 = 3, r₁ = 1/(√3·√0.5) (hand computation).
  * const r = studentizedResiduals(new Float64Array([1, -2, 1, 0]), new Float64Array(4).fill(0.5), 2, null);
- * if (Math.abs(r.internal[0]! - 1 / Math.sqrt(1.5)) > 1e-14) throw new Error();
+ * if (Math.abs(r.internal[0] - 1 / Math.sqrt(1.5)) > 1e-14) throw new Error();
  * ```
  */
 export function studentizedResiduals(
@@ -65,17 +68,17 @@ export function studentizedResiduals(
   }
   const df = n - p;
   const sigma = Math.sqrt(rss / df);
-  const internal = new Array<number | null>(n), external = new Array<number | null>(n);
+  const internal = new Float64Array(n), external = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const gap = 1 - hat[i];
     if (gap < LEVERAGE_ONE_TOLERANCE) {
-      internal[i] = null;
-      external[i] = null;
+      internal[i] = NaN;
+      external[i] = NaN;
       continue;
     }
-    internal[i] = sigma > 0 ? e[i] / (sigma * Math.sqrt(gap)) : null;
+    internal[i] = sigma > 0 ? e[i] / (sigma * Math.sqrt(gap)) : NaN;
     const loo = df > 1 ? (rss - e[i] * e[i] / gap) / (df - 1) : NaN;
-    external[i] = loo > 0 ? e[i] / Math.sqrt(loo * gap) : null;
+    external[i] = loo > 0 ? e[i] / Math.sqrt(loo * gap) : NaN;
   }
   return { internal, external, sigma };
 }
