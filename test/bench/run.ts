@@ -42,6 +42,19 @@
  *   run and reporting against 100 records of a 20,000-row table, target under
  *   1 s; test/bench/history.ts).
  *
+ * - `side_by_side` (issue 16): Plumb against the usual Python route (pandas +
+ *   statsmodels, installed by the bench from Debian's packages when missing)
+ *   on the same seeded 1,000,000 × 11 CSV, each a whole process, three runs
+ *   each taking turns: `plumb run` of the five-cell document (target: under
+ *   the peer's time, peak under 600 MB), `--json` (within 1.5× of it), ingest
+ *   minus start-up (250 MB/s or better); see BENCHMARKS.md
+ *   (test/bench/scale/scale.ts). `--quick` measures it at 100,000 rows.
+ * - `search_15`, `search_15_loo`, `search_25`: the `search` cell over 15 and 25
+ *   candidates at n = 5,000 (targets under 1 s and 30 s; test/bench/search.ts).
+ * - `nonlinear_fit_cell_exp3_n100`: fits a second of the whole fit cell (parse,
+ *   solve, polish, covariance) of y = a·exp(−b·x) + c, n = 100, start values
+ *   given (cells/fit/nonlinear_bench.ts); the issue's peer: 5,977 a second.
+ *
  * `deno task bench --startup` measures only the two start-up figures and
  * prints them (a few seconds; bench-report.json is left as it is).
  *
@@ -62,6 +75,8 @@ import { certifiedMillion } from "./certified_million.ts";
 import { manyCells } from "./many_cells.ts";
 import { recordExport } from "./record_export.ts";
 import { historyFigures } from "./history.ts";
+import { searchFigures } from "./search.ts";
+import { MILLION, QUICK_ROWS, scaleFigures } from "./scale/scale.ts";
 
 const root = new URL("../../", import.meta.url);
 const started = performance.now();
@@ -229,7 +244,13 @@ type Bench = { name: string; avg_ms: number | null };
 function fromBenches(benches: Bench[]) {
   const ms = (prefix: string) => benches.find((b) => b.name.startsWith(prefix))?.avg_ms ?? null;
   const nonlinear = ms("nonlinear fit, 3-parameter exponential, n = 100");
+  const cell = ms("fit cell, 3-parameter exponential, n = 100, start values given");
   return {
+    // The issue's peer (least squares with an analytic Jacobian, issue 16): 5,977 a second.
+    nonlinear_fit_cell_exp3_n100: {
+      fits_per_second: cell === null ? null : 1000 / cell,
+      target_fits_per_second: 5977,
+    },
     linear_fit_1e6_by_10_double_ms: ms("leastSquares 1,000,000 × 10"),
     linear_fit_1e4_by_10_double_double_ms: ms("ddLeastSquares 10,000 × 10"),
     nonlinear_fits_per_second_exp3_n100: nonlinear === null ? null : 1000 / nonlinear,
@@ -268,6 +289,12 @@ const history = await step(
   "history: plumb run with and without the run history; 100 records of 20,000 rows",
   () => historyFigures(root),
 );
+const search = await step("search: 15 and 25 candidates at n = 5,000", searchFigures);
+const rows = Deno.args.includes("--quick") ? QUICK_ROWS : MILLION;
+const sideBySide = await step(
+  `side_by_side: plumb run against pandas + statsmodels, ${rows} rows`,
+  () => scaleFigures(root, { rows, runs: 3, say: progress }),
+);
 const ingest = await step("csv_ingest: 1,000,000 × 11 CSV", csvIngest);
 const chain = await step("schedule_chain_200", scheduleChain);
 const report = {
@@ -286,6 +313,8 @@ const report = {
     record_export: record,
     history_demo: history.demo,
     history_large: history.large,
+    side_by_side: sideBySide,
+    ...search,
     ...fromBenches(benches),
   },
   benches,
