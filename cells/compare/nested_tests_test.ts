@@ -45,3 +45,20 @@ Deno.test("compare does not call equal-size or unrelated linear fits nested", ()
   });
   assert.deepEqual(result.nested_tests, []);
 });
+
+Deno.test("compare finds nesting through the larger fit's QR with weights, and refuses log x", () => {
+  const w = { weights: "1/x" };
+  const { result } = compare({
+    centred: fitOf("centred", "y = m + s*(x - 8)", table, w),
+    quad: fitOf("quad", "y = polynomial(x, 2)", table, w),
+    logline: fitOf("logline", "y = a + b*log(x)", table, w),
+    rootline: fitOf("rootline", "y = a + b*sqrt(x) + c*x", table, w),
+  }, { by: "aic" });
+  // √w(x − 8) lies in span √W{1, x, x²}; √w·log x lies in neither √W{1, x, x²} nor
+  // √W{1, √x, x}, nor √w·√x in the quadratic's span (exact arithmetic: distinct functions
+  // on 15 points leave residuals far above the 1e-8 tolerance).
+  assert.deepEqual(result.nested_tests.map((t) => [t.smaller, t.larger]), [["centred", "quad"], [
+    "centred",
+    "rootline",
+  ]]);
+});
