@@ -16,7 +16,14 @@
  * ```
  *
  * The helper is a worker with no permissions made from source text (a
- * worker without permissions cannot load modules from files): `plainLoop`,
+ * worker without permissions cannot load modules from files), used for one
+ * read and then closed (an idle thread never collects its garbage, so a kept
+ * helper held the last file's memory). Inside the compute worker it is not
+ * started there: a worker started from a worker took about a second to begin
+ * here (from the main thread, about 35 ms), longer than the read it was to
+ * share. The main thread starts it when it hands over a large file and gives
+ * the compute worker a port to it ({@link halvesHelperWorker},
+ * {@link useHalvesHelper}; kernel/worker/client.ts). `plainLoop`,
  * `MissingMarkers` and `productError` given as their own source, so it runs
  * the same code. Its rows are taken only when the first half had exactly as
  * many records as line feeds (no blank line, no quoted line break, no lone
@@ -63,9 +70,14 @@ interface Job {
 
 /** The helper thread's message loop (run there from its source text; see the module notes). */
 function helperMain(): void {
-  self.onmessage = (e: MessageEvent<Job>) => {
-    const m = e.data, st = new Int32Array(m.status), n = m.values.length;
-    if (Atomics.compareExchange(st, 0, 0, 1) !== 0) return; // taken back before it began
+  // One job, posted to the thread or through a port given first; then the thread closes.
+  self.onmessage = (e: MessageEvent<Job | { port: MessagePort }>) => {
+    if ("port" in e.data) e.data.port.onmessage = (j: MessageEvent<Job>) => job(j.data);
+    else job(e.data);
+  };
+  const job = (m: Job) => {
+    const st = new Int32Array(m.status), n = m.values.length;
+    if (Atomics.compareExchange(st, 0, 0, 1) !== 0) return self.close(); // taken back before it began
     const missed = new Int32Array(n);
     let row = m.row, pos = m.start, ok = false;
     try {
@@ -100,11 +112,19 @@ function helperMain(): void {
       for (let c = 0; c < n; c++) st[4 + c] = missed[c];
       if (Atomics.compareExchange(st, 0, 1, ok ? 2 : 5) === 3) Atomics.store(st, 0, ok ? 4 : 5);
       Atomics.notify(st, 0);
+      self.close();
     }
   };
 }
 
+/** Where a job goes: a helper this thread started, or a port to one another thread started. */
+interface Helper {
+  postMessage(job: Job): void;
+}
+
 let helper: Worker | null | undefined;
+/** Inside the compute worker: the port to a helper the main thread started, or null for none. */
+let given: { port: MessagePort | null; used: () => void } | null = null;
 
 /**
  * For tests: `waitForHelper` makes this thread wait for the helper to begin
@@ -113,9 +133,26 @@ let helper: Worker | null | undefined;
  */
 export const halvesForTests = { waitForHelper: false, taken: 0 };
 
-/** The helper thread, started on first use; null where none can be started. */
-function helperThread(): Worker | null {
-  if (helper !== undefined) return helper;
+/**
+ * Takes helpers from ports (inside the compute worker): from now on a large
+ * read uses the port last given, if any, else reads in one thread; `used` is
+ * called when a helper has had its job (it then closes: ask for another).
+ *
+ * @param port A port to a helper from {@link halvesHelperWorker}, or null (none yet).
+ * @param used Called once the port's helper has had its job.
+ */
+export function useHalvesHelper(port: MessagePort | null, used: () => void): void {
+  given = { port, used };
+}
+
+/**
+ * A new helper thread (no permissions), for the main thread to start and hand
+ * to the compute worker through a port: post it `{ port }` with the port
+ * transferred; it takes one job from that port and closes.
+ *
+ * @returns The worker, or null where none can be started.
+ */
+export function halvesHelperWorker(): Worker | null {
   try {
     const source = [
       `"use strict";`,
@@ -131,18 +168,39 @@ function helperThread(): Worker | null {
     // The cast: with the DOM library loaded (for views), WorkerOptions lacks Deno's `deno` field.
     const options = { type: "module", deno: { permissions: "none" } } as WorkerOptions;
     const w = new Worker(url, options);
+    URL.revokeObjectURL(url);
+    return w;
+  } catch {
+    return null;
+  }
+}
+
+/** The helper for one read: a port given, else one started here; null where none can be had. */
+function helperThread(): Helper | null {
+  if (given !== null) {
+    const { port, used } = given;
+    if (port === null) return null;
+    given = { port: null, used };
+    return {
+      postMessage(job) {
+        port.postMessage(job);
+        used();
+      },
+    };
+  }
+  if (helper !== undefined) return helper;
+  const w = halvesHelperWorker();
+  if (w !== null) {
     w.onerror = (e) => {
       e.preventDefault();
       helper = null;
     };
-    helper = w;
-  } catch {
-    helper = null;
   }
+  helper = w;
   return helper;
 }
 
-/** Stops the helper thread, if one was started (tests, and a worker shutting down). */
+/** Stops the helper thread this thread started, if any (tests, and after each read). */
 export function stopHalvesHelper(): void {
   helper?.terminate();
   helper = undefined;
@@ -214,8 +272,7 @@ export function readInHalves(
     }
   }
   const rows = readRows(bytes, o, pass, ncols, progress, from).row;
-  // A helper kept for the next read would hold this file's memory: an idle thread never
-  // collects its garbage. A new one costs a thread's start, small beside a read this size.
+  // Each helper reads once and closes (see the module notes).
   stopHalvesHelper();
   return rows;
 }

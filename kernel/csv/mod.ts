@@ -26,4 +26,4 @@ export { DEFAULT_LO_LIMIT, DEFAULT_MISSING } from "./_options.ts";
 export { MOSTLY_NUMBERS } from "./_typing.ts";
 export { makeNumericCsv } from "./make_numeric_csv.ts";
 export { countLineFeeds } from "./line_feeds.ts";
-export { HALVES_FROM, stopHalvesHelper } from "./_halves.ts";
+export { HALVES_FROM, halvesHelperWorker, stopHalvesHelper, useHalvesHelper } from "./_halves.ts";

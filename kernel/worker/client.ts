@@ -11,6 +11,7 @@
  */
 import type { FileData } from "../contract/mod.ts";
 import type { CellOutput } from "../contract/mod.ts";
+import { HALVES_FROM, halvesHelperWorker } from "../csv/mod.ts";
 import {
   type DoneMessage,
   type FromWorker,
@@ -46,6 +47,8 @@ export class ComputeWorker {
   #outputs = new Set<string>();
   /** File SHA-256s the worker holds. */
   #files = new Set<string>();
+  /** A CSV helper thread handed to the worker and not yet used (kernel/csv/_halves.ts). */
+  #helper: Worker | null = null;
   /** Number of times the worker was (re)started. */
   starts = 0;
 
@@ -77,6 +80,7 @@ export class ComputeWorker {
     try {
       this.#worker.terminate();
     } catch { /* already gone */ }
+    this.#dropHelper();
     const pending = [...this.#pending.entries()];
     this.#pending.clear();
     for (const give of this.#exports.values()) give(null);
@@ -115,6 +119,10 @@ export class ComputeWorker {
   }
 
   #receive(m: FromWorker): void {
+    if (m.op === "helper-used") {
+      this.#helper = null; // it closes itself when done
+      return;
+    }
     if (m.op === "output") {
       const give = this.#exports.get(m.id);
       this.#exports.delete(m.id);
@@ -132,8 +140,28 @@ export class ComputeWorker {
     p.resolve(m);
   }
 
-  #post(m: ToWorker): void {
-    this.#worker.postMessage(m);
+  #post(m: ToWorker, transfer: Transferable[] = []): void {
+    this.#worker.postMessage(m, transfer);
+  }
+
+  /**
+   * Hands the worker a CSV helper thread for a large file's read, started here
+   * (a worker started inside the compute worker took about a second to begin):
+   * the two meet through a port; the helper reads one half once, then closes.
+   */
+  #offerHelper(): void {
+    if (this.#helper !== null) return;
+    const helper = halvesHelperWorker();
+    if (helper === null) return;
+    const channel = new MessageChannel();
+    helper.postMessage({ port: channel.port1 }, [channel.port1]);
+    this.#post({ op: "helper", port: channel.port2 }, [channel.port2]);
+    this.#helper = helper;
+  }
+
+  #dropHelper(): void {
+    this.#helper?.terminate();
+    this.#helper = null;
   }
 
   /**
@@ -157,6 +185,7 @@ export class ComputeWorker {
   run(job: WorkerJob): Promise<DoneMessage> {
     const files: Record<string, string> = {};
     for (const [path, f] of Object.entries(job.files)) {
+      if (f.bytes.length >= HALVES_FROM) this.#offerHelper();
       if (!this.#files.has(f.sha256)) {
         // Bytes in a SharedArrayBuffer (FileStore reads them so) cross as that same memory, not a
         // copy: 137 MB copied cost 0.75 s here. Both sides only read them.
@@ -247,6 +276,7 @@ export class ComputeWorker {
   /** Stops the worker. */
   close(): void {
     this.#worker.terminate();
+    this.#dropHelper();
     for (const [id, p] of this.#pending) {
       p.resolve(transientAnswer(id, "The compute worker was closed"));
     }

@@ -20,6 +20,7 @@
  */
 import type { CellOutput, Registry } from "../contract/mod.ts";
 import { resummarise, runCell, type WorkerStore } from "./_run_cell.ts";
+import { useHalvesHelper } from "../csv/mod.ts";
 import {
   type CancelMessage,
   type ExportRequest,
@@ -113,9 +114,14 @@ export function serveComputeWorker(registry: Registry): void {
   // synchronous): another worker may be waiting on an export, and nothing
   // queued here changes a stored output.
   const inOrder = new InOrder();
+  // A large CSV read takes its helper thread from the main thread, never starts one here.
+  const helperUsed = () => post({ op: "helper-used" });
+  useHalvesHelper(null, helperUsed);
   self.onmessage = (e: MessageEvent<ToWorker>) => {
     const msg = e.data;
     switch (msg.op) {
+      case "helper":
+        return useHalvesHelper(msg.port, helperUsed);
       case "cancel":
         return cancel(cancelled, msg);
       case "export":

@@ -127,7 +127,23 @@ export type ToWorker =
   | FileMessage
   | RetainMessage
   | ExportRequest
-  | ImportMessage;
+  | ImportMessage
+  | HelperMessage;
+
+/**
+ * A port to a helper thread for the next large CSV read (kernel/csv/_halves.ts):
+ * started by the main thread, since a worker started inside the compute
+ * worker took about a second to begin.
+ */
+export interface HelperMessage {
+  op: "helper";
+  port: MessagePort;
+}
+
+/** The helper given has had its job: the next large read needs another. */
+export interface HelperUsedMessage {
+  op: "helper-used";
+}
 
 /** A failure as thrown by cell code, still unlocated. */
 export interface WireError {
@@ -198,7 +214,7 @@ export interface OutputMessage {
 }
 
 /** A message from the worker to the kernel. */
-export type FromWorker = DoneMessage | ProgressMessage | OutputMessage;
+export type FromWorker = DoneMessage | ProgressMessage | OutputMessage | HelperUsedMessage;
 
 /**
  * An answer given without a result of the cell's own: a run cancelled before
