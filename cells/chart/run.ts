@@ -152,13 +152,24 @@ function plottedRows(spec: ChartSpec, ctx: RunContext, xs: Float64Array, ys: Flo
     );
   }
   if (kept === xs.length) return { x: xs, y: ys };
-  const x = new Float64Array(kept), y = new Float64Array(kept);
-  for (let i = 0, k = 0; i < xs.length; i++) {
-    if (!drawn(i)) continue;
-    x[k] = xs[i];
-    y[k++] = ys[i];
-  }
+  const [x, y] = keptRows(xs, ys, kept, drawn);
   return { x, y };
+}
+
+/** The values of `a` and `b` at the rows `keep` accepts (`count` of them), as new arrays. */
+function keptRows(
+  a: ArrayLike<number>,
+  b: ArrayLike<number>,
+  count: number,
+  keep: (i: number) => boolean,
+): [Float64Array, Float64Array] {
+  const x = new Float64Array(count), y = new Float64Array(count);
+  for (let i = 0, k = 0; k < count; i++) {
+    if (!keep(i)) continue;
+    x[k] = a[i];
+    y[k++] = b[i];
+  }
+  return [x, y];
 }
 
 function bandFor(spec: ChartSpec, ctx: RunContext, fits: DrawnFit[], grid: Float64Array) {
@@ -219,12 +230,7 @@ function residualRows(d: DrawnFit, xc: NumberColumn, table: Table, logX: boolean
   let count = 0;
   for (let i = 0; i < res.length; i++) if (kept(i)) count++;
   if (count === res.length && xs.length === res.length) return { x: xs, r: res };
-  const x = new Float64Array(count), r = new Float64Array(count);
-  for (let i = 0, k = 0; i < res.length; i++) {
-    if (!kept(i)) continue;
-    x[k] = xs[i];
-    r[k++] = res[i];
-  }
+  const [x, r] = keptRows(xs, res, count, kept);
   return { x, r };
 }
 

@@ -200,6 +200,9 @@ Deno.test("chartKind.summary() rounds to 7 significant digits", async () => {
   equal(chartKind.line(r), "y against x · 5 points · 1 curve");
 });
 
+/** A chart of table "t" with fit "line" and its residual panel. */
+const LINE_WITH_RESIDUALS = { on: "t", x: "x", y: "y", fits: ["line"], residuals: true };
+
 Deno.test("runChart() leaves out a row with a missing value and gives plain arrays", async () => {
   const cells: Cells = {};
   await addTable(cells, "t", {
@@ -207,13 +210,7 @@ Deno.test("runChart() leaves out a row with a missing value and gives plain arra
     rows: [[1, 1.1], [2, null], [3, 3.2], [4, 3.8], [5, 5.1]],
   });
   await addFit(cells, "line", "t", "y = a + b*x");
-  const { out } = await runChartCell(cells, {
-    on: "t",
-    x: "x",
-    y: "y",
-    fits: ["line"],
-    residuals: true,
-  });
+  const { out } = await runChartCell(cells, LINE_WITH_RESIDUALS);
   deepEqual(out.data.data, { x: [1, 3, 4, 5], y: [1.1, 3.2, 3.8, 5.1] });
   const series = out.data.residuals!.series[0];
   deepEqual(series.x, [1, 3, 4, 5]);
@@ -226,13 +223,7 @@ Deno.test("runChart() leaves out a row with a missing value and gives plain arra
 Deno.test("runChart() with every row drawn reads the table's columns without changing them", async () => {
   const cells = await lineCells();
   const before = JSON.stringify(cells.t);
-  const { out } = await runChartCell(cells, {
-    on: "t",
-    x: "x",
-    y: "y",
-    fits: ["line"],
-    residuals: true,
-  });
+  const { out } = await runChartCell(cells, LINE_WITH_RESIDUALS);
   deepEqual(out.data.data, { x: XS, y: YS });
   deepEqual(out.data.residuals!.series[0].x, XS);
   ok(Array.isArray(out.data.residuals!.series[0].r));
