@@ -134,7 +134,7 @@ export function checkDensity(r: CheckChartInput): CheckDensity | null {
   const position = (i: number) => (i + 1 - 0.375) / (n + 0.25);
   const q0 = standardNormal.quantile(position(0)), q1 = standardNormal.quantile(position(n - 1));
   let trace = 0;
-  for (const v of h) trace += v ?? 0;
+  for (const v of h) if (v !== null && Number.isFinite(v)) trace += v; // NaN: none (typed arrays)
   return {
     residuals: byFitted,
     quantiles: quantileDensity(s, q0, q1, position),

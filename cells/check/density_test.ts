@@ -1,4 +1,4 @@
-import { deepEqual as assertEquals } from "node:assert/strict";
+import { deepEqual as assertEquals, ok } from "node:assert/strict";
 import { mulberry32 } from "../../kernel/random.ts";
 import { standardNormal } from "../../kernel/stats/mod.ts";
 import { countCells } from "../shared/count_cells.ts";
@@ -81,4 +81,22 @@ Deno.test("checkDensity() line spans the quantiles and the extreme studentized r
     Math.max(q(m - 1), Math.max(...finite)),
   ]);
   assertEquals(d?.quantiles.cells.reduce((a, c) => a + c[2], 0), m);
+});
+
+Deno.test("checkDensity() of typed arrays skips NaN (a value that does not exist) in the trace", () => {
+  const n = DENSE_ROWS + 10;
+  const r = Float64Array.from(heavyTailed(n, 9));
+  const h = new Float64Array(n).fill(2 / n);
+  h[0] = NaN; // leverage 1: no studentized residual, no value here
+  const typed = {
+    fit: "f",
+    fitted: r.map((_, i) => i),
+    residuals: r,
+    studentized_internal: r,
+    leverage: h,
+    cooks_distance: r,
+  };
+  const d = checkDensity(typed as never);
+  // Exact to rounding: (n − 1) terms of 2/n summed.
+  ok(d !== null && Math.abs(d.trace - (2 / n) * (n - 1)) < 1e-12, String(d?.trace));
 });
