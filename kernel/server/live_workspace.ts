@@ -179,7 +179,12 @@ export class LiveWorkspace {
     if (this.#loop) {
       if (this.#runningPrint !== null) {
         const snap = await this.#snapshot();
-        if (snap && snap.print !== this.#runningPrint) this.#session.supersede();
+        if (snap && snap.print !== this.#runningPrint) {
+          this.#session.supersede();
+          // A long cell whose inputs changed (a search) stops now rather than at its end.
+          const shas = new Map(snap.files.flatMap((f) => f.sha256 ? [[f.path, f.sha256]] : []));
+          this.#session.stopComputingUnless(this.#session.plan(snap.source, shas).keys.values());
+        }
       }
       return this.#loop;
     }

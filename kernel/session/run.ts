@@ -104,6 +104,8 @@ export class Run {
     await this.#readFiles(prep);
     const shas = new Map([...this.#fileData].map(([path, f]) => [path, f.sha256]));
     const plan = this.#plan = this.#host.keyed(prep, shas);
+    // A cell still computing for an earlier run whose inputs changed is stopped (`search`).
+    this.#host.pool.stopComputingUnless(new Set(plan.keys.values()));
     if (this.#host.page || this.#host.lean) this.#named = referencedFields(plan.doc);
     this.#waiting = new Waiting(plan.graph.order, plan.graph.byName);
     for (const node of plan.graph.nodes) {

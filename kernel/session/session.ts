@@ -149,6 +149,17 @@ export class Session {
     this.#latest?.supersede();
   }
 
+  /**
+   * Stops a cell computing now whose cache key is not among `keys` (the plan
+   * of the next run: its inputs changed), at its next progress report; it is
+   * answered as cancelled and not cached. Cells reporting no progress finish.
+   *
+   * @param keys The cache keys the next run wants (`plan(…).keys`).
+   */
+  stopComputingUnless(keys: Iterable<string>): void {
+    this.#pool.stopComputingUnless(new Set(keys));
+  }
+
   /** Stops the compute workers. */
   close(): void {
     this.#pool.close();

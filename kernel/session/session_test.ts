@@ -331,3 +331,20 @@ Deno.test("Session.run() reads a large CSV in two halves in the compute worker, 
     equal((stateOf(r, "c").result as { value: number }).value, rows + 1 + 1e6);
   });
 });
+
+Deno.test("Session.run() stops a cell still computing whose inputs changed, at its next progress report", async () => {
+  await withSession(async (s) => {
+    const doc = (tag: number) => cell("tick", "t", `ms: 3000\ntag: ${tag}`);
+    const first = s.run(doc(1));
+    // Let the first run's cell start computing (the worker starts in about 0.1 s).
+    await new Promise((r) => setTimeout(r, 500));
+    const second = await s.run(doc(2)); // another key: the first is stopped, not finished
+    const old = await first;
+    equal(old.superseded, true);
+    // Only the second run of `tick` ran to its end in the worker.
+    equal((stateOf(second, "t").result as { value: number }).value, 1);
+    // A run keeping the key does not stop it: the same text again is answered from the cache.
+    const again = await s.run(doc(2));
+    deepEqual(again.ran, []);
+  });
+});

@@ -19,7 +19,14 @@ import type { CellKind, CellOutput, FileData, Registry } from "../contract/mod.t
 import { plainDeep } from "../arrays.ts";
 import { CellError } from "../errors.ts";
 import { pageCopy, pageLeavesOut } from "./page_copy.ts";
-import type { DoneMessage, FromWorker, RunRequest, SummaryRequest, WireError } from "./protocol.ts";
+import {
+  type DoneMessage,
+  type FromWorker,
+  type RunRequest,
+  type SummaryRequest,
+  transientAnswer,
+  type WireError,
+} from "./protocol.ts";
 
 /** Progress of a run is first sent this long after it started (ms). */
 const PROGRESS_AFTER_MS = 100;
@@ -32,7 +39,12 @@ export interface WorkerStore {
   outputs: Map<string, CellOutput>;
   /** File contents by SHA-256. */
   files: Map<string, FileData>;
+  /** The id of a run the kernel wants stopped, at index 0 (`StopFlagMessage`); null before it came. */
+  stop?: Int32Array | null;
 }
+
+/** Thrown out of `progress` to stop a run the kernel no longer wants. */
+class Stopped extends Error {}
 
 /** A thrown value as the kernel gets it: a cell's own error, an engine limit, or a bug. */
 function toWire(err: unknown): WireError {
@@ -112,6 +124,7 @@ export async function runCell(
         if (!warnings.includes(m)) warnings.push(m);
       },
       progress: (fraction, note) => {
+        if (store.stop && Atomics.load(store.stop, 0) === req.id) throw new Stopped();
         // Work that ends within the server's grace for busy states shows no progress
         // (kernel/server/live_workspace.ts): send none for it, then at most every 50 ms.
         const now = performance.now();
@@ -123,6 +136,12 @@ export async function runCell(
     store.outputs.set(req.key, out);
     return done(true, summarise(registry, req, out));
   } catch (err) {
+    if (err instanceof Stopped) {
+      return transientAnswer(req.id, "Stopped: its inputs changed", {
+        cancelled: true,
+        computed: true,
+      });
+    }
     return done(true, { error: toWire(err) });
   }
 }

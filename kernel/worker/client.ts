@@ -47,6 +47,8 @@ export class ComputeWorker {
   #outputs = new Set<string>();
   /** File SHA-256s the worker holds. */
   #files = new Set<string>();
+  /** Where the kernel writes the id of a computing run to stop (`StopFlagMessage`). */
+  #stop = new Int32Array(new SharedArrayBuffer(4));
   /** A CSV helper thread handed to the worker and not yet used (kernel/csv/_halves.ts). */
   #helper: Worker | null = null;
   /** Number of times the worker was (re)started. */
@@ -74,6 +76,8 @@ export class ComputeWorker {
     };
     w.onmessageerror = () => this.#crash("a message could not be read");
     this.#worker = w;
+    this.#stop = new Int32Array(new SharedArrayBuffer(4));
+    this.#post({ op: "stop-flag", flag: this.#stop.buffer as SharedArrayBuffer });
   }
 
   #crash(reason: string): void {
@@ -116,6 +120,22 @@ export class ComputeWorker {
   cancelQueued(keys: ReadonlySet<string>): void {
     const ids = [...this.#pending].filter(([, p]) => p.run && keys.has(p.key)).map(([id]) => id);
     if (ids.length > 0) this.#post({ op: "cancel", ids });
+  }
+
+  /**
+   * Stops the run computing now when its key is not listed (a newer plan no
+   * longer needs it): it ends at its next progress report, answered as
+   * cancelled. Cells that report no progress run to their end.
+   *
+   * @param keys The cache keys still wanted.
+   */
+  stopComputingUnless(keys: ReadonlySet<string>): void {
+    // Runs are answered in the order sent: the oldest unanswered one is computing.
+    for (const [id, p] of this.#pending) {
+      if (!p.run) continue;
+      if (!keys.has(p.key)) Atomics.store(this.#stop, 0, id);
+      return;
+    }
   }
 
   #receive(m: FromWorker): void {

@@ -122,6 +122,9 @@ export function serveComputeWorker(registry: Registry): void {
     switch (msg.op) {
       case "helper":
         return useHalvesHelper(msg.port, helperUsed);
+      case "stop-flag":
+        store.stop = new Int32Array(msg.flag);
+        return;
       case "cancel":
         return cancel(cancelled, msg);
       case "export":

@@ -142,6 +142,16 @@ export class WorkerPool {
     for (const w of this.workers) w.retain(k, s);
   }
 
+  /**
+   * Stops each worker's computing run whose key is not listed (see
+   * `ComputeWorker.stopComputingUnless`).
+   *
+   * @param keys The cache keys a newer plan wants.
+   */
+  stopComputingUnless(keys: ReadonlySet<string>): void {
+    for (const w of this.workers) w.stopComputingUnless(keys);
+  }
+
   /** Stops every worker. */
   close(): void {
     for (const w of this.workers) w.close();

@@ -128,7 +128,20 @@ export type ToWorker =
   | RetainMessage
   | ExportRequest
   | ImportMessage
-  | HelperMessage;
+  | HelperMessage
+  | StopFlagMessage;
+
+/**
+ * The worker's stop flag, sent once after it starts: the kernel writes there
+ * the id of a run it wants stopped while computing (its inputs changed); the
+ * run stops at its next progress report (`RunContext.progress`) and is
+ * answered as cancelled. Shared memory, since the worker is busy and reads
+ * no message until the run ends.
+ */
+export interface StopFlagMessage {
+  op: "stop-flag";
+  flag: SharedArrayBuffer;
+}
 
 /**
  * A port to a helper thread for the next large CSV read (kernel/csv/_halves.ts):

@@ -162,6 +162,38 @@ export const spinKind: CellKind<{ ms: number; tag: number }, Num, { value: numbe
   ...plain,
 };
 
+/** Runs of `tick` that ran to their end in this worker. */
+let ticksFinished = 0;
+
+/**
+ * `tick t` with `ms: 3000` is busy for that long, reporting progress about
+ * every millisecond (as a search does), and gives how many `tick` runs in
+ * this worker ran to their end, itself included: a run stopped early does
+ * not count.
+ */
+export const tickKind: CellKind<{ ms: number; tag: number }, Num, { value: number }> = {
+  kind: "tick",
+  body: "yaml",
+  output: "Value",
+  description: "busy for a while, reporting progress",
+  parse: (ctx) => ({ ms: Number(ctx.options.ms), tag: Number(ctx.options.tag ?? 0) }),
+  inputs: () => [],
+  run(spec, ctx) {
+    const start = performance.now(), end = start + spec.ms;
+    let next = start;
+    for (let now = start; now < end; now = performance.now()) {
+      if (now >= next) {
+        ctx.progress((now - start) / spec.ms);
+        next = now + 1;
+      }
+    }
+    return { type: "Value", value: ++ticksFinished };
+  },
+  summary: (out) => ({ value: out.value }),
+  line: (r) => String(r.value),
+  ...plain,
+};
+
 /** The test registry. */
 export const fakeRegistry = makeRegistry([
   numKind,
@@ -171,4 +203,5 @@ export const fakeRegistry = makeRegistry([
   csvRowsKind,
   peekKind,
   spinKind,
+  tickKind,
 ]);
