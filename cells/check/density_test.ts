@@ -100,3 +100,28 @@ Deno.test("checkDensity() of typed arrays skips NaN (a value that does not exist
   // Exact to rounding: (n − 1) terms of 2/n summed.
   ok(d !== null && Math.abs(d.trace - (2 / n) * (n - 1)) < 1e-12, String(d?.trace));
 });
+
+Deno.test("a large check's page stand-ins from its output equal those from its complete result", async () => {
+  const { checkKind } = await import("./mod.ts");
+  const { fitOf } = await import("./_fixtures_test.ts");
+  const { parseContext, SETTINGS } = await import("../fit/_fixtures_test.ts");
+  // Invented data: 6,000 rows of a line with seeded noise (inverse-normal of uniforms).
+  const rnd = mulberry32(11);
+  const n = 6000;
+  const x = Float64Array.from({ length: n }, (_, i) => i / 100);
+  const y = x.map((v) => 1 + 0.5 * v + standardNormal.quantile(0.001 + 0.998 * rnd()));
+  const fit = fitOf({ x, y }, "y = a + b*x");
+  const spec = checkKind.parse({ ...parseContext("judge", { fit: "model" }), kind: "check" });
+  const out = checkKind.run(spec, {
+    name: "judge",
+    settings: SETTINGS,
+    inputs: { model: fit },
+    files: {},
+    warn: () => {},
+    progress: () => {},
+  }) as Parameters<NonNullable<typeof checkKind.page>["condenseOutput"] & object>[0];
+  const fromOutput = checkKind.page!.condenseOutput!(out);
+  const fromResult = checkKind.page!.condense!(checkKind.summary(out, spec));
+  ok(fromOutput !== null, "a 6,000-row check is condensed");
+  assertEquals(fromOutput, fromResult);
+});

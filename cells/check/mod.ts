@@ -53,7 +53,14 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
   line: lineOf,
   options: CHECK_OPTIONS,
   history: checkHistory,
-  page: { omit: ["studentized_external", "dffits"], condense: condenseCharts },
+  page: {
+    omit: ["studentized_external", "dffits"],
+    condense: condenseCharts,
+    // The output's Float64Arrays (NaN: none) read as the result's arrays (null: none):
+    // checkDensity reads them by index and counts finite values only.
+    condenseOutput: (out) =>
+      condensed(checkDensity({ fit: out.result.fit, ...out.perRow } as unknown as CheckChartInput)),
+  },
   rows: ROW_FIELDS,
   template: (ctx) =>
     `fit: ${cellsOf(ctx, "Fit").at(-1)?.name ?? "fit1"}
@@ -120,6 +127,9 @@ function condenseCharts(r: CheckResult) {
   // per-row fields as Float64Array (kernel/worker/protocol.ts, packRows).
   const list = (v: unknown) => Array.isArray(v) || ArrayBuffer.isView(v);
   if (!CHART_ARRAYS.every((f) => list(fields[f]))) return null;
-  const density = checkDensity(r as unknown as CheckChartInput);
+  return condensed(checkDensity(r as unknown as CheckChartInput));
+}
+
+function condensed(density: ReturnType<typeof checkDensity>) {
   return density === null ? null : { add: { density }, omit: CHART_ARRAYS };
 }

@@ -173,9 +173,11 @@ function summarise(
     return { ok: true, summary, line: kind.line(summary), ...kept(kind, req, out, summary) };
   }
   const keep = new Set(req.page);
-  const leave = pageLeavesOut(kind, keep);
+  // Stand-ins made from the output: the fields they replace are not built at all.
+  const condensed = kind.page?.condenseOutput?.(out) ?? null;
+  const leave = pageLeavesOut(kind, keep, condensed);
   const summary = kind.summary(out, req.spec, leave);
-  const page = pageCopy(kind, summary, keep);
+  const page = pageCopy(kind, summary, keep, condensed);
   const omitted = [...new Set([...leave, ...page.omitted])];
   // Plain JSON from here on: the server forwards this text to the page as it is.
   const summaryJson = JSON.stringify(plainDeep(page.result));

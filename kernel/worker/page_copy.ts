@@ -29,16 +29,26 @@ export interface PageResult {
   omitted: string[];
 }
 
+/** Stand-ins for large fields and the fields they replace (`PageCopy.condense`). */
+export type Condensed = { add: Record<string, unknown>; omit: readonly string[] };
+
 /**
  * The fields a kind's `summary` need not build for the page: its `page.omit`
+ * and the fields stand-ins made from the output replace (`condenseOutput`),
  * less those an inline value names.
  *
  * @param kind The kind record.
  * @param keep Top-level fields that inline values name.
+ * @param condensed Stand-ins made from the output, or null.
  * @returns The fields to leave out.
  */
-export function pageLeavesOut(kind: AnyKind, keep: ReadonlySet<string>): Set<string> {
-  return new Set((kind.page?.omit ?? []).filter((f: string) => !keep.has(f)));
+export function pageLeavesOut(
+  kind: AnyKind,
+  keep: ReadonlySet<string>,
+  condensed: Condensed | null = null,
+): Set<string> {
+  const omit = [...(kind.page?.omit ?? []), ...(condensed?.omit ?? [])];
+  return new Set(omit.filter((f: string) => !keep.has(f)));
 }
 
 /**
@@ -64,11 +74,12 @@ export function pageCopy(
   kind: AnyKind,
   result: unknown,
   wanted: ReadonlySet<string> = new Set(),
+  condensed?: Condensed | null,
 ): PageResult {
   if (result === null || typeof result !== "object" || Array.isArray(result)) {
     return { result, omitted: [] };
   }
-  const extra = kind.page?.condense?.(result) ?? null;
+  const extra = condensed ?? kind.page?.condense?.(result) ?? null;
   const omit = [...(kind.page?.omit ?? []), ...(extra?.omit ?? [])]
     .filter((f, i, all) => all.indexOf(f) === i && Object.hasOwn(result, f) && !wanted.has(f));
   if (omit.length === 0 && extra === null) return { result, omitted: [] };
