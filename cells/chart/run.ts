@@ -14,10 +14,10 @@
  */
 import { plainArray } from "../../kernel/arrays.ts";
 import { CellError } from "../../kernel/errors.ts";
-import { didYouMean } from "../../kernel/suggest.ts";
 import type { CellOutput, NumberColumn, RunContext, Table } from "../../kernel/contract/mod.ts";
 import type { ChartAxis, ChartData, ChartResiduals } from "../shared/chart_data.ts";
 import { fitColor } from "../shared/palette.ts";
+import { numberColumnOf } from "../shared/number_column.ts";
 import type { ChartSpec } from "./spec.ts";
 import { type DrawnFit, drawnFits } from "./_fit_layers.ts";
 import { bandOn, curveOn, gridOver } from "./_curves.ts";
@@ -107,20 +107,13 @@ function numberColumn(
   column: string,
   option: "x" | "y",
 ): NumberColumn {
-  const c = table.columns.find((c) => c.name === column);
-  if (c === undefined) {
-    const names = table.columns.map((c) => c.name);
-    const hint = didYouMean(column, names) ||
-      `: table "${on}" has ${names.map((n) => `"${n}"`).join(", ")}`;
-    throw new CellError(`Cannot chart "${name}": unknown column "${column}"${hint}`, [option]);
-  }
-  if (c.type !== "number") {
-    throw new CellError(
-      `Cannot chart "${name}": column "${column}" holds text, and the ${option} axis needs numbers`,
-      [option],
-    );
-  }
-  return c;
+  const needs = `the ${option} axis needs numbers`;
+  return numberColumnOf(table, column, {
+    cannot: `Cannot chart "${name}"`,
+    on,
+    needs,
+    path: [option],
+  });
 }
 
 /**

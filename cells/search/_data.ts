@@ -12,10 +12,10 @@
  */
 import { gather, gatherInt } from "../../kernel/arrays.ts";
 import { CellError } from "../../kernel/errors.ts";
-import { didYouMean } from "../../kernel/suggest.ts";
 import { CONSTANTS } from "../../kernel/expr/mod.ts";
 import type { NumberColumn, OptionPath, Table } from "../../kernel/contract/mod.ts";
 import { rowList } from "../shared/rows.ts";
+import { numberColumnOf } from "../shared/number_column.ts";
 import { MAX_CANDIDATES, type SearchSpec } from "./spec.ts";
 
 /** The columns of a search on the rows it uses. */
@@ -99,20 +99,13 @@ function numberColumn(
   column: string,
   path: OptionPath,
 ): NumberColumn {
-  const c = table.columns.find((c) => c.name === column);
-  if (c === undefined) {
-    const names = table.columns.map((c) => c.name);
-    const hint = didYouMean(column, names) ||
-      `: table "${spec.on}" has ${names.map((n) => `"${n}"`).join(", ")}`;
-    throw new CellError(`Cannot search "${name}": unknown column "${column}"${hint}`, path);
-  }
-  if (c.type !== "number") {
-    throw new CellError(
-      `Cannot search "${name}": column "${column}" holds text, and a regression needs numbers`,
-      path,
-    );
-  }
-  return c;
+  const needs = "a regression needs numbers";
+  return numberColumnOf(table, column, {
+    cannot: `Cannot search "${name}"`,
+    on: spec.on,
+    needs,
+    path,
+  });
 }
 
 /** The default candidates: every other number column a model can write. */
