@@ -103,3 +103,28 @@ Deno.test("plumb run --json --without-rows: the same result less each kind's per
   deepEqual(fit.omitted, ["fitted", "residuals", "rows", "rows_missing"]);
   ok(left > 0);
 });
+
+Deno.test("plumb run --json of a 6,000-row document (per-row arrays moved as Float64Array) is JSON.stringify's text", async () => {
+  // Invented data: a line with a seeded wobble; 6,000 rows make the per-row arrays long enough to
+  // be moved between threads as Float64Array (kernel/worker/protocol.ts, packRows).
+  const dir = await Deno.makeTempDir({ prefix: "plumb-cli-json-" });
+  try {
+    const rows = Array.from(
+      { length: 6000 },
+      (_, i) => `${i / 10},${(2 + 0.3 * i / 10 + Math.sin(i)).toFixed(6)}`,
+    );
+    await Deno.writeTextFile(join(dir, "d.csv"), `x,y\n${rows.join("\n")}\n`);
+    const doc = "```table t\nfrom: d.csv\n```\n\n```fit line\non: t\nmodel: y = a + b*x\n```\n\n" +
+      "```check judge\nfit: line\n```\n";
+    await Deno.writeTextFile(join(dir, "doc.md"), doc);
+    const r = await plumb("run", join(dir, "doc.md"), "--json", "--no-history");
+    equal(r.code, 0, r.stderr);
+    const json = JSON.parse(r.stdout);
+    equal(json.cells[1].result.fitted.length, 6000);
+    equal(json.cells[2].result.leverage.length, 6000);
+    // The writer's promise: exactly JSON.stringify(value, null, 2) and a line feed.
+    equal(r.stdout, JSON.stringify(json, null, 2) + "\n");
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+});
