@@ -105,3 +105,52 @@ function convert(v: unknown): unknown {
   for (const k in v) out[k] = convert((v as Record<string, unknown>)[k]);
   return out;
 }
+
+/** Per-row fields at least this long leave a summary as Float64Array (`rowValues`). */
+export const ROWS_TYPED_FROM = 4096;
+
+/** Float64Arrays made by {@link rowValues}: owned by the summary alone, so they may be moved. */
+const MOVABLE = new WeakSet<object>();
+
+/**
+ * A per-row field of a complete summary: a plain array when short, else a new
+ * Float64Array (NaN where JSON has null) that the compute worker moves to the
+ * main thread without a copy (kernel/worker/protocol.ts, `packRows`). Every
+ * reader of complete summaries takes typed arrays (the RUN-JSON writer, page
+ * copies through {@link plainDeep}, inline values): a million-row `--json` run
+ * built plain arrays only to turn them back into typed ones, about 1 s.
+ *
+ * @param a The values (NaN: none).
+ * @param nullable Whether a short array shows NaN as null (JSON's none).
+ * @returns The field's value (typed as the plain array JSON will read).
+ * @example
+ * ```ts
+ * import { isMovable, rowValues } from "./arrays.ts";
+ * const short = rowValues(new Float64Array([1, NaN]), true);
+ * if (!Array.isArray(short) || short[1] !== null) throw new Error("plain, null");
+ * const long = rowValues(new Float64Array(5000));
+ * if (!(long instanceof Float64Array) || !isMovable(long)) throw new Error("typed, movable");
+ * ```
+ */
+export function rowValues(a: ArrayLike<number>, nullable = false): number[] {
+  if (a.length < ROWS_TYPED_FROM) {
+    if (!nullable) return plainArray(a);
+    const out = new Array<number>(a.length);
+    for (let i = 0; i < a.length; i++) out[i] = Number.isNaN(a[i]) ? null as never : a[i];
+    return out;
+  }
+  const out = new Float64Array(a.length);
+  for (let i = 0; i < a.length; i++) out[i] = a[i];
+  MOVABLE.add(out);
+  return out as unknown as number[];
+}
+
+/**
+ * Whether `v` is a Float64Array from {@link rowValues}.
+ *
+ * @param v Any value.
+ * @returns True when nothing else holds it.
+ */
+export function isMovable(v: unknown): v is Float64Array {
+  return v instanceof Float64Array && MOVABLE.has(v);
+}

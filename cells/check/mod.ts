@@ -15,6 +15,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
+import { rowValues } from "../../kernel/arrays.ts";
 import type { CellKind } from "../../kernel/contract/mod.ts";
 import type { Fit } from "../fit/mod.ts";
 import { type CheckSpec, parseCheckSpec } from "./spec.ts";
@@ -78,7 +79,7 @@ function summaryOf(
 ): CheckResult {
   const { fit, n, p, method, weighted, significance, sigma_unit, ...rest } = out.result;
   const rows: Partial<Record<RowField, (number | null)[]>> = {};
-  for (const f of ROW_FIELDS) if (!leaveOut?.has(f)) rows[f] = nullable(out.perRow[f]);
+  for (const f of ROW_FIELDS) if (!leaveOut?.has(f)) rows[f] = rowValues(out.perRow[f], true);
   return {
     fit,
     n,
@@ -90,13 +91,6 @@ function summaryOf(
     ...rows,
     ...rest,
   } as CheckResult;
-}
-
-/** A plain array of the values, NaN as null (JSON has no NaN). */
-function nullable(a: ArrayLike<number>): (number | null)[] {
-  const out = new Array<number | null>(a.length);
-  for (let i = 0; i < a.length; i++) out[i] = Number.isNaN(a[i]) ? null : a[i];
-  return out;
 }
 
 function lineOf(r: CheckResult): string {

@@ -17,7 +17,7 @@
  */
 import type { Fit } from "./fit.ts";
 import type { Weighting } from "./_weighting.ts";
-import { plainArray } from "../../kernel/arrays.ts";
+import { plainArray, rowValues } from "../../kernel/arrays.ts";
 
 /** One parameter row. */
 export interface FitParameterResult {
@@ -147,9 +147,9 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
   const p = fit.parameters.length;
   // A page copy lacks the fields left out; RUN-JSON (no leaveOut) has them all.
   const perRow = {
-    ...(leaveOut?.has("fitted") ? {} : { fitted: plainArray(fit.fitted) }),
-    ...(leaveOut?.has("residuals") ? {} : { residuals: plainArray(fit.residuals) }),
-    ...(leaveOut?.has("rows") ? {} : { rows: plainArray(fit.rows) }),
+    ...(leaveOut?.has("fitted") ? {} : { fitted: rowValues(fit.fitted) }),
+    ...(leaveOut?.has("residuals") ? {} : { residuals: rowValues(fit.residuals) }),
+    ...(leaveOut?.has("rows") ? {} : { rows: rowValues(fit.rows) }),
   } as Pick<FitResult, "fitted" | "residuals" | "rows">;
   return {
     method: fit.method,

@@ -53,3 +53,14 @@ Deno.test("RUN-JSON text of a packed summary equals JSON.stringify of the plain 
   const { summary } = packRows(plain);
   equal(await jsonText(summary), JSON.stringify(plain, null, 2) + "\n");
 });
+
+Deno.test("packRows moves a summary's own Float64Arrays (rowValues) as they are, and no other typed array", async () => {
+  const { rowValues } = await import("../arrays.ts");
+  const own = rowValues(Float64Array.from(values(PACK_FROM)));
+  const borrowed = Float64Array.from(values(PACK_FROM)); // an output's array: never moved
+  const { summary, buffers } = packRows({ fitted: own, design: borrowed });
+  const s = summary as { fitted: Float64Array; design: Float64Array };
+  equal(s.fitted, own as unknown as Float64Array);
+  equal(s.design, borrowed);
+  deepEqual(buffers, [(own as unknown as Float64Array).buffer]);
+});

@@ -39,6 +39,7 @@
  * @module
  */
 import type { DocSettings, OptionPath } from "../contract/mod.ts";
+import { isMovable, ROWS_TYPED_FROM } from "../arrays.ts";
 
 /** Run one cell. */
 export interface RunRequest {
@@ -256,7 +257,7 @@ export function transientAnswer(
 }
 
 /** Arrays of this many numbers or more cross between threads as Float64Array. */
-export const PACK_FROM = 4096;
+export const PACK_FROM = ROWS_TYPED_FROM;
 
 /**
  * A summary with its long plain number arrays (top-level fields) as
@@ -280,6 +281,10 @@ export function packRows(summary: unknown): { summary: unknown; buffers: ArrayBu
   }
   let packed: Record<string, unknown> | null = null;
   for (const [k, v] of Object.entries(summary)) {
+    if (isMovable(v)) {
+      if (!buffers.includes(v.buffer as ArrayBuffer)) buffers.push(v.buffer as ArrayBuffer);
+      continue;
+    }
     if (!Array.isArray(v) || v.length < PACK_FROM) continue;
     const a = new Float64Array(v.length);
     let all = true;
