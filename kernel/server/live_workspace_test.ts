@@ -79,3 +79,17 @@ Deno.test("LiveWorkspace.resultOf() parses a cell's page result from the worker'
     equal(held.error?.message, 'input "p" is failed');
   });
 });
+
+Deno.test("LiveWorkspace stops a long cell whose inputs changed as it supersedes the run", async () => {
+  // `tick` reports progress about every millisecond for 3 s and gives the number of its runs
+  // that ran to their end in the worker (kernel/session/testdata/fake_kinds.ts).
+  await withWorkspace(fence("tick t", "ms: 3000\ntag: 1"), async (ws, path) => {
+    const first = ws.request();
+    await new Promise((r) => setTimeout(r, 700)); // the worker has started and t is computing
+    await Deno.writeTextFile(path, fence("tick t", "ms: 3000\ntag: 2"));
+    await ws.request([path]);
+    await first;
+    // Only the second run of t ran to its end: the first was stopped, not finished.
+    deepEqual(ws.resultOf("t"), { value: 1 });
+  });
+});
