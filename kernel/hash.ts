@@ -11,6 +11,7 @@
  *
  * @module
  */
+import { fmix32, murmurStep } from "./murmur3.ts";
 
 /**
  * JSON with object keys sorted at every depth; typed arrays become plain arrays.
@@ -37,15 +38,6 @@ export function canonicalJson(value: unknown): string {
 
 const SEEDS = [0x9e3779b1, 0x85ebca77, 0xc2b2ae3d, 0x27d4eb2f];
 
-function fmix32(h: number): number {
-  h ^= h >>> 16;
-  h = Math.imul(h, 0x85ebca6b);
-  h ^= h >>> 13;
-  h = Math.imul(h, 0xc2b2ae35);
-  h ^= h >>> 16;
-  return h >>> 0;
-}
-
 /**
  * A 128-bit hex hash of a string (32 hex digits).
  *
@@ -62,11 +54,7 @@ export function hashString(text: string): string {
   for (const seed of SEEDS) {
     let h = seed ^ text.length;
     for (let i = 0; i < text.length; i++) {
-      let k = Math.imul(text.charCodeAt(i), 0xcc9e2d51);
-      k = (k << 15) | (k >>> 17);
-      h ^= Math.imul(k, 0x1b873593);
-      h = (h << 13) | (h >>> 19);
-      h = (Math.imul(h, 5) + 0xe6546b64) | 0;
+      h = murmurStep(h, text.charCodeAt(i));
     }
     out += fmix32(h).toString(16).padStart(8, "0");
   }

@@ -38,6 +38,7 @@
  */
 import type { Change, Column, RowChanges } from "../../kernel/contract/mod.ts";
 import { fromRuns, rowsInWords } from "../shared/row_list.ts";
+import { fmix32, murmurStep } from "../../kernel/murmur3.ts";
 
 /** The name of this fingerprint, kept with it: records of another kind compare by count only. */
 export const ROW_HASH = "murmur3-32";
@@ -46,25 +47,9 @@ const f64 = new Float64Array(1);
 const u32 = new Uint32Array(f64.buffer);
 const NAN_LOW = 0, NAN_HIGH = 0x7ff80000;
 
-/** MurmurHash3's body step: one word `k` into the state `h`. */
-function step(h: number, k: number): number {
-  k = Math.imul(k, 0xcc9e2d51);
-  k = (k << 15) | (k >>> 17);
-  k = Math.imul(k, 0x1b873593);
-  h ^= k;
-  h = (h << 13) | (h >>> 19);
-  return (Math.imul(h, 5) + 0xe6546b64) | 0;
-}
-
 /** MurmurHash3's finaliser (`fmix32`) after the byte count. */
 function finish(h: number, bytes: number): number {
-  h ^= bytes;
-  h ^= h >>> 16;
-  h = Math.imul(h, 0x85ebca6b);
-  h ^= h >>> 13;
-  h = Math.imul(h, 0xc2b2ae35);
-  h ^= h >>> 16;
-  return h >>> 0;
+  return fmix32(h ^ bytes);
 }
 
 /**
@@ -90,17 +75,20 @@ export function rowHashes(columns: readonly Column[], n: number): Uint32Array {
       for (let i = 0; i < n; i++) {
         f64[0] = v[i];
         const nan = v[i] !== v[i];
-        h[i] = step(step(h[i], nan ? NAN_LOW : u32[0]), nan ? NAN_HIGH : u32[1]);
+        h[i] = murmurStep(murmurStep(h[i], nan ? NAN_LOW : u32[0]), nan ? NAN_HIGH : u32[1]);
       }
       for (let i = 0; i < n; i++) words[i] += 2;
     } else {
       for (let i = 0; i < n; i++) {
         const s = c.values[i];
-        let x = step(h[i], s === null ? 0 : s.length + 1);
+        let x = murmurStep(h[i], s === null ? 0 : s.length + 1);
         let w = 1;
         if (s !== null) {
           for (let k = 0; k < s.length; k += 2, w++) {
-            x = step(x, s.charCodeAt(k) | ((k + 1 < s.length ? s.charCodeAt(k + 1) : 0) << 16));
+            x = murmurStep(
+              x,
+              s.charCodeAt(k) | ((k + 1 < s.length ? s.charCodeAt(k + 1) : 0) << 16),
+            );
           }
         }
         h[i] = x;
@@ -123,7 +111,7 @@ export function rowHashes(columns: readonly Column[], n: number): Uint32Array {
  */
 export function hashOfRows(h: ArrayLike<number>, from: number, to: number): number {
   let x = 0;
-  for (let i = from; i < to; i++) x = step(x, h[i]);
+  for (let i = from; i < to; i++) x = murmurStep(x, h[i]);
   return finish(x, 4 * (to - from));
 }
 

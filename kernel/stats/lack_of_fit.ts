@@ -35,6 +35,7 @@
  * @module
  */
 import { fisherF } from "./fisher_f.ts";
+import { fmix32, murmurStep } from "../murmur3.ts";
 
 /** The test with its sums of squares. */
 export interface LackOfFit {
@@ -151,7 +152,7 @@ export function groupRows(columns: readonly Float64Array[], n: number): RowGroup
       // −0 and 0 alike, every NaN alike (as String(v) groups them); other values by their bits.
       const lo = v === 0 || v !== v ? 0 : words[2 * i];
       const hi = v === 0 ? 0 : v !== v ? 0x7ff80000 : words[2 * i + 1];
-      hash[i] = block(block(hash[i], lo), hi);
+      hash[i] = murmurStep(murmurStep(hash[i], lo), hi);
     }
   }
   const length = 8 * columns.length;
@@ -182,25 +183,6 @@ export function groupRows(columns: readonly Float64Array[], n: number): RowGroup
 }
 
 const SEED = 0x9747b28c | 0;
-
-/** One 32-bit block k into the running hash h (MurmurHash3_x86_32's body). */
-function block(h: number, k: number): number {
-  k = Math.imul(k, 0xcc9e2d51);
-  k = (k << 15) | (k >>> 17);
-  k = Math.imul(k, 0x1b873593);
-  h ^= k;
-  h = (h << 13) | (h >>> 19);
-  return (Math.imul(h, 5) + 0xe6546b64) | 0;
-}
-
-/** MurmurHash3's 32-bit finaliser: every input bit affects every output bit. */
-function fmix32(h: number): number {
-  h ^= h >>> 16;
-  h = Math.imul(h, 0x85ebca6b);
-  h ^= h >>> 13;
-  h = Math.imul(h, 0xc2b2ae35);
-  return h ^ (h >>> 16);
-}
 
 /** Whether rows a and b hold the same value in every column (NaN equal to NaN). */
 function sameRow(columns: readonly Float64Array[], a: number, b: number): boolean {
