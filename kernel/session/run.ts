@@ -38,7 +38,10 @@ import { Waiting } from "./_waiting.ts";
 import type { CellReport, CellState, Plan, RunReport } from "./types.ts";
 import { collectGarbage } from "./_collect.ts";
 
-/** Bytes let go at once from which a run collects garbage at once (`once`; _collect.ts). */
+/**
+ * Bytes let go at once from which a run also drops them in the workers and collects garbage
+ * (`once`; _collect.ts).
+ */
 const COLLECT_FROM = 32 << 20;
 
 /** A cell sent into a worker's queue before its inputs' answers (`settled`) came back. */
@@ -60,6 +63,8 @@ export class Run {
   #superseded = false;
   #plan!: Plan;
   #fileData = new Map<string, FileData>();
+  /** With `once`: cells still to settle that read each file (counted at the first settle). */
+  #readersLeft: Map<string, number> | null = null;
   /** With `once`: the files let go, as the report gives them. */
   #filesLetGo = new Map<string, RunReport["files"][number]>();
   #fileErrors = new Map<CellNode, LocatedError>();
@@ -261,25 +266,36 @@ export class Run {
    * the end of a run, it was held beside every fit's arrays).
    */
   #letGoOfFiles(node: CellNode): void {
-    const settled = (n: CellNode) => this.#reports.has(n);
+    if (this.#readersLeft === null) {
+      // Counted once: a scan of every cell for each settled reader was quadratic in a document
+      // of thousands of small tables.
+      this.#readersLeft = new Map();
+      for (const n of this.#plan.graph.nodes) {
+        for (const p of new Set(n.files.map((f) => f.path))) {
+          this.#readersLeft.set(p, (this.#readersLeft.get(p) ?? 0) + 1);
+        }
+      }
+    }
     let dropped = 0;
     for (const { path, option } of node.files) {
+      const left = (this.#readersLeft.get(path) ?? 1) - 1;
+      this.#readersLeft.set(path, left);
       const data = this.#fileData.get(path);
-      if (data === undefined || this.#filesLetGo.has(path)) continue;
-      const readers = this.#plan.graph.nodes.filter((n) => n.files.some((f) => f.path === path));
-      if (!readers.every(settled)) continue;
+      if (left > 0 || data === undefined || this.#filesLetGo.has(path)) continue;
       this.#filesLetGo.set(path, fileFacts(data));
       this.#fileData.set(path, { ...data, bytes: new Uint8Array(0) }); // its facts: #filesLetGo
       this.#host.files.forget(this.#host.files.resolvePath(path, option));
       dropped += data.bytes.length;
     }
-    if (dropped === 0) return;
+    // Small files are not worth a message to the workers (a run of thousands of small tables
+    // would send thousands, each listing every output); they go with the worker's store.
+    if (dropped < COLLECT_FROM) return;
     const kept = [...this.#fileData].filter(([p]) => !this.#filesLetGo.has(p));
     // The workers keep every output (a later cell may read it) and the files still to be read.
     this.#host.pool.retain(this.#plan.keys.values(), kept.map(([, f]) => f.sha256));
     // This thread allocates little from here on: collect soon (once the frames of the answer
     // that settled have let go of the bytes too), or they stay resident.
-    if (dropped >= COLLECT_FROM) setTimeout(collectGarbage, 0);
+    setTimeout(collectGarbage, 0);
   }
 
   /** Drops cached outcomes and worker outputs that the current document no longer uses. */

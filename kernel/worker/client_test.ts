@@ -57,3 +57,16 @@ Deno.test("ComputeWorker.cancelQueued() answers a run not yet started as cancell
     deepEqual([q.ok, q.computed, q.error?.cancelled], [false, false, true]);
   });
 });
+
+Deno.test("ComputeWorker.retain() sent while a run waits in the queue keeps that run's output when listed", async () => {
+  await withWorker(async (w) => {
+    const busy = w.run(job("spin", "ks", { ms: 200, tag: 4 }));
+    const queued = w.run(job("num", "kn", { value: 2 }));
+    // Sent before either answered: "kn" is listed, so its output must stay when it arrives.
+    w.retain(["ks", "kn"], []);
+    await busy;
+    await queued;
+    const b = await w.run(job("sum", "kb", { of: ["a", "b"] }, { a: "ks", b: "kn" }));
+    deepEqual([b.ok, b.summary], [true, { value: 6 }]);
+  });
+});
