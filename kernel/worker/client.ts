@@ -48,7 +48,7 @@ export class ComputeWorker {
   /** File SHA-256s the worker holds. */
   #files = new Set<string>();
   /** Where the kernel writes the id of a computing run to stop (`StopFlagMessage`). */
-  #stop = new Int32Array(new SharedArrayBuffer(4));
+  #stop!: Int32Array;
   /** A CSV helper thread handed to the worker and not yet used (kernel/csv/_halves.ts). */
   #helper: Worker | null = null;
   /** Number of times the worker was (re)started. */
