@@ -12,6 +12,7 @@ import { compareKind } from "./compare/mod.ts";
 import { chartKind } from "./chart/mod.ts";
 import { checkKind } from "./check/mod.ts";
 import { searchKind } from "./search/mod.ts";
+import { calcKind } from "./calc/mod.ts";
 
 /** Every kind Plumb knows, by name. */
 export const registry: Registry = makeRegistry([
@@ -22,4 +23,5 @@ export const registry: Registry = makeRegistry([
   checkKind,
   chartKind,
   searchKind,
+  calcKind,
 ]);

@@ -19,13 +19,14 @@ import { checkPage } from "./check/view.tsx";
 import { predictPage } from "./predict/view.tsx";
 import { chartPage } from "./chart/view.tsx";
 import { searchPage } from "./search/view.tsx";
+import { calcPage } from "./calc/view.tsx";
 
 // deno-lint-ignore no-explicit-any
 type AnyPage = PageFace<any, VNode>;
 
 /** Every page face, by kind name. */
 export const pages: ReadonlyMap<string, AnyPage> = new Map(
-  [tablePage, fitPage, comparePage, checkPage, predictPage, chartPage, searchPage]
+  [tablePage, fitPage, comparePage, checkPage, predictPage, chartPage, searchPage, calcPage]
     .map((p) => [p.kind, p]),
 );
 

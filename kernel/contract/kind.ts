@@ -27,6 +27,7 @@ import type { CellOutput, FileData, FileRef, InputRef, OutputType } from "./valu
 import type { DocSettings } from "./settings.ts";
 import type { OptionDecls } from "./option_decl.ts";
 import type { HistoryFace } from "./history.ts";
+import type { CheckAnswer, IsolateAnswer, IsolateJob } from "../sandbox/mod.ts";
 
 /** What `parse` gets: one cell's options and ways to report about them. */
 export interface ParseContext {
@@ -53,8 +54,29 @@ export interface RunContext {
   files: Readonly<Record<string, FileData>>;
   /** Records a warning shown on the cell; deduplicated by the kernel. */
   warn(message: string): void;
-  /** Reports progress of long work, `fraction` in [0, 1]. */
+  /**
+   * Reports progress of long work, `fraction` in [0, 1]. Throws (and the run
+   * is answered as cancelled) when the kernel no longer wants the run.
+   */
   progress(fraction: number, note?: string): void;
+  /**
+   * User code, checked and run outside the worker (kernel/sandbox): `check`
+   * type-checks a TypeScript module in a child process, `run` runs one in a
+   * disposable child process with no permissions, a heap cap and a time limit.
+   * Both answer in plain words and never throw. A run whose cell the kernel
+   * stops is killed and answered `stopped`. Absent where no process can be
+   * started (contexts built by hand in tests).
+   */
+  sandbox?: {
+    check(program: string): Promise<CheckAnswer>;
+    run(job: IsolateJob): Promise<IsolateAnswer>;
+  };
+  /**
+   * An input's complete RUN-JSON result as its own kind summarises it, and
+   * the names of its per-row fields (`CellKind.rows`); null when not known.
+   * Optional: absent in contexts built by hand.
+   */
+  summaryOf?(name: string): { result: unknown; rows: readonly string[] } | null;
 }
 
 /** A column a cell offers other cells (a table's columns, by the kind's `columns`). */
@@ -113,6 +135,11 @@ export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R
   body: "yaml" | "code";
   /** The type of value `run` returns. */
   output: OutputType;
+  /**
+   * The output type of one cell, where its options decide it (a calc cell that
+   * gives a table); optional: `output`.
+   */
+  outputOf?(spec: Spec): OutputType;
   /** One line on what the kind does (reference documentation and errors). */
   description: string;
   /** The options it understands, each declared once (key, type, default, one line). */

@@ -123,6 +123,11 @@ function parseNode(
       return;
     }
     options = parsed.options;
+  } else {
+    // A code body: an error's offset is into the body text.
+    const block = node.block;
+    node.locate = (_path, offset) =>
+      offset === undefined ? fencePos(block) : lineColumnAt(doc, block.bodyStart + offset);
   }
   try {
     node.spec = plugin.parse({
@@ -154,7 +159,9 @@ function checkRefs(node: CellNode, byName: Map<string, CellNode>): void {
       );
       return;
     }
-    const output = target.plugin?.output;
+    const output = target.plugin && target.spec !== null
+      ? target.plugin.outputOf?.(target.spec) ?? target.plugin.output
+      : target.plugin?.output;
     if (output && !ref.accepts.includes(output)) {
       const want = ref.accepts.map((t) => t.toLowerCase()).join(" or ");
       node.error = new LocatedError(

@@ -45,7 +45,7 @@ export function templateFor(
     return {
       name: n.name,
       kind: n.kind,
-      output: n.plugin?.output ?? null,
+      output: n.plugin ? (n.spec !== null && n.plugin.outputOf?.(n.spec)) || n.plugin.output : null,
       inputs: n.refs.map((r) => r.name),
       columns,
       result,

@@ -469,7 +469,8 @@ export class Run {
       if (worker.willHave(key)) continue;
       const out = await this.#host.pool.holderOf(key, worker)?.exportOutput(key);
       if (out) {
-        worker.importOutput(key, out);
+        const made = this.#plan.graph.byName.get(dep)!;
+        worker.importOutput(key, out, { kind: made.kind, spec: made.spec });
         continue;
       }
       const again = await this.#computeOn(worker, this.#plan.graph.byName.get(dep)!, "nothing");

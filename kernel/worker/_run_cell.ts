@@ -15,13 +15,15 @@
  *
  * @module
  */
-import type { CellKind, CellOutput, FileData, Registry } from "../contract/mod.ts";
+import type { CellKind, CellOutput, FileData, Registry, RunContext } from "../contract/mod.ts";
+import type { CheckAnswer, IsolateAnswer, IsolateJob } from "../sandbox/mod.ts";
 import { plainDeep } from "../arrays.ts";
 import { CellError } from "../errors.ts";
 import { pageCopy, pageLeavesOut } from "./page_copy.ts";
 import {
   type DoneMessage,
   type FromWorker,
+  type Made,
   type RunRequest,
   type SummaryRequest,
   transientAnswer,
@@ -41,6 +43,50 @@ export interface WorkerStore {
   files: Map<string, FileData>;
   /** The id of a run the kernel wants stopped, at index 0 (`StopFlagMessage`); null before it came. */
   stop?: Int32Array | null;
+  /** The kind and spec that made each stored output, by key (for `RunContext.summaryOf`). */
+  made?: Map<string, Made>;
+  /** Sandbox requests waiting for the main thread's answer, by call number. */
+  calls?: Map<number, (answer: CheckAnswer | IsolateAnswer) => void>;
+}
+
+let nextCall = 1;
+
+/** `RunContext.sandbox` for one run: requests to the main thread, answered by message. */
+function sandboxFor(
+  store: WorkerStore,
+  id: number,
+  post: (m: FromWorker) => void,
+): NonNullable<RunContext["sandbox"]> {
+  const ask = <A>(m: { check?: string; job?: IsolateJob }) =>
+    new Promise<A>((resolve) => {
+      const call = nextCall++;
+      store.calls ??= new Map();
+      store.calls.set(call, (answer) => {
+        store.calls!.delete(call);
+        resolve(answer as A);
+      });
+      post({ op: "sandbox", id, call, ...m });
+    });
+  return {
+    check: (program) => ask<CheckAnswer>({ check: program }),
+    run: (job) => ask<IsolateAnswer>({ job }),
+  };
+}
+
+/** `RunContext.summaryOf`: an input's complete RUN-JSON result, as its own kind makes it. */
+function inputSummary(
+  registry: Registry,
+  store: WorkerStore,
+  inputs: Record<string, string>,
+  name: string,
+): { result: unknown; rows: readonly string[] } | null {
+  if (!Object.hasOwn(inputs, name)) return null;
+  const key = inputs[name];
+  const out = store.outputs.get(key);
+  const made = store.made?.get(key);
+  const kind = made && registry.get(made.kind);
+  if (!out || !made || !kind) return null;
+  return { result: kind.summary(out, made.spec), rows: kind.rows ?? [] };
 }
 
 /** Thrown out of `progress` to stop a run the kernel no longer wants. */
@@ -120,6 +166,8 @@ export async function runCell(
       name: req.name,
       settings: req.settings,
       ...gathered,
+      sandbox: sandboxFor(store, req.id, post),
+      summaryOf: (name) => inputSummary(registry, store, req.inputs, name),
       warn: (m) => {
         if (!warnings.includes(m)) warnings.push(m);
       },
@@ -134,6 +182,7 @@ export async function runCell(
       },
     });
     store.outputs.set(req.key, out);
+    store.made?.set(req.key, { kind: req.kind, spec: req.spec });
     return done(true, summarise(registry, req, out));
   } catch (err) {
     if (err instanceof Stopped) {

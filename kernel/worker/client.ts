@@ -12,10 +12,13 @@
 import type { FileData } from "../contract/mod.ts";
 import type { CellOutput } from "../contract/mod.ts";
 import { HALVES_FROM, halvesHelperWorker } from "../csv/mod.ts";
+import { checkProgram, runIsolated } from "../sandbox/mod.ts";
 import {
   type DoneMessage,
   type FromWorker,
+  type Made,
   type RunRequest,
+  type SandboxRequest,
   type SummaryRequest,
   type ToWorker,
   transientAnswer,
@@ -51,6 +54,8 @@ export class ComputeWorker {
   #stop!: Int32Array;
   /** A CSV helper thread handed to the worker and not yet used (kernel/csv/_halves.ts). */
   #helper: Worker | null = null;
+  /** User code running for a run, by run id: aborting kills its process (kernel/sandbox). */
+  #isolated = new Map<number, AbortController>();
   /** Number of times the worker was (re)started. */
   starts = 0;
 
@@ -84,6 +89,7 @@ export class ComputeWorker {
     try {
       this.#worker.terminate();
     } catch { /* already gone */ }
+    this.#stopIsolated();
     this.#dropHelper();
     const pending = [...this.#pending.entries()];
     this.#pending.clear();
@@ -133,12 +139,41 @@ export class ComputeWorker {
     // Runs are answered in the order sent: the oldest unanswered one is computing.
     for (const [id, p] of this.#pending) {
       if (!p.run) continue;
-      if (!keys.has(p.key)) Atomics.store(this.#stop, 0, id);
+      if (!keys.has(p.key)) {
+        Atomics.store(this.#stop, 0, id);
+        this.#isolated.get(id)?.abort();
+      }
       return;
     }
   }
 
+  /**
+   * Checks or runs user code for a run (the worker may not start processes);
+   * the process is killed if the run is stopped or the worker closes.
+   */
+  #sandbox(m: SandboxRequest): void {
+    const reply = (answer: unknown) =>
+      this.#post({ op: "sandbox-answer", call: m.call, answer } as ToWorker);
+    if (m.check !== undefined) {
+      checkProgram(m.check).then(reply);
+      return;
+    }
+    if (m.job === undefined) return;
+    const abort = new AbortController();
+    this.#isolated.set(m.id, abort);
+    runIsolated(m.job, abort.signal).then((answer) => {
+      if (this.#isolated.get(m.id) === abort) this.#isolated.delete(m.id);
+      reply(answer);
+    });
+  }
+
+  #stopIsolated(): void {
+    for (const a of this.#isolated.values()) a.abort();
+    this.#isolated.clear();
+  }
+
   #receive(m: FromWorker): void {
+    if (m.op === "sandbox") return this.#sandbox(m);
     if (m.op === "helper-used") {
       this.#helper = null; // it closes itself when done
       return;
@@ -271,9 +306,10 @@ export class ComputeWorker {
    *
    * @param key The output's cache key.
    * @param output The output.
+   * @param made The kind and spec that made it (what `RunContext.summaryOf` needs).
    */
-  importOutput(key: string, output: CellOutput): void {
-    this.#post({ op: "import", key, output });
+  importOutput(key: string, output: CellOutput, made?: Made): void {
+    this.#post({ op: "import", key, output, ...(made ? { made } : {}) });
     this.#outputs.add(key);
   }
 
@@ -296,6 +332,7 @@ export class ComputeWorker {
   /** Stops the worker. */
   close(): void {
     this.#worker.terminate();
+    this.#stopIsolated();
     this.#dropHelper();
     for (const [id, p] of this.#pending) {
       p.resolve(transientAnswer(id, "The compute worker was closed"));

@@ -47,6 +47,7 @@ function storeFile(store: WorkerStore, msg: FileMessage): void {
 function retain(store: WorkerStore, msg: RetainMessage): void {
   const keep = new Set(msg.keys);
   for (const k of store.outputs.keys()) if (!keep.has(k)) store.outputs.delete(k);
+  for (const k of store.made?.keys() ?? []) if (!keep.has(k)) store.made!.delete(k);
   const keepFiles = new Set(msg.shas);
   for (const s of store.files.keys()) if (!keepFiles.has(s)) store.files.delete(s);
 }
@@ -54,6 +55,7 @@ function retain(store: WorkerStore, msg: RetainMessage): void {
 /** Keeps an output another worker computed under its key. */
 function importOutput(store: WorkerStore, msg: ImportMessage): void {
   store.outputs.set(msg.key, msg.output as CellOutput);
+  if (msg.made) store.made?.set(msg.key, msg.made);
 }
 
 /** The answer to an export: the output kept under the key, or none. */
@@ -100,7 +102,12 @@ class InOrder {
  * @param registry The cell kinds this worker can run (their compute faces).
  */
 export function serveComputeWorker(registry: Registry): void {
-  const store: WorkerStore = { outputs: new Map(), files: new Map() };
+  const store: WorkerStore = {
+    outputs: new Map(),
+    files: new Map(),
+    calls: new Map(),
+    made: new Map(),
+  };
   const cancelled = new Set<number>();
   // A summary's per-row arrays are moved as Float64Array, not copied as objects (packRows).
   const post = (m: FromWorker) => {
@@ -122,6 +129,8 @@ export function serveComputeWorker(registry: Registry): void {
     switch (msg.op) {
       case "helper":
         return useHalvesHelper(msg.port, helperUsed);
+      case "sandbox-answer":
+        return store.calls?.get(msg.call)?.(msg.answer);
       case "stop-flag":
         store.stop = new Int32Array(msg.flag);
         return;

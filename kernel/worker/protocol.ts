@@ -12,6 +12,8 @@
  *   │ export {id, key} ──▶ ◀── output {id, output | absent}  (answered between runs)
  *   │ import {key, output}  (an output another worker computed)       ──▶
  *   │ cancel {ids}  (runs not yet started: answered as cancelled)      ──▶
+ *   │ ◀── sandbox {id, call, check | job}  (user code: the main thread starts the process)
+ *   │ sandbox-answer {call, answer}                                    ──▶
  * ```
  *
  * Runs are answered in the order they were sent, so the kernel may send a
@@ -40,6 +42,7 @@
  */
 import type { DocSettings, OptionPath } from "../contract/mod.ts";
 import { isMovable, ROWS_TYPED_FROM } from "../arrays.ts";
+import type { CheckAnswer, IsolateAnswer, IsolateJob } from "../sandbox/mod.ts";
 
 /** Run one cell. */
 export interface RunRequest {
@@ -112,6 +115,14 @@ export interface ImportMessage {
   op: "import";
   key: string;
   output: unknown;
+  /** The kind and spec that made it (for `RunContext.summaryOf`). */
+  made?: Made;
+}
+
+/** The kind and spec that made a stored output. */
+export interface Made {
+  kind: string;
+  spec: unknown;
 }
 
 /** Answer these runs, if not yet started, as cancelled (transient) instead of running them. */
@@ -130,7 +141,29 @@ export type ToWorker =
   | ExportRequest
   | ImportMessage
   | HelperMessage
-  | StopFlagMessage;
+  | StopFlagMessage
+  | SandboxAnswerMessage;
+
+/**
+ * A run's request to check or run user code (`RunContext.sandbox`): the
+ * worker has no permission to start a process, the main thread has
+ * (kernel/sandbox). `id` is the run's, so stopping the run kills the process.
+ */
+export interface SandboxRequest {
+  op: "sandbox";
+  id: number;
+  call: number;
+  /** A program to type-check, or a job to run. */
+  check?: string;
+  job?: IsolateJob;
+}
+
+/** The main thread's answer to a {@link SandboxRequest}. */
+export interface SandboxAnswerMessage {
+  op: "sandbox-answer";
+  call: number;
+  answer: CheckAnswer | IsolateAnswer;
+}
 
 /**
  * The worker's stop flag, sent once after it starts: the kernel writes there
@@ -228,7 +261,12 @@ export interface OutputMessage {
 }
 
 /** A message from the worker to the kernel. */
-export type FromWorker = DoneMessage | ProgressMessage | OutputMessage | HelperUsedMessage;
+export type FromWorker =
+  | DoneMessage
+  | ProgressMessage
+  | OutputMessage
+  | HelperUsedMessage
+  | SandboxRequest;
 
 /**
  * An answer given without a result of the cell's own: a run cancelled before
