@@ -20,7 +20,11 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import type { OptionDecls, ParseContext } from "../../kernel/contract/mod.ts";
+import {
+  checkOptionKeys,
+  type OptionDecls,
+  type ParseContext,
+} from "../../kernel/contract/mod.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
 
 /** One cell the code reads: the cell's name and the variable the code sees it as. */
@@ -171,6 +175,7 @@ function readAmount(
  * ```
  */
 export function parseCalcSpec(ctx: ParseContext): CalcSpec {
+  checkOptionKeys(ctx, CALC_OPTIONS); // options come from the header; none arrive as YAML
   const spec: CalcSpec = {
     reads: [],
     gives: "value",
@@ -199,13 +204,10 @@ export function parseCalcSpec(ctx: ParseContext): CalcSpec {
       const at = line.offset + lead.length;
       const valueAt = line.offset + text.indexOf(value, lead.length + key.length);
       if (!Object.hasOwn(CALC_OPTIONS, key)) {
-        throw new CellError(
-          `Unknown header key "${key}"${didYouMean(key, Object.keys(CALC_OPTIONS))} (keys: ${
-            Object.keys(CALC_OPTIONS).join(", ")
-          })`,
-          [],
-          at,
-        );
+        const keys = Object.keys(CALC_OPTIONS);
+        const hint = didYouMean(key, keys) ||
+          `: a calc cell takes ${keys.map((k) => `"${k}"`).join(", ")}`;
+        throw new CellError(`Unknown option "${key}" in calc "${ctx.name}"${hint}`, [], at);
       }
       if (seen.has(key)) throw new CellError(`"${key}" is given twice`, [], at);
       seen.add(key);
