@@ -16,7 +16,7 @@
  *     │ relaunches:
  *     ▼
  *  deno run --no-prompt --allow-read --allow-write=<out> --allow-env=SOURCE_DATE_EPOCH,…
- *           [--allow-run=<chromium>] main.ts export … --narrowed
+ *           --allow-run=<deno>[,<chromium>] main.ts export … --narrowed
  * ```
  *
  * Exit status: 0 with every cell current, 1 when the record lists a failed
@@ -132,7 +132,8 @@ async function relaunchToWrite(
     "--allow-read",
     `--allow-write=${folders.join(",")}`,
     "--allow-env=SOURCE_DATE_EPOCH,LOG_TOKENS,LOG_STREAM,INIT_CWD",
-    ...(chromium === null ? [] : [`--allow-run=${chromium}`]),
+    // calc cells run in child processes of this Deno (kernel/sandbox); Chromium prints the PDF.
+    `--allow-run=${[Deno.execPath(), ...(chromium === null ? [] : [chromium])].join(",")}`,
   ], ["export", ...args, "--narrowed"]);
 }
 

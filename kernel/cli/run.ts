@@ -177,6 +177,8 @@ export async function runCommand(args: string[], product: Product): Promise<numb
       "--allow-read",
       `--allow-write=${hist},${historyTempPath(hist)}`,
       "--allow-env=LOG_TOKENS,LOG_STREAM,INIT_CWD",
+      // calc cells: their code is checked and run in child processes of this Deno (kernel/sandbox).
+      `--allow-run=${Deno.execPath()}`,
     ], ["run", ...args, "--narrowed"]);
   }
   const session = new Session({

@@ -5,8 +5,8 @@
  *  plumb serve doc.md                (may run, read, reach loopback)
  *     │ picks a free port, relaunches itself:
  *     ▼
- *  deno run --no-prompt --allow-read=<doc folder>,<repo> --allow-write=<doc folder>
- *           --allow-net=127.0.0.1:<port> --allow-env=LOG_TOKENS,LOG_STREAM
+ *  deno run --no-prompt --allow-read=<doc folder>,<repo>,<deno> --allow-write=<doc folder>
+ *           --allow-net=127.0.0.1:<port> --allow-env=LOG_TOKENS,LOG_STREAM --allow-run=<deno>
  *           --unstable-bundle main.ts serve doc.md --port <port> --host <host> --narrowed
  *     │ bundles the page (product.pageUrl), binds, prints the URL, runs the document, watches its folder
  * ```
@@ -136,7 +136,7 @@ export const SERVE_V8_FLAGS = "--v8-flags=--max-semi-space-size=8";
 async function relaunch(a: ServeArgs, path: string, product: Product): Promise<number> {
   const port = a.port ?? freePort(a.host);
   const docDir = dirname(path);
-  const flags = narrowedFlags(docDir, REPO, a.host, port);
+  const flags = narrowedFlags(docDir, REPO, a.host, port, Deno.execPath());
   const child = new Deno.Command(Deno.execPath(), {
     args: [
       "run",

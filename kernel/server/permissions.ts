@@ -9,8 +9,9 @@
  * | `--allow-write`   | the document's folder (atomic saves)                        |
  * | `--allow-net`     | `host:port` only (the listener)                             |
  * | `--allow-env`     | `LOG_TOKENS,LOG_STREAM`, read by the yaml package           |
+ * | `--allow-run`     | this Deno binary only (and reading it): calc cells' code is checked and run in child processes of it with no permissions (kernel/sandbox) |
  *
- * No `--allow-run`: the bundler (Deno.bundle) runs inside the runtime.
+ * The bundler (Deno.bundle) runs inside the runtime.
  *
  * @module
  */
@@ -30,6 +31,7 @@ export interface NarrowedFlags {
  * @param repoDir The repository's folder (absolute).
  * @param host The address to bind.
  * @param port The port to bind.
+ * @param deno The Deno binary that may be started (for calc cells); omitted: none.
  * @returns The lists, and `args` (the `--allow-*` flags, plus `--no-prompt`).
  * @example
  * ```ts
@@ -44,8 +46,10 @@ export function narrowedFlags(
   repoDir: string,
   host: string,
   port: number,
+  deno?: string,
 ): NarrowedFlags & { args: string[] } {
   const read = docDir === repoDir ? [docDir] : [docDir, repoDir];
+  if (deno !== undefined) read.push(deno);
   const flags = {
     read,
     write: [docDir],
@@ -58,6 +62,7 @@ export function narrowedFlags(
     `--allow-write=${flags.write.join(",")}`,
     `--allow-net=${flags.net}`,
     `--allow-env=${flags.env.join(",")}`,
+    ...(deno === undefined ? [] : [`--allow-run=${deno}`]),
   ];
   return { ...flags, args };
 }
