@@ -15,7 +15,11 @@ function cell(kind: string, name: string, body: string): string {
 }
 
 // Invented data for this test: y = 1 + 2x exactly at x = 1..5.
-const TABLE = cell("table", "pts", "columns: [x, y]\nrows: [[1, 3], [2, 5], [3, 7], [4, 9], [5, 11]]\nunits: { y: mV }");
+const TABLE = cell(
+  "table",
+  "pts",
+  "columns: [x, y]\nrows: [[1, 3], [2, 5], [3, 7], [4, 9], [5, 11]]\nunits: { y: mV }",
+);
 const FIT = cell("fit", "line", "on: pts\nmodel: y = a + b*x");
 
 async function withSession(fn: (s: Session) => Promise<void>) {
@@ -69,20 +73,29 @@ Deno.test("a calc cell that gives a table is read by a fit as any table", async 
     const est = (f.result as { parameters: { name: string; estimate: number }[] }).parameters;
     // Exact arithmetic: 2y = 2 + 4x.
     ok(Math.abs(est[0].estimate - 2) < 1e-12 && Math.abs(est[1].estimate - 4) < 1e-12);
-    const t = find(r, "doubled").result as { table: { rows_used: number; columns: { name: string; unit: string | null }[] } };
+    const t = find(r, "doubled").result as {
+      table: { rows_used: number; columns: { name: string; unit: string | null }[] };
+    };
     equal(t.table.rows_used, 5);
     deepEqual(t.table.columns.map((c) => [c.name, c.unit]), [["x", null], ["y2", "mV"]]);
   });
 });
 
 Deno.test("a misspelled field fails the type check at its line and column, with the near miss", async () => {
-  const calc = cell("calc", "oops", "reads: line\n---\nconst r = line.r2;\nreturn line.estimats.a;");
+  const calc = cell(
+    "calc",
+    "oops",
+    "reads: line\n---\nconst r = line.r2;\nreturn line.estimats.a;",
+  );
   await withSession(async (s) => {
     const source = TABLE + FIT + calc;
     const r = await s.run(source);
     const c = find(r, "oops");
     equal(c.state, "failed");
-    match(c.error!.message, /^Type error: Property 'estimats' does not exist .*Did you mean 'estimates'\?/);
+    match(
+      c.error!.message,
+      /^Type error: Property 'estimats' does not exist .*Did you mean 'estimates'\?/,
+    );
     const lines = source.split("\n");
     const line = lines.findIndex((l) => l.startsWith("return line.estimats")) + 1;
     equal(c.error!.line, line);
@@ -92,7 +105,8 @@ Deno.test("a misspelled field fails the type check at its line and column, with 
 });
 
 Deno.test("a calc cell is cached by its code and its inputs: a prose edit reruns nothing, a code edit reruns it", async () => {
-  const calc = (k: number) => cell("calc", "k", `reads: line\n---\nreturn { v: line.estimates.a * ${k} };`);
+  const calc = (k: number) =>
+    cell("calc", "k", `reads: line\n---\nreturn { v: line.estimates.a * ${k} };`);
   await withSession(async (s) => {
     let r = await s.run(TABLE + FIT + calc(2));
     equal(find(r, "k").state, "current", find(r, "k").error?.message);
@@ -106,7 +120,11 @@ Deno.test("a calc cell is cached by its code and its inputs: a prose edit reruns
 });
 
 Deno.test("a runtime error in calc code points at its line", async () => {
-  const calc = cell("calc", "boom", "---\nconst a = 1;\nthrow new Error('no crossing below 2000 mAh');");
+  const calc = cell(
+    "calc",
+    "boom",
+    "---\nconst a = 1;\nthrow new Error('no crossing below 2000 mAh');",
+  );
   await withSession(async (s) => {
     const source = calc;
     const r = await s.run(source);

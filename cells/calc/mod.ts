@@ -28,6 +28,7 @@ import { CALC_OPTIONS, type CalcSpec, parseCalcSpec } from "./spec.ts";
 import { type CalcOutput, type CalcTableOutput, runCalc } from "./run.ts";
 import { calcDetails, calcLine, type CalcResult, summarizeCalc } from "./result.ts";
 import { cellsOf } from "../shared/template_cells.ts";
+import { calcHistory } from "./history.ts";
 
 export type { CalcInput, CalcSpec } from "./spec.ts";
 export type { CalcOutput, CalcTableOutput } from "./run.ts";
@@ -54,6 +55,7 @@ export const calcKind: CellKind<CalcSpec, CalcOutput | CalcTableOutput, CalcResu
   details: calcDetails,
   columns: (r) => r.table?.columns.map(({ name, type, unit }) => ({ name, type, unit })) ?? [],
   template: calcTemplate,
+  history: calcHistory,
 };
 
 /** A new calc: the last fit's estimates and its model at its first column's value 1. */

@@ -45,7 +45,10 @@ Deno.test("runModule() evaluates a fit's model at a point from its estimates, ov
     inputs,
   );
   equal(text.split("\n")[1], "const power = 1; return [arguments.length, power];");
-  const js = runModule(spec("return [power.evaluate({ cycle: 100 }), power.evaluate({ cycle: 100 }, { a: 20 })];\n"), inputs);
+  const js = runModule(
+    spec("return [power.evaluate({ cycle: 100 }), power.evaluate({ cycle: 100 }, { a: 20 })];\n"),
+    inputs,
+  );
   const url = "data:application/typescript;base64," + btoa(js);
   const mod = await import(url);
   const out = await mod.default({ power: { estimates: { q0: 2500, a: 10, b: 0.5 } } });

@@ -20,11 +20,7 @@
  * @module
  */
 import { CellError } from "../../kernel/errors.ts";
-import {
-  checkOptionKeys,
-  type OptionDecls,
-  type ParseContext,
-} from "../../kernel/contract/mod.ts";
+import { checkOptionKeys, type OptionDecls, type ParseContext } from "../../kernel/contract/mod.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
 
 /** One cell the code reads: the cell's name and the variable the code sees it as. */

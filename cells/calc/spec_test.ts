@@ -4,7 +4,14 @@ import { DEFAULT_SETTINGS } from "../../kernel/document/mod.ts";
 import { parseCalcSpec } from "./spec.ts";
 
 const parse = (body: string) =>
-  parseCalcSpec({ name: "c", kind: "calc", body, options: {}, settings: DEFAULT_SETTINGS, warn() {} });
+  parseCalcSpec({
+    name: "c",
+    kind: "calc",
+    body,
+    options: {},
+    settings: DEFAULT_SETTINGS,
+    warn() {},
+  });
 
 /** The CellError `body` throws, with its message and offset. */
 function refused(body: string): CellError {
@@ -48,20 +55,32 @@ Deno.test("parseCalcSpec() refuses a name code cannot use, suggesting an alias",
   const e = refused("reads: end-of-life\n---\nreturn 1;\n");
   equal(e.message, '"end-of-life" is not a name code can use: write "end-of-life as end_of_life"');
   equal(e.offset, "reads: ".length);
-  throws(() => parse("reads: a as class\n---\nreturn 1;\n"), /a word TypeScript or the sandbox takes/);
+  throws(
+    () => parse("reads: a as class\n---\nreturn 1;\n"),
+    /a word TypeScript or the sandbox takes/,
+  );
   throws(() => parse("reads: a, b as a\n---\nreturn 1;\n"), /"a" is read twice/);
 });
 
 Deno.test("parseCalcSpec() refuses a limit out of range and a gives it does not know", () => {
-  throws(() => parse("time: 0 s\n---\nreturn 1;\n"), /time must be a number above 0 and at most 600 s/);
+  throws(
+    () => parse("time: 0 s\n---\nreturn 1;\n"),
+    /time must be a number above 0 and at most 600 s/,
+  );
   throws(() => parse("memory: lots\n---\nreturn 1;\n"), /memory must be a number above 0/);
-  throws(() => parse("gives: tabel\n---\nreturn 1;\n"), /"gives" is value or table, not "tabel": did you mean "table"\?/);
+  throws(
+    () => parse("gives: tabel\n---\nreturn 1;\n"),
+    /"gives" is value or table, not "tabel": did you mean "table"\?/,
+  );
 });
 
 Deno.test("parseCalcSpec() refuses the word import anywhere in the code, at its place", () => {
   const body = "---\nconst x = 1;\nconst m = await import('file:///etc/passwd');\n";
   const e = refused(body);
-  equal(e.message, "calc cells cannot import modules: everything the code reads comes through `reads`");
+  equal(
+    e.message,
+    "calc cells cannot import modules: everything the code reads comes through `reads`",
+  );
   equal(body.slice(e.offset!, e.offset! + 6), "import");
   throws(() => parse("reads: a\n---\n   \n"), /has no code/);
 });
