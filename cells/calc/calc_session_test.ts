@@ -119,6 +119,18 @@ Deno.test("a calc cell is cached by its code and its inputs: a prose edit reruns
   });
 });
 
+Deno.test("a misspelled cell in reads is an error at its place, naming the nearest cell", async () => {
+  const calc = cell("calc", "near", "reads: pts, lien\n---\nreturn 1;");
+  await withSession(async (s) => {
+    const source = TABLE + FIT + calc;
+    const c = find(await s.run(source), "near");
+    equal(c.state, "failed");
+    match(c.error!.message, /Unknown cell "lien" in "near".*did you mean "line"\?/);
+    equal(c.error!.line, source.split("\n").findIndex((l) => l.startsWith("reads: pts, lien")) + 1);
+    equal(c.error!.column, "reads: pts, ".length + 1);
+  });
+});
+
 Deno.test("a runtime error in calc code points at its line", async () => {
   const calc = cell(
     "calc",

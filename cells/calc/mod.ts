@@ -48,6 +48,7 @@ export const calcKind: CellKind<CalcSpec, CalcOutput | CalcTableOutput, CalcResu
       name: r.cell,
       accepts: ["Table", "Fit", "Comparison", "Diagnostics", "Predictions", "Value", "Ranked"],
       path: ["reads"],
+      offset: r.offset,
     })),
   run: runCalc,
   summary: (out) => summarizeCalc(out),

@@ -4,7 +4,7 @@ import type { CalcSpec } from "./spec.ts";
 import { checkModule, runModule, typeOf } from "./program.ts";
 
 const spec = (code: string): CalcSpec => ({
-  reads: [{ cell: "power", as: "power" }],
+  reads: [{ cell: "power", as: "power", offset: 7 }],
   gives: "value",
   seconds: 10,
   memoryMb: 256,

@@ -27,6 +27,8 @@ import { didYouMean } from "../../kernel/suggest.ts";
 export interface CalcInput {
   cell: string;
   as: string;
+  /** Where the cell's name is written in the body (for error positions). */
+  offset: number;
 }
 
 /** A `calc` cell's normalised options and code (plain JSON: hashed into the cache key). */
@@ -125,7 +127,7 @@ function readInputs(value: string, offset: number): CalcInput[] {
       );
     }
     if (out.some((i) => i.as === as)) throw new CellError(`"${as}" is read twice`, [], here);
-    out.push({ cell, as });
+    out.push({ cell, as, offset: here });
   }
   return out;
 }

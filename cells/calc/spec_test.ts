@@ -28,7 +28,10 @@ Deno.test("parseCalcSpec() reads the header and keeps the code after ---", () =>
   const body = "reads: power, end-of-life as life  # two cells\ngives: table\ntime: 2.5 s\n" +
     "memory: 64 MB\n---\nreturn { columns: { x: [1] } };\n";
   const spec = parse(body);
-  deepEqual(spec.reads, [{ cell: "power", as: "power" }, { cell: "end-of-life", as: "life" }]);
+  deepEqual(spec.reads, [
+    { cell: "power", as: "power", offset: 7 },
+    { cell: "end-of-life", as: "life", offset: 14 },
+  ]);
   equal(spec.gives, "table");
   equal(spec.seconds, 2.5);
   equal(spec.memoryMb, 64);

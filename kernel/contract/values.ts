@@ -39,6 +39,8 @@ export interface InputRef {
   accepts: readonly OutputType[];
   /** The option that holds the reference, for error positions. */
   path: OptionPath;
+  /** Where in that option's text (or a code body) the name is written, when known. */
+  offset?: number;
 }
 
 /** A data file a cell needs; the kernel reads it (relative to the document) and passes bytes. */

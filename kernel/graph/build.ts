@@ -155,7 +155,7 @@ function checkRefs(node: CellNode, byName: Map<string, CellNode>): void {
     if (!target) {
       node.error = new LocatedError(
         `Unknown cell "${ref.name}" in "${node.name}"${didYouMean(ref.name, byName.keys())}`,
-        node.locate(ref.path),
+        node.locate(ref.path, ref.offset),
       );
       return;
     }
@@ -167,12 +167,15 @@ function checkRefs(node: CellNode, byName: Map<string, CellNode>): void {
       node.error = new LocatedError(
         `"${ref.path.join(".")}" of "${node.name}" must name a ${want} cell, ` +
           `but "${ref.name}" is a ${target.kind} cell (gives ${output.toLowerCase()})`,
-        node.locate(ref.path),
+        node.locate(ref.path, ref.offset),
       );
       return;
     }
     if (ref.name === node.name) {
-      node.error = new LocatedError(`Cell "${node.name}" reads itself`, node.locate(ref.path));
+      node.error = new LocatedError(
+        `Cell "${node.name}" reads itself`,
+        node.locate(ref.path, ref.offset),
+      );
       return;
     }
     if (!deps.has(ref.name)) {
