@@ -59,12 +59,15 @@ export const calcKind: CellKind<CalcSpec, CalcOutput | CalcTableOutput, CalcResu
   history: calcHistory,
 };
 
-/** A new calc: the last fit's estimates and its model at its first column's value 1. */
+/** A new calc: the last fit's estimates and R², read under a name code can use. */
 function calcTemplate(ctx: TemplateContext): string {
   const fit = cellsOf(ctx, "Fit").at(-1);
-  if (fit === undefined || !/^[A-Za-z_$][\w$]*$/.test(fit.name)) {
+  if (fit === undefined) {
     return "---\n// any TypeScript; `return` gives the cell's value\nreturn { answer: 6 * 7 };\n";
   }
-  return `reads: ${fit.name}\n---\n// ${fit.name}.estimates holds the fitted parameters; ` +
-    `${fit.name}.evaluate({ … }) the model at a point\nreturn { ...${fit.name}.estimates, r2: ${fit.name}.r2 };\n`;
+  let as = fit.name.replace(/[^A-Za-z0-9_$]+/g, "_");
+  if (!/^[A-Za-z_$]/.test(as)) as = `fit_${as}`;
+  const reads = as === fit.name ? fit.name : `${fit.name} as ${as}`;
+  return `reads: ${reads}\n---\n// ${as}.estimates holds the fitted parameters; ` +
+    `${as}.evaluate({ … }) gives the model at a point\nreturn { ...${as}.estimates, r2: ${as}.r2 };\n`;
 }
