@@ -2,9 +2,9 @@
  * Type-checking a user program before it runs: Deno's own checker in a child
  * process (`deno run --check` over standard input, no permissions, an empty
  * environment), so its diagnostics are exactly the runtime's TypeScript's.
- * The program is a module whose code sits in a function that is never
- * called; should user text escape that function, it runs with no
- * permissions under a time limit and is killed after it.
+ * `deno run` evaluates the module after a clean check: a guard line put
+ * before it throws first, so no user text runs there even if it escaped the
+ * function it was put in (the process also has no permissions and a time limit).
  *
  * A check costs about a second of the compiler's start-up; results are kept
  * by the program's SHA-256, so code whose inputs changed value but not shape
@@ -33,6 +33,11 @@ const CHECK_SECONDS = 60;
 const KEEP = 256;
 
 const kept = new Map<string, CheckAnswer>();
+
+/** What the guard throws; seen in the report, the check passed and nothing else ran. */
+const MARK = "plumb-sandbox: checked, not run";
+/** The line put before the module (`if`: a bare throw would make the rest unreachable code). */
+const GUARD = `if (1) throw ${JSON.stringify(MARK)};`;
 
 async function digest(text: string): Promise<string> {
   const d = await crypto.subtle.digest("SHA-256", new TextEncoder().encode(text));
@@ -124,7 +129,9 @@ export async function checkProgram(program: string): Promise<CheckAnswer> {
   }, CHECK_SECONDS * 1000);
   try {
     const w = child.stdin.getWriter();
-    await w.write(new TextEncoder().encode(program));
+    // The guard line: the module is evaluated after a clean check, and ends at once, before
+    // any user text that escaped its function could run (imports aside, which the calc refuses).
+    await w.write(new TextEncoder().encode(`${GUARD}\n${program}`));
     await w.close();
   } catch { /* ended early */ }
   const done = await child.output().catch(() => null);
@@ -132,12 +139,13 @@ export async function checkProgram(program: string): Promise<CheckAnswer> {
   const ms = performance.now() - t0;
   if (done === null) return { ok: false, diagnostics: [], ms, message: "the type checker stopped" };
   const text = new TextDecoder().decode(done.stdout) + "\n" + new TextDecoder().decode(done.stderr);
-  const diagnostics = parseDiagnostics(text);
+  // Lines as the caller numbered them: the guard took line 1.
+  const diagnostics = parseDiagnostics(text).map((d) => ({ ...d, line: d.line - 1 }));
   const answer: CheckAnswer = diagnostics.length > 0
     ? { ok: false, diagnostics, ms }
-    : /Type checking failed|error: /.test(text) && !done.success
-    ? { ok: false, diagnostics, ms, message: text.trim().split("\n").slice(-1)[0].slice(0, 300) }
-    : { ok: true, ms };
+    : text.includes(MARK)
+    ? { ok: true, ms }
+    : { ok: false, diagnostics, ms, message: text.trim().split("\n").slice(-1)[0].slice(0, 300) };
   if (kept.size >= KEEP) kept.delete(kept.keys().next().value!);
   if (answer.ok || diagnostics.length > 0) kept.set(key, answer);
   return answer;
