@@ -12,15 +12,78 @@
 // The program is a TypeScript module (a data: URL, transpiled by the
 // runtime) whose default export takes the input. Typed arrays cross as
 // {"\u0000f64": base64} in both directions. Before it is imported, the
-// ways out that permissions do not close are closed here: module loading of
-// local files (refused before the run by the word check, and no code from
-// strings), workers, web storage, and ending the process.
+// ways out that permissions do not close are closed here: workers (and
+// node:worker_threads), web storage (it would outlive the run), the
+// runtime's internals (`Deno[Deno.internal]` can build code from text),
+// node built-ins reached without `import` (`process.getBuiltinModule`),
+// and ending the process.
+//
+// The user's code may replace any global or prototype method (JSON.stringify,
+// Object.prototype.toJSON, TextEncoder.prototype.encode, Deno.stdout.writeSync…).
+// So everything used after it runs is taken here first and called through
+// Reflect.apply, and the answer's JSON text is written by this file itself:
+// what the child says is what it found, and the parent checks it again.
+// Error messages are still read with regular expressions, which the code
+// could spoil by replacing RegExp.prototype.exec: only its own message suffers.
 
 const F64 = "\u0000f64";
 const MEMORY_MARK = "plumb-sandbox: memory cap passed";
-const stdout = Deno.stdout;
+
+// ── Taken before any user code runs ─────────────────────────────────────────
+const apply = Reflect.apply;
+const getPrototypeOf = Reflect.getPrototypeOf;
+const ObjectPrototype = Object.prototype;
+const keysOf = Object.keys;
+const isArray = Array.isArray;
+const stringify = JSON.stringify;
+const isFinite = Number.isFinite;
+const toNumber = Number;
+const U8 = Uint8Array;
+const U16 = Uint16Array;
+const F64A = Float64Array;
+const AB = ArrayBuffer;
+const TypedArrayPrototype = getPrototypeOf(U8.prototype);
+const typedLength = Object.getOwnPropertyDescriptor(TypedArrayPrototype, "length").get;
+const typedBuffer = Object.getOwnPropertyDescriptor(TypedArrayPrototype, "buffer").get;
+const SetC = Set;
+const setHas = Set.prototype.has;
+const setAdd = Set.prototype.add;
+const setDelete = Set.prototype.delete;
+const exec = RegExp.prototype.exec;
+const indexOf = String.prototype.indexOf;
+const sliceText = String.prototype.slice;
+const toB64 = btoa;
+const decode = TextDecoder.prototype.decode;
+const utf16 = new TextDecoder("utf-16le");
+const encode = TextEncoder.prototype.encode;
 const encoder = new TextEncoder();
+const stdout = Deno.stdout;
+const writeSync = stdout.writeSync;
+const inspect = Deno.inspect;
 const realExit = Deno.exit;
+const ErrorC = Error;
+const internal = Deno.internal;
+
+const match = (re, s) => apply(exec, re, [s]);
+const has = (set, v) => apply(setHas, set, [v]);
+
+/** A refusal of ours: the brand cannot be forged by user code. */
+class Refused {
+  #brand = true;
+  // Fields, not assignments: a setter the code put on Object.prototype is never called.
+  why;
+  message;
+  /** Where the code met the refusal (a stub's own stack), or "". */
+  stack;
+  constructor(why, message, stack = "") {
+    this.why = why;
+    this.message = message;
+    this.stack = stack;
+  }
+  static is(x) {
+    return x !== null && typeof x === "object" && #brand in x;
+  }
+}
 
 function fromBase64(s) {
   const bin = atob(s);
@@ -29,13 +92,20 @@ function fromBase64(s) {
   return new Float64Array(bytes.buffer);
 }
 
+/** Base64 of a Float64Array of ours, through taken functions only (3 × 4096 bytes a piece). */
 function toBase64(a) {
-  const bytes = new Uint8Array(a.buffer, a.byteOffset, a.byteLength);
-  let bin = "";
-  for (let i = 0; i < bytes.length; i += 8192) {
-    bin += String.fromCharCode.apply(null, bytes.subarray(i, i + 8192));
+  const bytes = new U8(apply(typedBuffer, a, []));
+  const n = apply(typedLength, bytes, []);
+  const piece = 3 * 4096;
+  const wide = new AB(piece * 2);
+  let out = "";
+  for (let at = 0; at < n; at += piece) {
+    const len = n - at < piece ? n - at : piece;
+    const w = new U16(wide, 0, len);
+    for (let i = 0; i < len; i++) w[i] = bytes[at + i];
+    out += toB64(apply(decode, utf16, [w]));
   }
-  return btoa(bin);
+  return out;
 }
 
 function revive(_key, v) {
@@ -46,199 +116,344 @@ function revive(_key, v) {
   return v;
 }
 
-class Refused extends Error {}
-
 /** Where a value is not data: a path such as `value.fits[2]`. */
 function notData(path, what) {
-  return new Refused(`returned a value that is not data: ${what} at ${path}`);
+  return new Refused("not-data", `returned a value that is not data: ${what} at ${path}`);
+}
+
+const tooLarge = () => new Refused("too-large", "too-large");
+
+/** The length of a typed array (not a DataView), or -1 for anything else. */
+function typedLengthOf(v) {
+  try {
+    return apply(typedLength, v, []);
+  } catch {
+    return -1;
+  }
+}
+
+/** A class instance's name for a message, read without trusting it. */
+function className(v) {
+  try {
+    const name = v.constructor.name;
+    if (typeof name === "string" && name !== "") return `a ${apply(sliceText, name, [0, 60])}`;
+  } catch { /* no name */ }
+  return "an object of a class";
 }
 
 /**
- * The value as plain JSON-ready data (typed arrays as arrays, or as F64 for
- * table columns), refusing functions, symbols, class instances, cycles,
- * non-finite numbers and more than `limit` characters of text.
+ * The value as JSON text: typed arrays as arrays of numbers, refusing
+ * functions, symbols, class instances, cycles, non-finite numbers, the key
+ * `__proto__` (a receiver that assigns it sets a prototype) and more than
+ * `budget.left` characters.
  */
-function toData(v, path, seen, budget, depth) {
+function dataText(v, path, seen, budget, depth) {
   if (depth > 64) throw notData(path, "nesting deeper than 64 levels");
-  if (v === null || typeof v === "boolean") return v;
-  if (typeof v === "string") {
+  if (v === null) return "null";
+  const t = typeof v;
+  if (t === "boolean") return v ? "true" : "false";
+  if (t === "string") {
     budget.left -= v.length + 2;
-    if (budget.left < 0) throw new Refused("too-large");
-    return v;
+    if (budget.left < 0) throw tooLarge();
+    return stringify(v);
   }
-  if (typeof v === "number") {
+  if (t === "number") {
     budget.left -= 24;
-    if (!Number.isFinite(v)) {
+    if (!isFinite(v)) {
       throw notData(path, `${v} (a number that is not finite; return null for "none")`);
     }
-    return v;
+    return stringify(v);
   }
-  if (typeof v === "undefined") throw notData(path, "undefined");
-  if (typeof v === "function") throw notData(path, "a function");
-  if (typeof v === "symbol" || typeof v === "bigint") throw notData(path, `a ${typeof v}`);
-  if (seen.has(v)) throw notData(path, "a value that contains itself");
-  if (ArrayBuffer.isView(v) && !(v instanceof DataView)) {
-    budget.left -= v.length * 24;
-    if (budget.left < 0) throw new Refused("too-large");
-    const out = [];
-    for (let i = 0; i < v.length; i++) {
-      const x = Number(v[i]);
-      if (!Number.isFinite(x)) throw notData(`${path}[${i}]`, `${x} (not finite)`);
-      out.push(x);
+  if (t === "undefined") throw notData(path, "undefined");
+  if (t === "function") throw notData(path, "a function");
+  if (t === "symbol" || t === "bigint") throw notData(path, `a ${t}`);
+  if (has(seen, v)) throw notData(path, "a value that contains itself");
+  const n = typedLengthOf(v);
+  if (n >= 0) {
+    budget.left -= n * 24;
+    if (budget.left < 0) throw tooLarge();
+    let out = "[";
+    for (let i = 0; i < n; i++) {
+      const x = toNumber(v[i]);
+      if (!isFinite(x)) throw notData(`${path}[${i}]`, `${x} (not finite)`);
+      out += (i === 0 ? "" : ",") + stringify(x);
     }
-    return out;
+    return out + "]";
   }
-  seen.add(v);
+  apply(setAdd, seen, [v]);
   let out;
-  if (Array.isArray(v)) {
-    out = [];
-    for (let i = 0; i < v.length; i++) {
-      out.push(toData(v[i], `${path}[${i}]`, seen, budget, depth + 1));
+  if (isArray(v)) {
+    const len = v.length;
+    const count = typeof len === "number" ? len : 0;
+    out = "[";
+    for (let i = 0; i < count; i++) {
+      budget.left -= 1;
+      if (budget.left < 0) throw tooLarge();
+      out += (i === 0 ? "" : ",") + dataText(v[i], `${path}[${i}]`, seen, budget, depth + 1);
     }
+    out += "]";
   } else {
-    const proto = Object.getPrototypeOf(v);
-    if (proto !== Object.prototype && proto !== null) {
-      const name = v?.constructor?.name ?? "an object of a class";
+    const proto = getPrototypeOf(v);
+    if (proto !== ObjectPrototype && proto !== null) {
       throw notData(
         path,
-        `a ${name} (only plain objects, arrays, numbers, text, true/false and null)`,
+        `${className(v)} (only plain objects, arrays, numbers, text, true/false and null)`,
       );
     }
-    out = {};
-    for (const k of Object.keys(v)) {
+    const keys = keysOf(v);
+    out = "{";
+    for (let i = 0; i < keys.length; i++) {
+      const k = keys[i];
+      if (k === "__proto__") {
+        throw notData(`${path}`, 'the key "__proto__" (a name objects keep for their prototype)');
+      }
       budget.left -= k.length + 4;
-      const d = toData(v[k], `${path}.${k}`, seen, budget, depth + 1);
-      Object.defineProperty(out, k, {
-        value: d,
-        enumerable: true,
-        writable: true,
-        configurable: true,
-      });
+      if (budget.left < 0) throw tooLarge();
+      out += (i === 0 ? "" : ",") + stringify(k) + ":" +
+        dataText(v[k], `${path}.${k}`, seen, budget, depth + 1);
     }
+    out += "}";
   }
-  seen.delete(v);
+  apply(setDelete, seen, [v]);
   return out;
 }
 
-/** A returned table: named columns of equal length (numbers, NaN for missing) and their units. */
-function toTable(v, budget) {
-  if (v === null || typeof v !== "object" || Array.isArray(v)) {
-    throw new Refused(
+const refuseTable = (message) => new Refused("not-data", message);
+
+/** One column as a Float64Array: a list of numbers, null or undefined for missing. */
+function columnOf(name, c) {
+  const typed = typedLengthOf(c);
+  if (typed < 0 && !isArray(c)) {
+    throw refuseTable(`returned a table whose column "${name}" is not a list of numbers`);
+  }
+  const len = typed >= 0 ? typed : c.length;
+  const n = typeof len === "number" && len >= 0 ? len : 0;
+  const a = new F64A(n);
+  for (let i = 0; i < n; i++) {
+    const x = c[i];
+    if (x === null || x === undefined) a[i] = NaN;
+    else if (typeof x === "number" || typeof x === "bigint") a[i] = toNumber(x);
+    else {
+      throw refuseTable(
+        `returned a table whose column "${name}" holds a ${typeof x} in row ${i + 1}`,
+      );
+    }
+  }
+  return a;
+}
+
+/** A returned table as JSON text: named columns of equal length (as F64) and their units. */
+function tableText(v, budget) {
+  if (v === null || typeof v !== "object" || isArray(v)) {
+    throw refuseTable(
       "returned a value that is not a table: give { columns: { name: numbers, … }, units? }",
     );
   }
   const cols = v.columns;
-  if (cols === null || typeof cols !== "object" || Array.isArray(cols)) {
-    throw new Refused("returned a table without columns: give { columns: { name: numbers, … } }");
+  if (cols === null || typeof cols !== "object" || isArray(cols)) {
+    throw refuseTable("returned a table without columns: give { columns: { name: numbers, … } }");
   }
-  const names = Object.keys(cols);
-  if (names.length === 0) throw new Refused("returned a table with no columns");
-  const columns = {};
-  let n = -1;
-  for (const name of names) {
-    const c = cols[name];
-    if (!Array.isArray(c) && !(ArrayBuffer.isView(c) && !(c instanceof DataView))) {
-      throw new Refused(`returned a table whose column "${name}" is not a list of numbers`);
+  const names = keysOf(cols);
+  if (names.length === 0) throw refuseTable("returned a table with no columns");
+  const isName = { __proto__: null };
+  let columns = "", list = "";
+  let rows = -1;
+  for (let i = 0; i < names.length; i++) {
+    const name = names[i];
+    if (name === "__proto__") {
+      throw refuseTable('returned a table with a column "__proto__": give it another name');
     }
-    if (n >= 0 && c.length !== n) {
-      throw new Refused(
+    const a = columnOf(name, cols[name]);
+    const n = apply(typedLength, a, []);
+    if (rows >= 0 && n !== rows) {
+      throw refuseTable(
         `returned a table whose columns differ in length: "${
           names[0]
-        }" has ${n} rows, "${name}" has ${c.length}`,
+        }" has ${rows} rows, "${name}" has ${n}`,
       );
     }
-    n = c.length;
-    budget.left -= c.length * 12;
-    if (budget.left < 0) throw new Refused("too-large");
-    const a = new Float64Array(c.length);
-    for (let i = 0; i < c.length; i++) {
-      const x = c[i];
-      if (x === null || x === undefined) a[i] = NaN;
-      else if (typeof x === "number") a[i] = x;
-      else if (typeof x === "bigint" || ArrayBuffer.isView(c)) a[i] = Number(x);
-      else {throw new Refused(
-          `returned a table whose column "${name}" holds a ${typeof x} in row ${i + 1}`,
-        );}
-    }
-    Object.defineProperty(columns, name, { value: { [F64]: toBase64(a) }, enumerable: true });
+    rows = n;
+    budget.left -= n * 12 + name.length;
+    if (budget.left < 0) throw tooLarge();
+    isName[name] = true;
+    const sep = i === 0 ? "" : ",";
+    columns += `${sep}${stringify(name)}:{${stringify(F64)}:${stringify(toBase64(a))}}`;
+    list += sep + stringify(name);
   }
-  const units = {};
+  let units = "";
   const u = v.units;
   if (u !== undefined && u !== null) {
-    if (typeof u !== "object" || Array.isArray(u)) {
-      throw new Refused("returned table units that are not { column: unit }");
+    if (typeof u !== "object" || isArray(u)) {
+      throw refuseTable("returned table units that are not { column: unit }");
     }
-    for (const k of Object.keys(u)) {
-      if (!names.includes(k)) {
-        throw new Refused(`returned a unit for "${k}", which is not one of the table's columns`);
+    const keys = keysOf(u);
+    for (let i = 0; i < keys.length; i++) {
+      const k = keys[i];
+      if (isName[k] !== true) {
+        throw refuseTable(`returned a unit for "${k}", which is not one of the table's columns`);
       }
-      if (typeof u[k] !== "string") {
-        throw new Refused(`returned a unit for "${k}" that is not text`);
+      const unit = u[k];
+      if (typeof unit !== "string") {
+        throw refuseTable(`returned a unit for "${k}" that is not text`);
       }
-      Object.defineProperty(units, k, { value: u[k], enumerable: true });
+      budget.left -= unit.length + k.length;
+      if (budget.left < 0) throw tooLarge();
+      units += `${i === 0 ? "" : ","}${stringify(k)}:${stringify(unit)}`;
     }
   }
-  return { columns, units, names };
+  return `{"columns":{${columns}},"units":{${units}},"names":[${list}]}`;
 }
 
 const DENIED = {
+  __proto__: null,
   read: "tried to read a file; calc cells cannot touch the disk",
   write: "tried to write a file; calc cells cannot touch the disk",
   net: "tried to reach the network; calc cells have no network",
-  import: "tried to load a module from the network; calc cells cannot import",
+  import: "tried to load a module; calc cells cannot import",
   env: "tried to read an environment variable; calc cells see no environment",
   sys: "tried to read facts about the machine; calc cells cannot",
   run: "tried to start a process; calc cells cannot",
   ffi: "tried to load a native library; calc cells cannot",
+  worker: "tried to start a worker; calc cells run on one thread",
+  storage: "tried to keep data between runs; each run of a calc cell starts afresh",
+  code: "tried to build code from text (eval or Function); calc cells cannot",
 };
+
+/** The longest message a failure carries (characters). */
+const MESSAGE_LIMIT = 2000;
+
+/** A field of a thrown value as text, read without trusting it ("" when not text). */
+function textField(err, key) {
+  try {
+    const v = err[key];
+    return typeof v === "string" ? v : "";
+  } catch {
+    return "";
+  }
+}
+
+/** A message without the program's data: URL, on its first line, cut to the limit. */
+function plain(text) {
+  let out = text;
+  for (;;) {
+    const at = apply(indexOf, out, ["data:application/typescript"]);
+    if (at < 0) break;
+    let end = at;
+    while (end < out.length && out[end] !== " " && out[end] !== "\n" && out[end] !== ")") end++;
+    out = apply(sliceText, out, [0, at]) + "the cell's code" + apply(sliceText, out, [end]);
+  }
+  const nl = apply(indexOf, out, ["\n"]);
+  if (nl >= 0) out = apply(sliceText, out, [0, nl]);
+  return out.length > MESSAGE_LIMIT ? apply(sliceText, out, [0, MESSAGE_LIMIT]) + "…" : out;
+}
+
+/** What a thrown value says: its kind and words, for classification. */
+function describe(err) {
+  if (err === null || (typeof err !== "object" && typeof err !== "function")) {
+    let s;
+    try {
+      s = typeof err === "symbol" ? "a symbol" : "" + err;
+    } catch {
+      s = "a value";
+    }
+    return { name: "", message: s, stack: "" };
+  }
+  const name = textField(err, "name");
+  const message = textField(err, "message");
+  if (name === "" && message === "") {
+    let shown = "a value that is not an Error";
+    try {
+      shown = inspect(err, { depth: 2, colors: false });
+    } catch { /* keep the plain words */ }
+    return { name: "", message: shown, stack: "" };
+  }
+  return { name, message, stack: textField(err, "stack") };
+}
+
+/** How a thrown value reads as a failure: why, in plain words (an object: no iterator). */
+function classify(name, message) {
+  const perm = match(/Requires (\w+) access/, message);
+  if (name === "NotCapable" || perm) {
+    const key = perm ? perm[1] : "";
+    return { why: "denied", said: DENIED[key] ?? `was refused: ${plain(message)}` };
+  }
+  if (match(/Failed to spawn/, message)) return { why: "denied", said: DENIED.run };
+  if (name === "EvalError" || match(/Code generation from strings/, message)) {
+    return { why: "denied", said: DENIED.code };
+  }
+  if (match(/remote specifier|--no-remote|npm specifiers|--no-npm|jsr:/, message)) {
+    return { why: "denied", said: DENIED.import };
+  }
+  if (match(/Invalid string length/, message)) {
+    return {
+      why: "too-large",
+      said: "tried to make text longer than a string can hold (about 512 MB)",
+    };
+  }
+  if (match(/Array buffer allocation failed|Invalid typed array length/, message)) {
+    return { why: "memory", said: "asked for more memory at once than it may use" };
+  }
+  return {
+    why: "threw",
+    said: `${name && name !== "Error" ? name + ": " : ""}${plain(message)}`,
+  };
+}
 
 /** The answer for an error thrown by user code, with its line in the program when known. */
 function failure(err) {
-  const message = err instanceof Error ? err.message : String(err);
-  const name = err instanceof Error ? err.name : "";
-  let why = "threw";
-  let said = `${name && name !== "Error" ? name + ": " : ""}${message}`;
-  const perm = /Requires (\w+) access/.exec(message);
-  if (name === "NotCapable" || perm) {
-    why = "denied";
-    said = DENIED[perm?.[1] ?? ""] ?? `was refused: ${message}`;
-  } else if (/Failed to spawn/.test(message)) {
-    why = "denied";
-    said = DENIED.run;
-  } else if (name === "EvalError" || /Code generation from strings/.test(message)) {
-    why = "denied";
-    said = "tried to build code from text (eval or Function); calc cells cannot";
-  } else if (err instanceof Refused) {
-    why = message === "too-large" ? "too-large" : "not-data";
-  } else if (err instanceof RangeError && /string length|Array buffer|allocation/i.test(message)) {
-    why = "memory";
+  let why, said, stack;
+  if (Refused.is(err)) {
+    why = err.why;
+    said = err.message;
+    stack = err.stack;
+  } else {
+    const d = describe(err);
+    ({ why, said } = classify(d.name, d.message));
+    stack = d.stack;
   }
-  const stack = err instanceof Error && typeof err.stack === "string" ? err.stack : "";
-  const at = /data:application\/typescript[^\s)]*?:(\d+):(\d+)\)?/.exec(stack);
+  const at = match(/data:application\/typescript[^\s)]*?:(\d+):(\d+)\)?/, stack);
   return {
     ok: false,
     why,
     message: said,
-    line: at ? Number(at[1]) : null,
-    column: at ? Number(at[2]) : null,
+    line: at ? toNumber(at[1]) : null,
+    column: at ? toNumber(at[2]) : null,
   };
 }
 
-function closeWaysOut() {
-  for (const name of ["Worker", "localStorage", "sessionStorage", "caches", "BroadcastChannel"]) {
-    try {
-      delete globalThis[name];
-    } catch { /* not deletable: it stays, still without permissions */ }
-  }
-  const stop = () => {
-    throw new Refused("exit");
+/** A stand-in that refuses when called or constructed, at the caller's line. */
+const refuse = (why, message) =>
+  function refused() {
+    throw new Refused(why, message, textField(new ErrorC(), "stack"));
   };
+
+function closeWaysOut() {
+  const fix = (target, key, descriptor) => {
+    try {
+      Object.defineProperty(target, key, { configurable: false, ...descriptor });
+    } catch { /* frozen already: it stays, still without permissions */ }
+  };
+  const stop = refuse("exit", "tried to end its process; calc cells return a value instead");
+  const noWorker = refuse("denied", DENIED.worker);
+  const noStorage = refuse("denied", DENIED.storage);
+  const noImport = refuse("denied", DENIED.import);
+  fix(globalThis, "Worker", { value: noWorker, writable: false });
+  fix(globalThis, "BroadcastChannel", { value: noWorker, writable: false });
+  for (const name of ["localStorage", "sessionStorage", "caches"]) {
+    fix(globalThis, name, { get: noStorage });
+  }
   try {
-    Object.defineProperty(Deno, "exit", { value: stop });
-  } catch { /* frozen: the parent reports an ending without an answer */ }
-  try {
-    if (globalThis.process) Object.defineProperty(globalThis.process, "exit", { value: stop });
-  } catch { /* as above */ }
+    delete Deno[internal]; // core.evalContext builds code from text; the runtime's own code keeps its references
+  } catch { /* not deletable */ }
+  fix(Deno, "exit", { value: stop, writable: false });
+  const proc = globalThis.process;
+  if (proc) {
+    for (const name of ["exit", "reallyExit", "abort"]) fix(proc, name, { value: stop });
+    // node built-ins without `import`: worker_threads and vm (code from text) among them
+    for (const name of ["getBuiltinModule", "binding", "_linkedBinding"]) {
+      fix(proc, name, { value: noImport });
+    }
+  }
 }
 
 function captureConsole(limit) {
@@ -250,6 +465,7 @@ function captureConsole(limit) {
     } catch {
       line = "(a value that could not be shown)";
     }
+    if (typeof line !== "string") line = "(a value that could not be shown)";
     if (kept.text.length + line.length + 1 > limit) kept.cut++;
     else kept.text += line + "\n";
   };
@@ -261,11 +477,31 @@ function captureConsole(limit) {
   return kept;
 }
 
-function answer(nonce, obj) {
-  stdout.writeSync(encoder.encode(nonce));
-  const text = JSON.stringify(obj) + "\n";
-  const bytes = encoder.encode(text);
-  for (let i = 0; i < bytes.length;) i += stdout.writeSync(bytes.subarray(i));
+let answered = false;
+
+/** Writes the one answer line (`body` is its JSON text without the console) and ends. */
+function finish(nonce, body, kept) {
+  if (answered) return;
+  answered = true;
+  const text = `${nonce}{${body},"console":${stringify(kept.text)},"consoleCut":${
+    stringify(kept.cut)
+  }}\n`;
+  try {
+    const bytes = apply(encode, encoder, [text]);
+    const buffer = apply(typedBuffer, bytes, []);
+    const n = apply(typedLength, bytes, []);
+    for (let i = 0; i < n;) i += apply(writeSync, stdout, [new U8(buffer, i, n - i)]);
+  } catch {
+    realExit(3); // the code closed standard output: the parent gets no answer
+  }
+  realExit(0);
+}
+
+/** The JSON text (without braces) of a failure. */
+function failureBody(f) {
+  return `"ok":false,"why":${stringify(f.why)},"message":${stringify(f.message)},"line":${
+    f.line === null ? "null" : stringify(f.line)
+  },"column":${f.column === null ? "null" : stringify(f.column)}`;
 }
 
 /**
@@ -288,9 +524,20 @@ watchMemory(Deno.args[0] ?? 352);
 const raw = await new Response(Deno.stdin.readable).text();
 if (raw.length === 0) realExit(0); // the parent ended before handing a job over
 const job = JSON.parse(raw, revive);
+const nonce = job.nonce;
+const resultLimit = job.resultLimit;
+const gives = job.gives;
 const kept = captureConsole(job.consoleLimit);
+// An error thrown outside the awaited chain (a timer's callback, a promise no one awaits)
+// answers for the run instead of ending the process without a word.
+const uncaught = (e) => {
+  e.preventDefault();
+  finish(nonce, failureBody(failure(e.type === "error" ? e.error : e.reason)), kept);
+};
+addEventListener("error", uncaught);
+addEventListener("unhandledrejection", uncaught);
 closeWaysOut();
-let reply;
+let body;
 try {
   let bin = "";
   const bytes = encoder.encode(job.program);
@@ -299,19 +546,24 @@ try {
   }
   const mod = await import("data:application/typescript;base64," + btoa(bin));
   const value = await mod.default(job.input);
-  const budget = { left: job.resultLimit };
-  const data = job.gives === "table"
-    ? toTable(value, budget)
-    : toData(value, "value", new Set(), budget, 0);
-  reply = { ok: true, value: data };
+  const budget = { left: resultLimit };
+  const data = gives === "table"
+    ? tableText(value, budget)
+    : dataText(value, "value", new SetC(), budget, 0);
+  body = `"ok":true,"value":${data}`;
 } catch (err) {
-  reply = err instanceof Refused && err.message === "exit"
-    ? {
+  let f;
+  try {
+    f = failure(err);
+  } catch {
+    f = {
       ok: false,
-      why: "exit",
-      message: "tried to end its process; calc cells return a value instead",
-    }
-    : failure(err);
+      why: "threw",
+      message: "a value that could not be shown",
+      line: null,
+      column: null,
+    };
+  }
+  body = failureBody(f);
 }
-answer(job.nonce, { ...reply, console: kept.text, consoleCut: kept.cut });
-realExit(0);
+finish(nonce, body, kept);

@@ -1,10 +1,19 @@
 /**
  * Type-checking a user program before it runs: Deno's own checker in a child
  * process (`deno run --check` over standard input, no permissions, an empty
- * environment), so its diagnostics are exactly the runtime's TypeScript's.
- * `deno run` evaluates the module after a clean check: a guard line put
- * before it throws first, so no user text runs there even if it escaped the
- * function it was put in (the process also has no permissions and a time limit).
+ * environment, a heap cap), so its diagnostics are exactly the runtime's
+ * TypeScript's.
+ *
+ * The checker loads every module the program names, and a program can name
+ * one without the word `import` (code that closes the function it was put in
+ * and writes `export * from "…"`). Two guards:
+ *
+ * - an import map sends every `file:` specifier to a host that `--no-remote`
+ *   refuses, so no file of the machine is read: a file's text would come
+ *   back in the checker's report, and a script would run;
+ * - `deno run` evaluates the module after a clean check, dependencies first:
+ *   the program's first line imports a module that throws, so no other
+ *   module (a `data:` URL of the code's making) and no user text runs there.
  *
  * A check costs about a second of the compiler's start-up; results are kept
  * by the program's SHA-256, so code whose inputs changed value but not shape
@@ -36,8 +45,21 @@ const kept = new Map<string, CheckAnswer>();
 
 /** What the guard throws; seen in the report, the check passed and nothing else ran. */
 const MARK = "plumb-sandbox: checked, not run";
-/** The line put before the module (`if`: a bare throw would make the rest unreachable code). */
-const GUARD = `if (1) throw ${JSON.stringify(MARK)};`;
+/**
+ * The line put before the module: the first module it imports throws when
+ * evaluated, and modules are evaluated in the order they are named, so no
+ * later one runs.
+ */
+const GUARD = `import "data:application/javascript,throw%20${
+  encodeURIComponent(JSON.stringify(MARK))
+}";`;
+/** Where file: specifiers go: a host `--no-remote` refuses (`.invalid` is never a real name, RFC 2606). */
+const NOWHERE = "https://plumb-sandbox.invalid/";
+/** The import map, as a data: URL (no file to write). */
+const IMPORT_MAP = "data:application/json," +
+  encodeURIComponent(JSON.stringify({ imports: { "file:///": NOWHERE } }));
+/** Heap cap of the checker (MB): a check of a calc module peaks near 220 MB resident here. */
+const CHECK_HEAP_MB = 1024;
 
 async function digest(text: string): Promise<string> {
   const d = await crypto.subtle.digest("SHA-256", new TextEncoder().encode(text));
@@ -66,7 +88,8 @@ export function parseDiagnostics(text: string): Diagnostic[] {
   for (const line of text.split("\n")) {
     const head = /^TS(\d+) \[ERROR\]: (.*)$/.exec(line);
     if (head) {
-      open = { code: Number(head[1]), message: head[2].trim() };
+      // An indented message is a note on the error before it ("The parser expected…").
+      open = /^\s/.test(head[2]) ? null : { code: Number(head[1]), message: head[2].trim() };
       continue;
     }
     const at = /^\s+at .*:(\d+):(\d+)\s*$/.exec(line);
@@ -100,7 +123,8 @@ export async function checkProgram(program: string): Promise<CheckAnswer> {
         "--no-remote",
         "--no-npm",
         "--no-prompt",
-        "--v8-flags=--disallow-code-generation-from-strings",
+        `--import-map=${IMPORT_MAP}`,
+        `--v8-flags=--max-old-space-size=${CHECK_HEAP_MB},--disallow-code-generation-from-strings`,
         "-",
       ],
       clearEnv: true,
@@ -122,31 +146,55 @@ export async function checkProgram(program: string): Promise<CheckAnswer> {
     };
   }
   child.unref();
+  let late = false;
   const timer = setTimeout(() => {
+    late = true;
     try {
       child.kill("SIGKILL");
     } catch { /* gone */ }
   }, CHECK_SECONDS * 1000);
   try {
     const w = child.stdin.getWriter();
-    // The guard line: the module is evaluated after a clean check, and ends at once, before
-    // any user text that escaped its function could run (imports aside, which the calc refuses).
     await w.write(new TextEncoder().encode(`${GUARD}\n${program}`));
     await w.close();
   } catch { /* ended early */ }
   const done = await child.output().catch(() => null);
   clearTimeout(timer);
   const ms = performance.now() - t0;
-  if (done === null) return { ok: false, diagnostics: [], ms, message: "the type checker stopped" };
+  if (done === null) return { ok: false, diagnostics: [], ms, message: "The type check stopped" };
   const text = new TextDecoder().decode(done.stdout) + "\n" + new TextDecoder().decode(done.stderr);
   // Lines as the caller numbered them: the guard took line 1.
   const diagnostics = parseDiagnostics(text).map((d) => ({ ...d, line: d.line - 1 }));
   const answer: CheckAnswer = diagnostics.length > 0
     ? { ok: false, diagnostics, ms }
-    : text.includes(MARK)
+    : text.includes(MARK) && !late
     ? { ok: true, ms }
-    : { ok: false, diagnostics, ms, message: text.trim().split("\n").slice(-1)[0].slice(0, 300) };
+    : { ok: false, diagnostics, ms, message: failedCheck(text, late) };
   if (kept.size >= KEEP) kept.delete(kept.keys().next().value!);
   if (answer.ok || diagnostics.length > 0) kept.set(key, answer);
   return answer;
+}
+
+/**
+ * Why a check gave neither diagnostics nor a pass, in plain words: the
+ * checker's report holds paths and code frames, which stay out.
+ *
+ * @param text The checker's report.
+ * @param late Whether it was stopped at the time limit.
+ * @returns A sentence.
+ */
+function failedCheck(text: string, late: boolean): string {
+  if (late) return `The type check took longer than ${CHECK_SECONDS} s`;
+  if (/out of memory|heap limit|Allocation failed/i.test(text)) {
+    return `The type check used more than ${CHECK_HEAP_MB / 1024} GB`;
+  }
+  if (
+    text.includes(NOWHERE.slice(8, -1)) ||
+    /Requires import access|remote specifier|--no-remote|npm specifiers|--no-npm|jsr:/.test(text)
+  ) {
+    return "This code tries to load a module; code in the sandbox cannot import";
+  }
+  const error = /^error: (.*)$/m.exec(text)?.[1] ?? "";
+  const said = error.replace(/\s+at \S+:\d+:\d+$/, "").replace(/[\s.]+$/, "").slice(0, 200);
+  return said === "" ? "The type check could not run" : `The type check could not run: ${said}`;
 }

@@ -24,6 +24,7 @@
  *
  * @module
  */
+import { F64 } from "./data.ts";
 
 /** What to run. */
 export interface IsolateJob {
@@ -125,7 +126,7 @@ function kill(child: Deno.ChildProcess): void {
 
 /**
  * Reads a stream into text, keeping at most `limit` bytes; calls `over` once
- * past it, and `seen` when a chunk holds `mark`.
+ * past it, and `seen` when the stream holds `mark` (also when a read splits it).
  */
 async function collect(
   stream: ReadableStream<Uint8Array>,
@@ -136,8 +137,13 @@ async function collect(
   const parts: Uint8Array[] = [];
   let size = 0;
   const decoder = new TextDecoder();
+  let tail = "";
   for await (const chunk of stream) {
-    if (mark && decoder.decode(chunk, { stream: true }).includes(mark.text)) mark.seen();
+    if (mark) {
+      const text = tail + decoder.decode(chunk, { stream: true });
+      if (text.includes(mark.text)) mark.seen();
+      tail = text.slice(-mark.text.length);
+    }
     if (size + chunk.length > limit) {
       over();
       continue;
@@ -165,7 +171,7 @@ function stopped(
 }
 
 function formatMb(mb: number): string {
-  return mb >= 1024 ? `${+(mb / 1024).toFixed(1)} GB` : `${mb} MB`;
+  return mb >= 1024 ? `${+(mb / 1024).toFixed(1)} GB` : `${Math.round(mb)} MB`;
 }
 
 /**
@@ -233,16 +239,10 @@ function interpret(
   ms: number,
 ): IsolateAnswer {
   const at = out.lastIndexOf(nonce);
-  let reply: Record<string, unknown> | null = null;
-  if (at >= 0 && ended === null) {
-    try {
-      reply = JSON.parse(out.slice(at + nonce.length));
-    } catch { /* cut short */ }
-  }
-  const console = typeof reply?.console === "string"
+  const reply = at >= 0 && ended === null ? readReply(out, at + nonce.length, job.gives) : null;
+  const console = reply !== null
     ? reply.console
     : out.slice(0, at < 0 ? CONSOLE_LIMIT : Math.min(at, CONSOLE_LIMIT));
-  const cut = typeof reply?.consoleCut === "number" ? reply.consoleCut : 0;
   if (ended === "time") return stopped("time", `stopped after ${job.seconds} s`, ms, console);
   if (ended === "stopped") return stopped("stopped", "stopped: its inputs changed", ms, console);
   if (ended === "too-large") {
@@ -258,35 +258,153 @@ function interpret(
     return stopped("memory", `used more than ${formatMb(job.memoryMb)}`, ms, console);
   }
   if (reply === null) {
-    const code = status.signal ? `signal ${status.signal}` : `exit code ${status.code}`;
-    const last = err.trim().split("\n").filter((l) => l.trim() !== "").slice(-1)[0] ?? "";
-    const pending = /promise|event loop/i.test(err);
+    // What the runtime printed stays out of the message: it is the runtime's text (a
+    // stack, a path), or the code's own writes to standard error.
+    const how = status.signal
+      ? `it was ended by ${status.signal}`
+      : at >= 0
+      ? "its answer could not be read"
+      : `exit code ${status.code}`;
+    const pending = /promise resolution is still pending|event loop/i.test(err);
     return stopped(
       "no-answer",
       pending
         ? "ended without a value: its promise never settled"
-        : `ended without a value (${code})${last ? `: ${last.slice(0, 200)}` : ""}`,
+        : `ended without a value (${how})`,
       ms,
       console,
     );
   }
-  if (reply.ok === true) return { ok: true, value: reply.value, console, consoleCut: cut, ms };
-  const why = String(reply.why) as IsolateStop;
-  let message = String(reply.message);
-  if (why === "too-large") {
+  if (reply.ok) return { ok: true, value: reply.value, console, consoleCut: reply.consoleCut, ms };
+  let message = reply.message;
+  // The child says "too-large" for a value over the limit (the parent knows the figure).
+  if (reply.why === "too-large" && message === "too-large") {
     message = `returned more than ${formatMb(RESULT_LIMIT / 2 ** 20)} of data`;
   }
-  if (why === "memory") message = `used more than ${formatMb(job.memoryMb)}: ${message}`;
+  if (reply.why === "memory") message = `${message}; its limit is ${formatMb(job.memoryMb)}`;
   return {
     ok: false,
-    why,
+    why: reply.why,
     message,
-    line: typeof reply.line === "number" ? reply.line : null,
-    column: typeof reply.column === "number" ? reply.column : null,
+    line: reply.line,
+    column: reply.column,
     console,
-    consoleCut: cut,
+    consoleCut: reply.consoleCut,
     ms,
   };
+}
+
+/** What a child may give as the reason it has no value (the parent's own are not taken). */
+const CHILD_STOPS: ReadonlySet<string> = new Set([
+  "denied",
+  "threw",
+  "not-data",
+  "too-large",
+  "exit",
+  "memory",
+]);
+/** The longest message taken from a child (characters). */
+const MESSAGE_LIMIT = 2000;
+
+/** A child's answer, checked field by field. */
+type Reply =
+  & { console: string; consoleCut: number }
+  & (
+    | { ok: true; value: unknown }
+    | { ok: false; why: IsolateStop; message: string; line: number | null; column: number | null }
+  );
+
+/**
+ * The answer line after the nonce, checked: the child runs the user's code,
+ * which may have replaced what writes the answer, so nothing in it is taken
+ * on trust. Null when it does not have the answer's shape.
+ */
+function readReply(out: string, from: number, gives: IsolateJob["gives"]): Reply | null {
+  const nl = out.indexOf("\n", from);
+  const line = out.slice(from, nl < 0 ? undefined : nl);
+  let r: unknown;
+  try {
+    r = JSON.parse(line);
+  } catch {
+    return null;
+  }
+  if (r === null || typeof r !== "object" || Array.isArray(r)) return null;
+  const o = r as Record<string, unknown>;
+  const console = typeof o.console === "string" ? o.console.slice(0, CONSOLE_LIMIT) : "";
+  const consoleCut = Number.isSafeInteger(o.consoleCut) && (o.consoleCut as number) >= 0
+    ? o.consoleCut as number
+    : 0;
+  if (o.ok === true) {
+    if (!Object.hasOwn(o, "value")) return null;
+    // Only text holding the word, or an escape that could spell it, needs the walk.
+    if ((line.includes("__proto__") || line.includes("\\u")) && hasProtoKey(o.value)) return null;
+    if (gives === "table" && !isTableAnswer(o.value)) return null;
+    return { ok: true, value: o.value, console, consoleCut };
+  }
+  if (o.ok !== false || typeof o.why !== "string" || !CHILD_STOPS.has(o.why)) return null;
+  if (typeof o.message !== "string") return null;
+  const place = (v: unknown) => Number.isSafeInteger(v) && (v as number) > 0 ? v as number : null;
+  return {
+    ok: false,
+    why: o.why as IsolateStop,
+    message: o.message.length > MESSAGE_LIMIT ? o.message.slice(0, MESSAGE_LIMIT) + "…" : o.message,
+    line: place(o.line),
+    column: place(o.column),
+    console,
+    consoleCut,
+  };
+}
+
+/**
+ * Whether parsed JSON holds the key `__proto__` anywhere (JSON.parse makes it
+ * an own key; a receiver that assigns it sets a prototype instead).
+ */
+function hasProtoKey(v: unknown): boolean {
+  const stack = [v];
+  while (stack.length > 0) {
+    const x = stack.pop();
+    if (x === null || typeof x !== "object") continue;
+    if (Array.isArray(x)) {
+      for (const e of x) if (e !== null && typeof e === "object") stack.push(e);
+      continue;
+    }
+    for (const k of Object.keys(x)) {
+      if (k === "__proto__") return true;
+      const e = (x as Record<string, unknown>)[k];
+      if (e !== null && typeof e === "object") stack.push(e);
+    }
+  }
+  return false;
+}
+
+/** Whether a value is a table answer: names, each an encoded column of one length, text units. */
+function isTableAnswer(v: unknown): boolean {
+  if (v === null || typeof v !== "object") return false;
+  const t = v as Record<string, unknown>;
+  const { columns, units, names } = t;
+  if (!Array.isArray(names) || names.length === 0) return false;
+  if (columns === null || typeof columns !== "object" || Array.isArray(columns)) return false;
+  if (units === null || typeof units !== "object" || Array.isArray(units)) return false;
+  const cols = columns as Record<string, unknown>;
+  if (Object.keys(cols).length !== names.length) return false;
+  let size = -1;
+  for (const name of names) {
+    if (typeof name !== "string" || !Object.hasOwn(cols, name)) return false;
+    const c = cols[name];
+    if (c === null || typeof c !== "object") return false;
+    const b64 = (c as Record<string, unknown>)[F64];
+    if (typeof b64 !== "string" || Object.keys(c).length !== 1) return false;
+    if (size >= 0 && b64.length !== size) return false;
+    size = b64.length;
+    // Base64 of whole doubles: 8 bytes each, so a length that 4 · ⌈8n / 3⌉ can be.
+    if (!/^[A-Za-z0-9+/]*={0,2}$/.test(b64) || b64.length % 4 !== 0) return false;
+  }
+  for (const k of Object.keys(units)) {
+    if (!Object.hasOwn(cols, k) || typeof (units as Record<string, unknown>)[k] !== "string") {
+      return false;
+    }
+  }
+  return true;
 }
 
 /** Kills every child: spares and running ones (the process is ending). */
