@@ -393,10 +393,9 @@ function classify(name, message) {
   if (match(/Array buffer allocation failed|Invalid typed array length/, message)) {
     return { why: "memory", said: "asked for more memory at once than it may use" };
   }
-  return {
-    why: "threw",
-    said: `${name && name !== "Error" ? name + ": " : ""}${plain(message)}`,
-  };
+  // A module the runtime could not read comes as a TypeError whose words start "SyntaxError:".
+  const label = match(/^SyntaxError: /, message) ? "" : name && name !== "Error" ? name + ": " : "";
+  return { why: "threw", said: `${label}${plain(message)}` };
 }
 
 /** The answer for an error thrown by user code, with its line in the program when known. */

@@ -199,6 +199,9 @@ export async function runIsolated(job: IsolateJob, signal?: AbortSignal): Promis
     );
   }
   running.add(child);
+  // A spare is unreferenced (it must not keep Plumb alive); a running child is awaited, so it
+  // keeps the event loop alive until its status comes, also after it is killed.
+  child.ref();
   let ended: IsolateStop | null = null;
   const end = (why: IsolateStop) => {
     ended ??= why;
