@@ -465,6 +465,9 @@ function captureConsole(limit) {
       line = "(a value that could not be shown)";
     }
     if (typeof line !== "string") line = "(a value that could not be shown)";
+    // A printed error's stack names the program by its data: URL and this file by its path.
+    line = line.replace(/data:application\/typescript;base64,[A-Za-z0-9+/=.]+/g, "code")
+      .replace(/file:\/\/\S*?_child\.js/g, "sandbox");
     if (kept.text.length + line.length + 1 > limit) kept.cut++;
     else kept.text += line + "\n";
   };

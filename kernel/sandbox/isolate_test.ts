@@ -234,6 +234,16 @@ Deno.test("runIsolated() gives a thrown error's words on one line, without the p
   ok(!a.ok && a.why === "threw" && !INTERNAL.test(a.message), a.ok ? "" : a.message);
 });
 
+Deno.test("runIsolated() keeps the console, an error's stack without the program's URL or the sandbox's path", async () => {
+  const a = await runIsolated(
+    job("console.log(new Error('shown'));\nconsole.info('n', 1, [2]);\nreturn 1;"),
+  );
+  ok(a.ok);
+  match(a.console, /^Error: shown\n {4}at code:2:\d+\n/);
+  match(a.console, /\nn 1 \[ 2 \]\n$/);
+  ok(!/data:|file:|_child/.test(a.console), a.console);
+});
+
 Deno.test("runIsolated() starts each run clean: prototypes spoiled by one run are whole in the next", async () => {
   deepEqual(
     await value(

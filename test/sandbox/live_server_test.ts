@@ -67,14 +67,21 @@ Deno.test("the live server keeps serving after hostile calc cells, and its own p
     const page = await fetch(`${ctx.origin}/`, { headers: { cookie: ctx.cookie } });
     equal(page.status, 200);
     await page.body?.cancel();
-    // ... and runs the document again when it changes: a new calc cell computes.
-    const more = source + calc("after", "return { ok: 6 * 7 };");
+    // ... and runs the document again when it changes: a new calc cell computes, and the page
+    // answers while a second endless loop runs.
+    const more = source + calc("after", "return { ok: 6 * 7 };") +
+      calc("loop-again", "for (;;) {}", "time: 2 s");
     await Deno.writeTextFile(ctx.doc, more);
-    await ctx.server.workspace.request([ctx.doc]);
+    const rerun = ctx.server.workspace.request([ctx.doc]);
+    const during = await fetch(`${ctx.origin}/`, { headers: { cookie: ctx.cookie } });
+    equal(during.status, 200);
+    await during.body?.cancel();
+    await rerun;
     const after = report().cells.find((c) => c.name === "after");
     equal(after?.state, "current", after?.error?.message);
     // Exact arithmetic: 6 · 7 = 42.
     equal((after!.result as { value: { ok: number } }).value.ok, 42);
-    assertRefused(report(), hostile);
+    const again = { name: "loop-again", code: "", says: /^This cell stopped after 2 s$/ };
+    assertRefused(report(), [...hostile, again]);
   });
 });
