@@ -42,6 +42,37 @@ export interface Hostile {
   says: RegExp;
 }
 
+/** The sentences the suites expect (run.ts puts "This cell" before the sandbox's words). */
+export const SAYS = {
+  net: /^This cell tried to reach the network; calc cells have no network$/,
+  exit: /^This cell tried to end its process; calc cells return a value instead$/,
+  stopped: /^This cell stopped after 2 s$/,
+  memory: /^This cell used more than 64 MB$/,
+};
+
+/** An endless loop under a 2 s limit. */
+export const loop = (name: string): Hostile => ({
+  name,
+  code: "for (;;) {}",
+  header: "time: 2 s",
+  says: SAYS.stopped,
+});
+
+/** Array buffers (outside the V8 heap) without end under a 64 MB limit. */
+export const bufferBomb = (name: string): Hostile => ({
+  name,
+  code: "const a: Uint8Array[] = [];\nfor (;;) a.push(new Uint8Array(2 ** 24).fill(1));",
+  header: "memory: 64 MB",
+  says: SAYS.memory,
+});
+
+/** Deno.exit. */
+export const denoExit = (name: string): Hostile => ({
+  name,
+  code: "Deno.exit(3);\nreturn 1;",
+  says: SAYS.exit,
+});
+
 // Invented data for these tests: y = 1 + 2x exactly at x = 1..5.
 export const BASE = cell(
   "table",

@@ -10,15 +10,19 @@ import {
   assertBaseIntact,
   assertRefused,
   BASE,
+  bufferBomb,
   calc,
   cellOf,
+  denoExit,
   documentOf,
   type Hostile,
+  loop,
   runDocument,
+  SAYS,
 } from "./_calc_doc.ts";
 
 const DISK = /^This cell tried to (read|write) a file; calc cells cannot touch the disk$/;
-const NET = /^This cell tried to reach the network; calc cells have no network$/;
+const NET = SAYS.net;
 const RUN = /^This cell tried to start a process; calc cells cannot$/;
 const IMPORT = /calc cells cannot import|code in the sandbox cannot import/;
 const CODE = /^This cell tried to build code from text \(eval or Function\); calc cells cannot$/;
@@ -139,34 +143,24 @@ Deno.test("calc cells cannot load modules, build code from text, start workers o
 });
 
 Deno.test("calc cells cannot end their process, run past their time or use more than their memory", async () => {
-  const exit = /^This cell tried to end its process; calc cells return a value instead$/;
+  const exit = SAYS.exit;
   const hostile: Hostile[] = [
-    { name: "deno-exit", code: "Deno.exit(3);\nreturn 1;", says: exit },
+    denoExit("deno-exit"),
     { name: "process-exit", code: "(globalThis as any).process.exit(3);\nreturn 1;", says: exit },
-    {
-      name: "sync-loop",
-      code: "for (;;) {}",
-      header: "time: 2 s",
-      says: /^This cell stopped after 2 s$/,
-    },
+    loop("sync-loop"),
     {
       name: "async-loop",
       code: "for (;;) await new Promise((r) => setTimeout(r, 1));",
       header: "time: 2 s",
-      says: /^This cell stopped after 2 s$/,
+      says: SAYS.stopped,
     },
     {
       name: "heap-bomb",
       code: "const a: number[][] = [];\nfor (;;) a.push(new Array(100000).fill(1.5));",
       header: "memory: 64 MB",
-      says: /^This cell used more than 64 MB$/,
+      says: SAYS.memory,
     },
-    {
-      name: "buffer-bomb",
-      code: "const a: Uint8Array[] = [];\nfor (;;) a.push(new Uint8Array(2 ** 24).fill(1));",
-      header: "memory: 64 MB",
-      says: /^This cell used more than 64 MB$/,
-    },
+    bufferBomb("buffer-bomb"),
     {
       name: "gigabyte-string",
       code: "return 'x'.repeat(2 ** 30);",
