@@ -18,6 +18,11 @@
  *   watchdog: time ─▶ SIGKILL "stopped after 10 s"; memory ─▶ SIGKILL "used more than 256 MB"
  * ```
  *
+ * The child runs the user's code, so its answer is taken as untrusted text:
+ * one line after the nonce, checked field by field (a table's columns, the
+ * key `__proto__` refused anywhere), messages cut, and what the runtime
+ * printed on standard error kept out of every message.
+ *
  * Each child runs one job and ends, so every run starts from a clean state;
  * the next child is started as soon as one is taken, which keeps process
  * start-up (about 50 ms here) out of a run's round trip.
