@@ -122,6 +122,9 @@ Deno.test("runIsolated() closes the runtime's internals, node built-ins, workers
     "return (Deno as any)[(Deno as any).internal].core.evalContext('6*7', 'x:y');",
   );
   equal(noCore.message, "TypeError: Cannot read properties of undefined (reading 'core')");
+  // Deno KV is unstable, so not there without its flag.
+  const kv = await stop("return await (Deno as any).openKv();");
+  deepEqual([kv.why, kv.message], ["threw", "TypeError: Deno.openKv is not a function"]);
   const imports = "tried to load a module; calc cells cannot import";
   for (
     const code of [
