@@ -60,8 +60,17 @@
  *   the whole fit cell (parse, solve, the double-double polish from the data
  *   as printed, covariance, every statistic: cells/fit/nonlinear_bench.ts).
  *
+ * - `calc_round_trip` (issue 17): a calc cell from the moment it is scheduled
+ *   (its "computing" event) to its result, its code already type-checked,
+ *   through a Session re-running a 40-row CSV → table → fit → calc document
+ *   whose data changed; p50 and max of 20, each after a 500 ms pause (the
+ *   spare child up, as between edits), target p50 under 150 ms; beside it
+ *   the same back to back. `calc_first_check`: the round trip with code
+ *   never checked before (no target) (test/bench/calc.ts).
+ *
  * `deno task bench --startup` measures only the two start-up figures and
- * prints them (a few seconds; bench-report.json is left as it is).
+ * prints them (a few seconds; bench-report.json is left as it is);
+ * `deno task bench --calc` likewise the two calc figures (about 30 s).
  *
  * While it runs, each step says on standard error what it measures and when
  * it started. At the end every figure with a target gets a line, `ok` or
@@ -81,6 +90,7 @@ import { manyCells } from "./many_cells.ts";
 import { recordExport } from "./record_export.ts";
 import { historyFigures } from "./history.ts";
 import { searchFigures } from "./search.ts";
+import { calcFigures } from "./calc.ts";
 import { MILLION, QUICK_ROWS, scaleFigures } from "./scale/scale.ts";
 
 const root = new URL("../../", import.meta.url);
@@ -273,12 +283,20 @@ if (Deno.args.includes("--startup")) {
   Deno.exit(0);
 }
 
-// The start-up figures and the browser figures first: the ingest below leaves this
+if (Deno.args.includes("--calc")) {
+  const figures = await step("calc: a calc cell's round trip and a first type check", calcFigures);
+  console.log(JSON.stringify(figures, null, 2));
+  printMarks(targetMarks(figures));
+  Deno.exit(0);
+}
+
+// The start-up figures, the calc cell's and the browser figures first: the ingest below leaves this
 // process with a heap of hundreds of MB whose collection would run beside them.
 const startup = await step(
   "start-up: compute worker and a cold plumb run",
   () => startupFigures(root),
 );
+const calc = await step("calc: a calc cell's round trip and a first type check", calcFigures);
 const updateTop = await step("update latency in Chromium, page top in view", () => updateLatency());
 const updateCharts = await step(
   "update latency in Chromium, charts in view",
@@ -319,6 +337,7 @@ const report = {
     update_latency_charts_in_view: updateCharts,
     update_latency_100k: update100k,
     ...startup,
+    ...calc,
     certified_million: certified,
     many_cells: many,
     record_export: record,
