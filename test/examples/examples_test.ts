@@ -2,7 +2,9 @@
  * The example analyses under examples/: each runs with `plumb run --json`
  * (exit 0, every cell current, no document error), every inline value in its
  * prose names a field its result has, its seeded generator re-creates its
- * data byte for byte, and its numbers tell the story its prose tells.
+ * data byte for byte, and its numbers tell the story its prose tells (the
+ * demo's calc cell: the power law's crossing of 2,300 mAh and its delta-method
+ * uncertainty, recomputed here from the fit's RUN-JSON).
  */
 import { deepEqual, equal, ok } from "node:assert/strict";
 import { basename, join } from "node:path";
@@ -27,7 +29,17 @@ interface RunJson {
 
 async function runJson(doc: string): Promise<{ code: number; json: RunJson; stderr: string }> {
   const out = await new Deno.Command(Deno.execPath(), {
-    args: ["run", "--allow-read", "--allow-env=LOG_TOKENS,LOG_STREAM", MAIN, "run", doc, "--json"],
+    args: [
+      "run",
+      "--allow-read",
+      "--allow-env=LOG_TOKENS,LOG_STREAM",
+      // calc cells are checked and run in child processes of this Deno (as `deno task plumb` allows).
+      `--allow-run=${Deno.execPath()}`,
+      MAIN,
+      "run",
+      doc,
+      "--json",
+    ],
     stdout: "piped",
     stderr: "piped",
     env: { NO_COLOR: "1" },
@@ -193,4 +205,46 @@ Deno.test("fade/generate_later.ts re-creates the demo's later file byte for byte
   const bytes = await Deno.readFile(join(EXAMPLES, "fade", "data", "batch7-later.csv"));
   deepEqual(new TextEncoder().encode(makeLater()), bytes);
   ok(/invented/i.test(await Deno.readTextFile(join(EXAMPLES, "fade", "data", "README.md"))));
+});
+
+Deno.test("fade: the calc cell's crossing and its delta-method uncertainty follow from the power fit", async () => {
+  const { json } = await runJson(join(EXAMPLES, "fade", "fade.md"));
+  const power = cell(json, "power") as {
+    parameters: { name: string; estimate: number }[];
+    covariance: number[][];
+  };
+  const got = (cell(json, "crossing") as {
+    value: { threshold: number; cycle: number; u: number; u_without_correlation: number };
+  }).value;
+  equal(got.threshold, 2300);
+  const names = power.parameters.map((p) => p.name);
+  deepEqual(names, ["q0", "a", "b"]);
+  const theta = power.parameters.map((p) => p.estimate);
+  const crossing = ([q0, a, b]: number[]) => Math.pow((q0 - 2300) / a, 1 / b);
+  // Exact arithmetic: q0 - a*t^b = 2300 solved for t.
+  ok(Math.abs(got.cycle - crossing(theta)) < 1e-9 * got.cycle, `${got.cycle}`);
+  // Delta method (JCGM 100:2008, GUM §5.1.2, the law of propagation of uncertainty): u² = gᵀVg,
+  // here with g by central differences (a step of 1e-5 relative; truncation error O(h²), so
+  // about 8 digits of u agree with the cell's analytic gradient: common practice, no source).
+  const g = theta.map((_, i) => {
+    const h = Math.abs(theta[i]) * 1e-5;
+    const up = theta.slice(), down = theta.slice();
+    up[i] += h;
+    down[i] -= h;
+    return (crossing(up) - crossing(down)) / (2 * h);
+  });
+  let variance = 0;
+  for (let i = 0; i < 3; i++) {
+    for (let j = 0; j < 3; j++) variance += g[i] * power.covariance[i][j] * g[j];
+  }
+  ok(
+    Math.abs(got.u - Math.sqrt(variance)) < 1e-6 * got.u,
+    `${got.u} against ${Math.sqrt(variance)}`,
+  );
+  // The prose: ignoring the strong correlations overstates u many times over.
+  ok(got.u_without_correlation > 10 * got.u, `${got.u_without_correlation} against ${got.u}`);
+  // The prose: the root law's answer lies close by, its interval (one new measurement) much wider.
+  const solve = (cell(json, "end-of-life").solve as { x: { cycle: number }; ci: number[] }[])[0];
+  ok(solve.ci[0] < got.cycle && got.cycle < solve.ci[1]);
+  ok(solve.ci[1] - solve.ci[0] > 4 * got.u);
 });
