@@ -235,6 +235,14 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-result h4 { margin: .5rem 0 .2rem; font-size: 13px; }
 .pl-result ul { margin: .2rem 0; padding-left: 1.1rem; }
 .pl-result details summary { cursor: pointer; color: var(--muted); font-size: 12px; }
+/* calc: how prose names each value (quiet, beside it); data and what the code printed in a wash. */
+.pl-result .plumb-calc-inline { text-align: left; padding-left: .9rem; color: var(--muted); }
+.plumb-calc-inline code { font-size: 12px; }
+.plumb-calc pre { margin: .35rem 0; padding: .45rem .65rem; background: var(--wash); max-width: 100%;
+  max-height: 24rem; overflow: auto; line-height: 1.45; }
+.plumb-calc-console { margin: .45rem 0 .2rem; }
+.plumb-calc-console pre { white-space: pre-wrap; overflow-wrap: anywhere; }
+.plumb-calc-note { font-size: 12.5px; }
 
 ${PRINT_STYLE}
 `;
