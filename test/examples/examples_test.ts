@@ -170,7 +170,7 @@ Deno.test("cell-ageing: the later file moves the preferred law from root to root
   }
 });
 
-Deno.test("calibration: the 1/conc-weighted quadratic is preferred, passes its check, solves the unknowns", async () => {
+Deno.test("calibration: the 1/conc-weighted quadratic is preferred, passes its check, solves the unknowns; the replicate spreads (a calc table) cannot choose the weighting", async () => {
   const { json } = await runJson(join(EXAMPLES, "calibration", "nitrite.md"));
   const cmp = cell(json, "calibrations") as { preferred: string; weighting_basis: string | null };
   equal(cmp.preferred, "quad-x");
@@ -183,6 +183,39 @@ Deno.test("calibration: the 1/conc-weighted quadratic is preferred, passes its c
   for (const s of solve) {
     ok(s.ci[0] < s.x.conc && s.x.conc < s.ci[1] && s.ci[0] > 0.02 && s.ci[1] < 1.0);
   }
+  // The calc cell's table: one row per standard; its spread law's slope is the least-squares slope
+  // of ln sd on ln conc over the seven standards, recomputed here from the file (exact arithmetic:
+  // the closed form Σ(x − x̄)(y − ȳ) / Σ(x − x̄)²).
+  const spread = cell(json, "spread") as { gives: string; table: { rows_used: number } };
+  equal(spread.gives, "table");
+  equal(spread.table.rows_used, 7);
+  const csv = await Deno.readTextFile(join(EXAMPLES, "calibration", "data", "standards.csv"));
+  const byConc = new Map<number, number[]>();
+  for (const line of csv.trim().split("\n").slice(1)) {
+    const [, conc, absorbance] = line.split(",").map(Number);
+    byConc.set(conc, [...(byConc.get(conc) ?? []), absorbance]);
+  }
+  const xs: number[] = [], ys: number[] = [];
+  for (const [conc, r] of byConc) {
+    const mean = r.reduce((s, v) => s + v, 0) / r.length;
+    const sd = Math.sqrt(r.reduce((s, v) => s + (v - mean) ** 2, 0) / (r.length - 1));
+    xs.push(Math.log(conc));
+    ys.push(Math.log(sd));
+  }
+  const xBar = xs.reduce((s, v) => s + v, 0) / xs.length;
+  const yBar = ys.reduce((s, v) => s + v, 0) / ys.length;
+  let sxy = 0, sxx = 0;
+  for (let i = 0; i < xs.length; i++) {
+    sxy += (xs[i] - xBar) * (ys[i] - yBar);
+    sxx += (xs[i] - xBar) ** 2;
+  }
+  const law = cell(json, "spread-law") as {
+    parameters: { name: string; estimate: number; ci: number[] }[];
+  };
+  const m = law.parameters.find((p) => p.name === "m")!;
+  ok(Math.abs(m.estimate - sxy / sxx) < 1e-10, `${m.estimate} against ${sxy / sxx}`);
+  // The prose: the interval holds both 0.5 (weights 1/conc) and 1 (weights 1/conc²).
+  ok(m.ci[0] < 0.5 && m.ci[1] > 1, `${m.ci}`);
 });
 
 Deno.test("extrusion: collinear throughput and screw speed, throughput kept, run 29 high leverage", async () => {
