@@ -3,11 +3,13 @@
  * cell of an example, word for word, or runs (current) when added to the
  * example whose cells it reads; every number its prose quotes is what those
  * runs give, as an inline value shows it; and its table of refusals quotes
- * exactly the sentences the sandbox says.
+ * exactly the sentences the sandbox says. docs/run-json.md lists exactly the
+ * fields of a calc cell's result.
  */
 import { deepEqual, equal, ok } from "node:assert/strict";
 import { join } from "node:path";
 import { resolveValue } from "../../ui/inline_value.ts";
+import { summarizeCalc } from "../../cells/calc/result.ts";
 
 const ROOT = new URL("../../", import.meta.url);
 const MAIN = new URL("cells/main.ts", ROOT).pathname;
@@ -191,4 +193,18 @@ Deno.test("docs/calc.md quotes every refusal the sandbox says, and only those", 
   ].join("\n");
   for (const r of rows) ok(sources.includes(r.replace(/^This cell /, "")), `"${r}" is said`);
   deepEqual(said.filter((s) => !rows.includes(s)), [], "every refusal is in the table");
+});
+
+Deno.test("docs/run-json.md lists exactly the fields of a calc cell's result", () => {
+  const section = read("docs/run-json.md").split("## `calc`")[1].split("\n## ")[0];
+  const block = /```jsonc\n([\s\S]*?)```/.exec(section)![1];
+  const documented = [...block.matchAll(/^ {2}"([a-z_]+)":/gm)].map((m) => m[1]);
+  const made = summarizeCalc({
+    type: "Value",
+    value: 1,
+    console: "",
+    consoleCut: 0,
+    runMs: 1,
+  });
+  deepEqual(documented.sort(), Object.keys(made).sort());
 });

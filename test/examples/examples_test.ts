@@ -256,9 +256,10 @@ Deno.test("fade: the calc cell's crossing and its delta-method uncertainty follo
   const crossing = ([q0, a, b]: number[]) => Math.pow((q0 - 2300) / a, 1 / b);
   // Exact arithmetic: q0 - a*t^b = 2300 solved for t.
   ok(Math.abs(got.cycle - crossing(theta)) < 1e-9 * got.cycle, `${got.cycle}`);
-  // Delta method (JCGM 100:2008, GUM §5.1.2, the law of propagation of uncertainty): u² = gᵀVg,
-  // here with g by central differences (a step of 1e-5 relative; truncation error O(h²), so
-  // about 8 digits of u agree with the cell's analytic gradient: common practice, no source).
+  // Delta method (JCGM 100:2008, GUM §5.2.2, the law of propagation of uncertainty for
+  // correlated inputs): u² = gᵀVg, here with g by central differences (a step of 1e-5 relative;
+  // truncation error O(h²), so about 8 digits of u agree with the cell's analytic gradient:
+  // common practice, no source).
   const g = theta.map((_, i) => {
     const h = Math.abs(theta[i]) * 1e-5;
     const up = theta.slice(), down = theta.slice();
