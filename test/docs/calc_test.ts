@@ -10,9 +10,9 @@ import { deepEqual, equal, ok } from "node:assert/strict";
 import { join } from "node:path";
 import { resolveValue } from "../../ui/inline_value.ts";
 import { summarizeCalc } from "../../cells/calc/result.ts";
+import { plumbRunJson } from "../examples/_plumb_run.ts";
 
 const ROOT = new URL("../../", import.meta.url);
-const MAIN = new URL("cells/main.ts", ROOT).pathname;
 const read = (path: string) => Deno.readTextFileSync(new URL(path, ROOT));
 const DOC = read("docs/calc.md");
 const EXAMPLES = ["examples/fade/fade.md", "examples/calibration/nitrite.md"];
@@ -69,23 +69,7 @@ async function runWith(example: string, extra: Shown[]): Promise<Map<string, Cel
     const added = extra.map((c) => "```" + `${c.kind} ${c.name}\n${c.body}` + "```\n").join("\n");
     const doc = join(dir, "doc.md");
     await Deno.writeTextFile(doc, `${read(example)}\n${added}`);
-    const out = await new Deno.Command(Deno.execPath(), {
-      args: [
-        "run",
-        "--allow-read",
-        "--allow-env=LOG_TOKENS,LOG_STREAM",
-        `--allow-run=${Deno.execPath()}`,
-        MAIN,
-        "run",
-        doc,
-        "--json",
-        "--no-history",
-      ],
-      stdout: "piped",
-      stderr: "piped",
-      env: { NO_COLOR: "1" },
-    }).output();
-    const json = JSON.parse(new TextDecoder().decode(out.stdout)) as { cells: Cell[] };
+    const json = (await plumbRunJson(doc, "--no-history")).json as { cells: Cell[] };
     return new Map(json.cells.map((c) => [c.name, c]));
   } finally {
     await Deno.remove(dir, { recursive: true });

@@ -10,8 +10,8 @@ import { deepEqual, equal, ok } from "node:assert/strict";
 import { basename, join } from "node:path";
 import { findInlineRefs, parseDocument } from "../../kernel/document/mod.ts";
 import { resolveValue } from "../../ui/inline_value.ts";
+import { plumbRunJson } from "./_plumb_run.ts";
 
-const MAIN = new URL("../../cells/main.ts", import.meta.url).pathname;
 const EXAMPLES = new URL("../../examples/", import.meta.url).pathname;
 
 interface Cell {
@@ -28,25 +28,8 @@ interface RunJson {
 }
 
 async function runJson(doc: string): Promise<{ code: number; json: RunJson; stderr: string }> {
-  const out = await new Deno.Command(Deno.execPath(), {
-    args: [
-      "run",
-      "--allow-read",
-      "--allow-env=LOG_TOKENS,LOG_STREAM",
-      // calc cells are checked and run in child processes of this Deno (as `deno task plumb` allows).
-      `--allow-run=${Deno.execPath()}`,
-      MAIN,
-      "run",
-      doc,
-      "--json",
-    ],
-    stdout: "piped",
-    stderr: "piped",
-    env: { NO_COLOR: "1" },
-  }).output();
-  const dec = new TextDecoder();
-  const stderr = dec.decode(out.stderr);
-  return { code: out.code, json: JSON.parse(dec.decode(out.stdout)), stderr };
+  const { code, json, stderr } = await plumbRunJson(doc);
+  return { code, json: json as RunJson, stderr };
 }
 
 /** Every example: a folder under examples/ with Markdown documents at its top. */
