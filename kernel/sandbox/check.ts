@@ -21,6 +21,8 @@
  *
  * @module
  */
+import { sha256Hex } from "../hash.ts";
+import { cannotStart, spawnDeno } from "./_spawn.ts";
 
 /** One error of the checker, at a 1-based line and column of the program. */
 export interface Diagnostic {
@@ -60,11 +62,6 @@ const IMPORT_MAP = "data:application/json," +
   encodeURIComponent(JSON.stringify({ imports: { "file:///": NOWHERE } }));
 /** Heap cap of the checker (MB): a check of a calc module peaks near 220 MB resident here. */
 const CHECK_HEAP_MB = 1024;
-
-async function digest(text: string): Promise<string> {
-  const d = await crypto.subtle.digest("SHA-256", new TextEncoder().encode(text));
-  return [...new Uint8Array(d)].map((b) => b.toString(16).padStart(2, "0")).join("");
-}
 
 /**
  * The diagnostics in the checker's report, in order (the first location
@@ -108,44 +105,32 @@ export function parseDiagnostics(text: string): Diagnostic[] {
  * @returns ok, or the diagnostics (or a `message` when the checker could not run).
  */
 export async function checkProgram(program: string): Promise<CheckAnswer> {
-  const key = await digest(program);
+  const key = await sha256Hex(new TextEncoder().encode(program));
   const known = kept.get(key);
   if (known) return { ...known, ms: 0 };
   const t0 = performance.now();
   let child: Deno.ChildProcess;
   try {
-    child = new Deno.Command(Deno.execPath(), {
-      args: [
-        "run",
-        "--check",
-        "--no-config",
-        "--no-lock",
-        "--no-remote",
-        "--no-npm",
-        "--no-prompt",
-        `--import-map=${IMPORT_MAP}`,
-        `--v8-flags=--max-old-space-size=${CHECK_HEAP_MB},--disallow-code-generation-from-strings`,
-        "-",
-      ],
-      clearEnv: true,
-      env: { NO_COLOR: "1" },
-      stdin: "piped",
-      stdout: "piped",
-      stderr: "piped",
-    }).spawn();
+    child = spawnDeno([
+      "run",
+      "--check",
+      "--no-config",
+      "--no-lock",
+      "--no-remote",
+      "--no-npm",
+      "--no-prompt",
+      `--import-map=${IMPORT_MAP}`,
+      `--v8-flags=--max-old-space-size=${CHECK_HEAP_MB},--disallow-code-generation-from-strings`,
+      "-",
+    ]);
   } catch (err) {
-    const denied = err instanceof Deno.errors.NotCapable ||
-      err instanceof Deno.errors.PermissionDenied;
     return {
       ok: false,
       diagnostics: [],
       ms: performance.now() - t0,
-      message: denied
-        ? "calc cells need Plumb to be allowed to start a process (--allow-run)"
-        : `could not start the type checker: ${(err as Error).message}`,
+      message: cannotStart(err, "the type checker"),
     };
   }
-  child.unref();
   let late = false;
   const timer = setTimeout(() => {
     late = true;

@@ -29,6 +29,7 @@
  *
  * @module
  */
+import { cannotStart, spawnDeno } from "./_spawn.ts";
 import { F64 } from "./data.ts";
 
 /** What to run. */
@@ -96,16 +97,7 @@ function childArgs(memoryMb: number): string[] {
 }
 
 function startChild(memoryMb: number): Deno.ChildProcess {
-  const child = new Deno.Command(Deno.execPath(), {
-    args: childArgs(memoryMb),
-    clearEnv: true,
-    env: { NO_COLOR: "1" },
-    stdin: "piped",
-    stdout: "piped",
-    stderr: "piped",
-  }).spawn();
-  child.unref();
-  return child;
+  return spawnDeno(childArgs(memoryMb));
 }
 
 /** One started child per heap cap, waiting for its job. */
@@ -193,15 +185,7 @@ export async function runIsolated(job: IsolateJob, signal?: AbortSignal): Promis
   try {
     child = takeChild(job.memoryMb);
   } catch (err) {
-    const denied = err instanceof Deno.errors.NotCapable ||
-      err instanceof Deno.errors.PermissionDenied;
-    return stopped(
-      "cannot-start",
-      denied
-        ? "calc cells need Plumb to be allowed to start a process (--allow-run)"
-        : `could not start a process for the calc cell: ${(err as Error).message}`,
-      ms(),
-    );
+    return stopped("cannot-start", cannotStart(err, "a process for the calc cell"), ms());
   }
   running.add(child);
   // A spare is unreferenced (it must not keep Plumb alive); a running child is awaited, so it
