@@ -240,5 +240,13 @@ export function parseCalcSpec(ctx: ParseContext): CalcSpec {
       spec.codeOffset + imp.index,
     );
   }
+  const exp = /\bexport\b/.exec(spec.code);
+  if (exp) {
+    throw new CellError(
+      "calc cells cannot export: the code's answer is what it returns",
+      [],
+      spec.codeOffset + exp.index,
+    );
+  }
   return spec;
 }

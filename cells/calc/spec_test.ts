@@ -87,3 +87,10 @@ Deno.test("parseCalcSpec() refuses the word import anywhere in the code, at its 
   equal(body.slice(e.offset!, e.offset! + 6), "import");
   throws(() => parse("reads: a\n---\n   \n"), /has no code/);
 });
+
+Deno.test("parseCalcSpec() refuses the word export, at its place: code that closes its function cannot re-export a module", () => {
+  const body = "---\nreturn 1;\n}\nexport * from 'file:///etc/hosts';\n";
+  const e = refused(body);
+  equal(e.message, "calc cells cannot export: the code's answer is what it returns");
+  equal(body.slice(e.offset!, e.offset! + 6), "export");
+});

@@ -164,6 +164,7 @@ export async function coldRun(root: URL, cli = "cells/main.ts", runs = 7): Promi
     "run",
     "--allow-read",
     "--allow-env=LOG_TOKENS,LOG_STREAM",
+    `--allow-run=${Deno.execPath()}`,
     cli,
     "run",
     "examples/fade/fade.md",
