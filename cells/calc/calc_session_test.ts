@@ -104,6 +104,24 @@ Deno.test("a misspelled field fails the type check at its line and column, with 
   });
 });
 
+Deno.test("a syntax error reads as one, at its line: TypeScript's parser errors are numbered 1000-1999 (TypeScript's diagnosticMessages.json)", async () => {
+  const calc = cell(
+    "calc",
+    "broken",
+    "reads: line\n---\nconst a = line.estimates.a;\nreturn (a +;",
+  );
+  await withSession(async (s) => {
+    const source = TABLE + FIT + calc;
+    const r = await s.run(source);
+    const c = find(r, "broken");
+    equal(c.state, "failed");
+    match(c.error!.message, /^Syntax error: Expression expected/);
+    const line = source.split("\n").findIndex((l) => l.startsWith("return (a +;")) + 1;
+    equal(c.error!.line, line);
+    equal(find(r, "line").state, "current", "the other cells keep their results");
+  });
+});
+
 Deno.test("a calc cell is cached by its code and its inputs: a prose edit reruns nothing, a code edit reruns it", async () => {
   const calc = (k: number) =>
     cell("calc", "k", `reads: line\n---\nreturn { v: line.estimates.a * ${k} };`);

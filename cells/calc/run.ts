@@ -110,15 +110,20 @@ function offsetIn(code: string, line: number, column: number): number {
   return Math.min(at + Math.max(0, column - 1), code.length);
 }
 
-/** The first type error as a located CellError (with the checker's own "did you mean"). */
+/**
+ * The checker's first error as a located CellError (with its own "did you
+ * mean"): Deno's parser (code 0) and TypeScript's parser errors (1000-1999)
+ * read "Syntax error", the rest "Type error".
+ */
 function typeError(spec: CalcSpec, d: Diagnostic, firstLine: number, more: number): CellError {
   const line = d.line - firstLine + 1;
   const inCode = line >= 1;
-  const extra = more > 0 ? ` (and ${more} more type error${more === 1 ? "" : "s"})` : "";
+  const extra = more > 0 ? ` (and ${more} more error${more === 1 ? "" : "s"})` : "";
   // A type spelled out whole can run to hundreds of characters: name it briefly.
   const message = d.message.replace(/'[^']{60,}'/g, "(this value's type)");
+  const what = d.code < 2000 ? "Syntax error" : "Type error";
   return new CellError(
-    `Type error: ${message}${extra}`,
+    `${what}: ${message}${extra}`,
     [],
     inCode ? spec.codeOffset + offsetIn(spec.code, line, d.column) : spec.codeOffset,
   );

@@ -523,6 +523,8 @@ function watchMemory(capMb) {
 }
 
 watchMemory(Deno.args[0] ?? 352);
+// Closed before the job is read: the parent waits for the answer, not for this.
+closeWaysOut();
 const raw = await new Response(Deno.stdin.readable).text();
 if (raw.length === 0) realExit(0); // the parent ended before handing a job over
 const job = JSON.parse(raw, revive);
@@ -538,7 +540,6 @@ const uncaught = (e) => {
 };
 addEventListener("error", uncaught);
 addEventListener("unhandledrejection", uncaught);
-closeWaysOut();
 let body;
 try {
   let bin = "";

@@ -26,7 +26,10 @@ import { cannotStart, spawnDeno } from "./_spawn.ts";
 
 /** One error of the checker, at a 1-based line and column of the program. */
 export interface Diagnostic {
-  /** TypeScript's error number, e.g. 2551. */
+  /**
+   * TypeScript's error number, e.g. 2551; 0 for an error of Deno's own parser
+   * (which stops before TypeScript runs and gives no number).
+   */
   code: number;
   message: string;
   line: number;
@@ -83,6 +86,12 @@ export function parseDiagnostics(text: string): Diagnostic[] {
   const out: Diagnostic[] = [];
   let open: { code: number; message: string } | null = null;
   for (const line of text.split("\n")) {
+    // Deno parses the module before TypeScript checks it: "error: SyntaxError: …", then its place.
+    const parse = /^error: SyntaxError: (.*)$/.exec(line);
+    if (parse) {
+      open = { code: 0, message: parse[1].trim() };
+      continue;
+    }
     const head = /^TS(\d+) \[ERROR\]: (.*)$/.exec(line);
     if (head) {
       // An indented message is a note on the error before it ("The parser expected…").

@@ -88,3 +88,13 @@ Deno.test("checkProgram() runs nothing: neither the code nor a module it names",
   const b = await checkProgram(inFunction("return 1;\n}\nfor (;;) {}\nfunction again() {"));
   ok(b.ok, b.ok ? "" : b.message);
 });
+
+Deno.test("parseDiagnostics() reads Deno's parser error (no TypeScript number) at its place", () => {
+  // The report's shape as Deno 2.9.6 prints it for `return (a +;` (measured here).
+  const text =
+    "error: SyntaxError: Expression expected\n  |\n2 | return (a +;\n  |            ~\n" +
+    "    at file:///tmp/$deno$stdin.mts:2:12\n";
+  deepEqual(parseDiagnostics(text), [
+    { code: 0, message: "Expression expected", line: 2, column: 12 },
+  ]);
+});
