@@ -28,6 +28,7 @@ import type { DocSettings } from "./settings.ts";
 import type { OptionDecls } from "./option_decl.ts";
 import type { HistoryFace } from "./history.ts";
 import type { CheckAnswer, IsolateAnswer, IsolateJob } from "../sandbox/mod.ts";
+import type { EngineAccess } from "../engine/types.ts";
 
 /** What `parse` gets: one cell's options and ways to report about them. */
 export interface ParseContext {
@@ -77,6 +78,13 @@ export interface RunContext {
    * Optional: absent in contexts built by hand.
    */
   summaryOf?(name: string): { result: unknown; rows: readonly string[] } | null;
+  /**
+   * Database access (kernel/engine): read-only SELECTs run in an engine
+   * process of their own, asked for through the main thread; a stopped run
+   * cancels its statements. Absent where no engine can be reached
+   * (contexts built by hand in tests).
+   */
+  engine?: EngineAccess;
 }
 
 /** A column a cell offers other cells (a table's columns, by the kind's `columns`). */
