@@ -89,11 +89,12 @@ Deno.test("calc cells cannot load modules, build code from text, start workers o
       code: "const m = await import('npm:left-pad');\nreturn 1;",
       says: IMPORT,
     },
-    // Closing the function and naming a module without the word: the checker loads no file.
+    // Closing the function and naming a module with `export … from`: refused by its word too
+    // (kernel/sandbox/check_test.ts shows the checker would load no file even so).
     {
       name: "export-from",
       code: 'return 1;\n}\nexport * from "/etc/passwd";\nfunction again() {',
-      says: /^This code tries to load a module; code in the sandbox cannot import$/,
+      says: /^calc cells cannot export: the code's answer is what it returns$/,
     },
     {
       name: "fetch-file",
