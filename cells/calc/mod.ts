@@ -50,6 +50,8 @@ export const calcKind: CellKind<CalcSpec, CalcOutput | CalcTableOutput, CalcResu
       path: ["reads"],
       offset: r.offset,
     })),
+  // The sandbox process starts while the cell's inputs compute.
+  ahead: (spec) => ({ sandboxMb: spec.memoryMb }),
   run: runCalc,
   summary: (out) => summarizeCalc(out),
   line: calcLine,

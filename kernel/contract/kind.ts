@@ -158,6 +158,12 @@ export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R
   inputs(spec: Spec): InputRef[];
   /** The data files this one reads (optional). */
   files?(spec: Spec): FileRef[];
+  /**
+   * What the cell will need outside the worker, started while its inputs
+   * compute (optional): `sandboxMb`, a sandbox process with that memory cap
+   * (its start-up is most of a first run's time).
+   */
+  ahead?(spec: Spec): { sandboxMb?: number };
   /** Pure computation. Throws {@link CellError} for bad data. */
   run(spec: Spec, ctx: RunContext): Out | Promise<Out>;
   /**

@@ -15,6 +15,7 @@ export {
   type IsolateStop,
   RESULT_LIMIT,
   runIsolated,
+  startAhead,
   stopAllIsolated,
 } from "./isolate.ts";
 export { decodeColumn, encodeData, F64 } from "./data.ts";

@@ -37,6 +37,7 @@ import { lineCount } from "./files.ts";
 import { Waiting } from "./_waiting.ts";
 import type { CellReport, CellState, Plan, RunReport } from "./types.ts";
 import { collectGarbage } from "./_collect.ts";
+import { startAhead } from "../sandbox/mod.ts";
 
 /**
  * Bytes let go at once from which a run also drops them in the workers and collects garbage
@@ -112,9 +113,20 @@ export class Run {
     // A cell still computing for an earlier run whose inputs changed is stopped (`search`).
     this.#host.pool.stopComputingUnless(new Set(plan.keys.values()));
     if (this.#host.page || this.#host.lean) this.#named = referencedFields(plan.doc);
+    this.#startAhead(plan);
     this.#waiting = new Waiting(plan.graph.order, plan.graph.byName);
     for (const node of plan.graph.nodes) {
       if (!node.error && plan.keys.has(node.name)) this.#emit(node.name, "queued");
+    }
+  }
+
+  /** Starts what the cells that will compute need outside the worker (`CellKind.ahead`). */
+  #startAhead(plan: Plan): void {
+    const stale = new Set(plan.stale);
+    for (const node of plan.graph.nodes) {
+      if (node.error || !stale.has(node.name)) continue;
+      const mb = node.plugin?.ahead?.(node.spec)?.sandboxMb;
+      if (mb !== undefined) startAhead(mb);
     }
   }
 
