@@ -8,20 +8,28 @@ import { CellError } from "../../kernel/errors.ts";
 import { ownValue } from "../../kernel/own.ts";
 
 /**
- * Checks `from`: a non-empty relative path that stays inside the document's
- * folder (the kernel checks again, with symbolic links, when it reads).
+ * Checks `from` (or `database`, a DuckDB file): a non-empty relative path
+ * that stays inside the document's folder (the kernel checks again, with
+ * symbolic links, when it reads).
  *
- * @throws {CellError} On ["from"].
+ * @param v The option's value.
+ * @param option The option it came from.
+ * @throws {CellError} On [option].
  */
-export function checkFromPath(v: unknown): string {
+export function checkFromPath(v: unknown, option: "from" | "database" = "from"): string {
   if (typeof v !== "string" || v.trim() === "") {
-    throw new CellError(`Option "from" must be a file path such as data/batch7.csv`, ["from"]);
+    throw new CellError(
+      option === "from"
+        ? `Option "from" must be a file path such as data/batch7.csv`
+        : `Option "database" must be a DuckDB file such as plant.duckdb, or { url_from: VARIABLE }`,
+      [option],
+    );
   }
   const path = v.trim();
   const outside = () =>
     new CellError(
       `File "${path}" is outside the document's folder: data files must sit beside the document or below it`,
-      ["from"],
+      [option],
     );
   if (/^([/\\]|[A-Za-z]:)/.test(path)) throw outside();
   let depth = 0;

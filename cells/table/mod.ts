@@ -37,7 +37,7 @@ export const tableKind: CellKind<TableSpec, TableOutput, TableResult> = {
   body: "yaml",
   output: "Table",
   description:
-    "Reads a CSV/TSV file or inline rows into typed columns, with units, exclusions and derived columns",
+    "Reads a CSV/TSV file, inline rows or a database query into typed columns, with units, exclusions and derived columns",
   parse: parseTableSpec,
   inputs: () => [],
   files: (spec) => (spec.from === null ? [] : [{ path: spec.from, option: ["from"] }]),

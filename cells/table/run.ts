@@ -18,6 +18,7 @@ import { ExprError } from "../../kernel/expr/mod.ts";
 import type { Column, NumberColumn, RunContext, Table } from "../../kernel/contract/mod.ts";
 import { addDerived, checkUnits } from "./_derive.ts";
 import { readSource } from "./_read_source.ts";
+import { readDatabaseTable } from "./_read_database.ts";
 import { gatherInt } from "../../kernel/arrays.ts";
 import { gather, indexesOf, keptAfterExclusions } from "./_select.ts";
 import { evaluateWhere } from "./_where.ts";
@@ -59,7 +60,8 @@ function applyWhere(spec: TableSpec, columns: Column[], rows: Int32Array): Int32
  *   `types`), an excluded row beyond the data, a unit of an unknown column,
  *   a bad derived column or filter.
  */
-export function runTable(spec: TableSpec, ctx: RunContext): TableOutput {
+export function runTable(spec: TableSpec, ctx: RunContext): TableOutput | Promise<TableOutput> {
+  if (spec.source !== null) return readDatabaseTable(spec, ctx);
   const data = readSource(spec, ctx);
   const kept = keptAfterExclusions(spec, data.rowCount);
   const names = [...data.columns.map((c) => c.name), ...spec.derive.map((d) => d.name)];

@@ -30,6 +30,7 @@ import { parseExclude } from "./_parse_exclude.ts";
 import { parseInline } from "./_parse_inline.ts";
 import { parseDerive, parseWhere } from "./_parse_derive.ts";
 import { checkFromPath, parseDecimalOption, parseDelimiter } from "./_parse_source.ts";
+import { type DatabaseSource, parseDatabaseSource } from "./_parse_database.ts";
 
 import type { InlineData } from "./_parse_inline.ts";
 export type { InlineData };
@@ -52,6 +53,8 @@ export interface TableSpec {
   derive: { name: string; expression: string }[];
   /** Row filter (a comparison), or null. */
   where: string | null;
+  /** A query in a database (instead of a file or inline rows), or null. */
+  source: DatabaseSource | null;
 }
 
 /** Options a `table` cell understands, each declared once. */
@@ -78,6 +81,16 @@ export const TABLE_OPTIONS: OptionDecls = {
   exclude: { type: "list", doc: "rows left out, each entry with rows and why" },
   derive: { type: "mapping", doc: "derived number columns by expression, in order" },
   where: { type: "expression", doc: "a row filter, such as temp >= 20" },
+  database: {
+    type: "text",
+    doc:
+      "a database to query instead of a file: a DuckDB file beside the document, or { url_from: VARIABLE } for PostgreSQL",
+  },
+  query: { type: "text", doc: "with database: one SELECT giving the table's rows" },
+  partition_by: {
+    type: "text",
+    doc: "with database: the column the database partitions the table by (sums per partition)",
+  },
 };
 
 function stringMap(v: unknown, key: string): Record<string, unknown> {
@@ -156,13 +169,29 @@ function parseMissing(v: unknown): string[] | null {
 export function parseTableSpec(ctx: ParseContext): TableSpec {
   const o = ctx.options;
   checkOptionKeys(ctx, TABLE_OPTIONS);
+  const source = parseDatabaseSource(o, ctx.name);
+  if (source !== null) {
+    return {
+      from: null,
+      inline: null,
+      delimiter: null,
+      decimal: ".",
+      missing: null,
+      types: parseTypes(o.types),
+      units: parseUnits(o.units),
+      exclude: [],
+      derive: [],
+      where: null,
+      source,
+    };
+  }
   const hasFrom = o.from !== undefined && o.from !== null;
   const hasRows = o.rows !== undefined;
   if (hasFrom === hasRows) {
     throw new CellError(
       hasFrom
         ? `Table "${ctx.name}" has both from and rows: read a file or give rows inline, not both`
-        : `Table "${ctx.name}" needs data: name a file with from, or give columns and rows inline`,
+        : `Table "${ctx.name}" needs data: name a file with from, give columns and rows inline, or query a database`,
       hasFrom ? ["rows"] : [],
     );
   }
@@ -191,5 +220,6 @@ export function parseTableSpec(ctx: ParseContext): TableSpec {
     exclude: parseExclude(o.exclude),
     derive: parseDerive(o.derive),
     where: parseWhere(o.where),
+    source: null,
   };
 }

@@ -60,7 +60,7 @@ Deno.test("tableKind.parse() refuses absolute paths and paths escaping the docum
 Deno.test("tableKind.parse() needs exactly one of from and rows", () => {
   parseFails(
     {},
-    `Table "t" needs data: name a file with from, or give columns and rows inline`,
+    `Table "t" needs data: name a file with from, give columns and rows inline, or query a database`,
     [],
   );
   parseFails(

@@ -38,6 +38,22 @@ export interface TableResult {
    * `rows_filtered`, not listed here.
    */
   rows_missing: number[];
+  /**
+   * RUN-JSON addition, present when the rows came from a database: the
+   * engine, the DuckDB file or the name of the variable holding the
+   * PostgreSQL URL (never the URL), the query, the result's fingerprint
+   * (row count and a hash of the values), and whether the rows stayed in the
+   * engine (`kept`: more rows than a cell holds; `rows_used` counts them).
+   */
+  database?: {
+    engine: "duckdb" | "postgres";
+    file: string | null;
+    url_from: string | null;
+    query: string;
+    partition_by: string | null;
+    fingerprint: string;
+    kept: boolean;
+  };
 }
 
 /**
@@ -59,7 +75,7 @@ export interface TableResult {
 export function summarizeTable(out: TableOutput): TableResult {
   return {
     rows_read: out.rowsRead,
-    rows_used: out.rows.length,
+    rows_used: out.database?.kept ? out.database.rowsInEngine : out.rows.length,
     excluded: out.excluded.map((e) => ({ row: e.row, why: e.why })),
     columns: out.columns.map((c) => ({
       name: c.name,
@@ -71,6 +87,23 @@ export function summarizeTable(out: TableOutput): TableResult {
     source: out.source,
     rows_filtered: out.rowsFiltered,
     rows_missing: rowsWithMissing(out.columns, out.rows),
+    ...databaseOf(out),
+  };
+}
+
+function databaseOf(out: TableOutput): Pick<TableResult, "database"> {
+  const d = out.database;
+  if (d === undefined) return {};
+  return {
+    database: {
+      engine: d.ref.engine,
+      file: d.ref.engine === "duckdb" ? d.ref.file : null,
+      url_from: d.ref.engine === "postgres" ? d.ref.urlFrom : null,
+      query: d.query,
+      partition_by: d.partitionBy,
+      fingerprint: d.fingerprint,
+      kept: d.kept,
+    },
   };
 }
 
@@ -115,5 +148,9 @@ export function tableLine(r: TableResult): string {
   if (r.rows_filtered > 0) parts.push(`${r.rows_filtered} filtered out`);
   const missing = r.columns.reduce((m, c) => m + c.missing, 0);
   if (missing > 0) parts.push(`${missing} missing`);
+  if (r.database !== undefined) {
+    parts.push(r.database.engine === "duckdb" ? "from DuckDB" : "from PostgreSQL");
+    if (r.database.kept) parts.push("kept in the database");
+  }
   return parts.join(" · ");
 }

@@ -28,6 +28,7 @@ export type {
   OptionPath,
   OutputType,
   Table,
+  TableInEngine,
   TextColumn,
 } from "./values.ts";
 export type { DocSettings } from "./settings.ts";

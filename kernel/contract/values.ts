@@ -11,6 +11,7 @@
  *
  * @module
  */
+import type { DatabaseRef } from "../engine/types.ts";
 import type { OptionPath } from "../errors.ts";
 
 export type { OptionPath };
@@ -97,4 +98,27 @@ export interface Table extends CellOutput {
   sha256: string | null;
   /** The source file path as written, when from a file. */
   source: string | null;
+  /** When the rows came from a database query; absent otherwise. */
+  database?: TableInEngine;
+}
+
+/**
+ * A table read by a query. A table of more rows than a cell may hold is
+ * kept in its engine (`kept`): its columns carry names, types and units but
+ * no values, `rows` is empty, and only kinds that compute in the engine
+ * (a linear fit) read it; the kernel refuses it to the others with a
+ * sentence saying so.
+ */
+export interface TableInEngine {
+  ref: DatabaseRef;
+  /** The query as written. */
+  query: string;
+  /** The column the database partitions the table by, or null. */
+  partitionBy: string | null;
+  /** The result's row count and a hash of its values, as the engine computed them. */
+  fingerprint: string;
+  /** True when the rows stay in the engine. */
+  kept: boolean;
+  /** Rows of the query's result. */
+  rowsInEngine: number;
 }

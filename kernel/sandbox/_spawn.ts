@@ -11,13 +11,16 @@
  * Starts `deno <args>` with an empty environment and piped streams.
  *
  * @param args The arguments after the Deno binary.
+ * @param inheritEnv Pass Plumb's environment on (an engine process that may
+ *   read one variable of it; its permissions say which): Plumb itself need
+ *   not be allowed to read it.
  * @returns The child, unreferenced.
  * @throws {Deno.errors.NotCapable} Without permission to run this Deno.
  */
-export function spawnDeno(args: string[]): Deno.ChildProcess {
+export function spawnDeno(args: string[], inheritEnv = false): Deno.ChildProcess {
   const child = new Deno.Command(Deno.execPath(), {
     args,
-    clearEnv: true,
+    clearEnv: !inheritEnv,
     env: { NO_COLOR: "1" },
     stdin: "piped",
     stdout: "piped",
@@ -32,6 +35,7 @@ export function spawnDeno(args: string[]): Deno.ChildProcess {
  *
  * @param err What {@link spawnDeno} threw.
  * @param what What was being started, for other failures ("the type checker").
+ * @param who Whose need it is ("calc cells", "database tables").
  * @returns The sentence.
  * @example
  * ```ts
@@ -40,10 +44,10 @@ export function spawnDeno(args: string[]): Deno.ChildProcess {
  * if (!s.includes("--allow-run")) throw new Error(s);
  * ```
  */
-export function cannotStart(err: unknown, what: string): string {
+export function cannotStart(err: unknown, what: string, who = "calc cells"): string {
   const denied = err instanceof Deno.errors.NotCapable ||
     err instanceof Deno.errors.PermissionDenied;
   return denied
-    ? "calc cells need Plumb to be allowed to start a process (--allow-run)"
+    ? `${who} need Plumb to be allowed to start a process (--allow-run)`
     : `could not start ${what}: ${(err as Error).message}`;
 }

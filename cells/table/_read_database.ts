@@ -1,0 +1,205 @@
+/**
+ * A table read by a query: its rows come back typed (numbers as numbers,
+ * everything else as text), or, past {@link LOAD_ROWS}, stay in the engine
+ * with their names, types, units and missing counts.
+ *
+ * ```
+ *  fingerprint (count, hash of the values) ─▶ n ≤ LOAD_ROWS ─▶ rows(query) ─▶ typed columns
+ *                                           └▶ n > LOAD_ROWS ─▶ columns' counts in the engine (kept)
+ * ```
+ *
+ * @module
+ */
+import { CellError, type OptionPath } from "../../kernel/errors.ts";
+import { ownValue } from "../../kernel/own.ts";
+import type { Column, RunContext } from "../../kernel/contract/mod.ts";
+import type {
+  DatabaseRef,
+  EngineAccess,
+  EngineAnswer,
+  EngineColumn,
+} from "../../kernel/engine/types.ts";
+import { checkUnits } from "./_derive.ts";
+import type { TableOutput } from "./run.ts";
+import type { TableSpec } from "./spec.ts";
+
+/** The most rows a table holds in memory; a larger result stays in its engine. */
+export const LOAD_ROWS = 1_000_000;
+
+/** An identifier quoted for SQL (both dialects: double quotes, doubled inside). */
+export function quoteName(name: string): string {
+  return `"${name.replaceAll('"', '""')}"`;
+}
+
+/**
+ * The SQL giving a query's row count and an order-free hash of its rows
+ * (a sum of row hashes, exact in both engines' wide integers).
+ *
+ * @param engine The dialect.
+ * @param query The user's query (already checked).
+ * @returns One row: n (number), h (text).
+ */
+export function fingerprintSql(engine: DatabaseRef["engine"], query: string): string {
+  const hash = engine === "duckdb"
+    ? "CAST(sum(CAST(hash(plumb_q) AS HUGEINT)) AS VARCHAR)"
+    : "CAST(sum(hashtextextended(CAST(plumb_q AS text), 0)) AS text)";
+  return `SELECT count(*) AS n, ${hash} AS h FROM (${query}) AS plumb_q`;
+}
+
+/** Where an engine's refusal belongs: the connection on `database`, the statement on `query`. */
+function placeOf(why: string): OptionPath {
+  return why === "refused" || why === "query" ? ["query"] : ["database"];
+}
+
+/**
+ * An engine's answer, or the cell's error in the engine's plain words.
+ *
+ * @param a The answer.
+ * @param ctx For a cancelled run (answered as cancelled through `progress`).
+ * @returns The value.
+ * @throws {CellError} On the option the failure concerns.
+ */
+export function engineValue<T>(a: EngineAnswer<T>, ctx: RunContext): T {
+  if (a.ok) return a.value;
+  if (a.why === "cancelled") ctx.progress(1);
+  throw new CellError(a.message, placeOf(a.why));
+}
+
+/**
+ * Reads a database table.
+ *
+ * @param spec The table's spec (with `source`).
+ * @param ctx The run context; needs `engine`.
+ * @returns The table, its rows in memory or kept in the engine.
+ * @throws {CellError} When no engine can be reached, the engine refuses or
+ *   fails (in its words, on `database` or `query`), a unit names no column,
+ *   or a column forced to numbers holds text.
+ */
+export async function readDatabaseTable(spec: TableSpec, ctx: RunContext): Promise<TableOutput> {
+  const src = spec.source!;
+  const engine = ctx.engine;
+  if (engine === undefined) {
+    throw new CellError("This table queries a database, which cannot be reached from here", [
+      "database",
+    ]);
+  }
+  const print = engineValue(
+    await engine.rows(src.database, fingerprintSql(src.database.engine, src.query), 1),
+    ctx,
+  );
+  const n = numberAt(print.columns, "n");
+  const fingerprint = `${n}:${textAt(print.columns, "h") ?? "empty"}`;
+  const kept = n > LOAD_ROWS;
+  const columns = kept
+    ? await keptColumns(engine, spec, ctx)
+    : typedColumns(engineValue(await engine.rows(src.database, src.query, LOAD_ROWS), ctx), spec);
+  checkUnits(spec.units, columns.map((c) => c.name));
+  if (src.partitionBy !== null && !columns.some((c) => c.name === src.partitionBy)) {
+    throw new CellError(
+      `partition_by names "${src.partitionBy}", which is not a column of the query`,
+      ["partition_by"],
+    );
+  }
+  const rows = new Int32Array(kept ? 0 : n);
+  for (let i = 0; i < rows.length; i++) rows[i] = i + 1;
+  ctx.progress(1);
+  return {
+    type: "Table",
+    columns,
+    rows,
+    rowsRead: n,
+    excluded: [],
+    sha256: null,
+    source: null,
+    rowsFiltered: 0,
+    database: {
+      ref: src.database,
+      query: src.query,
+      partitionBy: src.partitionBy,
+      fingerprint,
+      kept,
+      rowsInEngine: n,
+    },
+  };
+}
+
+function numberAt(columns: EngineColumn[], name: string): number {
+  const c = columns.find((c) => c.name === name);
+  return c?.type === "number" ? c.values[0] : Number(c?.values[0] ?? 0);
+}
+
+function textAt(columns: EngineColumn[], name: string): string | null {
+  const c = columns.find((c) => c.name === name);
+  if (c === undefined || c.values.length === 0) return null;
+  return c.type === "text" ? c.values[0] : String(c.values[0]);
+}
+
+/** The engine's columns as the table's, with units and forced types. */
+function typedColumns(got: { columns: EngineColumn[] }, spec: TableSpec): Column[] {
+  return got.columns.map((c): Column => {
+    const unit = ownValue(spec.units, c.name) ?? null;
+    const forced = ownValue(spec.types, c.name);
+    if (c.type === "number") {
+      if (forced === "text") {
+        const values = Array.from(c.values, (v) => (Number.isNaN(v) ? null : String(v)));
+        return { name: c.name, type: "text", unit, values, missing: countNull(values) };
+      }
+      let missing = 0;
+      for (let i = 0; i < c.values.length; i++) if (Number.isNaN(c.values[i])) missing++;
+      return { name: c.name, type: "number", unit, values: c.values, lo: null, missing };
+    }
+    if (forced === "number") {
+      const bad = c.values.findIndex((v) => v !== null && !Number.isFinite(Number(v)));
+      if (bad >= 0) {
+        throw new CellError(
+          `Column "${c.name}" holds text where numbers are needed (row ${bad + 1}: ${
+            JSON.stringify(String(c.values[bad]).slice(0, 40))
+          }): convert it in the query, e.g. CAST(${quoteName(c.name)} AS DOUBLE PRECISION)`,
+          ["types", c.name],
+        );
+      }
+      const values = Float64Array.from(c.values, (v) => (v === null ? NaN : Number(v)));
+      let missing = 0;
+      for (let i = 0; i < values.length; i++) if (Number.isNaN(values[i])) missing++;
+      return { name: c.name, type: "number", unit, values, lo: null, missing };
+    }
+    return { name: c.name, type: "text", unit, values: c.values, missing: countNull(c.values) };
+  });
+}
+
+function countNull(values: (string | null)[]): number {
+  let n = 0;
+  for (const v of values) if (v === null) n++;
+  return n;
+}
+
+/** Names, types, units and missing counts of a table kept in its engine (no values). */
+async function keptColumns(
+  engine: EngineAccess,
+  spec: TableSpec,
+  ctx: RunContext,
+): Promise<Column[]> {
+  const src = spec.source!;
+  const head = engineValue(
+    await engine.rows(src.database, `SELECT * FROM (${src.query}) AS plumb_q LIMIT 0`, 0),
+    ctx,
+  );
+  const counts = head.columns.map((c, i) => `count(${quoteName(c.name)}) AS c${i}`);
+  const got = counts.length === 0 ? null : engineValue(
+    await engine.rows(
+      src.database,
+      `SELECT count(*) AS n, ${counts.join(", ")} FROM (${src.query}) AS plumb_q`,
+      1,
+    ),
+    ctx,
+  );
+  const n = got === null ? 0 : numberAt(got.columns, "n");
+  return head.columns.map((c, i): Column => {
+    const unit = ownValue(spec.units, c.name) ?? null;
+    const missing = got === null ? 0 : n - numberAt(got.columns, `c${i}`);
+    const forced = ownValue(spec.types, c.name);
+    return (forced ?? c.type) === "number"
+      ? { name: c.name, type: "number", unit, values: new Float64Array(0), lo: null, missing }
+      : { name: c.name, type: "text", unit, values: [], missing };
+  });
+}

@@ -1,0 +1,17 @@
+/**
+ * Database access (issue 18): the query check, the engine processes and
+ * their client, and the contract kinds see through `RunContext.engine`.
+ *
+ * @module
+ */
+export { checkQuery, type QueryRefusal } from "./guard.ts";
+export { EngineClient } from "./client.ts";
+export type {
+  DatabaseRef,
+  EngineAccess,
+  EngineAnswer,
+  EngineColumn,
+  EngineRFactor,
+  EngineRows,
+  EngineStop,
+} from "./types.ts";
