@@ -22,6 +22,7 @@ import { hashValue } from "../hash.ts";
 import { buildGraph } from "../graph/build.ts";
 import { OptionsCache } from "../graph/options_cache.ts";
 import { WorkerPool } from "../worker/pool.ts";
+import { EngineClient } from "../engine/client.ts";
 import { FileStore } from "./files.ts";
 import { isCellError, type Outcome, type Prepared, type RunHost } from "./_run_parts.ts";
 import { checkInlineRefs } from "./inline_refs.ts";
@@ -42,6 +43,8 @@ export type {
 export class Session {
   #opts: SessionOptions;
   #pool: WorkerPool;
+  /** Database access for the document's tables (engine processes start on first use). */
+  #engine: EngineClient;
   #files: FileStore;
   #outcomes = new Map<string, Outcome>();
   #optionsCache = new OptionsCache();
@@ -58,7 +61,8 @@ export class Session {
   /** @param opts Registry, worker entry and the document's folder. */
   constructor(opts: SessionOptions) {
     this.#opts = opts;
-    this.#pool = new WorkerPool(opts.workerUrl, opts.workers);
+    this.#engine = new EngineClient(opts.dir);
+    this.#pool = new WorkerPool(opts.workerUrl, opts.workers, this.#engine);
     this.#files = new FileStore(opts.dir);
     this.#host = {
       pool: this.#pool,
@@ -163,5 +167,6 @@ export class Session {
   /** Stops the compute workers. */
   close(): void {
     this.#pool.close();
+    this.#engine.close();
   }
 }

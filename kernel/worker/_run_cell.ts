@@ -17,6 +17,7 @@
  */
 import type { CellKind, CellOutput, FileData, Registry, RunContext } from "../contract/mod.ts";
 import type { CheckAnswer, IsolateAnswer, IsolateJob } from "../sandbox/mod.ts";
+import type { DatabaseRef, EngineAccess } from "../engine/types.ts";
 import { plainDeep } from "../arrays.ts";
 import { CellError } from "../errors.ts";
 import { pageCopy, pageLeavesOut } from "./page_copy.ts";
@@ -25,6 +26,7 @@ import {
   type FromWorker,
   type Made,
   type RunRequest,
+  type SandboxAnswerMessage,
   type SummaryRequest,
   transientAnswer,
   type WireError,
@@ -46,7 +48,7 @@ export interface WorkerStore {
   /** The kind and spec that made each stored output, by key (for `RunContext.summaryOf`). */
   made?: Map<string, Made>;
   /** Sandbox requests waiting for the main thread's answer, by call number. */
-  calls?: Map<number, (answer: CheckAnswer | IsolateAnswer) => void>;
+  calls?: Map<number, (answer: SandboxAnswerMessage["answer"]) => void>;
 }
 
 let nextCall = 1;
@@ -70,6 +72,28 @@ function sandboxFor(
   return {
     check: (program) => ask<CheckAnswer>({ check: program }),
     run: (job) => ask<IsolateAnswer>({ job }),
+  };
+}
+
+/** `RunContext.engine` for one run: statements asked of the main thread, answered by message. */
+function engineFor(
+  store: WorkerStore,
+  id: number,
+  post: (m: FromWorker) => void,
+): EngineAccess {
+  const ask = <A>(m: { ask: "rows" | "rfactor"; db: DatabaseRef; sql: string; maxRows: number }) =>
+    new Promise<A>((resolve) => {
+      const call = nextCall++;
+      store.calls ??= new Map();
+      store.calls.set(call, (answer) => {
+        store.calls!.delete(call);
+        resolve(answer as A);
+      });
+      post({ op: "engine", id, call, ...m });
+    });
+  return {
+    rows: (db, sql, maxRows) => ask({ ask: "rows", db, sql, maxRows }),
+    rfactor: (db, sql) => ask({ ask: "rfactor", db, sql, maxRows: 0 }),
   };
 }
 
@@ -167,6 +191,7 @@ export async function runCell(
       settings: req.settings,
       ...gathered,
       sandbox: sandboxFor(store, req.id, post),
+      engine: engineFor(store, req.id, post),
       summaryOf: (name) => inputSummary(registry, store, req.inputs, name),
       warn: (m) => {
         if (!warnings.includes(m)) warnings.push(m);

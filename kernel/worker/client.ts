@@ -13,8 +13,10 @@ import type { FileData } from "../contract/mod.ts";
 import type { CellOutput } from "../contract/mod.ts";
 import { HALVES_FROM, halvesHelperWorker } from "../csv/mod.ts";
 import { checkProgram, runIsolated } from "../sandbox/mod.ts";
+import type { EngineClient } from "../engine/client.ts";
 import {
   type DoneMessage,
+  type EngineRequest,
   type FromWorker,
   type Made,
   type RunRequest,
@@ -56,14 +58,19 @@ export class ComputeWorker {
   #helper: Worker | null = null;
   /** User code running for a run, by run id: aborting kills its process (kernel/sandbox). */
   #isolated = new Map<number, AbortController>();
+  /** Database statements running for a run, by run id: aborting cancels them (kernel/engine). */
+  #engineRuns = new Map<number, AbortController>();
+  /** The document's database access; null where none was given (statements are refused). */
+  #engine: EngineClient | null;
   /** Number of times the worker was (re)started. */
   starts = 0;
 
   /**
    * @param url The worker entry module (it calls `serveComputeWorker`).
    */
-  constructor(url: URL) {
+  constructor(url: URL, engine: EngineClient | null = null) {
     this.#url = url;
+    this.#engine = engine;
     this.#start();
   }
 
@@ -142,6 +149,7 @@ export class ComputeWorker {
       if (!keys.has(p.key)) {
         Atomics.store(this.#stop, 0, id);
         this.#isolated.get(id)?.abort();
+        this.#engineRuns.get(id)?.abort();
       }
       return;
     }
@@ -170,10 +178,29 @@ export class ComputeWorker {
   #stopIsolated(): void {
     for (const a of this.#isolated.values()) a.abort();
     this.#isolated.clear();
+    for (const a of this.#engineRuns.values()) a.abort();
+    this.#engineRuns.clear();
+  }
+
+  /** Asks the document's engine for a run; the statement is cancelled if the run is stopped. */
+  #engineRequest(m: EngineRequest): void {
+    const reply = (answer: unknown) =>
+      this.#post({ op: "sandbox-answer", call: m.call, answer } as ToWorker);
+    if (this.#engine === null) {
+      reply({ ok: false, why: "cannot-start", message: "No database can be reached here", ms: 0 });
+      return;
+    }
+    let abort = this.#engineRuns.get(m.id);
+    if (abort === undefined) this.#engineRuns.set(m.id, abort = new AbortController());
+    const asked = m.ask === "rows"
+      ? this.#engine.rows(m.db, m.sql, m.maxRows, abort.signal)
+      : this.#engine.rfactor(m.db, m.sql, abort.signal);
+    asked.then(reply);
   }
 
   #receive(m: FromWorker): void {
     if (m.op === "sandbox") return this.#sandbox(m);
+    if (m.op === "engine") return this.#engineRequest(m);
     if (m.op === "helper-used") {
       this.#helper = null; // it closes itself when done
       return;
@@ -191,6 +218,7 @@ export class ComputeWorker {
       return;
     }
     this.#pending.delete(m.id);
+    this.#engineRuns.delete(m.id);
     if (m.ok) this.#outputs.add(p.key);
     p.resolve(m);
   }

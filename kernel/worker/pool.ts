@@ -17,6 +17,7 @@
  *
  * @module
  */
+import type { EngineClient } from "../engine/client.ts";
 import { ComputeWorker } from "./client.ts";
 
 /**
@@ -52,11 +53,12 @@ export class WorkerPool {
   /**
    * @param url The worker entry module.
    * @param size How many workers (at least 1).
+   * @param engine The document's database access, shared by the workers (null: none).
    */
-  constructor(url: URL, size: number = defaultWorkers()) {
+  constructor(url: URL, size: number = defaultWorkers(), engine: EngineClient | null = null) {
     this.workers = Array.from(
       { length: Math.max(1, Math.floor(size)) },
-      () => new ComputeWorker(url),
+      () => new ComputeWorker(url, engine),
     );
     for (const w of this.workers) this.#load.set(w, 0);
   }

@@ -14,6 +14,8 @@
  *   │ cancel {ids}  (runs not yet started: answered as cancelled)      ──▶
  *   │ ◀── sandbox {id, call, check | job}  (user code: the main thread starts the process)
  *   │ sandbox-answer {call, answer}                                    ──▶
+ *   │ ◀── engine {id, call, ask, db, sql, maxRows}  (a database statement: the main thread asks)
+ *   │ sandbox-answer {call, answer}                                    ──▶
  * ```
  *
  * Runs are answered in the order they were sent, so the kernel may send a
@@ -43,6 +45,7 @@
 import type { DocSettings, OptionPath } from "../contract/mod.ts";
 import { isMovable, ROWS_TYPED_FROM } from "../arrays.ts";
 import type { CheckAnswer, IsolateAnswer, IsolateJob } from "../sandbox/mod.ts";
+import type { DatabaseRef, EngineAnswer, EngineRFactor, EngineRows } from "../engine/types.ts";
 
 /** Run one cell. */
 export interface RunRequest {
@@ -158,11 +161,27 @@ export interface SandboxRequest {
   job?: IsolateJob;
 }
 
-/** The main thread's answer to a {@link SandboxRequest}. */
+/**
+ * A run's request to a database engine (`RunContext.engine`): the worker has
+ * no permission to start the engine's process or reach a server; the main
+ * thread has (kernel/engine). `id` is the run's, so stopping the run cancels
+ * the statement.
+ */
+export interface EngineRequest {
+  op: "engine";
+  id: number;
+  call: number;
+  ask: "rows" | "rfactor";
+  db: DatabaseRef;
+  sql: string;
+  maxRows: number;
+}
+
+/** The main thread's answer to a {@link SandboxRequest} or an {@link EngineRequest}. */
 export interface SandboxAnswerMessage {
   op: "sandbox-answer";
   call: number;
-  answer: CheckAnswer | IsolateAnswer;
+  answer: CheckAnswer | IsolateAnswer | EngineAnswer<EngineRows> | EngineAnswer<EngineRFactor>;
 }
 
 /**
@@ -266,7 +285,8 @@ export type FromWorker =
   | ProgressMessage
   | OutputMessage
   | HelperUsedMessage
-  | SandboxRequest;
+  | SandboxRequest
+  | EngineRequest;
 
 /**
  * An answer given without a result of the cell's own: a run cancelled before
