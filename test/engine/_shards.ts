@@ -138,6 +138,18 @@ function repointServers(shards: Cluster[]): string {
     .join("");
 }
 
+/** Whether the shards' tables hold their halves of `rows`. */
+async function shardsHold(shards: Cluster[], rows: number): Promise<boolean> {
+  const half = firstPartRows(rows);
+  const counts = await Promise.all(shards.map((sh, i) =>
+    sh.psql(
+      `SELECT count(*) FROM readings_s${i + 1}`,
+      "plumb",
+    ).catch(() => "")
+  ));
+  return Number(counts[0]) === half && Number(counts[1]) === rows - half;
+}
+
 /** What a kept folder must hold to be reused. */
 function keptMarker(rows: number, seed: number): string {
   return JSON.stringify({ layout: LAYOUT, rows, seed });
@@ -170,6 +182,7 @@ export async function startShardedEngine(options: ShardedEngineOptions): Promise
   }
   const names = ["coordinator", "shard1", "shard2"];
   const dirs = names.map((n) => folder === undefined ? undefined : join(folder, n));
+  for (const dir of dirs) if (dir !== undefined) await Deno.mkdir(dir, { recursive: true });
   // Tables made by CREATE TABLE AS in one transaction need no WAL at this level.
   const loadSettings = ["wal_level = minimal", "max_wal_senders = 0"];
   const started = await Promise.allSettled(
@@ -183,6 +196,12 @@ export async function startShardedEngine(options: ShardedEngineOptions): Promise
     const [coordinator, ...shards] = clusters;
     let loadMs: number | null = null;
     if (reuse) {
+      if (!await shardsHold(shards, rows)) {
+        // Kept folders that lost rows (a load or a disk interrupted): make them again.
+        await stop();
+        await Deno.remove(join(folder!, "readings.json"));
+        return startShardedEngine(options);
+      }
       await coordinator.psql(repointServers(shards), "plumb");
     } else {
       const t0 = performance.now();
