@@ -129,6 +129,18 @@ Deno.test({
       );
 
       await t.step(
+        "a WHERE of built-in operators travels to the shards with the sums",
+        async () => {
+          const plan = await engine.explain(
+            "SELECT part, count(*), sum(x1) FROM (SELECT part, x1 FROM readings " +
+              "WHERE x1 > 1 AND ln(x2) < 2) q GROUP BY part",
+          );
+          assertPushed(plan);
+          equal(plan.match(/Remote SQL: .* WHERE .*ln\(x2\).* GROUP BY/g)?.length, 2, plan);
+        },
+      );
+
+      await t.step(
         "the fit's passes (derived columns, a filter, an alias of part) are pushed",
         async () => {
           for (const sql of fitPassesSql()) assertPushed(await engine.explain(sql));
