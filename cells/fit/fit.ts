@@ -10,6 +10,7 @@ import type { ModelUnits } from "../../kernel/units/mod.ts";
 import type { FitStatistics } from "./_statistics.ts";
 import type { Weighting } from "./_weighting.ts";
 import type { DesignFactor } from "./problem.ts";
+import type { InEngineRecord } from "./_in_engine.ts";
 
 /** A fitted model with everything downstream cells need to judge and use it. */
 export interface Fit extends CellOutput {
@@ -72,4 +73,9 @@ export interface Fit extends CellOutput {
   iterations: number;
   /** Per parameter: it ended on a bound (nonlinear fits with limits); absent otherwise. */
   atBound?: boolean[];
+  /**
+   * When a database computed the fit's sums (a table kept in its engine):
+   * where each number came from. The per-row arrays are then empty.
+   */
+  inEngine?: InEngineRecord;
 }

@@ -16,6 +16,7 @@
  * @module
  */
 import type { Fit } from "./fit.ts";
+import type { InEngineRecord } from "./_in_engine.ts";
 import type { Weighting } from "./_weighting.ts";
 import { plainArray, rowValues } from "../../kernel/arrays.ts";
 
@@ -109,6 +110,10 @@ export interface FitResult {
    * excluded, and rows of weight 0, are not in it.
    */
   rows_missing: number[];
+  /** RUN-JSON addition: true when a database computed the fit's sums. */
+  in_engine: boolean;
+  /** With `in_engine`: the engine, the route (sums or QR), κ, what was computed where. */
+  in_engine_detail?: InEngineRecord;
   /** RUN-JSON addition: the unit of sigma, fitted values and residuals (the response's as written); null when none. */
   sigma_unit: string | null;
   converged: boolean;
@@ -202,6 +207,8 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
     condition_number: num(fit.conditionNumber),
     ...perRow,
     rows_missing: plainArray(fit.rowsMissing ?? []),
+    in_engine: fit.inEngine !== undefined,
+    ...(fit.inEngine === undefined ? {} : { in_engine_detail: fit.inEngine }),
     sigma_unit: fit.units?.response ?? null,
     converged: fit.converged,
     iterations: fit.iterations,

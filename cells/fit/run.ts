@@ -18,7 +18,8 @@ import { isLinearIn } from "../../kernel/expr/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
 import { nearest } from "../../kernel/suggest.ts";
 import { quotedList } from "../../kernel/linalg/mod.ts";
-import type { RunContext, Table } from "../../kernel/contract/mod.ts";
+import type { RunContext, Table, TableInEngine } from "../../kernel/contract/mod.ts";
+import { solveInEngine } from "./_in_engine.ts";
 import type { FitSpec } from "./spec.ts";
 import type { Fit } from "./fit.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";
@@ -40,8 +41,9 @@ import { type ModelUnits, modelUnits } from "../../kernel/units/mod.ts";
  *   text), too few rows, aliased terms, a model that is not finite at the
  *   start, or a nonlinear fit that does not converge.
  */
-export function runFit(spec: FitSpec, ctx: RunContext): Fit {
+export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
   const table = tableInput(spec, ctx);
+  if (table.database?.kept) return runFitInEngine(spec, ctx, table as InEngineTable);
   const weighted = applyWeighting(
     buildProblem(ctx.name, spec, table, ctx.warn),
     spec,
@@ -111,6 +113,74 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit {
     converged: solution.converged,
     iterations: solution.iterations,
     ...(solution.atBound ? { atBound: solution.atBound } : {}),
+  };
+}
+
+type InEngineTable = Table & { database: TableInEngine };
+
+/**
+ * A linear fit on a table kept in its database: sums computed there
+ * (_in_engine.ts), no per-row values in the result.
+ */
+async function runFitInEngine(spec: FitSpec, ctx: RunContext, table: InEngineTable): Promise<Fit> {
+  const problem = buildProblem(ctx.name, spec, table, ctx.warn);
+  const { model } = problem;
+  if (model.parameters.length === 0) {
+    throw new CellError(`Cannot fit "${ctx.name}": the model has no parameters to estimate`, [
+      "model",
+    ], model.rhs.start);
+  }
+  if (!isLinearIn(model.rhs, model.parameters)) {
+    throw new CellError(
+      `Cannot fit "${ctx.name}" in the database: the model is not linear in its parameters, and table "${spec.on}" keeps its ${table.database.rowsInEngine} rows there; a nonlinear fit needs the rows in memory: narrow the query to at most 1,000,000 rows`,
+      ["model"],
+    );
+  }
+  const weightsText = spec.weights ?? spec.knownSigma;
+  if (weightsText !== undefined) {
+    throw new CellError(
+      `Cannot fit "${ctx.name}" in the database with weights yet: table "${spec.on}" keeps its rows there; narrow the query to at most 1,000,000 rows to fit it weighted`,
+      [spec.weights !== undefined ? "weights" : "known_sigma"],
+    );
+  }
+  const { solution, n, record } = await solveInEngine(problem, table, ctx);
+  for (const w of model.warnings) ctx.warn(w.message);
+  const units = unitsOf(ctx.name, model, table);
+  for (const w of units.warnings) ctx.warn(w.message);
+  warnUnused(spec, ctx);
+  const sized = { ...problem, n, seed: ctx.settings.seed, warn: ctx.warn };
+  const statistics = fitStatistics(sized, solution, {
+    confidence: ctx.settings.confidence,
+    weighting: "none",
+    countVariance: spec.countVariance !== false,
+  }, ctx.warn);
+  if (record.note !== null) ctx.warn(`Fit "${ctx.name}": ${record.note}`);
+  return {
+    type: "Fit",
+    method: "linear",
+    on: spec.on,
+    model,
+    responseText: model.text.slice(model.response.start, model.response.end),
+    weighted: false,
+    weighting: "none",
+    weights: null,
+    parameters: model.parameters,
+    units,
+    estimates: solution.estimates,
+    unscaledCovariance: solution.unscaledCovariance,
+    statistics,
+    columns: problem.columns,
+    y: problem.y,
+    fitted: solution.fitted,
+    residuals: solution.residuals,
+    rows: problem.rows,
+    design: solution.design,
+    offset: null,
+    hasIntercept: solution.hasIntercept,
+    conditionNumber: solution.conditionNumber,
+    converged: true,
+    iterations: 0,
+    inEngine: record,
   };
 }
 

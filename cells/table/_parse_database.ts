@@ -18,6 +18,8 @@ export interface DatabaseSource {
   /** The query as written (trimmed). */
   query: string;
   partitionBy: string | null;
+  /** Where the rows are kept: memory up to LOAD_ROWS (auto), or always one place. */
+  keep: "auto" | "memory" | "database";
 }
 
 /** File-reading options that a query replaces. */
@@ -48,7 +50,7 @@ export function parseDatabaseSource(
   name: string,
 ): DatabaseSource | null {
   if (o.database === undefined || o.database === null) {
-    for (const key of ["query", "partition_by"]) {
+    for (const key of ["query", "partition_by", "keep_rows"]) {
       if (o[key] !== undefined) {
         throw new CellError(
           `Option "${key}" goes with database: name the database the query runs in`,
@@ -83,7 +85,17 @@ export function parseDatabaseSource(
     database: parseDatabase(o.database),
     query: parseQuery(o.query),
     partitionBy: parsePartitionBy(o.partition_by),
+    keep: parseKeep(o.keep_rows),
   };
+}
+
+function parseKeep(v: unknown): DatabaseSource["keep"] {
+  if (v === undefined || v === null) return "auto";
+  if (v === "auto" || v === "memory" || v === "database") return v;
+  throw new CellError(
+    `Option "keep_rows" is auto, memory or database, not ${JSON.stringify(v)}`,
+    ["keep_rows"],
+  );
 }
 
 function parseDatabase(v: unknown): DatabaseRef {

@@ -89,10 +89,10 @@ export async function readDatabaseTable(spec: TableSpec, ctx: RunContext): Promi
   );
   const n = numberAt(print.columns, "n");
   const fingerprint = `${n}:${textAt(print.columns, "h") ?? "empty"}`;
-  const kept = n > LOAD_ROWS;
+  const kept = src.keep === "database" || (src.keep === "auto" && n > LOAD_ROWS);
   const columns = kept
     ? await keptColumns(engine, spec, ctx)
-    : typedColumns(engineValue(await engine.rows(src.database, src.query, LOAD_ROWS), ctx), spec);
+    : typedColumns(engineValue(await engine.rows(src.database, src.query, n), ctx), spec);
   checkUnits(spec.units, columns.map((c) => c.name));
   if (src.partitionBy !== null && !columns.some((c) => c.name === src.partitionBy)) {
     throw new CellError(

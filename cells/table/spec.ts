@@ -87,6 +87,13 @@ export const TABLE_OPTIONS: OptionDecls = {
       "a database to query instead of a file: a DuckDB file beside the document, or { url_from: VARIABLE } for PostgreSQL",
   },
   query: { type: "text", doc: "with database: one SELECT giving the table's rows" },
+  keep_rows: {
+    type: "choice",
+    doc:
+      "with database: where the rows stay: auto (in memory up to 1,000,000 rows), memory, or database",
+    default: "auto",
+    choices: ["auto", "memory", "database"],
+  },
   partition_by: {
     type: "text",
     doc: "with database: the column the database partitions the table by (sums per partition)",

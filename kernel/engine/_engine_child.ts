@@ -453,3 +453,5 @@ if (mode === "probe") {
 } else if (mode === "postgres") {
   await serve(() => postgres(target));
 }
+// Plumb closed the pipe: the connection's socket would keep this process alive.
+Deno.exit(0);

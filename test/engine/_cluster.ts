@@ -32,6 +32,14 @@ export interface Cluster {
   stop(): Promise<void>;
 }
 
+/** A loopback port nobody listens on now (the system's choice). */
+export function freePort(): number {
+  const l = Deno.listen({ hostname: "127.0.0.1", port: 0 });
+  const port = (l.addr as Deno.NetAddr).port;
+  l.close();
+  return port;
+}
+
 async function asPostgres(args: string[], input?: string): Promise<string> {
   const cmd = new Deno.Command("runuser", {
     args: ["-u", "postgres", "--", ...args],
@@ -58,7 +66,7 @@ async function asPostgres(args: string[], input?: string): Promise<string> {
  * Starts a cluster on 127.0.0.1:`port` with role `plumb` (password
  * `password`) owning database `plumb`.
  *
- * @param port The port.
+ * @param port The port (0: a free one).
  * @param options `password` of the role (default "plumb-test"), `dir` to keep the data folder
  *   (reused when it holds a cluster already), `settings` lines added to postgresql.conf.
  * @returns The cluster.
@@ -67,6 +75,7 @@ export async function startCluster(
   port: number,
   options: { password?: string; dir?: string; settings?: string[] } = {},
 ): Promise<Cluster> {
+  if (port === 0) port = freePort();
   const password = options.password ?? "plumb-test";
   const dir = options.dir ?? await Deno.makeTempDir({ prefix: "plumb-pg-" });
   const data = join(dir, "data");
