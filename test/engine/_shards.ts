@@ -8,13 +8,19 @@
  *   readings (id, part, x1…x5, y)  PARTITION BY LIST (part)
  *     ├─ readings_p1  FOREIGN TABLE, part = 1 ──postgres_fdw──▶ shard1 :basePort+1  readings_s1
  *     └─ readings_p2  FOREIGN TABLE, part = 2 ──postgres_fdw──▶ shard2 :basePort+2  readings_s2
- *   ALTER DATABASE plumb SET enable_partitionwise_aggregate = on, enable_async_append = on
+ *   ALTER DATABASE plumb SET enable_partitionwise_aggregate = on, enable_async_append = on,
+ *                            cursor_tuple_fraction = 1
  * ```
  *
  * With those settings a query that groups by `part` has each partition's
  * aggregate computed whole on its shard (EXPLAIN VERBOSE: an Async Foreign
  * Scan, "Relations: Aggregate on (…)"); PostgreSQL 15's postgres_fdw
  * ships no partial aggregate, so without the GROUP BY the rows travel.
+ * Plumb reads every answer through a cursor, which the planner otherwise
+ * plans for its first tenth (cursor_tuple_fraction = 0.1): then a plan that
+ * sorts the rows on the shards and adds them on the coordinator can look
+ * cheaper than the sums on the shards. Remote estimates
+ * (use_remote_estimate) give the planner the shards' own row counts.
  *
  * Every server has a role `plumb_reader` that may only SELECT the readings
  * (the coordinator's user mapping logs in to the shards as it). The rows
@@ -35,7 +41,7 @@ const READER_PASSWORD = "reader-only-7";
  * Bumped whenever the formula or the schema changes, so kept data made
  * before is not taken for current.
  */
-const LAYOUT = "readings-v1";
+const LAYOUT = "readings-v2";
 
 /** A running sharded engine. */
 export interface ShardedEngine {
@@ -49,6 +55,8 @@ export interface ShardedEngine {
   loadMs: number | null;
   /** The data folders of the coordinator and the shards. */
   dirs: string[];
+  /** The shards' server logs (each statement they ran, with `logStatements`). */
+  shardLogs(): Promise<string[]>;
   /** EXPLAIN (VERBOSE) of `sql` on the coordinator, as the read-only role sees it. */
   explain(sql: string): Promise<string>;
   stop(): Promise<void>;
@@ -68,6 +76,8 @@ export interface ShardedEngineOptions {
    * otherwise. Without it the clusters are temporary and removed on stop.
    */
   keepIn?: string;
+  /** Have every server log each statement it runs (for a new cluster only). */
+  logStatements?: boolean;
 }
 
 /**
@@ -116,7 +126,7 @@ function coordinatorSetup(shards: Cluster[]): string {
   const servers = shards.map((sh, i) =>
     `CREATE SERVER shard${i + 1} FOREIGN DATA WRAPPER postgres_fdw OPTIONS (` +
     `host '127.0.0.1', port '${sh.port}', dbname 'plumb', ` +
-    `async_capable 'true', fetch_size '10000');\n` +
+    `async_capable 'true', fetch_size '10000', use_remote_estimate 'true');\n` +
     `CREATE USER MAPPING FOR PUBLIC SERVER shard${i + 1} OPTIONS (` +
     `user 'plumb_reader', password '${READER_PASSWORD}');\n` +
     `CREATE FOREIGN TABLE readings_p${i + 1} PARTITION OF readings FOR VALUES IN (${i + 1}) ` +
@@ -129,7 +139,8 @@ function coordinatorSetup(shards: Cluster[]): string {
     servers +
     `GRANT SELECT ON readings TO plumb_reader;\n` +
     `ALTER DATABASE plumb SET enable_partitionwise_aggregate = on;\n` +
-    `ALTER DATABASE plumb SET enable_async_append = on;\n`;
+    `ALTER DATABASE plumb SET enable_async_append = on;\n` +
+    `ALTER DATABASE plumb SET cursor_tuple_fraction = 1;\n`;
 }
 
 /** Points the foreign servers at the shards' ports (kept data may have been made on others). */
@@ -184,9 +195,10 @@ export async function startShardedEngine(options: ShardedEngineOptions): Promise
   const dirs = names.map((n) => folder === undefined ? undefined : join(folder, n));
   for (const dir of dirs) if (dir !== undefined) await Deno.mkdir(dir, { recursive: true });
   // Tables made by CREATE TABLE AS in one transaction need no WAL at this level.
-  const loadSettings = ["wal_level = minimal", "max_wal_senders = 0"];
+  const settings = ["wal_level = minimal", "max_wal_senders = 0"];
+  if (options.logStatements) settings.push("log_statement = 'all'");
   const started = await Promise.allSettled(
-    dirs.map((dir, i) => startCluster(options.basePort + i, { dir, settings: loadSettings })),
+    dirs.map((dir, i) => startCluster(options.basePort + i, { dir, settings })),
   );
   const clusters = started.flatMap((s) => s.status === "fulfilled" ? [s.value] : []);
   const stop = () => Promise.all(clusters.map((c) => c.stop())).then(() => {});
@@ -219,6 +231,7 @@ export async function startShardedEngine(options: ShardedEngineOptions): Promise
       rows,
       loadMs,
       dirs: clusters.map((c) => c.dir),
+      shardLogs: () => Promise.all(shards.map((sh) => Deno.readTextFile(join(sh.dir, "log")))),
       explain: async (sql) =>
         (await queryRows(url, `EXPLAIN (VERBOSE) ${sql}`)).map((r) => String(r[0])).join("\n"),
       stop,
