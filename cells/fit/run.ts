@@ -181,6 +181,9 @@ async function runFitInEngine(spec: FitSpec, ctx: RunContext, table: InEngineTab
     converged: true,
     iterations: 0,
     inEngine: record,
+    keptIn: `it was fitted in the database, and its ${
+      n.toLocaleString("en-US")
+    } rows and residuals stay there`,
   };
 }
 

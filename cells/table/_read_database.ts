@@ -112,6 +112,7 @@ export async function readDatabaseTable(spec: TableSpec, ctx: RunContext): Promi
     sha256: null,
     source: null,
     rowsFiltered: 0,
+    ...(kept ? { keptIn: `its ${n.toLocaleString("en-US")} rows stay in the database` } : {}),
     database: {
       ref: src.database,
       query: src.query,

@@ -156,6 +156,11 @@ export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R
   parse(ctx: ParseContext): Spec;
   /** The cells this one reads. */
   inputs(spec: Spec): InputRef[];
+  /**
+   * True when `run` can read inputs whose rows stay in a database
+   * (`CellOutput.keptIn`); other kinds are refused such inputs, in a sentence.
+   */
+  readsKept?: boolean;
   /** The data files this one reads (optional). */
   files?(spec: Spec): FileRef[];
   /**

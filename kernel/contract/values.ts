@@ -30,6 +30,13 @@ export type OutputType =
 /** Base of every cell output. */
 export interface CellOutput {
   type: OutputType;
+  /**
+   * Set when the output's rows stay in a database (a table kept in its
+   * engine, a fit computed there): what to say to a kind that needs rows,
+   * e.g. `its 20,000,000 rows stay in the database`. Only kinds with
+   * `readsKept` are given such an input.
+   */
+  keptIn?: string;
 }
 
 /** A reference from one cell to another, found by a kind's `inputs`. */

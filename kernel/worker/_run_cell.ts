@@ -185,6 +185,19 @@ export async function runCell(
     return done(false, { error: { message: gathered, internal: true } });
   }
   let lastProgress = -Infinity;
+  if (!kind.readsKept) {
+    for (const [name, input] of Object.entries(gathered.inputs)) {
+      const kept = (input as CellOutput | undefined)?.keptIn;
+      if (kept === undefined) continue;
+      return done(false, {
+        error: {
+          message:
+            `A ${req.kind} cell cannot read "${name}": ${kept}, and a ${req.kind} cell needs them here. Narrow the table's query, or give it keep_rows: memory (up to what memory holds)`,
+          internal: false,
+        },
+      });
+    }
+  }
   try {
     const out = await kind.run(req.spec, {
       name: req.name,
