@@ -16,7 +16,7 @@
  * @module
  */
 import type { Fit } from "./fit.ts";
-import type { InEngineRecord } from "./_in_engine.ts";
+import type { InEngineRecord } from "./_engine_fit.ts";
 import type { Weighting } from "./_weighting.ts";
 import { plainArray, rowValues } from "../../kernel/arrays.ts";
 
@@ -110,8 +110,11 @@ export interface FitResult {
    * excluded, and rows of weight 0, are not in it.
    */
   rows_missing: number[];
-  /** RUN-JSON addition: true when a database computed the fit's sums. */
-  in_engine: boolean;
+  /**
+   * RUN-JSON addition: true when a database computed the fit's sums; always
+   * present in RUN-JSON (optional here for results written by hand).
+   */
+  in_engine?: boolean;
   /** With `in_engine`: the engine, the route (sums or QR), κ, what was computed where. */
   in_engine_detail?: InEngineRecord;
   /** RUN-JSON addition: the unit of sigma, fitted values and residuals (the response's as written); null when none. */

@@ -115,12 +115,12 @@ export async function solveInEngine(
   }
   const { model } = problem;
   const db = table.database;
-  const columns = new Set(table.columns.map((c) => c.name));
+  const columns = new Map(table.columns.map((c) => [c.name, c.type] as const));
   const params = model.parameters;
   const p = params.length;
   const sql = (e: Expr, what: string) => {
-    const s = toSql(simplify(e), columns);
-    if ("why" in s) {
+    const s = toSql(simplify(e), columns, db.ref.engine);
+    if (s.sql === null) {
       throw new CellError(
         `Cannot fit in the database: ${what} has no SQL form (${s.why}); compute it in the query instead`,
         ["model"],
