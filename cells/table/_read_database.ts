@@ -33,17 +33,54 @@ export function quoteName(name: string): string {
 
 /**
  * The SQL giving a query's row count and an order-free hash of its rows
- * (a sum of row hashes, exact in both engines' wide integers).
+ * (a sum of row hashes, exact in both engines' wide integers). With a
+ * partition column, per partition (one row each, added up by
+ * {@link combineFingerprint}), from per-column hashes PostgreSQL can compute
+ * on each shard (a row's text is not: its form depends on session settings).
  *
  * @param engine The dialect.
  * @param query The user's query (already checked).
- * @returns One row: n (number), h (text).
+ * @param columns The query's columns (names and types), for the per-column form.
+ * @param partitionBy The partition column, or null.
+ * @returns Rows of n (number) and h (text).
  */
-export function fingerprintSql(engine: DatabaseRef["engine"], query: string): string {
-  const hash = engine === "duckdb"
-    ? "CAST(sum(CAST(hash(plumb_q) AS HUGEINT)) AS VARCHAR)"
-    : "CAST(sum(hashtextextended(CAST(plumb_q AS text), 0)) AS text)";
-  return `SELECT count(*) AS n, ${hash} AS h FROM (${query}) AS plumb_q`;
+export function fingerprintSql(
+  engine: DatabaseRef["engine"],
+  query: string,
+  columns: readonly { name: string; type: "number" | "text" }[],
+  partitionBy: string | null,
+): string {
+  let hash: string;
+  if (engine === "duckdb") hash = "CAST(sum(CAST(hash(plumb_q) AS HUGEINT)) AS VARCHAR)";
+  else if (partitionBy === null || columns.length === 0) {
+    hash = "CAST(sum(hashtextextended(CAST(plumb_q AS text), 0)) AS text)";
+  } else {
+    const one = columns.map((c, j) =>
+      c.type === "number"
+        ? `coalesce(hashfloat8extended(CAST(${quoteName(c.name)} AS float8), ${j}), 0)`
+        : `coalesce(hashtextextended(CAST(${quoteName(c.name)} AS text), ${j}), 0)`
+    ).join(" # ");
+    hash = `CAST(sum(${one}) AS text)`;
+  }
+  const group = partitionBy === null ? "" : ` GROUP BY ${quoteName(partitionBy)}`;
+  return `SELECT count(*) AS n, ${hash} AS h FROM (${query}) AS plumb_q${group}`;
+}
+
+/** The row count and hash of a fingerprint's rows (one, or one per partition). */
+export function combineFingerprint(columns: EngineColumn[]): { n: number; hash: string } {
+  const n = columns.find((c) => c.name === "n");
+  const h = columns.find((c) => c.name === "h");
+  let rows = 0;
+  let hash = 0n;
+  const count = n?.values.length ?? 0;
+  for (let i = 0; i < count; i++) {
+    rows += Number(n!.values[i]);
+    const v = h?.values[i];
+    if (v !== null && v !== undefined && !(typeof v === "number" && Number.isNaN(v))) {
+      hash += BigInt(String(v).replace(/\.0*$/, ""));
+    }
+  }
+  return { n: rows, hash: count === 0 ? "empty" : String(hash) };
 }
 
 /** Where an engine's refusal belongs: the connection on `database`, the statement on `query`. */
@@ -83,23 +120,31 @@ export async function readDatabaseTable(spec: TableSpec, ctx: RunContext): Promi
       "database",
     ]);
   }
-  const print = engineValue(
-    await engine.rows(src.database, fingerprintSql(src.database.engine, src.query), 1),
+  const head = engineValue(
+    await engine.rows(src.database, `SELECT * FROM (${src.query}) AS plumb_q LIMIT 0`, 0),
     ctx,
   );
-  const n = numberAt(print.columns, "n");
-  const fingerprint = `${n}:${textAt(print.columns, "h") ?? "empty"}`;
-  const kept = src.keep === "database" || (src.keep === "auto" && n > LOAD_ROWS);
-  const columns = kept
-    ? await keptColumns(engine, spec, ctx)
-    : typedColumns(engineValue(await engine.rows(src.database, src.query, n), ctx), spec);
-  checkUnits(spec.units, columns.map((c) => c.name));
-  if (src.partitionBy !== null && !columns.some((c) => c.name === src.partitionBy)) {
+  if (src.partitionBy !== null && !head.columns.some((c) => c.name === src.partitionBy)) {
     throw new CellError(
       `partition_by names "${src.partitionBy}", which is not a column of the query`,
       ["partition_by"],
     );
   }
+  const print = engineValue(
+    await engine.rows(
+      src.database,
+      fingerprintSql(src.database.engine, src.query, head.columns, src.partitionBy),
+      100_000,
+    ),
+    ctx,
+  );
+  const { n, hash } = combineFingerprint(print.columns);
+  const fingerprint = `${n}:${hash}`;
+  const kept = src.keep === "database" || (src.keep === "auto" && n > LOAD_ROWS);
+  const columns = kept
+    ? await keptColumns(engine, spec, head.columns, ctx)
+    : typedColumns(engineValue(await engine.rows(src.database, src.query, n), ctx), spec);
+  checkUnits(spec.units, columns.map((c) => c.name));
   const rows = new Int32Array(kept ? 0 : n);
   for (let i = 0; i < rows.length; i++) rows[i] = i + 1;
   ctx.progress(1);
@@ -124,15 +169,12 @@ export async function readDatabaseTable(spec: TableSpec, ctx: RunContext): Promi
   };
 }
 
+/** A column's sum over the answer's rows (one, or one per partition). */
 function numberAt(columns: EngineColumn[], name: string): number {
   const c = columns.find((c) => c.name === name);
-  return c?.type === "number" ? c.values[0] : Number(c?.values[0] ?? 0);
-}
-
-function textAt(columns: EngineColumn[], name: string): string | null {
-  const c = columns.find((c) => c.name === name);
-  if (c === undefined || c.values.length === 0) return null;
-  return c.type === "text" ? c.values[0] : String(c.values[0]);
+  let s = 0;
+  for (const v of c?.values ?? []) s += Number(v ?? 0);
+  return s;
 }
 
 /** The engine's columns as the table's, with units and forced types. */
@@ -178,24 +220,23 @@ function countNull(values: (string | null)[]): number {
 async function keptColumns(
   engine: EngineAccess,
   spec: TableSpec,
+  head: readonly EngineColumn[],
   ctx: RunContext,
 ): Promise<Column[]> {
   const src = spec.source!;
-  const head = engineValue(
-    await engine.rows(src.database, `SELECT * FROM (${src.query}) AS plumb_q LIMIT 0`, 0),
-    ctx,
-  );
-  const counts = head.columns.map((c, i) => `count(${quoteName(c.name)}) AS c${i}`);
+  const counts = head.map((c, i) => `count(${quoteName(c.name)}) AS c${i}`);
+  // Per partition where there is one, so each shard counts its own rows.
+  const group = src.partitionBy === null ? "" : ` GROUP BY ${quoteName(src.partitionBy)}`;
   const got = counts.length === 0 ? null : engineValue(
     await engine.rows(
       src.database,
-      `SELECT count(*) AS n, ${counts.join(", ")} FROM (${src.query}) AS plumb_q`,
-      1,
+      `SELECT count(*) AS n, ${counts.join(", ")} FROM (${src.query}) AS plumb_q${group}`,
+      100_000,
     ),
     ctx,
   );
   const n = got === null ? 0 : numberAt(got.columns, "n");
-  return head.columns.map((c, i): Column => {
+  return head.map((c, i): Column => {
     const unit = ownValue(spec.units, c.name) ?? null;
     const missing = got === null ? 0 : n - numberAt(got.columns, `c${i}`);
     const forced = ownValue(spec.types, c.name);

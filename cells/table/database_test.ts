@@ -23,6 +23,7 @@ Deno.test("a database table: a DuckDB file beside the document or a PostgreSQL U
     database: { engine: "duckdb", file: "plant.duckdb" },
     query: "SELECT cycle, capacity FROM cells",
     partitionBy: null,
+    keep: "auto",
   });
   assert.deepEqual(duck.units, { capacity: "mAh" });
   const pg = tableKind.parse(parseCtx({

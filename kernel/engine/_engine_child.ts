@@ -286,6 +286,9 @@ async function postgres(variable: string): Promise<Connection> {
   ) => {
     try {
       await client.query("BEGIN READ ONLY");
+      // Plan the cursor for all its rows (the default plans for a tenth): on a sharded engine the
+      // sums are then pushed to the shards rather than added on the coordinator.
+      await client.query("SET LOCAL cursor_tuple_fraction = 1");
       await client.query(CURSOR + sql);
       const out = await body((n) =>
         client.query({ text: `FETCH ${n} FROM plumb_c`, rowMode: "array" })

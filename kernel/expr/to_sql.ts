@@ -82,9 +82,9 @@ export const EXP_ZERO = -745.1332191019412;
  */
 const FORMS: Record<string, (a: string[], nullable: boolean) => string> = {
   exp: ([x]) =>
-    `CASE WHEN ${x} > ${sqlNumber(EXP_MAX)} THEN NULL WHEN ${x} <= ${
-      sqlNumber(EXP_ZERO)
-    } THEN ${sqlNumber(0)} ELSE exp(${x}) END`,
+    `CASE WHEN ${x} > ${sqlNumber(EXP_MAX)} THEN NULL WHEN ${x} <= ${sqlNumber(EXP_ZERO)} THEN ${
+      sqlNumber(0)
+    } ELSE exp(${x}) END`,
   log: ([x]) => `CASE WHEN ${x} > ${sqlNumber(0)} THEN ln(${x}) END`,
   log10: ([x]) => `CASE WHEN ${x} > ${sqlNumber(0)} THEN log10(${x}) END`,
   sqrt: ([x]) => `CASE WHEN ${x} >= ${sqlNumber(0)} THEN sqrt(${x}) END`,
