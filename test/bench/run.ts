@@ -71,6 +71,12 @@
  * `deno task bench --startup` measures only the two start-up figures and
  * prints them (a few seconds; bench-report.json is left as it is);
  * `deno task bench --calc` likewise the two calc figures (about 30 s).
+ * - `in_engine_fit_duckdb`, `in_engine_fit_sharded_postgres` (issue 18): a
+ *   linear fit of 1,000,000 and 10,000,000 rows × 5 predictors whose sums the
+ *   database computes, through `plumb run`: wall time and the peak resident
+ *   size of Plumb's own processes, which must not grow with the rows
+ *   (test/bench/engine.ts; data kept by test/bench/engine_data.ts).
+ *   `deno task bench --engine` runs these alone.
  *
  * While it runs, each step says on standard error what it measures and when
  * it started. At the end every figure with a target gets a line, `ok` or
@@ -91,6 +97,7 @@ import { recordExport } from "./record_export.ts";
 import { historyFigures } from "./history.ts";
 import { searchFigures } from "./search.ts";
 import { calcFigures } from "./calc.ts";
+import { engineFigures } from "./engine.ts";
 import { MILLION, QUICK_ROWS, scaleFigures } from "./scale/scale.ts";
 
 const root = new URL("../../", import.meta.url);
@@ -283,6 +290,16 @@ if (Deno.args.includes("--startup")) {
   Deno.exit(0);
 }
 
+if (Deno.args.includes("--engine")) {
+  const figures = await step(
+    "engine: fits of 10,000,000 rows in DuckDB and on shards",
+    engineFigures,
+  );
+  console.log(JSON.stringify(figures, null, 2));
+  printMarks(targetMarks(figures));
+  Deno.exit(0);
+}
+
 if (Deno.args.includes("--calc")) {
   const figures = await step("calc: a calc cell's round trip and a first type check", calcFigures);
   console.log(JSON.stringify(figures, null, 2));
@@ -297,6 +314,7 @@ const startup = await step(
   () => startupFigures(root),
 );
 const calc = await step("calc: a calc cell's round trip and a first type check", calcFigures);
+const engine = await step("engine: fits of 10,000,000 rows in DuckDB and on shards", engineFigures);
 const updateTop = await step("update latency in Chromium, page top in view", () => updateLatency());
 const updateCharts = await step(
   "update latency in Chromium, charts in view",
@@ -338,6 +356,7 @@ const report = {
     update_latency_100k: update100k,
     ...startup,
     ...calc,
+    ...engine,
     certified_million: certified,
     many_cells: many,
     record_export: record,
