@@ -223,6 +223,8 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 
 /* Kind views: shared by the live page and the record. */
 .plumb-sha { margin-left: .75em; color: var(--muted); font-size: 12px; }
+.plumb-table-query { margin: .3rem 0; padding: .4rem .6rem; background: var(--wash); max-width: 100%;
+  white-space: pre-wrap; overflow-wrap: anywhere; font-size: 12.5px; }
 .pl-result table { border-collapse: collapse; font-size: 13px; font-variant-numeric: tabular-nums; margin: .35rem 0; }
 .pl-result th, .pl-result td { padding: .15rem .7rem .15rem 0; text-align: right; border-bottom: 1px solid var(--wash); }
 .pl-result thead th { font-weight: 600; color: var(--muted); border-bottom: 1px solid var(--rule); font-size: 12px; }

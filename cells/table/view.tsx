@@ -11,6 +11,33 @@ import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import { tableLine, type TableResult } from "./summary.ts";
 
 function Source({ r }: { r: TableResult }): VNode {
+  const d = r.database;
+  if (d !== undefined) {
+    // The record keeps the query and the result's fingerprint: a database has no file to hash.
+    return (
+      <div class="plumb-table-source">
+        <p>
+          {d.engine === "duckdb"
+            ? (
+              <>
+                DuckDB file <code>{d.file}</code>
+              </>
+            )
+            : (
+              <>
+                PostgreSQL at the URL in <code>{d.url_from}</code>
+              </>
+            )}
+          {d.kept && " · rows kept in the database"}
+          <span class="plumb-sha" title={`rows:hash ${d.fingerprint}`}>
+            fingerprint {d.fingerprint.slice(0, 24)}
+            {d.fingerprint.length > 24 ? "…" : ""}
+          </span>
+        </p>
+        <pre class="plumb-table-query"><code>{d.query}</code></pre>
+      </div>
+    );
+  }
   if (r.source === null) return <p class="plumb-table-source">Inline rows</p>;
   return (
     <p class="plumb-table-source">
