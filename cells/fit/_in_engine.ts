@@ -38,14 +38,8 @@
  *
  * @module
  */
-import { derivative, type Expr, format, type Model, simplify } from "../../kernel/expr/mod.ts";
-import {
-  type SqlColumns,
-  type SqlDialect,
-  sqlNumber as sqlLiteral,
-  toSql,
-} from "../../kernel/expr/to_sql.ts";
-import { quotedList, singularValues } from "../../kernel/linalg/mod.ts";
+import type { Expr, Model } from "../../kernel/expr/mod.ts";
+import type { SqlColumns, SqlDialect } from "../../kernel/expr/to_sql.ts";
 import type { BreuschPagan, BreuschPaganVariant } from "../../kernel/stats/mod.ts";
 import type {
   DatabaseRef,
@@ -53,20 +47,26 @@ import type {
   EngineAnswer,
   EngineRows,
 } from "../../kernel/engine/types.ts";
+import { CellError } from "../../kernel/errors.ts";
+import type { RunContext, Table, TableInEngine } from "../../kernel/contract/mod.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";
 import { type FitStatistics, fitStatistics } from "./_statistics.ts";
 import { likelihood } from "./_likelihood.ts";
-import { countRows } from "./_offsets.ts";
+import { type Centring, pass1, pass2, pass3, pass4, rfactorSql } from "./_in_engine_sql.ts";
+import { breuschPaganOfSums, choleskyUpper } from "./_in_engine_algebra.ts";
+import { type Design, design, Stop } from "./_in_engine_design.ts";
 import {
-  type Centring,
-  type FitSql,
-  pass1,
-  pass2,
-  pass3,
-  pass4,
-  rfactorSql,
-} from "./_in_engine_sql.ts";
-import { breuschPaganOfSums, choleskyUpper, invertUpper } from "./_in_engine_algebra.ts";
+  at,
+  centringOf,
+  checkCounts,
+  combined,
+  type Counts,
+  type Gram,
+  gramOf,
+  kappaOf,
+  type Solved,
+  solveFromR,
+} from "./_in_engine_solve.ts";
 
 /** u = 2⁻⁵³, the unit roundoff of doubles. */
 const U = 2 ** -53;
@@ -163,35 +163,6 @@ export type InEngineOutcome =
   | { ok: true; fit: InEngineFit }
   | { ok: false; cannot: "translate" | "engine" | "data"; why: string };
 
-class Stop extends Error {
-  constructor(readonly cannot: "translate" | "engine" | "data", why: string) {
-    super(why);
-  }
-}
-
-/** The linear model's parts: terms ∂f/∂θⱼ, the parameter-free part f(x; 0) (null when 0). */
-export function linearParts(model: Model): { terms: Expr[]; offset: Expr | null } {
-  const terms = model.parameters.map((p) => derivative(model.rhs, p));
-  const params = new Set(model.parameters);
-  const offset = simplify(zeroParameters(model.rhs, params));
-  return { terms, offset: offset.op === "num" && offset.value === 0 ? null : offset };
-}
-
-function zeroParameters(e: Expr, params: ReadonlySet<string>): Expr {
-  switch (e.op) {
-    case "num":
-      return e;
-    case "id":
-      return params.has(e.name) ? { op: "num", value: 0, start: e.start, end: e.end } : e;
-    case "neg":
-      return { ...e, arg: zeroParameters(e.arg, params) };
-    case "call":
-      return { ...e, args: e.args.map((a) => zeroParameters(a, params)) };
-    default:
-      return { ...e, left: zeroParameters(e.left, params), right: zeroParameters(e.right, params) };
-  }
-}
-
 /**
  * Fits a linear model to a query's rows inside the database.
  *
@@ -211,114 +182,6 @@ export async function fitInEngine(
     if (e instanceof Stop) return { ok: false, cannot: e.cannot, why: e.message };
     throw e;
   }
-}
-
-/** The design as SQL, with the constant term apart. */
-interface Design {
-  sql: FitSql;
-  p: number;
-  /** Index of the constant term among the parameters, or -1. */
-  constantAt: number;
-  /** Its value (1 for an intercept). */
-  constant: number;
-  /** Indexes of the varying terms among the parameters, in order. */
-  varying: number[];
-  /** Descriptions of the value columns (terms, target, response), for messages. */
-  labels: string[];
-}
-
-function design(req: InEngineRequest, dialect: SqlDialect): Design {
-  const { model, name } = req;
-  const { terms, offset } = linearParts(model);
-  const params = model.parameters;
-  const constants = terms.map((t, j) => (t.op === "num" ? j : -1)).filter((j) => j >= 0);
-  if (constants.length > 1) {
-    throw new Stop(
-      "data",
-      `Cannot fit "${name}": the terms of ${
-        quotedList(constants.map((j) => params[j]))
-      } are all constant, so they are aliased`,
-    );
-  }
-  const varying = params.map((_, j) => j).filter((j) => !constants.includes(j));
-  const used = new Set<string>();
-  const sql = (e: Expr, what: string) => {
-    const s = toSql(e, req.columns, dialect);
-    if (s.sql === null) {
-      throw new Stop(
-        "translate",
-        `Cannot fit "${name}" in the database: ${what} has no SQL (${s.why})`,
-      );
-    }
-    s.columns.forEach((c) => used.add(c));
-    return s.sql;
-  };
-  const termSql = varying.map((j) => sql(terms[j], `term "${format(terms[j])}" of "${params[j]}"`));
-  const written = model.text.slice(model.response.start, model.response.end);
-  const response = sql(model.response, `response "${written}"`);
-  const target = offset === null
-    ? response
-    : `(${response} - ${sql(offset, `the part of the model free of parameters`)})`;
-  const weight = req.weights ? sql(req.weights.expr, `weights "${req.weights.text}"`) : null;
-  for (const c of [req.order, req.partitionBy]) {
-    if (c != null && !req.columns.has(c)) {
-      throw new Stop(
-        "translate",
-        `Cannot fit "${name}" in the database: "${c}" is not a column of the query`,
-      );
-    }
-  }
-  return {
-    sql: {
-      dialect,
-      query: req.query,
-      columns: [...used],
-      terms: termSql,
-      target,
-      response: offset === null ? null : response,
-      weight,
-      order: req.order ?? null,
-      partitionBy: req.partitionBy ?? null,
-    },
-    p: params.length,
-    constantAt: constants.length === 1 ? constants[0] : -1,
-    constant: constants.length === 1 ? (terms[constants[0]] as { value: number }).value : 0,
-    varying,
-    labels: [
-      ...varying.map((j) => `term "${format(terms[j])}" of parameter "${params[j]}"`),
-      `response "${written}"${offset === null ? "" : " less the part free of parameters"}`,
-      ...(offset === null ? [] : [`response "${written}"`]),
-    ],
-  };
-}
-
-/** One answer's columns by name, the partitions' rows combined (summed; `max…` columns: max). */
-function combined(got: EngineRows): Map<string, number> {
-  const out = new Map<string, number>();
-  for (const c of got.columns) {
-    if (c.name === "plumb_part") continue;
-    if (c.type !== "number") {
-      throw new Stop(
-        "engine",
-        `The database returned "${c.name}" as text, where a sum was expected`,
-      );
-    }
-    const isMax = c.name.startsWith("m") || c.name === "hmax";
-    let v = isMax ? -Infinity : 0;
-    for (const x of c.values) {
-      if (Number.isNaN(x)) continue; // a partition without used rows: NULL
-      v = isMax ? Math.max(v, x) : v + x;
-    }
-    out.set(c.name, v);
-  }
-  return out;
-}
-
-/** The value of a column of a combined answer. */
-function at(m: Map<string, number>, name: string): number {
-  const v = m.get(name);
-  if (v === undefined) throw new Error(`in-engine fit: no column ${name} in the answer`);
-  return v;
 }
 
 async function ask(
@@ -403,158 +266,6 @@ async function run(
   });
 }
 
-/** Pass 1's counts, checked. */
-interface Counts {
-  rows: number;
-  missing: number;
-  zeroWeight: number;
-  n: number;
-  sw: number;
-  /** Σ ln wᵢ. */
-  slw: number;
-}
-
-function checkCounts(req: InEngineRequest, d: Design, one: Map<string, number>): Counts {
-  const { name } = req;
-  d.labels.forEach((label, i) => {
-    const bad = at(one, `b${i}`);
-    if (bad > 0) {
-      throw new Stop(
-        "data",
-        `Cannot fit "${name}": ${label} is not finite in ${countRows(bad)} of the query`,
-      );
-    }
-  });
-  const bw = at(one, "bw");
-  if (bw > 0) {
-    throw new Stop(
-      "data",
-      `Cannot fit "${name}": weights "${req.weights?.text}" are negative or not finite in ${
-        countRows(bw)
-      } of the query: a weight must be 0 or more`,
-    );
-  }
-  const c: Counts = {
-    rows: at(one, "plumb_rows"),
-    missing: at(one, "plumb_missing"),
-    zeroWeight: at(one, "zw"),
-    n: at(one, "n"),
-    sw: at(one, "sw"),
-    slw: at(one, "slw"),
-  };
-  if (c.missing > 0) {
-    req.warn(
-      `${countRows(c.missing)} of the query left out for missing values in ${
-        quotedList(d.sql.columns)
-      }`,
-    );
-  }
-  if (c.zeroWeight > 0) {
-    req.warn(`${countRows(c.zeroWeight)} left out for weight 0 in "weights"`);
-  }
-  if (c.n <= d.p) {
-    throw new Stop(
-      "data",
-      `Cannot fit "${name}": the query gives ${countRows(c.n)} to fit ${d.p} ${
-        d.p === 1 ? "parameter" : "parameters"
-      }; it needs more rows than parameters`,
-    );
-  }
-  return c;
-}
-
-/** The value columns: the varying terms, the target, and the response when apart. */
-function valueCount(d: Design): number {
-  return d.varying.length + 1 + (d.sql.response === null ? 0 : 1);
-}
-
-/** Means (with a constant term) and power-of-two scales from pass 1. */
-function centringOf(d: Design, one: Map<string, number>, sw: number): Centring {
-  const k = valueCount(d);
-  const means = d.constantAt >= 0
-    ? Array.from({ length: k }, (_, i) => at(one, `s${i}`) / sw)
-    : null;
-  const exponents = Array.from({ length: k }, (_, i) => {
-    const m = at(one, `m${i}`);
-    return m > 0 && Number.isFinite(m)
-      ? Math.max(-1000, Math.min(1000, Math.ceil(Math.log2(m))))
-      : 0;
-  });
-  return { means, exponents };
-}
-
-/** The Gram matrix of [c₀ | z | zy] (k×k row-major), TSS, and the unweighted sums for Breusch–Pagan. */
-interface Gram {
-  g: Float64Array;
-  k: number;
-  /** Coordinate of the first varying term (1 with a constant term, else 0). */
-  off: number;
-  tss: number;
-  /** Unweighted: Σz_a·z_b (q×q), Σz_a, rows. */
-  plain: { cross: Float64Array; first: Float64Array; n: number };
-}
-
-function gramOf(d: Design, two: Map<string, number>, sw: number, c: Centring): Gram {
-  const q = d.varying.length, k = d.p + 1, off = d.constantAt >= 0 ? 1 : 0;
-  const g = new Float64Array(k * k);
-  const put = (a: number, b: number, v: number) => (g[a * k + b] = g[b * k + a] = v);
-  const plainCross = new Float64Array(q * q);
-  const weighted = d.sql.weight !== null;
-  let i = 0;
-  for (let a = 0; a <= q; a++) {
-    for (let b = a; b <= q; b++, i++) {
-      put(off + a, off + b, at(two, `p${i}`));
-      if (a < q && b < q) {
-        const u = weighted ? at(two, `u${i}`) : at(two, `p${i}`);
-        plainCross[a * q + b] = plainCross[b * q + a] = u;
-      }
-    }
-  }
-  if (off === 1) {
-    put(0, 0, d.constant * d.constant * sw);
-    for (let a = 0; a <= q; a++) put(0, 1 + a, d.constant * at(two, `f${a}`));
-  }
-  const first = Float64Array.from({ length: q }, (_, a) => at(two, weighted ? `g${a}` : `f${a}`));
-  // TSS of the response (zy, or zr when the model has a part free of parameters), unscaled.
-  const apart = d.sql.response !== null;
-  const ss = apart ? at(two, "rr") : g[k * k - 1];
-  const s1 = apart ? at(two, "rf") : at(two, `f${q}`);
-  const e = c.exponents[apart ? q + 1 : q];
-  const tss = (off === 1 ? ss - s1 * s1 / sw : ss) * 2 ** (2 * e);
-  return { g, k, off, tss, plain: { cross: plainCross, first, n: weighted ? at(two, "n") : NaN } };
-}
-
-/** κ of the varying terms' correlation matrix (centred on the constant term when there is one). */
-function kappaOf(req: InEngineRequest, d: Design, gram: Gram): number {
-  const q = d.varying.length, { g, k, off } = gram;
-  if (q === 0) return 1;
-  const c = new Float64Array(q * q);
-  for (let a = 0; a < q; a++) {
-    for (let b = 0; b < q; b++) {
-      const v = g[(off + a) * k + off + b];
-      c[a * q + b] = off === 1 ? v - g[off + a] * g[off + b] / g[0] : v;
-    }
-  }
-  for (let a = 0; a < q; a++) {
-    if (!(c[a * q + a] > 0)) {
-      const j = d.varying[a];
-      throw new Stop(
-        "data",
-        `Cannot fit "${req.name}": ${d.labels[a]} is ${
-          off === 1 ? "constant" : "0"
-        } on every row used, so "${req.model.parameters[j]}" cannot be told apart${
-          off === 1 ? ` from "${req.model.parameters[d.constantAt]}"` : ""
-        }`,
-      );
-    }
-  }
-  const corr = c.map((v, i) =>
-    v / Math.sqrt(c[Math.floor(i / q) * (q + 1)] * c[(i % q) * (q + 1)])
-  );
-  const ev = singularValues(corr, q, q); // symmetric positive semidefinite: the eigenvalues
-  return ev[q - 1] > 0 ? Math.sqrt(ev[0] / ev[q - 1]) : Infinity;
-}
-
 /** R of the augmented design from the rows streamed through QR (EngineAccess.rfactor). */
 async function streamed(
   engine: EngineAccess,
@@ -572,133 +283,6 @@ async function streamed(
     throw new Stop("engine", `The R factor came back with ${a.value.k} columns, not ${k}`);
   }
   return a.value.r;
-}
-
-/** The solve from R: estimates and (XᵀWX)⁻¹ in the model's parameters, and pass 3's SQL. */
-interface Solved {
-  estimates: Float64Array;
-  /** p×p column-major. */
-  unscaled: Float64Array;
-  /** ρ², the normal equations' RSS in zy units (pass 3 computes the RSS itself). */
-  rho2: number;
-  residualSql: string;
-  leverageSql: string;
-}
-
-function solveFromR(
-  req: InEngineRequest,
-  d: Design,
-  c: Centring,
-  r: Float64Array,
-  k: number,
-  kappa: number,
-): Solved {
-  const P = k - 1, off = d.constantAt >= 0 ? 1 : 0;
-  let big = 0;
-  for (let i = 0; i < P; i++) big = Math.max(big, Math.abs(r[i * k + i]));
-  for (let i = 0; i < P; i++) {
-    // A pivot 1e-13 below the largest: the terms are dependent to working accuracy.
-    if (!(Math.abs(r[i * k + i]) > 1e-13 * big)) {
-      throw new Stop(
-        "data",
-        `Cannot fit "${req.name}": the terms are linearly dependent on the rows used (condition number ${
-          kappa.toPrecision(2)
-        }): ${quotedList(req.model.parameters)} cannot all be estimated`,
-      );
-    }
-  }
-  const v = invertUpper(r, P, k); // R₁₁⁻¹
-  const gamma = new Float64Array(P);
-  for (let i = 0; i < P; i++) {
-    let s = 0;
-    for (let j = i; j < P; j++) s += v[i * P + j] * r[j * k + P];
-    gamma[i] = s;
-  }
-  // Coordinates x̃ = (c₀, z₀ … z_{q−1}) as SQL; the fitted value and hᵢ = wᵢ‖R₁₁⁻ᵀx̃ᵢ‖².
-  const coord = (i: number) => (off === 1 && i === 0 ? null : `z${i - off}`);
-  const fitted = Array.from(gamma, (gi, i) => {
-    const x = coord(i);
-    return x === null ? sqlLiteral(gi * d.constant) : `${sqlLiteral(gi)} * ${x}`;
-  });
-  const vk = Array.from({ length: P }, (_, col) => {
-    const parts: string[] = [];
-    for (let l = 0; l <= col; l++) {
-      const x = coord(l);
-      parts.push(
-        x === null
-          ? sqlLiteral(v[l * P + col] * d.constant)
-          : `${sqlLiteral(v[l * P + col])} * ${x}`,
-      );
-    }
-    return `(${parts.join(" + ")})`;
-  });
-  const { estimates, unscaled } = toModel(d, c, gamma, v, P);
-  return {
-    estimates,
-    unscaled,
-    rho2: r[P * k + P] * r[P * k + P],
-    residualSql: `(zy - (${fitted.join(" + ")}))`,
-    leverageSql: `w * (${vk.map((s) => `${s} * ${s}`).join(" + ")})`,
-  };
-}
-
-/**
- * From centred, scaled coordinates back to the model's parameters. With x̃ = M·x
- * (x = (c₀, t₁ … t_q) the model's terms; x̃ = (c₀, (t_j − m̃_j)/2^e_j)) and the target
- * scaled by s_y = 2^e_y: θ = s_y·Mᵀγ (+ m̃_y/c₀ on the constant term) and
- * (XᵀWX)⁻¹ = Mᵀ(X̃ᵀWX̃)⁻¹M.
- */
-function toModel(
-  d: Design,
-  c: Centring,
-  gamma: Float64Array,
-  v: Float64Array,
-  P: number,
-): { estimates: Float64Array; unscaled: Float64Array } {
-  const p = d.p, q = d.varying.length, off = d.constantAt >= 0 ? 1 : 0;
-  const mean = (i: number) => (c.means === null ? 0 : c.means[i]);
-  const sy = 2 ** c.exponents[q];
-  // Mᵀ, p×P row-major: rows the model's parameters, columns the coordinates.
-  const mt = new Float64Array(p * P);
-  d.varying.forEach((j, i) => (mt[j * P + off + i] = 2 ** -c.exponents[i]));
-  if (off === 1) {
-    const jc = d.constantAt;
-    mt[jc * P] = 1;
-    for (let i = 0; i < q; i++) mt[jc * P + 1 + i] = -mean(i) * 2 ** -c.exponents[i] / d.constant;
-  }
-  const estimates = new Float64Array(p);
-  for (let j = 0; j < p; j++) {
-    let s = 0;
-    for (let a = 0; a < P; a++) s += mt[j * P + a] * gamma[a];
-    estimates[j] = sy * s;
-  }
-  if (off === 1) estimates[d.constantAt] += mean(q) / d.constant;
-  // (X̃ᵀWX̃)⁻¹ = R₁₁⁻¹R₁₁⁻ᵀ, then Mᵀ·it·M.
-  const inner = new Float64Array(P * P);
-  for (let a = 0; a < P; a++) {
-    for (let b = a; b < P; b++) {
-      let s = 0;
-      for (let t = b; t < P; t++) s += v[a * P + t] * v[b * P + t];
-      inner[a * P + b] = inner[b * P + a] = s;
-    }
-  }
-  const left = new Float64Array(p * P); // Mᵀ·inner
-  for (let j = 0; j < p; j++) {
-    for (let b = 0; b < P; b++) {
-      let s = 0;
-      for (let a = 0; a < P; a++) s += mt[j * P + a] * inner[a * P + b];
-      left[j * P + b] = s;
-    }
-  }
-  const unscaled = new Float64Array(p * p);
-  for (let i = 0; i < p; i++) {
-    for (let j = 0; j < p; j++) {
-      let s = 0;
-      for (let b = 0; b < P; b++) s += left[i * P + b] * mt[j * P + b];
-      unscaled[j * p + i] = s;
-    }
-  }
-  return { estimates, unscaled };
 }
 
 /** Everything the passes gave, for {@link finish}. */
@@ -865,4 +449,96 @@ function statisticsOf(
 function logStandIn(sum: number): Float64Array {
   const m = Math.max(1, Math.ceil(Math.abs(sum) / 600));
   return new Float64Array(m).fill(Math.exp(sum / m));
+}
+
+// ---------------------------------------------------------------------------------------------
+// The fit kind's entry (cells/fit/run.ts): a table kept in its engine.
+
+/** Where each number of an in-engine fit came from (the fit's `inEngine`, RUN-JSON `in_engine_detail`). */
+export interface InEngineRecord {
+  engine: "duckdb" | "postgres";
+  route: "sums" | "qr";
+  kappa: number;
+  /** Rows of the query left out for a missing value in a column the model uses. */
+  rows_left_out: number;
+  partition_by: string | null;
+  computed: InEngineFit["computed"];
+  /** The sentence said when the rows were streamed, else null. */
+  note: string | null;
+  sum_residuals: number;
+  leverage: InEngineFit["leverage"];
+  durbin_watson: number | null;
+  breusch_pagan: BreuschPagan | null;
+  /** Milliseconds of each statement, in order. */
+  passes: { name: string; ms: number }[];
+}
+
+/**
+ * Fits a linear model to a table kept in its database, for cells/fit/run.ts: the solution
+ * (without per-row arrays), n and the record of where each number came from.
+ *
+ * @param problem The problem built from the table (its model; no rows).
+ * @param table The table, with `database`.
+ * @param ctx The run context (its `engine`, settings, warnings, progress).
+ * @returns The solution, n and the record.
+ * @throws {CellError} When a term has no SQL, the engine fails, or the rows do not allow the fit.
+ */
+export async function solveInEngine(
+  problem: FitProblem,
+  table: Table & { database: TableInEngine },
+  ctx: RunContext,
+): Promise<{ solution: FitSolution; n: number; record: InEngineRecord }> {
+  const db = table.database;
+  if (ctx.engine === undefined) {
+    throw new CellError("This table's rows are in a database, which cannot be reached here", [
+      "on",
+    ]);
+  }
+  const got = await fitInEngine(
+    {
+      name: problem.name,
+      model: problem.model,
+      query: db.query,
+      columns: new Map(table.columns.map((c) => [c.name, c.type])),
+      partitionBy: db.partitionBy,
+      confidence: ctx.settings.confidence,
+      countVariance: true,
+      warn: () => {}, // run.ts computes the statistics again and says their warnings
+      progress: (f, what) => ctx.progress(f, what),
+    },
+    ctx.engine,
+    db.ref,
+  );
+  if (!got.ok) throw new CellError(got.why, [got.cannot === "engine" ? "on" : "model"]);
+  const f = got.fit;
+  const solution: FitSolution = {
+    method: "linear",
+    estimates: f.estimates,
+    unscaledCovariance: f.unscaledCovariance,
+    fitted: new Float64Array(0),
+    residuals: new Float64Array(0),
+    rss: f.rss,
+    hasIntercept: f.hasIntercept,
+    conditionNumber: f.kappa,
+    converged: true,
+    iterations: 0,
+    design: [],
+    offset: null,
+    tss: f.tss,
+  };
+  const record: InEngineRecord = {
+    engine: db.ref.engine,
+    route: f.route,
+    kappa: f.kappa,
+    rows_left_out: f.rowsLeftOut.missing + f.rowsLeftOut.zeroWeight,
+    partition_by: db.partitionBy,
+    computed: f.computed,
+    note: f.note,
+    sum_residuals: f.sumResiduals,
+    leverage: f.leverage,
+    durbin_watson: f.durbinWatson,
+    breusch_pagan: f.breuschPagan,
+    passes: f.passes.map(({ name, ms }) => ({ name, ms })),
+  };
+  return { solution, n: f.n, record };
 }
