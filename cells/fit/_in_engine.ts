@@ -64,6 +64,7 @@ import {
   type Gram,
   gramOf,
   kappaOf,
+  refined,
   type Solved,
   solveFromR,
 } from "./_in_engine_solve.ts";
@@ -110,6 +111,8 @@ export interface InEngineFit {
   parameters: string[];
   /** Estimates in the order of `model.parameters`. */
   estimates: Float64Array;
+  /** The refinement step's largest change of an estimate, relative to it. */
+  refinement: number;
   /** (XᵀWX)⁻¹, p×p column-major. */
   unscaledCovariance: Float64Array;
   /** The in-memory fit's statistics from these numbers: se, t, p, intervals, σ, R², log L, AIC… */
@@ -143,6 +146,7 @@ export interface InEngineFit {
     | "sums"
     | "cross_products"
     | "solve"
+    | "refinement"
     | "rss"
     | "residual_sums"
     | "leverage"
@@ -235,6 +239,8 @@ async function run(
     "pass 3: residual sums",
     pass3(d.sql, centring, {
       residual: solved.residualSql,
+      original: solved.originalSql,
+      coordinates: solved.coordinates,
       leverage: solved.leverageSql,
       shift: solved.rho2 / counts.n,
       limits: [2 * d.p / counts.n, 3 * d.p / counts.n],
@@ -307,9 +313,11 @@ function finish(req: InEngineRequest, d: Design, g: Gathered): InEngineFit {
   const rss = rssZ * sy * sy;
   const hasIntercept = d.constantAt >= 0;
   const weighted = d.sql.weight !== null;
+  const xtwe = Float64Array.from(solved.coordinates, (_, k) => at(three, `x${k}`));
+  const { estimates, step } = refined(solved, xtwe);
   const statistics = statisticsOf(req, d, {
     n,
-    estimates: solved.estimates,
+    estimates,
     unscaled: solved.unscaled,
     rss,
     tss: gram.tss,
@@ -321,7 +329,8 @@ function finish(req: InEngineRequest, d: Design, g: Gathered): InEngineFit {
   const streamedRoute = g.route === "qr";
   return {
     parameters: [...req.model.parameters],
-    estimates: solved.estimates,
+    estimates,
+    refinement: step,
     unscaledCovariance: solved.unscaled,
     statistics,
     n,
@@ -338,7 +347,7 @@ function finish(req: InEngineRequest, d: Design, g: Gathered): InEngineFit {
     durbinWatson: g.dwNumerator === null || !(rssZ > 0) ? null : g.dwNumerator / rssZ,
     breuschPagan,
     leverage: {
-      max: at(three, "hmax"),
+      max: at(three, "max_h"),
       over2p: at(three, "h2"),
       over3p: at(three, "h3"),
       sum: at(three, "hs"),
@@ -348,6 +357,7 @@ function finish(req: InEngineRequest, d: Design, g: Gathered): InEngineFit {
       sums: "engine",
       cross_products: "engine",
       solve: streamedRoute ? "streamed" : "plumb",
+      refinement: "engine",
       rss: "engine",
       residual_sums: "engine",
       leverage: "engine",

@@ -18,6 +18,7 @@ import type { EngineRows } from "../../kernel/engine/types.ts";
 import { countRows } from "./_offsets.ts";
 import type { Centring } from "./_in_engine_sql.ts";
 import { invertUpper } from "./_in_engine_algebra.ts";
+import { type DD, ddAdd, twoProduct } from "../../kernel/dd.ts";
 import { type Design, Stop } from "./_in_engine_design.ts";
 import type { InEngineRequest } from "./_in_engine.ts";
 
@@ -32,7 +33,7 @@ export function combined(got: EngineRows): Map<string, number> {
         `The database returned "${c.name}" as text, where a sum was expected`,
       );
     }
-    const isMax = c.name.startsWith("m") || c.name === "hmax";
+    const isMax = c.name.startsWith("max_");
     let v = isMax ? -Infinity : 0;
     for (const x of c.values) {
       if (Number.isNaN(x)) continue; // a partition without used rows: NULL
@@ -90,10 +91,9 @@ export function checkCounts(req: InEngineRequest, d: Design, one: Map<string, nu
     slw: at(one, "slw"),
   };
   if (c.missing > 0) {
+    const culprits = d.sql.columns.filter((_, i) => at(one, `plumb_missing_${i}`) > 0);
     req.warn(
-      `${countRows(c.missing)} of the query left out for missing values in ${
-        quotedList(d.sql.columns)
-      }`,
+      `${countRows(c.missing)} of the query left out for missing values in ${quotedList(culprits)}`,
     );
   }
   if (c.zeroWeight > 0) {
@@ -122,7 +122,7 @@ export function centringOf(d: Design, one: Map<string, number>, sw: number): Cen
     ? Array.from({ length: k }, (_, i) => at(one, `s${i}`) / sw)
     : null;
   const exponents = Array.from({ length: k }, (_, i) => {
-    const m = at(one, `m${i}`);
+    const m = at(one, `max_${i}`);
     return m > 0 && Number.isFinite(m)
       ? Math.max(-1000, Math.min(1000, Math.ceil(Math.log2(m))))
       : 0;
@@ -210,7 +210,14 @@ export interface Solved {
   /** ρ², the normal equations' RSS in zy units (pass 3 computes the RSS itself). */
   rho2: number;
   residualSql: string;
+  /** The residual from `estimates` in the model's own terms (the refinement's). */
+  originalSql: string;
+  /** x̃ as SQL: the constant term's literal, z0… */
+  coordinates: string[];
   leverageSql: string;
+  /** (X̃ᵀWX̃)⁻¹ (P×P row-major) and Mᵀ (p×P row-major): δθ = Mᵀ(X̃ᵀWX̃)⁻¹X̃ᵀWe. */
+  inner: Float64Array;
+  mt: Float64Array;
 }
 
 export function solveFromR(
@@ -260,14 +267,37 @@ export function solveFromR(
     }
     return `(${parts.join(" + ")})`;
   });
-  const { estimates, unscaled } = toModel(d, c, gamma, v, P);
+  const { estimates, unscaled, inner, mt } = toModel(d, c, gamma, v, P);
+  const originalSql = originalResidual(d, c, estimates);
   return {
     estimates,
     unscaled,
     rho2: r[P * k + P] * r[P * k + P],
     residualSql: `(zy - (${fitted.join(" + ")}))`,
+    originalSql,
+    coordinates: Array.from({ length: P }, (_, i) => coord(i) ?? sqlLiteral(d.constant)),
     leverageSql: `w * (${vk.map((s) => `${s} * ${s}`).join(" + ")})`,
+    inner,
+    mt,
   };
+}
+
+/**
+ * The residual of θ in the model's own terms, centred on pass 1's means with θ's own constant:
+ * e = (y − m̃_y) − (K + Σθⱼ(tⱼ − m̃ⱼ)), K = θ₀c₀ + Σθⱼm̃ⱼ − m̃_y summed in double-double
+ * (kernel/dd.ts), so that the SQL adds only centred magnitudes and K carries the rounding of
+ * θ₀ exactly (θ₀ = 1 beside Σθⱼm̃ⱼ near 10⁶ in Wampler's sets).
+ */
+function originalResidual(d: Design, c: Centring, theta: Float64Array): string {
+  if (d.constantAt < 0 || c.means === null) {
+    return `(cy - (${d.varying.map((j, i) => `${sqlLiteral(theta[j])} * c${i}`).join(" + ")}))`;
+  }
+  const m = c.means, q = d.varying.length;
+  let k: DD = twoProduct(theta[d.constantAt], d.constant);
+  d.varying.forEach((j, i) => (k = ddAdd(k, twoProduct(theta[j], m[i]))));
+  k = ddAdd(k, [-m[q], 0]);
+  const slopes = d.varying.map((j, i) => `${sqlLiteral(theta[j])} * (c${i} - ${sqlLiteral(m[i])})`);
+  return `((cy - ${sqlLiteral(m[q])}) - (${[sqlLiteral(k[0] + k[1]), ...slopes].join(" + ")}))`;
 }
 
 /**
@@ -282,7 +312,7 @@ function toModel(
   gamma: Float64Array,
   v: Float64Array,
   P: number,
-): { estimates: Float64Array; unscaled: Float64Array } {
+): { estimates: Float64Array; unscaled: Float64Array; inner: Float64Array; mt: Float64Array } {
   const p = d.p, q = d.varying.length, off = d.constantAt >= 0 ? 1 : 0;
   const mean = (i: number) => (c.means === null ? 0 : c.means[i]);
   const sy = 2 ** c.exponents[q];
@@ -326,5 +356,36 @@ function toModel(
       unscaled[j * p + i] = s;
     }
   }
-  return { estimates, unscaled };
+  return { estimates, unscaled, inner, mt };
+}
+
+/**
+ * One step of iterative refinement of the estimates in the model's own terms (the corrected
+ * semi-normal equations: Björck, *Numerical Methods for Least Squares Problems*, SIAM 1996,
+ * §6.6.5): with e the residual of θ computed from the model's terms (not the centred ones) and
+ * X̃ᵀWe summed by the engine, δθ = Mᵀ(X̃ᵀWX̃)⁻¹X̃ᵀWe. Centring costs the constant term the digits
+ * of Σθⱼm̃ⱼ (Wampler's θ₀ = 1 beside terms near 10⁶: 8.6 digits); δθ is small, so the same
+ * cancellation in it costs nothing, and the step restores them (12.6).
+ *
+ * @param s The solve.
+ * @param xtwe X̃ᵀWe, P long.
+ * @returns The refined estimates and the largest step relative to its estimate.
+ */
+export function refined(s: Solved, xtwe: Float64Array): { estimates: Float64Array; step: number } {
+  const P = xtwe.length, p = s.estimates.length;
+  const dg = new Float64Array(P);
+  for (let a = 0; a < P; a++) {
+    let t = 0;
+    for (let b = 0; b < P; b++) t += s.inner[a * P + b] * xtwe[b];
+    dg[a] = t;
+  }
+  const estimates = new Float64Array(p);
+  let step = 0;
+  for (let j = 0; j < p; j++) {
+    let t = 0;
+    for (let a = 0; a < P; a++) t += s.mt[j * P + a] * dg[a];
+    estimates[j] = s.estimates[j] + t;
+    step = Math.max(step, Math.abs(t) / Math.max(Math.abs(estimates[j]), Number.MIN_VALUE));
+  }
+  return { estimates, step };
 }

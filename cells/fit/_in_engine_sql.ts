@@ -69,9 +69,10 @@ function valuesLayer(f: FitSql): string {
   const missing = f.columns.map((c) => {
     const x = `CAST(${sqlName(c)} AS ${D})`;
     return `${x} IS NULL OR ${x} = ${NAN}`;
-  }).join(" OR ");
+  });
   const cols = [
-    `CASE WHEN ${missing} THEN 1 ELSE 0 END AS plumb_m`,
+    `CASE WHEN ${missing.join(" OR ")} THEN 1 ELSE 0 END AS plumb_m`,
+    ...missing.map((m, i) => `CASE WHEN ${m} THEN 1 ELSE 0 END AS plumb_m${i}`),
     ...f.terms.map((t, j) => `${t} AS c${j}`),
     `${f.target} AS cy`,
     ...(f.response === null ? [] : [`${f.response} AS cr`]),
@@ -100,8 +101,9 @@ function used(f: FitSql): string {
 /**
  * Pass 1: counts, Σw, Σw·c and max|c| of the used rows, one scan.
  *
- * Columns: [plumb_part,] rows, missing, bad_0…bad_q (terms then target), bad_w, zero_w,
- * n, sw, s_0…s_q, m_0…m_q, slw (Σ ln w).
+ * Columns: [plumb_part,] plumb_rows, plumb_missing, plumb_missing_0… (per raw column),
+ * b0… (not finite: terms, target, response), bw, zw,
+ * n, sw, s0…, max_0…, slw (Σ ln w).
  */
 export function pass1(f: FitSql): string {
   const S = sumOf(f), { lead, group } = grouped(f);
@@ -112,6 +114,7 @@ export function pass1(f: FitSql): string {
   const cols = [
     "count(*) AS plumb_rows",
     "sum(plumb_m) AS plumb_missing",
+    ...f.columns.map((_, i) => `sum(plumb_m${i}) AS plumb_missing_${i}`),
     ...names.map((c, i) =>
       `${count(`plumb_m = 0 AND NOT coalesce(${finite(c)}, false)`)} AS b${i}`
     ),
@@ -122,7 +125,7 @@ export function pass1(f: FitSql): string {
     `${count(ok)} AS n`,
     `${S(when(ok, "cw"))} AS sw`,
     ...names.map((c, i) => `${S(when(ok, `cw * ${c}`))} AS s${i}`),
-    ...names.map((c, i) => `max(${when(ok, `abs(${c})`)}) AS m${i}`),
+    ...names.map((c, i) => `max(${when(ok, `abs(${c})`)}) AS max_${i}`),
     `${S(when(ok, "ln(cw)"))} AS slw`,
   ];
   return `SELECT ${lead}${cols.join(", ")} FROM ${valuesLayer(f)}${group}`;
@@ -135,7 +138,7 @@ export interface Centring {
   exponents: number[];
 }
 
-/** The centred, scaled layer (plumb_z): z0…, zy, w [, co] [, plumb_part]. */
+/** The centred, scaled layer (plumb_z): z0…, zy, c0…, cy, w [, co] [, plumb_part]. */
 export function centredLayer(f: FitSql, c: Centring): string {
   const z = valueNames(f).map((name, i) => {
     const centred = c.means === null ? name : `(${name} - ${sqlNumber(c.means[i])})`;
@@ -143,6 +146,8 @@ export function centredLayer(f: FitSql, c: Centring): string {
     return `(${centred} * ${sqlNumber(2 ** -c.exponents[i])}) AS ${zname}`;
   });
   const extra = [
+    ...f.terms.map((_, j) => `c${j}`),
+    "cy",
     "cw AS w",
     ...(f.order === null ? [] : ["co"]),
     ...(f.partitionBy === null ? [] : ["plumb_part"]),
@@ -192,6 +197,13 @@ export function pass2(f: FitSql, c: Centring): string {
 export interface ResidualSql {
   /** e in z units: zy − fitted. */
   residual: string;
+  /**
+   * e in the target's units from the estimates in the model's own terms (c0…, cy, the
+   * constant term a literal): what the refinement's X̃ᵀWe is summed from.
+   */
+  original: string;
+  /** The coordinates x̃ as SQL (a literal for the constant term, z0… else). */
+  coordinates: string[];
   /** hᵢ. */
   leverage: string;
   /** Breusch–Pagan's shift c (w·e² − c keeps the sums small): about RSS/n in z units. */
@@ -204,13 +216,15 @@ export interface ResidualSql {
  * Pass 3: residual sums, Breusch–Pagan's sums and the leverage summary.
  *
  * Columns: [plumb_part,] rss (Σw·e²), se (Σe), swe (Σw·e), bf (Σf), bff (Σf²),
- * bz0… (Σz_j·f), hmax, h2, h3, hs; f = w·e² − shift, all in z units.
+ * bz0… (Σz_j·f), max_h, h2, h3, hs; f = w·e² − shift, all in z units; and the refinement's
+ * x0… (Σw·x̃_k·e in the target's units, e from the estimates in the model's terms).
  */
 export function pass3(f: FitSql, c: Centring, r: ResidualSql): string {
   const S = sumOf(f), { lead, group } = grouped(f);
   const inner = [
     `${r.residual} AS e`,
     `${r.leverage} AS h`,
+    `${r.original} AS eo`,
     "w",
     ...f.terms.map((_, j) => `z${j}`),
     ...(f.partitionBy === null ? [] : ["plumb_part"]),
@@ -223,10 +237,11 @@ export function pass3(f: FitSql, c: Centring, r: ResidualSql): string {
     `${S(bf)} AS bf`,
     `${S(`${bf} * ${bf}`)} AS bff`,
     ...f.terms.map((_, j) => `${S(`z${j} * ${bf}`)} AS bz${j}`),
-    "max(h) AS hmax",
+    "max(h) AS max_h",
     `sum(CASE WHEN h > ${sqlNumber(r.limits[0])} THEN 1 ELSE 0 END) AS h2`,
     `sum(CASE WHEN h > ${sqlNumber(r.limits[1])} THEN 1 ELSE 0 END) AS h3`,
     `${S("h")} AS hs`,
+    ...r.coordinates.map((x, k) => `${S(`w * ${x} * eo`)} AS x${k}`),
   ];
   return `SELECT ${lead}${cols.join(", ")} FROM (SELECT ${inner.join(", ")} FROM ${
     centredLayer(f, c)
