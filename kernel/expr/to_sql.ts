@@ -10,8 +10,8 @@
  * ```
  *
  * The rules, each checked against both engines (kernel/expr/to_sql_test.ts
- * runs the text through DuckDB; PostgreSQL 15's answers were probed once by
- * hand and are quoted where they matter):
+ * runs the text through DuckDB against Plumb's evaluator, and through
+ * PostgreSQL 15 against DuckDB where PostgreSQL is installed):
  *
  * - Every column is cast to DOUBLE PRECISION (an integer column never
  *   divides as integers) and named in double quotes, a quote inside doubled.
@@ -35,10 +35,11 @@
  * - `min` and `max` are `least` and `greatest`, which skip a NULL argument:
  *   where an argument can be NULL (it holds one of the guarded functions)
  *   the call is NULL when either is.
- * - Not covered: PostgreSQL raises an error when a product or quotient
- *   overflows or underflows (`1e-300 * 1e-300`: "value out of range:
- *   underflow"), where Plumb and DuckDB give 0 or ∞; such a statement fails
- *   with the engine's words.
+ * - Not covered: overflow and underflow of products, quotients and powers.
+ *   Plumb gives ∞ or 0, DuckDB too, PostgreSQL raises an error ("value out
+ *   of range: underflow" for `1e-300 * 1e-300`), so there such a statement
+ *   fails with the engine's words. An ∞ is not finite to the caller, as
+ *   NULL is.
  *
  * An expression that has no faithful SQL (an internal function of
  * derivatives, a text column, a name that is not a column) gives null and
