@@ -53,7 +53,7 @@ import type { FitProblem, FitSolution } from "./problem.ts";
 import { type FitStatistics, fitStatistics } from "./_statistics.ts";
 import { likelihood } from "./_likelihood.ts";
 import { type Centring, pass1, pass2, pass3, pass4, rfactorSql } from "./_in_engine_sql.ts";
-import { breuschPaganOfSums, choleskyUpper } from "./_in_engine_algebra.ts";
+import { augmentedCholesky, breuschPaganOfSums } from "./_in_engine_algebra.ts";
 import { type Design, design, Stop } from "./_in_engine_design.ts";
 import {
   at,
@@ -218,7 +218,7 @@ async function run(
   const two = await ask(engine, db, passes, "pass 2: cross-products", pass2(d.sql, centring));
   const gram = gramOf(d, two, counts.sw, centring);
   const kappa = kappaOf(req, d, gram);
-  let r = kappa <= KAPPA_LIMIT ? choleskyUpper(gram.g, gram.k) : null;
+  let r = kappa <= KAPPA_LIMIT ? augmentedCholesky(gram.g, gram.k) : null;
   const route = r === null ? "qr" : "sums";
   let note: string | null = null;
   if (r === null) {

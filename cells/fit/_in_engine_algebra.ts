@@ -3,11 +3,12 @@
  * Cholesky's factor of a Gram matrix, the inverse of a triangular factor,
  * and Breusch–Pagan's statistic from sums.
  *
- * - Cholesky: the inner-product form, row by row (Golub & Van Loan,
- *   *Matrix Computations*, 4th ed., §4.2.5, Algorithm 4.2.1 transposed to
- *   give the upper factor R with RᵀR = A). Only ever applied to the
- *   (p+1)×(p+1) Gram matrix of centred, power-of-two scaled columns, and
- *   only when its condition number is small (KAPPA_LIMIT).
+ * - Cholesky (kernel/linalg/small_symmetric.ts; Golub & Van Loan, *Matrix
+ *   Computations*, 4th ed., §4.2.5) of the terms' block of the augmented
+ *   Gram matrix, its last column by forward substitution, so that an exact
+ *   fit (ρ = 0) still factors. Only ever applied to the Gram matrix of
+ *   centred, power-of-two scaled columns, and only when its condition number
+ *   is small (KAPPA_LIMIT).
  * - R⁻¹ by back substitution column by column (Higham, *Accuracy and
  *   Stability of Numerical Algorithms*, 2nd ed., §8.1: the computed inverse
  *   of a triangular matrix is as accurate as its condition allows).
@@ -20,44 +21,43 @@
  * @module
  */
 import { chiSquared, fisherF } from "../../kernel/stats/mod.ts";
+import { cholesky } from "../../kernel/linalg/small_symmetric.ts";
 import type { BreuschPagan, BreuschPaganVariant } from "../../kernel/stats/mod.ts";
 
 /**
- * The upper Cholesky factor of a symmetric k×k matrix (row-major).
+ * The upper triangular R (RᵀR = G) of an augmented Gram matrix G = [[XᵀX, Xᵀy], [yᵀX, yᵀy]]
+ * ((P+1)×(P+1), row-major): Cholesky's factor of XᵀX (kernel/linalg/small_symmetric.ts), its
+ * last column r = L⁻¹Xᵀy by forward substitution, and ρ = √(yᵀy − ‖r‖²) (0 for an exact fit;
+ * ρ² serves only as a size, the RSS is summed from residuals).
  *
- * @param a The matrix, row-major (only the upper triangle is read).
- * @param k Its order.
- * @param lastMayVanish Accept a last pivot of 0 (an augmented Gram matrix whose response
- *   lies in the span of the terms: an exact fit).
- * @returns R, row-major with zeros below the diagonal; null when a pivot is not positive.
+ * @param g The augmented Gram matrix, row-major.
+ * @param k Its order, P + 1.
+ * @returns R, row-major with zeros below the diagonal (QR's R up to signs); null when XᵀX is
+ *   not positive definite.
  * @example
  * ```ts
- * import { choleskyUpper } from "./_in_engine_algebra.ts";
- * // [[4, 2], [2, 5]] = RᵀR with R = [[2, 1], [0, 2]] (hand computation)
- * const r = choleskyUpper(new Float64Array([4, 2, 2, 5]), 2)!;
- * if (r[0] !== 2 || r[1] !== 1 || r[3] !== 2) throw new Error(String(r));
+ * import { augmentedCholesky } from "./_in_engine_algebra.ts";
+ * // X = [1, 1]ᵀ, y = [1, 3]ᵀ: XᵀX = 2, Xᵀy = 4, yᵀy = 10; R = [[√2, 2√2], [0, √2]] (hand)
+ * const r = augmentedCholesky(new Float64Array([2, 4, 4, 10]), 2)!;
+ * if (Math.abs(r[1] - 2 * Math.SQRT2) > 1e-15 || Math.abs(r[3] - Math.SQRT2) > 1e-15) throw new Error();
  * ```
  */
-export function choleskyUpper(
-  a: Float64Array,
-  k: number,
-  lastMayVanish = false,
-): Float64Array | null {
+export function augmentedCholesky(g: Float64Array, k: number): Float64Array | null {
+  const P = k - 1;
+  const a = new Float64Array(P * P);
+  for (let i = 0; i < P; i++) for (let j = 0; j < P; j++) a[i * P + j] = g[i * k + j];
+  const l = cholesky(a, P);
+  if (l === null) return null;
   const r = new Float64Array(k * k);
-  for (let j = 0; j < k; j++) {
-    let s = a[j * k + j];
-    for (let i = 0; i < j; i++) s -= r[i * k + j] * r[i * k + j];
-    if (!(s > 0) && !(lastMayVanish && j === k - 1 && s >= -Math.abs(a[j * k + j]) * 1e-14)) {
-      return null;
-    }
-    const d = Math.sqrt(Math.max(s, 0));
-    r[j * k + j] = d;
-    for (let c = j + 1; c < k; c++) {
-      let t = a[j * k + c];
-      for (let i = 0; i < j; i++) t -= r[i * k + j] * r[i * k + c];
-      r[j * k + c] = t / d;
-    }
+  let norm = 0;
+  for (let i = 0; i < P; i++) {
+    for (let j = i; j < P; j++) r[i * k + j] = l[j * P + i];
+    let t = g[i * k + P];
+    for (let j = 0; j < i; j++) t -= l[i * P + j] * r[j * k + P];
+    r[i * k + P] = t / l[i * P + i];
+    norm += r[i * k + P] * r[i * k + P];
   }
+  r[P * k + P] = Math.sqrt(Math.max(g[P * k + P] - norm, 0));
   return r;
 }
 
@@ -114,15 +114,15 @@ export interface BreuschPaganSums {
 export function breuschPaganOfSums(s: BreuschPaganSums): BreuschPagan | null {
   const q = s.g.length, n = s.n;
   if (q < 1 || n <= q + 1 || !(s.sumF > 0) || !(s.tss > 0)) return null;
-  const r = choleskyUpper(s.cross, q);
-  if (r === null) return null;
-  // v = R⁻ᵀg by forward substitution; ESS = ‖v‖².
+  const l = cholesky(s.cross, q);
+  if (l === null) return null;
+  // v = L⁻¹g by forward substitution; ESS = ‖v‖².
   const v = new Float64Array(q);
   let ess = 0;
   for (let i = 0; i < q; i++) {
     let t = s.g[i];
-    for (let j = 0; j < i; j++) t -= r[j * q + i] * v[j];
-    v[i] = t / r[i * q + i];
+    for (let j = 0; j < i; j++) t -= l[i * q + j] * v[j];
+    v[i] = t / l[i * q + i];
     ess += v[i] * v[i];
   }
   const r2 = ess / s.tss;
