@@ -10,7 +10,7 @@ import type { ModelUnits } from "../../kernel/units/mod.ts";
 import type { FitStatistics } from "./_statistics.ts";
 import type { Weighting } from "./_weighting.ts";
 import type { DesignFactor } from "./problem.ts";
-import type { InEngineRecord } from "./_engine_fit.ts";
+import type { InEngineRecord } from "./_in_engine.ts";
 
 /** A fitted model with everything downstream cells need to judge and use it. */
 export interface Fit extends CellOutput {

@@ -56,7 +56,7 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
   description: "fits a model equation to a table by least squares",
   parse: parseFitSpec,
   inputs: (spec) => [{ name: spec.on, accepts: ["Table"], path: ["on"] }],
-  // A table kept in its database: a linear fit computes its sums there (_engine_fit.ts).
+  // A table kept in its database: a linear fit computes its sums there (_in_engine.ts).
   readsKept: true,
   run: runFit,
   summary: (out, _spec, leaveOut) => summarizeFit(out, leaveOut),

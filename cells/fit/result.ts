@@ -16,7 +16,7 @@
  * @module
  */
 import type { Fit } from "./fit.ts";
-import type { InEngineRecord } from "./_engine_fit.ts";
+import type { InEngineRecord } from "./_in_engine.ts";
 import type { Weighting } from "./_weighting.ts";
 import { plainArray, rowValues } from "../../kernel/arrays.ts";
 

@@ -19,7 +19,7 @@ import { CellError } from "../../kernel/errors.ts";
 import { nearest } from "../../kernel/suggest.ts";
 import { quotedList } from "../../kernel/linalg/mod.ts";
 import type { RunContext, Table, TableInEngine } from "../../kernel/contract/mod.ts";
-import { solveInEngine } from "./_engine_fit.ts";
+import { solveInEngine } from "./_in_engine.ts";
 import type { FitSpec } from "./spec.ts";
 import type { Fit } from "./fit.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";
@@ -120,7 +120,7 @@ type InEngineTable = Table & { database: TableInEngine };
 
 /**
  * A linear fit on a table kept in its database: sums computed there
- * (_engine_fit.ts), no per-row values in the result.
+ * (_in_engine.ts), no per-row values in the result.
  */
 async function runFitInEngine(spec: FitSpec, ctx: RunContext, table: InEngineTable): Promise<Fit> {
   const problem = buildProblem(ctx.name, spec, table, ctx.warn);

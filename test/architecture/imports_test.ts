@@ -131,7 +131,7 @@ Deno.test("deno info of the compute worker's entry lists no UI library", async (
   // 225 → 240 for the search kind (cells/search, issue 16: 12 modules, 222 → 234); 240 → 255
   // for the calc kind and the sandbox's types (cells/calc, kernel/sandbox, issue 17); 255 → 270
   // for tables from a database and fits computed there (cells/table/_parse_database.ts,
-  // _read_database.ts, cells/fit/_engine_fit.ts, kernel/engine, kernel/expr/to_sql.ts,
+  // _read_database.ts, cells/fit/_in_engine*.ts, kernel/engine, kernel/expr/to_sql.ts,
   // kernel/linalg/small_symmetric.ts; issue 18: 249 → 255).
   ok(info.modules.length < 270, `${info.modules.length} modules`);
 });
