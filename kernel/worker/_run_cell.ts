@@ -53,13 +53,15 @@ export interface WorkerStore {
 
 let nextCall = 1;
 
-/** `RunContext.sandbox` for one run: requests to the main thread, answered by message. */
-function sandboxFor(
+/**
+ * A request to the main thread for one run, answered by a `sandbox-answer`
+ * message carrying its call number.
+ */
+function askMain(
   store: WorkerStore,
-  id: number,
   post: (m: FromWorker) => void,
-): NonNullable<RunContext["sandbox"]> {
-  const ask = <A>(m: { check?: string; job?: IsolateJob }) =>
+): <A>(message: (call: number) => FromWorker) => Promise<A> {
+  return <A>(message: (call: number) => FromWorker) =>
     new Promise<A>((resolve) => {
       const call = nextCall++;
       store.calls ??= new Map();
@@ -67,11 +69,20 @@ function sandboxFor(
         store.calls!.delete(call);
         resolve(answer as A);
       });
-      post({ op: "sandbox", id, call, ...m });
+      post(message(call));
     });
+}
+
+/** `RunContext.sandbox` for one run: requests to the main thread, answered by message. */
+function sandboxFor(
+  store: WorkerStore,
+  id: number,
+  post: (m: FromWorker) => void,
+): NonNullable<RunContext["sandbox"]> {
+  const ask = askMain(store, post);
   return {
-    check: (program) => ask<CheckAnswer>({ check: program }),
-    run: (job) => ask<IsolateAnswer>({ job }),
+    check: (program) => ask<CheckAnswer>((call) => ({ op: "sandbox", id, call, check: program })),
+    run: (job) => ask<IsolateAnswer>((call) => ({ op: "sandbox", id, call, job })),
   };
 }
 
@@ -81,19 +92,13 @@ function engineFor(
   id: number,
   post: (m: FromWorker) => void,
 ): EngineAccess {
-  const ask = <A>(m: { ask: "rows" | "rfactor"; db: DatabaseRef; sql: string; maxRows: number }) =>
-    new Promise<A>((resolve) => {
-      const call = nextCall++;
-      store.calls ??= new Map();
-      store.calls.set(call, (answer) => {
-        store.calls!.delete(call);
-        resolve(answer as A);
-      });
-      post({ op: "engine", id, call, ...m });
-    });
+  const ask = askMain(store, post);
+  const engine =
+    (m: { ask: "rows" | "rfactor"; db: DatabaseRef; sql: string; maxRows: number }) =>
+    (call: number): FromWorker => ({ op: "engine", id, call, ...m });
   return {
-    rows: (db, sql, maxRows) => ask({ ask: "rows", db, sql, maxRows }),
-    rfactor: (db, sql) => ask({ ask: "rfactor", db, sql, maxRows: 0 }),
+    rows: (db, sql, maxRows) => ask(engine({ ask: "rows", db, sql, maxRows })),
+    rfactor: (db, sql) => ask(engine({ ask: "rfactor", db, sql, maxRows: 0 })),
   };
 }
 
