@@ -6,7 +6,7 @@
  * ```
  *  log(y)          ─▶ CASE WHEN (Y) > 0 THEN ln(Y) END           Y = CAST("y" AS DOUBLE PRECISION)
  *  b*x^2 (term x^2) ─▶ CASE WHEN … THEN NULL ELSE power(X, CAST('2' AS DOUBLE PRECISION)) END
- *  a/x             ─▶ (A / NULLIF(X, CAST('0' AS DOUBLE PRECISION)))
+ *  a/x             ─▶ (A / CASE WHEN X <> CAST('0' AS DOUBLE PRECISION) THEN X END)
  * ```
  *
  * The rules, each checked against both engines (kernel/expr/to_sql_test.ts
@@ -32,9 +32,12 @@
  *   "Out of Range Error: cannot take logarithm of zero"), which would stop
  *   the whole statement. exp below −745.133 is 0, as in Plumb (PostgreSQL
  *   raises "value out of range: underflow" there).
- * - `min` and `max` are `least` and `greatest`, which skip a NULL argument:
- *   where an argument can be NULL (it holds one of the guarded functions)
- *   the call is NULL when either is.
+ * - `min` and `max` are CASE comparisons, and so is the division's guard:
+ *   `least`, `greatest` and `NULLIF` would do, but postgres_fdw (PostgreSQL
+ *   15) sends no expression holding them to a shard, so a sharded engine
+ *   would aggregate on the coordinator (measured). Where an argument can be
+ *   NULL (it holds one of the guarded functions) the call is NULL when
+ *   either is, as Plumb's NaN would spread.
  * - Not covered: overflow and underflow of products, quotients and powers.
  *   Plumb gives ∞ or 0, DuckDB too, PostgreSQL raises an error ("value out
  *   of range: underflow" for `1e-300 * 1e-300`), so there such a statement
@@ -96,8 +99,8 @@ const FORMS: Record<string, (a: string[], nullable: boolean) => string> = {
   atan: ([x]) => `atan(${x})`,
   tanh: ([x]) => `tanh(${x})`,
   pow: ([a, b]) => power(a, b),
-  min: ([a, b], nullable) => bothPresent(a, b, `least(${a}, ${b})`, nullable),
-  max: ([a, b], nullable) => bothPresent(a, b, `greatest(${a}, ${b})`, nullable),
+  min: ([a, b], nullable) => pick(a, b, "<=", nullable),
+  max: ([a, b], nullable) => pick(a, b, ">=", nullable),
   // DuckDB's sign gives TINYINT, PostgreSQL's a double: cast alike.
   sign: ([x]) => `CAST(sign(${x}) AS ${D})`,
 };
@@ -115,8 +118,10 @@ function power(a: string, b: string): string {
   } AND ${b} < ${sqlNumber(0)}) THEN NULL ELSE power(${a}, ${b}) END`;
 }
 
-function bothPresent(a: string, b: string, call: string, nullable: boolean): string {
-  return nullable ? `CASE WHEN ${a} IS NULL OR ${b} IS NULL THEN NULL ELSE ${call} END` : call;
+/** min (`<=`) or max (`>=`) of two values; NULL when either is, where either can be. */
+function pick(a: string, b: string, op: "<=" | ">=", nullable: boolean): string {
+  const absent = nullable ? `WHEN ${a} IS NULL OR ${b} IS NULL THEN NULL ` : "";
+  return `CASE ${absent}WHEN ${a} ${op} ${b} THEN ${a} ELSE ${b} END`;
 }
 
 /**
@@ -222,7 +227,10 @@ function node(e: Expr, columns: SqlColumns, used: string[], dialect: SqlDialect)
     case "/": {
       const a = sub(e.left), b = sub(e.right);
       // x/0 is ±∞ or NaN in Plumb: NULL here (PostgreSQL raises "division by zero").
-      return { sql: `(${a.sql} / NULLIF(${b.sql}, ${sqlNumber(0)}))`, nullable: true };
+      return {
+        sql: `(${a.sql} / CASE WHEN ${b.sql} <> ${sqlNumber(0)} THEN ${b.sql} END)`,
+        nullable: true,
+      };
     }
     case "^": {
       const a = sub(e.left), b = sub(e.right);
