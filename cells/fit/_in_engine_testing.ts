@@ -1,15 +1,19 @@
 /**
- * A test double of `EngineAccess` (kernel/engine/types.ts) over an
- * in-memory DuckDB, for the in-engine fit's tests and bench: `rows` runs the
- * SQL in DuckDB and types the answer as kernel/engine's DuckDB process does
- * (numbers as Float64Array, a NULL as NaN), `rfactor` streams the answer's
- * chunks through the same tall-skinny QR (kernel/linalg/stacked_r.ts),
- * skipping rows with a value that is not finite, as that process does. No
- * child process, no read-only file: the tests load their own invented rows.
+ * Test doubles of `EngineAccess` (kernel/engine/types.ts) for the in-engine
+ * fit's tests and bench. `DuckDbTestEngine`, over an in-memory DuckDB:
+ * `rows` runs the SQL in DuckDB and types the answer as kernel/engine's
+ * DuckDB process does (numbers as Float64Array, a NULL as NaN), `rfactor`
+ * streams the answer's chunks through the same tall-skinny QR
+ * (kernel/linalg/stacked_r.ts), skipping rows with a value that is not
+ * finite, as that process does. `PgTestEngine` does the same over a
+ * PostgreSQL URL with node-postgres (all rows at once: small test data). No
+ * child process, no read-only session: the tests load their own invented
+ * rows.
  *
  * @module
  */
 import { DuckDBInstance } from "@duckdb/node-api";
+import pg from "pg";
 import type { DuckDBConnection } from "@duckdb/node-api";
 import { StackedR } from "../../kernel/linalg/stacked_r.ts";
 import type {
@@ -146,4 +150,61 @@ export class DuckDbTestEngine implements EngineAccess {
 
 function firstLine(e: unknown): string {
   return String(e instanceof Error ? e.message : e).split("\n")[0];
+}
+
+/** A PostgreSQL database behind the engine contract, for tests only (one connection a call). */
+export class PgTestEngine implements EngineAccess {
+  readonly #url: string;
+
+  /** @param url A connection URL. */
+  constructor(url: string) {
+    this.#url = url;
+  }
+
+  async #query(sql: string): Promise<{ names: string[]; rows: unknown[][] }> {
+    const client = new pg.Client({ connectionString: this.#url });
+    await client.connect();
+    try {
+      const r = await client.query({ text: sql, rowMode: "array" });
+      return { names: r.fields.map((f: { name: string }) => f.name), rows: r.rows as unknown[][] };
+    } finally {
+      await client.end();
+    }
+  }
+
+  async rows(_db: DatabaseRef, sql: string, maxRows: number): Promise<EngineAnswer<EngineRows>> {
+    const t0 = performance.now();
+    try {
+      const { names, rows } = await this.#query(sql);
+      const take = rows.slice(0, maxRows);
+      // node-postgres gives float8 as numbers, int8 and numeric as strings.
+      const columns: EngineColumn[] = names.map((name, j) => ({
+        name,
+        type: "number",
+        values: Float64Array.from(take, (r) => (r[j] === null ? NaN : Number(r[j]))),
+      }));
+      const value = { columns, rows: take.length, more: rows.length > take.length };
+      return { ok: true, value, ms: performance.now() - t0 };
+    } catch (e) {
+      return { ok: false, why: "query", message: `The database said: ${firstLine(e)}`, ms: 0 };
+    }
+  }
+
+  async rfactor(_db: DatabaseRef, sql: string): Promise<EngineAnswer<EngineRFactor>> {
+    const t0 = performance.now();
+    try {
+      const { names, rows } = await this.#query(sql);
+      const s = new StackedR(names.length);
+      let skipped = 0;
+      for (const r of rows) {
+        const row = r.map((v) => (v === null ? NaN : Number(v)));
+        if (row.every(Number.isFinite)) s.add(row);
+        else skipped++;
+      }
+      const value = { r: s.finish(), k: names.length, rows: s.rows, skipped };
+      return { ok: true, value, ms: performance.now() - t0 };
+    } catch (e) {
+      return { ok: false, why: "query", message: `The database said: ${firstLine(e)}`, ms: 0 };
+    }
+  }
 }

@@ -11,7 +11,10 @@ import { parseColumnExpression, parseModel } from "../../kernel/expr/mod.ts";
 import { seededRandom } from "../../kernel/random.ts";
 import { digits, loadStrd } from "../../kernel/linalg/_strd.ts";
 import { fitInEngine, type InEngineFit, type InEngineRequest, KAPPA_LIMIT } from "./_in_engine.ts";
-import { DuckDbTestEngine, TEST_DB } from "./_in_engine_testing.ts";
+import { DuckDbTestEngine, PgTestEngine, TEST_DB } from "./_in_engine_testing.ts";
+import { postgresInstalled } from "../../test/engine/_cluster.ts";
+import { startShardedEngine } from "../../test/engine/_shards.ts";
+import { readingsInMemory } from "../../test/engine/_readings.ts";
 import { fitKind } from "./mod.ts";
 import { makeTable, parseContext, runContext } from "./_fixtures_test.ts";
 import type { Fit } from "./fit.ts";
@@ -358,4 +361,53 @@ Deno.test("fitInEngine() says why it cannot fit: no SQL, not finite, too few row
   } finally {
     engine.close();
   }
+});
+
+Deno.test({
+  name:
+    "fitInEngine() on a sharded PostgreSQL: each pass aggregates on the shards, the fit equals the in-memory one",
+  ignore: !postgresInstalled(),
+  sanitizeResources: false,
+  sanitizeOps: false,
+  fn: async () => {
+    const rows = 20_000;
+    const sharded = await startShardedEngine({ basePort: 55790, rows, seed: 11 });
+    try {
+      const names = ["part", "x1", "x2", "x3", "x4", "x5", "y"];
+      const got = await fitInEngine(
+        {
+          name: "line",
+          model: parseModel(LINEAR, names),
+          query: "SELECT part, x1, x2, x3, x4, x5, y FROM readings",
+          columns: new Map(names.map((c) => [c, "number" as const])),
+          partitionBy: "part",
+          order: "x1",
+          confidence: 0.95,
+          countVariance: true,
+          warn: () => {},
+        },
+        new PgTestEngine(sharded.url),
+        { engine: "postgres", urlFrom: "UNUSED" },
+      );
+      assert.ok(got.ok, got.ok ? "" : got.why);
+      const mem = readingsInMemory(rows, 11);
+      const data = Object.fromEntries([...mem.x.map((v, j) => [`x${j + 1}`, v]), ["y", mem.y]]);
+      // The same estimator by Householder QR in memory on the same rows: issue 18's 1e-9.
+      assertSameFit(got.fit, memoryFit(data, LINEAR), 1e-9);
+      for (const pass of got.fit.passes.filter((p) => /^pass [123]/.test(p.name))) {
+        const plan = await sharded.explain(pass.sql);
+        for (const k of [1, 2]) {
+          assert.match(
+            plan,
+            new RegExp(`Relations: Aggregate on \\(public\\.readings_p${k} `),
+            pass.name,
+          );
+        }
+      }
+      // Durbin–Watson's window needs the rows in order: the coordinator computes it.
+      assert.equal(got.fit.passes.length, 4);
+    } finally {
+      await sharded.stop();
+    }
+  },
 });
