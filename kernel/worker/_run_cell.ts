@@ -16,7 +16,7 @@
  * @module
  */
 import type { CellKind, CellOutput, FileData, Registry, RunContext } from "../contract/mod.ts";
-import type { CheckAnswer, IsolateAnswer, IsolateJob } from "../sandbox/mod.ts";
+import type { CheckAnswer, IsolateAnswer } from "../sandbox/mod.ts";
 import type { DatabaseRef, EngineAccess } from "../engine/types.ts";
 import { plainDeep } from "../arrays.ts";
 import { CellError } from "../errors.ts";
