@@ -293,6 +293,22 @@ export class EngineClient {
   }
 }
 
+/**
+ * The buffers of an answer's numbers (numeric columns, R), each its own, for
+ * `postMessage`'s transfer list.
+ *
+ * @param answer An answer of {@link EngineClient}.
+ * @returns The buffers.
+ */
+export function answerBuffers(
+  answer: EngineAnswer<EngineRows> | EngineAnswer<EngineRFactor>,
+): ArrayBuffer[] {
+  if (!answer.ok) return [];
+  const v = answer.value;
+  if ("r" in v) return v.r.byteLength > 0 ? [v.r.buffer as ArrayBuffer] : [];
+  return v.columns.flatMap((c) => c.type === "number" ? [c.values.buffer as ArrayBuffer] : []);
+}
+
 function fromBase64(s: string): Float64Array {
   const bin = atob(s);
   const bytes = new Uint8Array(bin.length);

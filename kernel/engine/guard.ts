@@ -19,6 +19,8 @@ export interface QueryRefusal {
 interface Word {
   text: string;
   at: number;
+  /** Written in double quotes (a name, never a keyword). */
+  quoted?: boolean;
 }
 
 /** Where a quoted text starts right after FROM or JOIN (DuckDB reads a file named so). */
@@ -80,11 +82,28 @@ const FUNCTIONS = new Set([
   "mysql_scan",
   "query_table",
   "getenv",
+  "duckdb_secrets",
+  "which_secret",
+  "read_xlsx",
+  "st_read",
+  "load_aws_credentials",
   // PostgreSQL: files, other servers, the server's state
   "pg_read_file",
   "pg_read_binary_file",
   "pg_ls_dir",
   "pg_stat_file",
+  "pg_ls_logdir",
+  "pg_ls_waldir",
+  "pg_ls_tmpdir",
+  "pg_ls_archive_statusdir",
+  "pg_file_write",
+  "pg_notify",
+  "pg_logical_emit_message",
+  "pg_create_restore_point",
+  "pg_promote",
+  "pg_stat_reset",
+  "pg_try_advisory_lock",
+  "pg_advisory_lock_shared",
   "lo_import",
   "lo_export",
   "lo_from_bytea",
@@ -145,6 +164,10 @@ function tokens(sql: string): { words: Word[]; semis: number[]; files: FileScan[
       if (depth > 0) return refuse("a comment is not closed", i);
       i = j;
     } else if (c === "'" || c === '"' || c === "`") {
+      if (c === '"' && sql[i - 1] === "&" && /[uU]/.test(sql[i - 2] ?? "")) {
+        // U&"…": a name spelled with escapes could hide a function's name.
+        return refuse('a name written as U&"…" is not allowed: write it plainly', i - 2);
+      }
       if (c === "'" && lastWasSource) files.push({ at: i });
       lastWasSource = false;
       const escapes = c === "'" && /[eE]/.test(sql[i - 1] ?? "") && !/\w/.test(sql[i - 2] ?? "");
@@ -160,6 +183,13 @@ function tokens(sql: string): { words: Word[]; semis: number[]; files: FileScan[
         else if (sql[j] === c && sql[j + 1] === c) j += 2;
         else if (sql[j] === c) break;
         else j++;
+      }
+      if (c !== "'") {
+        words.push({
+          text: sql.slice(i + 1, j).replaceAll(c + c, c).toLowerCase(),
+          at: i,
+          quoted: true,
+        });
       }
       i = j + 1;
     } else if (c === "$" && !/[\w$]/.test(sql[i - 1] ?? "")) {
@@ -204,8 +234,11 @@ export function checkQuery(sql: string): QueryRefusal | null {
   const { words, semis, files } = t;
   if (words.length === 0) return refuse("this text holds no statement", 0);
   const first = words[0];
-  if (first.text !== "select" && first.text !== "with" && first.text !== "values") {
-    return refuse(`it starts with ${first.text.toUpperCase()}`, first.at);
+  if (first.quoted || first.text !== "select" && first.text !== "with" && first.text !== "values") {
+    return refuse(
+      first.quoted ? "it starts with a quoted name" : `it starts with ${first.text.toUpperCase()}`,
+      first.at,
+    );
   }
   // A statement end is allowed last, with nothing but spaces and comments after it.
   for (const s of semis) {
@@ -216,6 +249,13 @@ export function checkQuery(sql: string): QueryRefusal | null {
   if (files.length > 0) return refuse("a quoted text after FROM names a file", files[0].at);
   for (let k = 0; k < words.length; k++) {
     const w = words[k];
+    if (w.quoted) {
+      // A quoted name may be a column called "update"; a function's name quoted is still the function.
+      if (FUNCTIONS.has(w.text)) {
+        return refuse(`${w.text} reaches outside the query's tables`, w.at);
+      }
+      continue;
+    }
     if (WRITES.has(w.text)) {
       return refuse(`${w.text.toUpperCase()} is not allowed in a query`, w.at);
     }

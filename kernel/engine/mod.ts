@@ -5,7 +5,7 @@
  * @module
  */
 export { checkQuery, type QueryRefusal } from "./guard.ts";
-export { EngineClient } from "./client.ts";
+export { answerBuffers, EngineClient } from "./client.ts";
 export type {
   DatabaseRef,
   EngineAccess,

@@ -13,7 +13,8 @@ import type { FileData } from "../contract/mod.ts";
 import type { CellOutput } from "../contract/mod.ts";
 import { HALVES_FROM, halvesHelperWorker } from "../csv/mod.ts";
 import { checkProgram, runIsolated } from "../sandbox/mod.ts";
-import type { EngineClient } from "../engine/client.ts";
+import { answerBuffers, type EngineClient } from "../engine/client.ts";
+import type { EngineAnswer, EngineRFactor, EngineRows } from "../engine/types.ts";
 import {
   type DoneMessage,
   type EngineRequest,
@@ -184,8 +185,9 @@ export class ComputeWorker {
 
   /** Asks the document's engine for a run; the statement is cancelled if the run is stopped. */
   #engineRequest(m: EngineRequest): void {
-    const reply = (answer: unknown) =>
-      this.#post({ op: "sandbox-answer", call: m.call, answer } as ToWorker);
+    // Numeric columns and R move to the worker rather than being copied.
+    const reply = (answer: EngineAnswer<EngineRows> | EngineAnswer<EngineRFactor>) =>
+      this.#post({ op: "sandbox-answer", call: m.call, answer }, answerBuffers(answer));
     if (this.#engine === null) {
       reply({ ok: false, why: "cannot-start", message: "No database can be reached here", ms: 0 });
       return;
