@@ -12,6 +12,8 @@
  *
  * ```
  *  stdin  {"id", "op": "rows", "sql", "maxRows"} | {"id", "op": "rfactor", "sql"} | {"id", "op": "cancel"}
+ *         (cancel names the request: waiting, it is answered without running; running, the
+ *         engine is asked to stop it, again every CANCEL_AGAIN_MS until it has)
  *  stdout {"id", "ok": true, "value"} | {"id", "ok": false, "why", "message"}
  * ```
  *
@@ -50,6 +52,15 @@ interface Connection {
 }
 
 const BLOCK_ROWS = 50_000;
+
+/**
+ * How often a cancel is repeated while its statement still runs: an engine
+ * asked between two steps of a request (before the statement began, between
+ * two fetches) has nothing to stop yet.
+ */
+const CANCEL_AGAIN_MS = 100;
+
+const CANCELLED = "The statement was cancelled";
 
 function write(line: unknown): void {
   const bytes = new TextEncoder().encode(JSON.stringify(line) + "\n");
@@ -117,7 +128,13 @@ async function duckdb(file: string): Promise<Connection> {
     try {
       return await con.stream(sql);
     } catch (e) {
-      throw new Failure("query", `The database said: ${firstLine(e)}`);
+      const said = firstLine(e);
+      // What the read-only file and the locked settings stop: a refusal, as the check's are.
+      const why =
+        /read-only mode|disabled by configuration|configuration has been locked/.test(said)
+          ? "refused"
+          : "query";
+      throw new Failure(why, `The database said: ${said}`);
     }
   };
   return {
@@ -267,14 +284,10 @@ async function postgres(variable: string): Promise<Connection> {
     // The server counts from the start of the cursor's declaration.
     const position = Number((e as { position?: string }).position) - CURSOR.length;
     const near = position > 0 ? /^\S{1,40}/.exec(sql.slice(position - 1))?.[0] : undefined;
+    if (code === "57014") return new Failure("cancelled", CANCELLED);
     const why: EngineStop = code === "25006" ? "refused" : "query";
     const said = scrub(firstLine(e), config.password);
-    return new Failure(
-      why,
-      code === "57014"
-        ? "The statement was cancelled"
-        : `The database said: ${said}${near ? ` (near "${near}")` : ""}`,
-    );
+    return new Failure(why, `The database said: ${said}${near ? ` (near "${near}")` : ""}`);
   };
   const inCursor = async <T>(
     sql: string,
@@ -373,9 +386,27 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
     }
   };
   let busy: Promise<void> = Promise.resolve();
+  /** Requests asked to stop (waiting or running). */
+  const cancelled = new Set<number>();
+  let running: number | null = null;
+  const stopIfCancelled = (id: number) => {
+    if (cancelled.has(id)) throw new Failure("cancelled", CANCELLED);
+  };
+  const cancel = (id: number) => {
+    cancelled.add(id);
+    const again = () => {
+      if (running !== id || connection === null) return;
+      connection.cancel();
+      setTimeout(again, CANCEL_AGAIN_MS);
+    };
+    again();
+  };
   const handle = async (req: Request) => {
+    running = req.id;
     try {
+      stopIfCancelled(req.id);
       const c = await connect();
+      stopIfCancelled(req.id);
       if (req.op === "rows") {
         const got = await c.rows(req.sql!, Math.max(0, req.maxRows ?? 0));
         write({
@@ -396,6 +427,7 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
         let skipped = 0;
         const row: number[] = [];
         await c.blocks(req.sql!, (cols, n) => {
+          stopIfCancelled(req.id);
           r ??= new StackedR(cols.length);
           const k = cols.length;
           for (let i = 0; i < n; i++) {
@@ -415,10 +447,15 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
         write({ id: req.id, ok: true, value });
       }
     } catch (e) {
-      const f = e instanceof Failure
+      const f = cancelled.has(req.id)
+        ? new Failure("cancelled", CANCELLED)
+        : e instanceof Failure
         ? e
         : new Failure("query", `The database said: ${firstLine(e)}`);
       write({ id: req.id, ok: false, why: f.why, message: f.message });
+    } finally {
+      running = null;
+      cancelled.delete(req.id);
     }
   };
   const lines = Deno.stdin.readable.pipeThrough(new TextDecoderStream());
@@ -432,7 +469,7 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
       if (line.trim() === "") continue;
       const req = JSON.parse(line) as Request;
       if (req.op === "cancel") {
-        (connection as Connection | null)?.cancel();
+        cancel(req.id);
         continue;
       }
       // One statement at a time on the connection; a cancel goes past the queue.

@@ -44,6 +44,8 @@ class Engine {
     this.#child = child;
     this.#writer = child.stdin.getWriter();
     this.#read();
+    // Read and dropped, so a process that writes warnings never waits on a full pipe.
+    child.stderr.pipeTo(new WritableStream()).catch(() => {});
     child.status.then((s) => {
       this.#dead = s.success ? "The database process ended" : "The database process stopped";
       for (const done of this.#waiting.values()) {
@@ -90,7 +92,7 @@ class Engine {
       let cancelled = false;
       const onAbort = () => {
         cancelled = true;
-        this.#send({ id: 0, op: "cancel" });
+        this.#send({ id, op: "cancel" });
       };
       signal?.addEventListener("abort", onAbort, { once: true });
       // Awaited requests keep Plumb alive; an idle engine does not.
