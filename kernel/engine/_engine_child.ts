@@ -287,7 +287,9 @@ async function postgres(variable: string): Promise<Connection> {
     if (code === "57014") return new Failure("cancelled", CANCELLED);
     const why: EngineStop = code === "25006" ? "refused" : "query";
     const said = scrub(firstLine(e), config.password);
-    return new Failure(why, `The database said: ${said}${near ? ` (near "${near}")` : ""}`);
+    // PostgreSQL's syntax errors name the place already ("at or near …").
+    const place = near && !/ at or near "/.test(said) ? ` (near "${near}")` : "";
+    return new Failure(why, `The database said: ${said}${place}`);
   };
   const inCursor = async <T>(
     sql: string,

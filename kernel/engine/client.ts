@@ -257,6 +257,8 @@ export class EngineClient {
         true,
       );
       probe.stdin.close().catch(() => {});
+      // Awaited: it keeps Plumb alive until it has said where the server is.
+      probe.ref();
       const out = await probe.output();
       let said: { ok: boolean; host?: string; port?: number; why?: EngineStop; message?: string };
       try {
