@@ -1,5 +1,5 @@
 /**
- * Throwaway PostgreSQL 15 clusters for the engine tests and the bench:
+ * Throwaway PostgreSQL clusters (15, or a later major version) for the engine tests and the bench:
  * `initdb` into a temporary folder and `pg_ctl start` on 127.0.0.1, run as
  * the `postgres` user (PostgreSQL refuses to run as root), password logins
  * (scram-sha-256) for a test role. Debian's packages put the programs in
@@ -9,7 +9,18 @@
  */
 import { join } from "node:path";
 
-const BIN = "/usr/lib/postgresql/15/bin";
+/**
+ * Where Debian puts a major version's programs: 15 (Debian 12's) first, else
+ * a later one (Debian 13's `postgresql` is 17); the suites' SQL is that of 15.
+ */
+const BIN = [15, 16, 17, 18].map((v) => `/usr/lib/postgresql/${v}/bin`).find((dir) => {
+  try {
+    Deno.statSync(join(dir, "pg_ctl"));
+    return true;
+  } catch {
+    return false;
+  }
+}) ?? "/usr/lib/postgresql/15/bin";
 
 /** Whether PostgreSQL's programs are installed. */
 export function postgresInstalled(): boolean {
