@@ -303,6 +303,17 @@ export class EngineClient {
  *
  * @param answer An answer of {@link EngineClient}.
  * @returns The buffers.
+ * @example
+ * ```ts
+ * import { answerBuffers } from "./client.ts";
+ * const x = new Float64Array([1, 2]);
+ * const moved = answerBuffers({
+ *   ok: true,
+ *   ms: 1,
+ *   value: { rows: 2, more: false, columns: [{ name: "x", type: "number", values: x }] },
+ * });
+ * if (moved.length !== 1 || moved[0] !== x.buffer) throw new Error("the column's buffer");
+ * ```
  */
 export function answerBuffers(
   answer: EngineAnswer<EngineRows> | EngineAnswer<EngineRFactor>,
