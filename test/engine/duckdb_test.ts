@@ -7,6 +7,7 @@ import { join } from "node:path";
 import { plumbRunJson } from "../examples/_plumb_run.ts";
 import { lre, readReferenceJson, withoutReference } from "../reference/_reference.ts";
 import { fitDifference, type FitJson, makeDuckdb, resultOf } from "./_engine_testing.ts";
+import { askEngineProcess } from "./_engine_direct.ts";
 
 /**
  * Invented, well-conditioned data: five predictors from a fixed formula
@@ -148,34 +149,18 @@ Deno.test("a query that writes is refused at its place before DuckDB sees it, an
     equal(w.error!.line, 5);
     equal(cells.find((c) => c.name === "fine")!.error, null, "the other cells keep working");
     // The engine's own refusal: its process, asked directly, past Plumb's check.
-    const child = new Deno.Command(Deno.execPath(), {
-      args: [
-        "run",
-        "--config",
-        new URL("../../deno.json", import.meta.url).pathname,
-        "--quiet",
-        "--allow-ffi",
-        new URL("../../kernel/engine/_engine_child.ts", import.meta.url).pathname,
+    const { answers: out } = await askEngineProcess(
+      ["--allow-ffi"],
+      [
         "duckdb",
         join(dir, "plant.duckdb"),
       ],
-      stdin: "piped",
-      stdout: "piped",
-      stderr: "piped",
-    }).spawn();
-    const wr = child.stdin.getWriter();
-    await wr.write(new TextEncoder().encode(
-      JSON.stringify({ id: 1, op: "rows", sql: "INSERT INTO t VALUES (2)", maxRows: 1 }) + "\n" +
-        JSON.stringify({
-          id: 2,
-          op: "rows",
-          sql: "SELECT * FROM read_csv('/etc/hostname')",
-          maxRows: 1,
-        }) + "\n",
-    ));
-    await wr.close();
-    const out = new TextDecoder().decode((await child.output()).stdout).trim().split("\n")
-      .map((l) => JSON.parse(l));
+      {},
+      [
+        { id: 1, op: "rows", sql: "INSERT INTO t VALUES (2)", maxRows: 1 },
+        { id: 2, op: "rows", sql: "SELECT * FROM read_csv('/etc/hostname')", maxRows: 1 },
+      ],
+    );
     equal(out[0].ok, false);
     match(out[0].message, /read-only/i);
     equal(out[1].ok, false);

@@ -8,6 +8,7 @@ import { equal, match, ok } from "node:assert/strict";
 import { join } from "node:path";
 import { plumbRunJson } from "../examples/_plumb_run.ts";
 import { freePort, startCluster } from "./_cluster.ts";
+import { askEngineProcess } from "./_engine_direct.ts";
 import { fitDifference, type FitJson, resultOf, withoutPostgres } from "./_engine_testing.ts";
 
 const ignore = withoutPostgres("postgres");
@@ -104,36 +105,13 @@ Deno.test({
     const cluster = await startCluster(0);
     try {
       await cluster.psql("CREATE SEQUENCE s; GRANT ALL ON SEQUENCE s TO plumb;", "plumb");
-      const child = new Deno.Command(Deno.execPath(), {
-        args: [
-          "run",
-          "--config",
-          new URL("../../deno.json", import.meta.url).pathname,
-          "--quiet",
-          "--allow-env=PLUMB_TEST_PG_RW",
-          `--allow-net=127.0.0.1:${cluster.port}`,
-          new URL("../../kernel/engine/_engine_child.ts", import.meta.url).pathname,
-          "postgres",
-          "PLUMB_TEST_PG_RW",
-        ],
-        env: { PLUMB_TEST_PG_RW: cluster.url },
-        stdin: "piped",
-        stdout: "piped",
-        stderr: "piped",
-      }).spawn();
-      const w = child.stdin.getWriter();
-      await w.write(new TextEncoder().encode(
-        JSON.stringify({
-          id: 1,
-          op: "rows",
-          // A cursor cannot hold an INSERT; a function that writes is the way past the syntax.
-          sql: "SELECT nextval('s') AS x",
-          maxRows: 1,
-        }) +
-          "\n",
-      ));
-      await w.close();
-      const out = JSON.parse(new TextDecoder().decode((await child.output()).stdout).trim());
+      const { answers: [out] } = await askEngineProcess(
+        ["--allow-env=PLUMB_TEST_PG_RW", `--allow-net=127.0.0.1:${cluster.port}`],
+        ["postgres", "PLUMB_TEST_PG_RW"],
+        { PLUMB_TEST_PG_RW: cluster.url },
+        // A cursor cannot hold an INSERT; a function that writes is the way past the syntax.
+        [{ id: 1, op: "rows", sql: "SELECT nextval('s') AS x", maxRows: 1 }],
+      );
       equal(out.ok, false);
       match(out.message, /read-only transaction/);
       equal((await cluster.psql("SELECT last_value FROM s", "plumb")).trim(), "1");
