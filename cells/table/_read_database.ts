@@ -4,15 +4,17 @@
  * with their names, types, units and missing counts.
  *
  * ```
- *  fingerprint (count, hash of the values) ─▶ n ≤ LOAD_ROWS ─▶ rows(query) ─▶ typed columns
- *                                           └▶ n > LOAD_ROWS ─▶ columns' counts in the engine (kept)
+ *  plan (main thread): stamp = columns (LIMIT 0) + fingerprint (count, hash of the values)
+ *     └─▶ in the cell's cache key: a changed answer reruns the table and what reads it
+ *  run (worker): stamp ─▶ n ≤ LOAD_ROWS ─▶ rows(query) ─▶ typed columns
+ *                     └▶ n > LOAD_ROWS ─▶ columns' counts in the engine (kept)
  * ```
  *
  * @module
  */
 import { CellError, type OptionPath } from "../../kernel/errors.ts";
 import { ownValue } from "../../kernel/own.ts";
-import type { Column, RunContext } from "../../kernel/contract/mod.ts";
+import type { Column, RunContext, StampContext } from "../../kernel/contract/mod.ts";
 import type {
   DatabaseRef,
   EngineAccess,
@@ -97,16 +99,84 @@ function placeOf(why: string): OptionPath {
  * @throws {CellError} On the option the failure concerns.
  */
 export function engineValue<T>(a: EngineAnswer<T>, ctx: RunContext): T {
+  return answer(a, () => ctx.progress(1));
+}
+
+function answer<T>(a: EngineAnswer<T>, cancelled: () => void): T {
   if (a.ok) return a.value;
-  if (a.why === "cancelled") ctx.progress(1);
+  if (a.why === "cancelled") cancelled();
   throw new CellError(a.message, placeOf(a.why));
+}
+
+/** What the table's stamp holds: the query's columns and the fingerprint of its answer. */
+interface Stamp {
+  columns: { name: string; type: "number" | "text" }[];
+  n: number;
+  hash: string;
+}
+
+/**
+ * The table's stamp (`CellKind.stamp`), asked on the main thread when the
+ * document is planned: the query's columns (a LIMIT 0 statement) and the
+ * fingerprint of its answer, so a changed database reruns the table and what
+ * reads it; the run reads it back instead of asking again.
+ *
+ * @param spec The table's spec.
+ * @param ctx Database access.
+ * @returns The stamp as JSON text, or null for a table read from a file.
+ * @throws {CellError} As {@link readDatabaseTable}: the engine's words on `database` or `query`,
+ *   a `partition_by` that names no column.
+ */
+export function databaseStamp(spec: TableSpec, ctx: StampContext): Promise<string> | null {
+  if (spec.source === null) return null;
+  return askStamp(spec, ctx.engine, () => {}).then((s) => JSON.stringify(s));
+}
+
+async function askStamp(
+  spec: TableSpec,
+  engine: EngineAccess,
+  cancelled: () => void,
+): Promise<Stamp> {
+  const src = spec.source!;
+  const head = answer(
+    await engine.rows(src.database, `SELECT * FROM (${src.query}) AS plumb_q LIMIT 0`, 0),
+    cancelled,
+  );
+  if (src.partitionBy !== null && !head.columns.some((c) => c.name === src.partitionBy)) {
+    throw new CellError(
+      `partition_by names "${src.partitionBy}", which is not a column of the query`,
+      ["partition_by"],
+    );
+  }
+  const print = answer(
+    await engine.rows(
+      src.database,
+      fingerprintSql(src.database.engine, src.query, head.columns, src.partitionBy),
+      100_000,
+    ),
+    cancelled,
+  );
+  const columns = head.columns.map(({ name, type }) => ({ name, type }));
+  return { columns, ...combineFingerprint(print.columns) };
+}
+
+/** The stamp the run was given, when it is one of this table's. */
+function givenStamp(ctx: RunContext): Stamp | null {
+  if (ctx.stamp === undefined) return null;
+  try {
+    const s = JSON.parse(ctx.stamp) as Stamp;
+    return Array.isArray(s.columns) && typeof s.n === "number" ? s : null;
+  } catch {
+    return null;
+  }
 }
 
 /**
  * Reads a database table.
  *
  * @param spec The table's spec (with `source`).
- * @param ctx The run context; needs `engine`.
+ * @param ctx The run context; needs `engine`. Its `stamp`, when given, is
+ *   the fingerprint asked at planning ({@link databaseStamp}), not asked again.
  * @returns The table, its rows in memory or kept in the engine.
  * @throws {CellError} When no engine can be reached, the engine refuses or
  *   fails (in its words, on `database` or `query`), a unit names no column,
@@ -120,29 +190,12 @@ export async function readDatabaseTable(spec: TableSpec, ctx: RunContext): Promi
       "database",
     ]);
   }
-  const head = engineValue(
-    await engine.rows(src.database, `SELECT * FROM (${src.query}) AS plumb_q LIMIT 0`, 0),
-    ctx,
-  );
-  if (src.partitionBy !== null && !head.columns.some((c) => c.name === src.partitionBy)) {
-    throw new CellError(
-      `partition_by names "${src.partitionBy}", which is not a column of the query`,
-      ["partition_by"],
-    );
-  }
-  const print = engineValue(
-    await engine.rows(
-      src.database,
-      fingerprintSql(src.database.engine, src.query, head.columns, src.partitionBy),
-      100_000,
-    ),
-    ctx,
-  );
-  const { n, hash } = combineFingerprint(print.columns);
+  const { columns: head, n, hash } = givenStamp(ctx) ??
+    await askStamp(spec, engine, () => ctx.progress(1));
   const fingerprint = `${n}:${hash}`;
   const kept = src.keep === "database" || (src.keep === "auto" && n > LOAD_ROWS);
   const columns = kept
-    ? await keptColumns(engine, spec, head.columns, ctx)
+    ? await keptColumns(engine, spec, head, ctx)
     : typedColumns(engineValue(await engine.rows(src.database, src.query, n), ctx), spec);
   checkUnits(spec.units, columns.map((c) => c.name));
   const rows = new Int32Array(kept ? 0 : n);
@@ -220,7 +273,7 @@ function countNull(values: (string | null)[]): number {
 async function keptColumns(
   engine: EngineAccess,
   spec: TableSpec,
-  head: readonly EngineColumn[],
+  head: readonly { name: string; type: "number" | "text" }[],
   ctx: RunContext,
 ): Promise<Column[]> {
   const src = spec.source!;

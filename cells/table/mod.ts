@@ -21,6 +21,7 @@
  */
 import type { CellKind } from "../../kernel/contract/mod.ts";
 import { runTable, type TableOutput } from "./run.ts";
+import { databaseStamp } from "./_read_database.ts";
 import { parseTableSpec, type TableSpec } from "./spec.ts";
 import { summarizeTable, tableLine, type TableResult } from "./summary.ts";
 import { TABLE_OPTIONS } from "./spec.ts";
@@ -41,6 +42,7 @@ export const tableKind: CellKind<TableSpec, TableOutput, TableResult> = {
   parse: parseTableSpec,
   inputs: () => [],
   files: (spec) => (spec.from === null ? [] : [{ path: spec.from, option: ["from"] }]),
+  stamp: databaseStamp,
   run: runTable,
   summary: (out) => summarizeTable(out),
   // Every kept row with a missing value: up to one entry a row, which no view reads.

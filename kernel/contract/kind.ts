@@ -85,6 +85,21 @@ export interface RunContext {
    * (contexts built by hand in tests).
    */
   engine?: EngineAccess;
+  /**
+   * What the kind's `stamp` answered for this cell when the document was
+   * planned (the fingerprint of a database query's answer), so the run need
+   * not ask again. Absent for kinds without `stamp`, and in contexts built by hand.
+   */
+  stamp?: string;
+}
+
+/** What `stamp` gets: database access from the main thread. */
+export interface StampContext {
+  /** The cell's name. */
+  name: string;
+  settings: DocSettings;
+  /** Database access (kernel/engine); the same engine processes the runs use. */
+  engine: EngineAccess;
 }
 
 /** A column a cell offers other cells (a table's columns, by the kind's `columns`). */
@@ -163,6 +178,17 @@ export interface CellKind<Spec = unknown, Out extends CellOutput = CellOutput, R
   readsKept?: boolean;
   /** The data files this one reads (optional). */
   files?(spec: Spec): FileRef[];
+  /**
+   * A fingerprint of what the cell reads from outside the document other than
+   * its files (a database query's row count and hash of its values), asked on
+   * the main thread when the document is planned. It enters the cell's cache
+   * key as a data file's SHA-256 does, so a changed answer reruns the cell and
+   * what reads it; the run gets it back as `RunContext.stamp`. A live session
+   * asks again from time to time (kernel/server/live_workspace.ts). Returns
+   * null where the cell reads nothing of the kind (a table from a file);
+   * rejects with a CellError on the option at fault. Optional.
+   */
+  stamp?(spec: Spec, ctx: StampContext): Promise<string> | null;
   /**
    * What the cell will need outside the worker, started while its inputs
    * compute (optional): `sandboxMb`, a sandbox process with that memory cap

@@ -14,6 +14,7 @@ export type {
   PageFace,
   ParseContext,
   RunContext,
+  StampContext,
   TemplateCell,
   TemplateContext,
   ViewProps,

@@ -31,6 +31,11 @@
  * the update as seen in the page p50 145 → 122 ms); a long run still shows
  * busy states, progress and each result as it comes.
  *
+ * A database has no modification time to watch: after a run that read one
+ * (`CellKind.stamp`, a query's fingerprint), the workspace asks every
+ * fingerprint again after {@link recheckDelay} and reruns the document when
+ * one changed, so the page follows a database that changes under it.
+ *
  * A cell's result stays the JSON text the compute worker wrote for the page
  * (`CellReport.page`) all the way to the socket: the live channel splices it
  * into each frame's text (live_channel.ts).
@@ -60,6 +65,21 @@ export interface LiveOptions {
   sendMany?: (msgs: Outgoing[]) => void;
   /** How long cell messages are held back from the start of a run (default {@link BUSY_GRACE_MS}). */
   busyGraceMs?: number;
+  /** Milliseconds between asks of the database fingerprints (default {@link recheckDelay}). */
+  recheckMs?: number;
+}
+
+/**
+ * How long to wait before asking the database fingerprints again: twenty
+ * times what asking them last cost, so rechecking keeps a database at most
+ * about 5% busy, and between 15 s and 10 min (common practice for polling a
+ * source without change notices, no source).
+ *
+ * @param costMs What the last asks took together, in milliseconds.
+ * @returns The wait in milliseconds.
+ */
+export function recheckDelay(costMs: number): number {
+  return Math.min(600_000, Math.max(15_000, 20 * costMs));
 }
 
 /**
@@ -102,6 +122,9 @@ export class LiveWorkspace {
   /** The document message held back with them (the latest). */
   #heldDoc: DocumentMessage | null = null;
   #graceTimer: ReturnType<typeof setTimeout> | null = null;
+  /** The next ask of the database fingerprints, when a run read a database. */
+  #recheckTimer: ReturnType<typeof setTimeout> | null = null;
+  #closed = false;
   #graceOver = true;
   #run = 0;
   #runningPrint: string | null = null;
@@ -279,9 +302,40 @@ export class LiveWorkspace {
         errors: report.errors,
       });
       await this.#record(snap, report);
+      this.#scheduleRecheck();
     } finally {
       this.#runningPrint = null;
     }
+  }
+
+  /** Asks the database fingerprints again later, when the document read any. */
+  #scheduleRecheck(): void {
+    if (this.#recheckTimer !== null) clearTimeout(this.#recheckTimer);
+    this.#recheckTimer = null;
+    const { count, costMs } = this.#session.stamps;
+    if (count === 0 || this.#closed) return;
+    const wait = this.#opts.recheckMs ?? recheckDelay(costMs);
+    this.#recheckTimer = setTimeout(() => this.#recheck(), wait);
+    // A pending recheck never keeps the server's process alive by itself.
+    Deno.unrefTimer(this.#recheckTimer as unknown as number);
+  }
+
+  async #recheck(): Promise<void> {
+    this.#recheckTimer = null;
+    if (this.#closed) return;
+    if (this.#loop) {
+      // A run is going: it schedules the next recheck when it ends.
+      return;
+    }
+    let changed = false;
+    try {
+      changed = await this.#session.recheckStamps();
+    } catch { /* stamps never throw; a failure counts as changed inside */ }
+    if (this.#closed) return;
+    if (changed) {
+      this.#donePrint = null; // the same text and files, another database answer
+      await this.request();
+    } else this.#scheduleRecheck();
   }
 
   /**
@@ -420,7 +474,9 @@ export class LiveWorkspace {
 
   /** Stops the session's worker. */
   close(): void {
+    this.#closed = true;
     if (this.#graceTimer !== null) clearTimeout(this.#graceTimer);
+    if (this.#recheckTimer !== null) clearTimeout(this.#recheckTimer);
     this.#session.close();
   }
 }

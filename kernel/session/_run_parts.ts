@@ -13,6 +13,7 @@ import type { LocatedError } from "../errors.ts";
 import type { WorkerPool } from "../worker/pool.ts";
 import type { DoneMessage } from "../worker/protocol.ts";
 import type { FileStore } from "./files.ts";
+import type { Stamps } from "./stamps.ts";
 import type { Plan, SessionEvent } from "./types.ts";
 
 /** A plan before the data files are read: no keys yet. */
@@ -24,6 +25,8 @@ export interface RunHost {
   pool: WorkerPool;
   /** The data files, read on the main thread. */
   files: FileStore;
+  /** Fingerprints of database answers, asked on the main thread (stamps.ts). */
+  stamps: Stamps;
   /** Answers kept by cache key, across runs. */
   outcomes: Map<string, Outcome>;
   /** Whether results are the page's copies (`SessionOptions.page`). */

@@ -3,7 +3,8 @@
  * and settled, which worker computes which cell, and the report being built.
  *
  * ```
- *  plan()      read the data files, key every cell; those that can run are queued
+ *  plan()      read the data files, ask database fingerprints (stamps.ts), key every cell;
+ *              those that can run are queued
  *    │
  *  execute() ─┬─ sendReady(): a cell whose inputs have settled takes a place on a
  *    │        │  worker (WorkerPool); one that will compute and whose unsettled inputs
@@ -58,6 +59,8 @@ interface Ahead {
  */
 type Tell = "start" | "progress" | "nothing";
 
+const stampOf = (stamp: string | null) => stamp === null ? {} : { stamp };
+
 /** One run of a document: plan, send ready cells, settle them, finish. */
 export class Run {
   readonly #host: RunHost;
@@ -108,6 +111,9 @@ export class Run {
   async plan(source: string): Promise<void> {
     const prep = this.#host.prepare(source);
     await this.#readFiles(prep);
+    for (const [node, err] of await this.#host.stamps.fill(prep.graph.nodes, prep.settings)) {
+      if (!this.#fileErrors.has(node)) this.#fileErrors.set(node, err);
+    }
     const shas = new Map([...this.#fileData].map(([path, f]) => [path, f.sha256]));
     const plan = this.#plan = this.#host.keyed(prep, shas);
     // A cell still computing for an earlier run whose inputs changed is stopped (`search`).
@@ -459,6 +465,7 @@ export class Run {
       settings: this.#plan.settings,
       inputs: Object.fromEntries(node.deps.map((d) => [d, this.#plan.keys.get(d)!])),
       files,
+      ...stampOf(this.#host.stamps.of(node)),
       ...this.#shapeOf(node.name),
       ...(this.#host.keep ? { keep: true } : {}),
       onProgress: (fraction, note) => {

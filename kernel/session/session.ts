@@ -4,7 +4,8 @@
  * ```
  *  source ──plan()──▶ graph + cache keys ──execute──▶ cell states
  *                        │ key = hash(kind, spec, settings,
- *                        │            keys of inputs, SHA-256 of files)
+ *                        │            keys of inputs, SHA-256 of files,
+ *                        │            stamp: a database answer's fingerprint)
  *                        ▼
  *              outcome cache (key → summary, page text or error)
  * ```
@@ -24,6 +25,7 @@ import { OptionsCache } from "../graph/options_cache.ts";
 import { WorkerPool } from "../worker/pool.ts";
 import { EngineClient } from "../engine/client.ts";
 import { FileStore } from "./files.ts";
+import { Stamps } from "./stamps.ts";
 import { isCellError, type Outcome, type Prepared, type RunHost } from "./_run_parts.ts";
 import { checkInlineRefs } from "./inline_refs.ts";
 import { Run } from "./run.ts";
@@ -46,6 +48,8 @@ export class Session {
   /** Database access for the document's tables (engine processes start on first use). */
   #engine: EngineClient;
   #files: FileStore;
+  /** Fingerprints of database answers, by cell spec (stamps.ts). */
+  #stamps: Stamps;
   #outcomes = new Map<string, Outcome>();
   #optionsCache = new OptionsCache();
   /** What each run uses of this session. */
@@ -64,9 +68,11 @@ export class Session {
     this.#engine = new EngineClient(opts.dir);
     this.#pool = new WorkerPool(opts.workerUrl, opts.workers, this.#engine);
     this.#files = new FileStore(opts.dir);
+    this.#stamps = new Stamps(this.#engine);
     this.#host = {
       pool: this.#pool,
       files: this.#files,
+      stamps: this.#stamps,
       outcomes: this.#outcomes,
       page: opts.page === true,
       keep: opts.history === true,
@@ -122,7 +128,18 @@ export class Session {
       const depKeys = node.deps.map((d) => keys.get(d));
       if (depKeys.some((k) => k === undefined)) continue;
       const shas = node.files.map((f) => fileShas.get(f.path) ?? null);
-      keys.set(node.name, hashValue([node.kind, node.specJson, settingsKey, depKeys, shas]));
+      const stamp = this.#stamps.of(node);
+      keys.set(
+        node.name,
+        hashValue([
+          node.kind,
+          node.specJson,
+          settingsKey,
+          depKeys,
+          shas,
+          ...(stamp ? [stamp] : []),
+        ]),
+      );
     }
     const stale = prep.graph.order
       .filter((n) => keys.has(n.name) && !this.#outcomes.has(keys.get(n.name)!))
@@ -142,6 +159,23 @@ export class Session {
     const run = this.#latest = new Run(this.#host);
     await run.plan(source);
     return await run.execute();
+  }
+
+  /**
+   * Asks every database fingerprint again (`CellKind.stamp`) for the cells of
+   * the last document planned.
+   *
+   * @returns True when one changed (or failed): a run now would compute again.
+   */
+  recheckStamps(): Promise<boolean> {
+    const nodes = this.#lastPrep?.prep.graph.nodes ?? [];
+    const inUse = new Set(nodes.filter((n) => !n.error && n.plugin?.stamp).map(Stamps.keyOf));
+    return this.#stamps.recheck(inUse);
+  }
+
+  /** What the session knows of database answers: how many, their last cost, one hash of them. */
+  get stamps(): { count: number; costMs: number; print: string } {
+    return { count: this.#stamps.size, costMs: this.#stamps.costMs, print: this.#stamps.print() };
   }
 
   /**

@@ -210,6 +210,7 @@ export async function runCell(
       ...gathered,
       sandbox: sandboxFor(store, req.id, post),
       engine: engineFor(store, req.id, post),
+      ...(req.stamp === undefined ? {} : { stamp: req.stamp }),
       summaryOf: (name) => inputSummary(registry, store, req.inputs, name),
       warn: (m) => {
         if (!warnings.includes(m)) warnings.push(m);

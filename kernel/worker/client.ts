@@ -292,6 +292,7 @@ export class ComputeWorker {
         settings: job.settings,
         inputs: job.inputs,
         files,
+        ...(job.stamp === undefined ? {} : { stamp: job.stamp }),
         ...(job.page === undefined ? {} : { page: job.page }),
         ...(job.keep ? { keep: true } : {}),
         ...(job.lean === undefined ? {} : { lean: job.lean }),

@@ -60,6 +60,8 @@ export interface RunRequest {
   inputs: Record<string, string>;
   /** File path as written → SHA-256 of its content (already sent). */
   files: Record<string, string>;
+  /** The cell's stamp as planned (`CellKind.stamp`, a database answer's fingerprint), if any. */
+  stamp?: string;
   /**
    * Present: reply with the page's copy of the summary, keeping these
    * top-level fields even where the page would leave them out (inline values
