@@ -472,6 +472,10 @@ export interface InEngineRecord {
   /** Rows of the query left out for a missing value in a column the model uses. */
   rows_left_out: number;
   partition_by: string | null;
+  /** The column whose order Durbin–Watson followed (the table's `order_by`), or null. */
+  order_by: string | null;
+  /** The relative weights' expression as written, or null for an unweighted fit. */
+  weights: string | null;
   computed: InEngineFit["computed"];
   /** The sentence said when the rows were streamed, else null. */
   note: string | null;
@@ -485,19 +489,30 @@ export interface InEngineRecord {
 
 /**
  * Fits a linear model to a table kept in its database, for cells/fit/run.ts: the solution
- * (without per-row arrays), n and the record of where each number came from.
+ * (without per-row arrays), n, the record of where each number came from, and the
+ * statistics (relative weights count in the likelihood as in memory).
  *
  * @param problem The problem built from the table (its model; no rows).
- * @param table The table, with `database`.
+ * @param table The table, with `database` (its `orderBy` orders Durbin–Watson).
  * @param ctx The run context (its `engine`, settings, warnings, progress).
- * @returns The solution, n and the record.
+ * @param options Relative weights (`weights:`) or null; whether the criteria count σ².
+ * @returns The solution, n, the record and the statistics.
  * @throws {CellError} When a term has no SQL, the engine fails, or the rows do not allow the fit.
  */
 export async function solveInEngine(
   problem: FitProblem,
   table: Table & { database: TableInEngine },
   ctx: RunContext,
-): Promise<{ solution: FitSolution; n: number; record: InEngineRecord }> {
+  options: {
+    weights: { expr: Expr; text: string } | null;
+    countVariance: boolean;
+  } = { weights: null, countVariance: true },
+): Promise<{
+  solution: FitSolution;
+  n: number;
+  record: InEngineRecord;
+  statistics: FitStatistics;
+}> {
   const db = table.database;
   if (ctx.engine === undefined) {
     throw new CellError("This table's rows are in a database, which cannot be reached here", [
@@ -511,9 +526,11 @@ export async function solveInEngine(
       query: db.query,
       columns: new Map(table.columns.map((c) => [c.name, c.type])),
       partitionBy: db.partitionBy,
+      order: db.orderBy ?? null,
+      weights: options.weights,
       confidence: ctx.settings.confidence,
-      countVariance: true,
-      warn: () => {}, // run.ts computes the statistics again and says their warnings
+      countVariance: options.countVariance,
+      warn: ctx.warn,
       progress: (f, what) => ctx.progress(f, what),
     },
     ctx.engine,
@@ -542,6 +559,8 @@ export async function solveInEngine(
     kappa: f.kappa,
     rows_left_out: f.rowsLeftOut.missing + f.rowsLeftOut.zeroWeight,
     partition_by: db.partitionBy,
+    order_by: db.orderBy ?? null,
+    weights: options.weights?.text ?? null,
     computed: f.computed,
     note: f.note,
     sum_residuals: f.sumResiduals,
@@ -550,5 +569,5 @@ export async function solveInEngine(
     breusch_pagan: f.breuschPagan,
     passes: f.passes.map(({ name, ms }) => ({ name, ms })),
   };
-  return { solution, n: f.n, record };
+  return { solution, n: f.n, record, statistics: f.statistics };
 }

@@ -98,7 +98,16 @@ function withMissing(before: Int32Array | undefined, more: number[]): Int32Array
   return Int32Array.from([...(before ?? []), ...more]).sort();
 }
 
-function parseAgainst(text: string, table: Table, key: string): Expr {
+/**
+ * A weighting expression parsed against a table's columns.
+ *
+ * @param text The expression as written.
+ * @param table The table.
+ * @param key The option (`weights` or `known_sigma`), for messages.
+ * @returns The expression.
+ * @throws {CellError} On the option, at the offending place.
+ */
+export function parseAgainst(text: string, table: Table, key: string): Expr {
   try {
     return parseColumnExpression(text, table.columns.map((c) => c.name));
   } catch (e) {

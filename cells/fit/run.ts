@@ -27,7 +27,7 @@ import { buildProblem } from "./_data.ts";
 import { solveLinear } from "./solve_linear.ts";
 import { solveNonlinear } from "./solve_nonlinear.ts";
 import { fitStatistics } from "./_statistics.ts";
-import { applyWeighting } from "./_weighting.ts";
+import { applyWeighting, parseAgainst } from "./_weighting.ts";
 import { identifierOffset } from "./_offsets.ts";
 import { type ModelUnits, modelUnits } from "../../kernel/units/mod.ts";
 
@@ -136,24 +136,23 @@ async function runFitInEngine(spec: FitSpec, ctx: RunContext, table: InEngineTab
       ["model"],
     );
   }
-  const weightsText = spec.weights ?? spec.knownSigma;
-  if (weightsText !== undefined) {
+  if (spec.knownSigma !== undefined) {
     throw new CellError(
-      `Cannot fit "${ctx.name}" in the database with weights yet: table "${spec.on}" keeps its rows there; narrow the query to at most 1,000,000 rows to fit it weighted`,
-      [spec.weights !== undefined ? "weights" : "known_sigma"],
+      `Cannot fit "${ctx.name}" in the database with known standard deviations: table "${spec.on}" keeps its rows there, and the χ² tests of known_sigma need each row's fitted value; give relative weights (weights: 1/(${spec.knownSigma})^2) or narrow the query to at most 1,000,000 rows`,
+      ["known_sigma"],
     );
   }
-  const { solution, n, record } = await solveInEngine(problem, table, ctx);
+  const weights = spec.weights === undefined
+    ? null
+    : { expr: parseAgainst(spec.weights, table, "weights"), text: spec.weights };
+  const { solution, n, record, statistics } = await solveInEngine(problem, table, ctx, {
+    weights,
+    countVariance: spec.countVariance !== false,
+  });
   for (const w of model.warnings) ctx.warn(w.message);
   const units = unitsOf(ctx.name, model, table);
   for (const w of units.warnings) ctx.warn(w.message);
   warnUnused(spec, ctx);
-  const sized = { ...problem, n, seed: ctx.settings.seed, warn: ctx.warn };
-  const statistics = fitStatistics(sized, solution, {
-    confidence: ctx.settings.confidence,
-    weighting: "none",
-    countVariance: spec.countVariance !== false,
-  }, ctx.warn);
   if (record.note !== null) ctx.warn(`Fit "${ctx.name}": ${record.note}`);
   return {
     type: "Fit",
@@ -161,8 +160,8 @@ async function runFitInEngine(spec: FitSpec, ctx: RunContext, table: InEngineTab
     on: spec.on,
     model,
     responseText: model.text.slice(model.response.start, model.response.end),
-    weighted: false,
-    weighting: "none",
+    weighted: weights !== null,
+    weighting: weights === null ? "none" : "relative",
     weights: null,
     parameters: model.parameters,
     units,

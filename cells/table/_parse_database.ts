@@ -2,8 +2,10 @@
  * Normalisers for a table read from a database: `database` (an embedded
  * DuckDB file beside the document, or `{ url_from: VARIABLE }` naming the
  * environment variable that holds a PostgreSQL URL), `query` (one read-only
- * SELECT) and `partition_by` (the column the database partitions the table
- * by, so sums are taken per partition where each partition lives).
+ * SELECT), `partition_by` (the column the database partitions the table
+ * by, so sums are taken per partition where each partition lives) and
+ * `order_by` (the column whose order is the rows' sequence: rows in memory
+ * come in that order, and a fit in the engine takes Durbin–Watson in it).
  *
  * @module
  */
@@ -18,6 +20,8 @@ export interface DatabaseSource {
   /** The query as written (trimmed). */
   query: string;
   partitionBy: string | null;
+  /** The column giving the rows' sequence, or null (the query's own order). */
+  orderBy: string | null;
   /** Where the rows are kept: memory up to LOAD_ROWS (auto), or always one place. */
   keep: "auto" | "memory" | "database";
 }
@@ -35,8 +39,8 @@ const IN_QUERY: Record<string, string> = {
 const VARIABLE = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
 /**
- * Reads `database`, `query` and `partition_by`; null when the table has no
- * `database` (then `query` and `partition_by` are refused).
+ * Reads `database`, `query`, `partition_by`, `order_by` and `keep_rows`;
+ * null when the table has no `database` (then the others are refused).
  *
  * @param o The cell's options.
  * @param name The cell's name (for messages).
@@ -50,7 +54,7 @@ export function parseDatabaseSource(
   name: string,
 ): DatabaseSource | null {
   if (o.database === undefined || o.database === null) {
-    for (const key of ["query", "partition_by", "keep_rows"]) {
+    for (const key of ["query", "partition_by", "order_by", "keep_rows"]) {
       if (o[key] !== undefined) {
         throw new CellError(
           `Option "${key}" goes with database: name the database the query runs in`,
@@ -84,7 +88,16 @@ export function parseDatabaseSource(
   return {
     database: parseDatabase(o.database),
     query: parseQuery(o.query),
-    partitionBy: parsePartitionBy(o.partition_by),
+    partitionBy: columnName(
+      o.partition_by,
+      "partition_by",
+      "the one the database partitions the table by",
+    ),
+    orderBy: columnName(
+      o.order_by,
+      "order_by",
+      "the one whose order is the rows' sequence (a time, a cycle)",
+    ),
     keep: parseKeep(o.keep_rows),
   };
 }
@@ -138,13 +151,10 @@ function parseQuery(v: unknown): string {
   return query;
 }
 
-function parsePartitionBy(v: unknown): string | null {
+function columnName(v: unknown, key: string, which: string): string | null {
   if (v === undefined || v === null) return null;
   if (typeof v !== "string" || v.trim() === "") {
-    throw new CellError(
-      `Option "partition_by" must name a column of the query, the one the database partitions the table by`,
-      ["partition_by"],
-    );
+    throw new CellError(`Option "${key}" must name a column of the query, ${which}`, [key]);
   }
   return v.trim();
 }

@@ -142,11 +142,15 @@ async function askStamp(
     await engine.rows(src.database, `SELECT * FROM (${src.query}) AS plumb_q LIMIT 0`, 0),
     cancelled,
   );
-  if (src.partitionBy !== null && !head.columns.some((c) => c.name === src.partitionBy)) {
-    throw new CellError(
-      `partition_by names "${src.partitionBy}", which is not a column of the query`,
-      ["partition_by"],
-    );
+  for (const [key, column] of [["partition_by", src.partitionBy], ["order_by", src.orderBy]]) {
+    if (column !== null && !head.columns.some((c) => c.name === column)) {
+      throw new CellError(
+        `${key} names "${column}", which is not a column of the query (${
+          head.columns.map((c) => c.name).join(", ")
+        })`,
+        [key!],
+      );
+    }
   }
   const print = answer(
     await engine.rows(
@@ -196,7 +200,7 @@ export async function readDatabaseTable(spec: TableSpec, ctx: RunContext): Promi
   const kept = src.keep === "database" || (src.keep === "auto" && n > LOAD_ROWS);
   const columns = kept
     ? await keptColumns(engine, spec, head, ctx)
-    : typedColumns(engineValue(await engine.rows(src.database, src.query, n), ctx), spec);
+    : typedColumns(engineValue(await engine.rows(src.database, inOrder(src), n), ctx), spec);
   checkUnits(spec.units, columns.map((c) => c.name));
   const rows = new Int32Array(kept ? 0 : n);
   for (let i = 0; i < rows.length; i++) rows[i] = i + 1;
@@ -215,11 +219,18 @@ export async function readDatabaseTable(spec: TableSpec, ctx: RunContext): Promi
       ref: src.database,
       query: src.query,
       partitionBy: src.partitionBy,
+      orderBy: src.orderBy,
       fingerprint,
       kept,
       rowsInEngine: n,
     },
   };
+}
+
+/** The query's rows in `order_by`'s order (ties in the engine's order), or as the query gives them. */
+function inOrder(src: NonNullable<TableSpec["source"]>): string {
+  if (src.orderBy === null) return src.query;
+  return `SELECT * FROM (${src.query}) AS plumb_q ORDER BY ${quoteName(src.orderBy)}`;
 }
 
 /** A column's sum over the answer's rows (one, or one per partition). */

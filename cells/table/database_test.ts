@@ -23,6 +23,7 @@ Deno.test("a database table: a DuckDB file beside the document or a PostgreSQL U
     database: { engine: "duckdb", file: "plant.duckdb" },
     query: "SELECT cycle, capacity FROM cells",
     partitionBy: null,
+    orderBy: null,
     keep: "auto",
   });
   assert.deepEqual(duck.units, { capacity: "mAh" });
@@ -30,9 +31,11 @@ Deno.test("a database table: a DuckDB file beside the document or a PostgreSQL U
     database: { url_from: "PLANT_DB" },
     query: "SELECT part, x, y FROM readings",
     partition_by: "part",
+    order_by: " cycle ",
   }));
   assert.deepEqual(pg.source?.database, { engine: "postgres", urlFrom: "PLANT_DB" });
   assert.equal(pg.source?.partitionBy, "part");
+  assert.equal(pg.source?.orderBy, "cycle");
   assert.equal(tableKind.files!(pg).length, 0, "a query reads no file");
 });
 
@@ -44,6 +47,8 @@ Deno.test("a database table refuses what belongs in its query, a file at the sam
     /WHERE clause/,
   );
   assert.deepEqual(refused({ database: "a.duckdb", query: q, from: "d.csv" }).path, ["from"]);
+  assert.deepEqual(refused({ database: "a.duckdb", query: q, order_by: 3 }).path, ["order_by"]);
+  assert.deepEqual(refused({ from: "d.csv", order_by: "t" }).path, ["order_by"]);
   assert.deepEqual(refused({ database: "a.duckdb", query: q, delimiter: ";" }).path, ["delimiter"]);
   assert.deepEqual(refused({ database: "../elsewhere.duckdb", query: q }).path, ["database"]);
   assert.deepEqual(refused({ database: { url_from: "1BAD" }, query: q }).path, [

@@ -98,6 +98,11 @@ export const TABLE_OPTIONS: OptionDecls = {
     type: "text",
     doc: "with database: the column the database partitions the table by (sums per partition)",
   },
+  order_by: {
+    type: "text",
+    doc:
+      "with database: the column whose order is the rows' sequence (rows in that order; Durbin–Watson of a fit in the engine)",
+  },
 };
 
 function stringMap(v: unknown, key: string): Record<string, unknown> {

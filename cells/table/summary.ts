@@ -51,6 +51,8 @@ export interface TableResult {
     url_from: string | null;
     query: string;
     partition_by: string | null;
+    /** The column whose order is the rows' sequence, or null. */
+    order_by: string | null;
     fingerprint: string;
     kept: boolean;
   };
@@ -101,6 +103,7 @@ function databaseOf(out: TableOutput): Pick<TableResult, "database"> {
       url_from: d.ref.engine === "postgres" ? d.ref.urlFrom : null,
       query: d.query,
       partition_by: d.partitionBy,
+      order_by: d.orderBy ?? null,
       fingerprint: d.fingerprint,
       kept: d.kept,
     },

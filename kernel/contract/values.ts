@@ -122,6 +122,8 @@ export interface TableInEngine {
   query: string;
   /** The column the database partitions the table by, or null. */
   partitionBy: string | null;
+  /** The column whose order is the rows' sequence, or null (the query's own order). */
+  orderBy: string | null;
   /** The result's row count and a hash of its values, as the engine computed them. */
   fingerprint: string;
   /** True when the rows stay in the engine. */

@@ -67,6 +67,46 @@ Deno.test("an in-engine fit on DuckDB equals the in-memory fit of the same rows 
   });
 });
 
+Deno.test("DuckDB: a weighted in-engine fit, and Durbin–Watson in order_by's order, equal the in-memory fit and check to 1e-9", async () => {
+  await withFolder(async (dir) => {
+    await makeDuckdb(join(dir, "plant.duckdb"), [READINGS]);
+    // Rows stored out of sequence, so order_by must put them back for Durbin–Watson.
+    const query = "SELECT id, x1, x2, x3, x4, x5, y FROM readings ORDER BY x1";
+    const both = `database: plant.duckdb\nquery: ${query}\norder_by: id`;
+    const weights = "weights: 1/(1 + x4)";
+    const doc = "# Weighted, in the engine and in memory\n\n" +
+      fence("table", "mem", both) +
+      fence("table", "eng", `${both}\nkeep_rows: database`) +
+      fence("fit", "in-memory", `on: mem\nmodel: ${MODEL}\n${weights}`) +
+      fence("fit", "in-engine", `on: eng\nmodel: ${MODEL}\n${weights}`) +
+      fence("check", "judged", "fit: in-memory");
+    await Deno.writeTextFile(join(dir, "doc.md"), doc);
+    const r = await plumbRunJson(join(dir, "doc.md"), "--no-history");
+    equal(r.code, 0, r.stderr);
+    const mem = resultOf<FitJson & { weighted: boolean }>(r.json, "in-memory");
+    const eng = resultOf<
+      FitJson & {
+        weighted: boolean;
+        in_engine_detail: { durbin_watson: number | null; order_by: string; weights: string };
+      }
+    >(r.json, "in-engine");
+    equal(mem.weighted, true);
+    equal(eng.weighted, true);
+    equal(eng.in_engine_detail.weights, "1/(1 + x4)");
+    equal(eng.in_engine_detail.order_by, "id");
+    // Same estimator, same relative weights (criteria with ½Σ ln wᵢ): issue 18's 1e-9.
+    const worst = fitDifference(eng, mem);
+    ok(worst < 1e-9, `largest relative difference ${worst}`);
+    // Durbin–Watson of √w·e in id's order: the in-memory check's, from the rows in order.
+    const check = resultOf<{ durbin_watson: number | null }>(r.json, "judged");
+    const dw = eng.in_engine_detail.durbin_watson!;
+    ok(
+      Math.abs(dw - check.durbin_watson!) / check.durbin_watson! < 1e-9,
+      `DW ${dw} against ${check.durbin_watson}`,
+    );
+  });
+});
+
 /** NIST StRD sets through DuckDB: the route each takes and the digits it keeps. */
 const STRD_CASES = [
   // Longley: centred and scaled, κ is about 110, past KAPPA_LIMIT (about 95): the QR route.
