@@ -11,6 +11,7 @@ import type { FitStatistics } from "./_statistics.ts";
 import type { Weighting } from "./_weighting.ts";
 import type { DesignFactor } from "./problem.ts";
 import type { InEngineRecord } from "./_in_engine.ts";
+import type { FitIntervals } from "./_intervals.ts";
 
 /** A fitted model with everything downstream cells need to judge and use it. */
 export interface Fit extends CellOutput {
@@ -78,4 +79,20 @@ export interface Fit extends CellOutput {
    * where each number came from. The per-row arrays are then empty.
    */
   inEngine?: InEngineRecord;
+  /**
+   * Every interval of each parameter, labelled by method (Wald, profile,
+   * bootstrap), with the profile traces and bootstrap replicates behind them
+   * (_intervals.ts). Absent for fits computed in a database.
+   */
+  intervals?: FitIntervals;
+  /**
+   * The bootstrap replicates (when bootstrap intervals were asked): B×p,
+   * row-major in the order of `parameters` (chart bands read them).
+   */
+  bootstrap?: {
+    replicates: Float64Array;
+    b: number;
+    resample: "residuals" | "cases";
+    seed: number;
+  };
 }

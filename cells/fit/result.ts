@@ -17,6 +17,8 @@
  */
 import type { Fit } from "./fit.ts";
 import type { InEngineRecord } from "./_in_engine.ts";
+import type { FitIntervals } from "./_intervals.ts";
+import type { LabelledInterval } from "./_profile.ts";
 import type { Weighting } from "./_weighting.ts";
 import { plainArray, rowValues } from "../../kernel/arrays.ts";
 
@@ -37,6 +39,23 @@ export interface FitParameterResult {
   unit: string | null;
   /** RUN-JSON addition: why no unit could be derived; null when it was or none is due. */
   unit_note: string | null;
+  /**
+   * RUN-JSON addition: every interval computed, each labelled by method
+   * (`wald` first, the same as `ci`; then `profile`, `bootstrap-percentile`,
+   * `bootstrap-bca` as asked); a null side is unbounded or could not be had,
+   * with a `note`.
+   */
+  intervals: LabelledInterval[];
+}
+
+/** RUN-JSON addition: how the non-Wald intervals were computed. */
+export interface IntervalsRecord {
+  /** The methods computed. */
+  methods: string[];
+  /** Profile traces (parameter values and profile t), one per parameter; absent without profile. */
+  profile_traces?: { parameter: string; at: number[]; tau: number[] }[];
+  /** The bootstrap: resamples kept, refits that failed, how rows were redrawn, the seed. */
+  bootstrap?: { resamples: number; failed: number; resample: string; seed: number };
 }
 
 /** The `fit` result object. */
@@ -122,6 +141,8 @@ export interface FitResult {
   converged: boolean;
   iterations: number;
   rank_deficient: null;
+  /** RUN-JSON addition: how the labelled intervals were computed; absent for fits in a database. */
+  intervals?: IntervalsRecord;
 }
 
 /** The weighting of a fit in plain words (shown in the view and the result). */
@@ -177,6 +198,12 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
       at_bound: fit.atBound?.[j] ?? false,
       unit: fit.units?.parameters.get(name)?.unit ?? null,
       unit_note: fit.units?.parameters.get(name)?.note ?? null,
+      intervals: fit.intervals?.byParameter[j] ?? [{
+        method: "wald" as const,
+        level: st.confidence,
+        lower: st.intervals[j]?.[0] ?? null,
+        upper: st.intervals[j]?.[1] ?? null,
+      }],
     })),
     covariance: square(st.covariance, p),
     correlation: square(st.correlation, p),
@@ -216,5 +243,30 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
     converged: fit.converged,
     iterations: fit.iterations,
     rank_deficient: null,
+    ...(fit.intervals === undefined ? {} : { intervals: intervalsRecord(fit.intervals) }),
+  };
+}
+
+function intervalsRecord(iv: FitIntervals): IntervalsRecord {
+  const methods = ["wald"];
+  if (iv.traces !== undefined) methods.push("profile");
+  if (iv.bootstrap !== undefined) methods.push("bootstrap-percentile", "bootstrap-bca");
+  return {
+    methods,
+    ...(iv.traces === undefined ? {} : {
+      profile_traces: iv.traces.map((t) => ({
+        parameter: t.parameter,
+        at: t.at.map(Number),
+        tau: t.tau.map(Number),
+      })),
+    }),
+    ...(iv.bootstrap === undefined ? {} : {
+      bootstrap: {
+        resamples: iv.bootstrap.b,
+        failed: iv.bootstrap.failed,
+        resample: iv.bootstrap.resample,
+        seed: iv.bootstrap.seed,
+      },
+    }),
   };
 }

@@ -28,6 +28,7 @@ import { solveLinear } from "./solve_linear.ts";
 import { solveNonlinear } from "./solve_nonlinear.ts";
 import { fitStatistics } from "./_statistics.ts";
 import { applyWeighting, parseAgainst } from "./_weighting.ts";
+import { fitIntervals } from "./_intervals.ts";
 import { identifierOffset } from "./_offsets.ts";
 import { type ModelUnits, modelUnits } from "../../kernel/units/mod.ts";
 
@@ -84,6 +85,15 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
     weighting: weighted.weighting,
     countVariance: spec.countVariance !== false,
   }, ctx.warn);
+  const intervals = fitIntervals(spec, problem, solution, statistics, linear, ctx);
+  if (intervals.bootstrap !== undefined && intervals.bootstrap.failed > 0) {
+    const b = intervals.bootstrap;
+    ctx.warn(
+      `Fit "${ctx.name}": ${b.failed} of ${
+        b.failed + b.b
+      } bootstrap refits did not converge and are left out; the bootstrap limits rest on the other ${b.b}`,
+    );
+  }
   return {
     type: "Fit",
     method: solution.method,
@@ -113,6 +123,15 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
     converged: solution.converged,
     iterations: solution.iterations,
     ...(solution.atBound ? { atBound: solution.atBound } : {}),
+    intervals,
+    ...(intervals.bootstrap === undefined ? {} : {
+      bootstrap: {
+        replicates: intervals.bootstrap.replicates,
+        b: intervals.bootstrap.b,
+        resample: intervals.bootstrap.resample,
+        seed: intervals.bootstrap.seed,
+      },
+    }),
   };
 }
 

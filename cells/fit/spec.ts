@@ -9,6 +9,8 @@
  * known_sigma: sd                     # each row's absolute standard deviation (optional)
  * count_variance: true                # criteria count σ² as a parameter (default)
  * within: { a: [0, null] }            # ranges that nonlinear estimates stay inside (optional)
+ * intervals: [wald, profile]          # interval methods (default: wald; + profile if nonlinear)
+ * bootstrap: { resamples: 2000, resample: residuals }   # bootstrap intervals (or cases)
  * ```
  *
  * Model text is only checked for being a string here: its names are known only
@@ -27,9 +29,10 @@ import {
 } from "../../kernel/contract/mod.ts";
 import { parseWeighting } from "./_parse_weighting.ts";
 import { type Limits, parseLimits } from "./_parse_limits.ts";
+import { type IntervalsSpec, parseIntervals } from "./_parse_intervals.ts";
 
 /** A `fit` cell's normalised options (plain JSON: hashed into the cache key). */
-export interface FitSpec {
+export interface FitSpec extends IntervalsSpec {
   /** Name of the table cell to fit. */
   on: string;
   /** The model equation as written. */
@@ -65,6 +68,15 @@ export const FIT_OPTIONS: OptionDecls = {
     type: "mapping",
     doc: "ranges [lower, upper] that nonlinear estimates stay inside, null for an open end",
   },
+  intervals: {
+    type: "list",
+    doc:
+      "interval methods beside Wald: profile (likelihood), bootstrap; default profile for nonlinear models",
+  },
+  bootstrap: {
+    type: "mapping",
+    doc: "bootstrap intervals: resamples (default 2000) and resample: residuals (default) or cases",
+  },
 };
 
 /**
@@ -95,6 +107,7 @@ export function parseFitSpec(ctx: ParseContext): FitSpec {
     start: startValues(ctx),
     ...parseWeighting(ctx),
     ...parseLimits(ctx),
+    ...parseIntervals(ctx),
   };
 }
 

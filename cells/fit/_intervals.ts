@@ -1,0 +1,157 @@
+/**
+ * Every interval a fit's parameters carry, each labelled with its method
+ * (issue 19; RUN-JSON `parameters[].intervals`): Wald always (`ci` stays the
+ * Wald interval for scripts that read it), then profile likelihood
+ * (_profile.ts) and the bootstrap (_bootstrap.ts) as the fit's `intervals`
+ * option asks.
+ *
+ * ```
+ *  spec.intervals ─▶ wald (from the statistics) ─┬─ profile: p constrained-fit searches
+ *                                                └─ bootstrap: B refits + n jackknife refits
+ * ```
+ *
+ * By default a nonlinear fit carries profile intervals beside the Wald ones;
+ * a linear fit only Wald (with Gaussian errors its profile interval is the t
+ * interval: nothing would change).
+ *
+ * @module
+ */
+import { modelFunctions } from "../../kernel/optim/mod.ts";
+import { standardNormal, studentT } from "../../kernel/stats/mod.ts";
+import type { RunContext } from "../../kernel/contract/mod.ts";
+import type { FitProblem, FitSolution } from "./problem.ts";
+import type { FitStatistics } from "./_statistics.ts";
+import { type LabelledInterval, profileIntervals, type ProfileTrace } from "./_profile.ts";
+import { bootstrap, bootstrapIntervals, type BootstrapRun } from "./_bootstrap.ts";
+import type { IntervalsSpec } from "./_parse_intervals.ts";
+
+/** What the fit output keeps of its intervals. */
+export interface FitIntervals {
+  /** Per parameter, every interval computed, Wald first. */
+  byParameter: LabelledInterval[][];
+  /** Profile traces per parameter (profile asked), else absent. */
+  traces?: ProfileTrace[];
+  /** The bootstrap replicates (bootstrap asked), else absent. */
+  bootstrap?: BootstrapRun;
+  /** Milliseconds each method took. */
+  ms: Partial<Record<"profile" | "bootstrap", number>>;
+}
+
+/** The methods asked, with the default for the kind of fit. */
+export function methodsFor(
+  spec: IntervalsSpec,
+  linear: boolean,
+): Set<"wald" | "profile" | "bootstrap"> {
+  const asked = spec.intervals ?? (linear ? ["wald"] : ["wald", "profile"]);
+  const set = new Set<"wald" | "profile" | "bootstrap">(["wald", ...asked]);
+  if (spec.bootstrap !== undefined) set.add("bootstrap");
+  return set;
+}
+
+/**
+ * Computes the intervals asked for.
+ *
+ * @param spec The fit's interval options.
+ * @param problem The fitted problem (rows, response, weights, limits).
+ * @param solution The solution.
+ * @param st Its statistics (Wald intervals, standard errors, df, the reference law).
+ * @param linear Whether the model is linear in its parameters.
+ * @param ctx Settings (level, seed), progress.
+ * @returns The intervals by parameter and what supports them.
+ */
+export function fitIntervals(
+  spec: IntervalsSpec,
+  problem: FitProblem,
+  solution: FitSolution,
+  st: FitStatistics,
+  linear: boolean,
+  ctx: Pick<RunContext, "settings" | "progress">,
+): FitIntervals {
+  const level = ctx.settings.confidence;
+  const params = problem.model.parameters;
+  const byParameter: LabelledInterval[][] = params.map((_, j) => {
+    const ci = st.intervals[j];
+    return [{
+      method: "wald",
+      level,
+      lower: ci === null ? null : ci[0],
+      upper: ci === null ? null : ci[1],
+      ...(ci === null ? { note: "no standard error" } : {}),
+    }];
+  });
+  const methods = methodsFor(spec, linear);
+  const out: FitIntervals = { byParameter, ms: {} };
+  if (!methods.has("profile") && !methods.has("bootstrap")) return out;
+  const fns = modelFunctions(problem);
+  const p = params.length;
+  const lower = new Float64Array(p).fill(-Infinity), upper = new Float64Array(p).fill(Infinity);
+  for (const [k, [lo, hi]] of Object.entries(problem.limits ?? {})) {
+    const j = params.indexOf(k);
+    if (j < 0) continue;
+    if (lo !== null) lower[j] = lo;
+    if (hi !== null) upper[j] = hi;
+  }
+  const q = referenceQuantile(st, level);
+  if (methods.has("profile")) {
+    const t0 = performance.now();
+    const prof = profileIntervals({
+      fns,
+      parameters: params,
+      estimates: solution.estimates,
+      stdErrors: st.stdErrors,
+      dfResidual: st.dfResidual,
+      inference: st.inference,
+      q,
+      level,
+      lower,
+      upper,
+    });
+    prof.intervals.forEach((iv, j) => byParameter[j].push(iv));
+    out.traces = prof.traces;
+    out.ms.profile = performance.now() - t0;
+  }
+  if (methods.has("bootstrap")) {
+    const t0 = performance.now();
+    const b = spec.bootstrap ?? { resamples: 2000, resample: "residuals" as const };
+    const run = bootstrap({
+      fns,
+      parameters: params,
+      estimates: solution.estimates,
+      y: problem.y,
+      fitted: solution.fitted,
+      design: solution.design.length === p ? solution.design : jacobianColumns(fns, solution),
+      weights: problem.weights ?? null,
+      lower,
+      upper,
+      resample: b.resample,
+      b: b.resamples,
+      seed: ctx.settings.seed,
+      level,
+      progress: (f) => ctx.progress(f, "bootstrap refits"),
+    });
+    for (let j = 0; j < p; j++) {
+      const values = new Float64Array(run.b);
+      for (let r = 0; r < run.b; r++) values[r] = run.replicates[r * p + j];
+      const jack = run.jackknife === null
+        ? null
+        : Float64Array.from({ length: problem.n }, (_, i) => run.jackknife![i * p + j]);
+      byParameter[j].push(...bootstrapIntervals(values, solution.estimates[j], jack, level));
+    }
+    out.bootstrap = run;
+    out.ms.bootstrap = performance.now() - t0;
+  }
+  return out;
+}
+
+/** The quantile q of the level on the fit's reference law (t with n − p df, or normal). */
+function referenceQuantile(st: FitStatistics, level: number): number {
+  const law = st.inference === "normal" ? standardNormal : studentT(st.dfResidual);
+  return law.upperQuantile((1 - level) / 2);
+}
+
+function jacobianColumns(fns: ReturnType<typeof modelFunctions>, s: FitSolution): Float64Array[] {
+  const n = fns.problem.m, p = s.estimates.length;
+  const jac = new Float64Array(n * p);
+  fns.jac(s.estimates, jac);
+  return Array.from({ length: p }, (_, j) => jac.slice(j * n, (j + 1) * n));
+}
