@@ -87,10 +87,27 @@ function fitDetails(r: FitResult): string[] {
       })`;
     }
     const ci = formatIntervalAt(p.ci, u, p.estimate, { open: "", sep: " … ", close: "" });
-    return `${p.name} = ${formatEstimate(p.estimate, u)}, u ${
-      formatUncertainty(u)
-    }${unit}, ${level} ${ci}`;
+    const others = (p.intervals ?? []).filter((i) => i.method !== "wald").map((i) =>
+      `${METHOD_WORDS[i.method]} ${side(i.lower, u, p.estimate)} … ${side(i.upper, u, p.estimate)}`
+    );
+    return `${p.name} = ${formatEstimate(p.estimate, u)}, u ${formatUncertainty(u)}${unit}, ${level} ${
+      others.length > 0 ? "Wald " : ""
+    }${ci}${others.map((o) => `; ${o}`).join("")}`;
   });
+}
+
+/** How each interval method is named in the CLI summary. */
+const METHOD_WORDS: Record<string, string> = {
+  wald: "Wald",
+  profile: "profile",
+  "bootstrap-percentile": "bootstrap percentile",
+  "bootstrap-bca": "bootstrap BCa",
+};
+
+/** One end of an interval at the estimate's digits; "open" for a side that is not bounded. */
+function side(v: number | null, u: number, estimate: number): string {
+  if (v === null) return "open";
+  return formatIntervalAt([v, v], u, estimate, { open: "", sep: "|", close: "" }).split("|")[0];
 }
 
 /** A new fit: a straight line through the last table's last two number columns. */

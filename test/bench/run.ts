@@ -53,6 +53,10 @@
  *   (test/bench/scale/scale.ts). `--quick` measures it at 100,000 rows.
  * - `search_15`, `search_15_loo`, `search_25`: the `search` cell over 15 and 25
  *   candidates at n = 5,000 (targets under 1 s and 30 s; test/bench/search.ts).
+ * - `profile_exp3_n100`, `bootstrap_2000_exp3_n100` (issue 19): profile
+ *   intervals of y = a·exp(−b·x) + c, n = 100 (target under 100 ms), and
+ *   2,000 bootstrap refits with BCa's jackknife (target under 2 s;
+ *   test/bench/intervals.ts).
  * - `nonlinear_exp3_n100`: fits a second of y = a·exp(−b·x) + c, n = 100, as
  *   the issue measured them (model compile, lmder, polish, covariance:
  *   kernel/optim/lm_bench.ts), against the issue's peer, 5,977 a second
@@ -96,6 +100,7 @@ import { manyCells } from "./many_cells.ts";
 import { recordExport } from "./record_export.ts";
 import { historyFigures } from "./history.ts";
 import { searchFigures } from "./search.ts";
+import { intervalFigures } from "./intervals.ts";
 import { calcFigures } from "./calc.ts";
 import { engineFiguresApart } from "./engine.ts";
 import { MILLION, QUICK_ROWS, scaleFigures } from "./scale/scale.ts";
@@ -339,6 +344,10 @@ const history = await step(
   () => historyFigures(root),
 );
 const search = await step("search: 15 and 25 candidates at n = 5,000", searchFigures);
+const intervals = await step(
+  "intervals: profile and 2,000 bootstrap refits of a 3-parameter fit, n = 100",
+  intervalFigures,
+);
 const rows = Deno.args.includes("--quick") ? QUICK_ROWS : MILLION;
 const sideBySide = await step(
   `side_by_side: plumb run against pandas + statsmodels, ${rows} rows`,
@@ -367,6 +376,7 @@ const report = {
     history_large: history.large,
     side_by_side: sideBySide,
     ...search,
+    ...intervals,
     ...fromBenches(benches),
   },
   benches,
