@@ -24,6 +24,9 @@ import type { FitStatistics } from "./_statistics.ts";
 import { type LabelledInterval, profileIntervals, type ProfileTrace } from "./_profile.ts";
 import { bootstrap, bootstrapIntervals, type BootstrapRun } from "./_bootstrap.ts";
 import type { IntervalsSpec } from "./_parse_intervals.ts";
+import { type DerivedQuantity, type DerivedResult, derivedResults } from "./_derived.ts";
+import { ExprError, parseColumnExpression } from "../../kernel/expr/mod.ts";
+import { CellError } from "../../kernel/errors.ts";
 
 /** What the fit output keeps of its intervals. */
 export interface FitIntervals {
@@ -33,8 +36,10 @@ export interface FitIntervals {
   traces?: ProfileTrace[];
   /** The bootstrap replicates (bootstrap asked), else absent. */
   bootstrap?: BootstrapRun;
+  /** The derived quantities (the fit's `derived`), each with every method used. */
+  derived: DerivedResult[];
   /** Milliseconds each method took. */
-  ms: Partial<Record<"profile" | "bootstrap", number>>;
+  ms: Partial<Record<"profile" | "bootstrap" | "derived", number>>;
 }
 
 /** The methods asked, with the default for the kind of fit. */
@@ -80,8 +85,20 @@ export function fitIntervals(
     }];
   });
   const methods = methodsFor(spec, linear);
-  const out: FitIntervals = { byParameter, ms: {} };
-  if (!methods.has("profile") && !methods.has("bootstrap")) return out;
+  const quantities = (spec.derived ?? []).map((d) => parseDerived(d, params));
+  const out: FitIntervals = { byParameter, derived: [], ms: {} };
+  const q = referenceQuantile(st, level);
+  if (!methods.has("profile") && !methods.has("bootstrap")) {
+    out.derived = derivedResults(quantities, params, solution.estimates, {
+      profile: null,
+      covariance: st.covariance,
+      bootstrap: null,
+      n: problem.n,
+      q,
+      level,
+    });
+    return out;
+  }
   const fns = modelFunctions(problem);
   const p = params.length;
   const lower = new Float64Array(p).fill(-Infinity), upper = new Float64Array(p).fill(Infinity);
@@ -91,21 +108,21 @@ export function fitIntervals(
     if (lo !== null) lower[j] = lo;
     if (hi !== null) upper[j] = hi;
   }
-  const q = referenceQuantile(st, level);
+  const profileInput = {
+    fns,
+    parameters: params,
+    estimates: solution.estimates,
+    stdErrors: st.stdErrors,
+    dfResidual: st.dfResidual,
+    inference: st.inference,
+    q,
+    level,
+    lower,
+    upper,
+  };
   if (methods.has("profile")) {
     const t0 = performance.now();
-    const prof = profileIntervals({
-      fns,
-      parameters: params,
-      estimates: solution.estimates,
-      stdErrors: st.stdErrors,
-      dfResidual: st.dfResidual,
-      inference: st.inference,
-      q,
-      level,
-      lower,
-      upper,
-    });
+    const prof = profileIntervals(profileInput);
     prof.intervals.forEach((iv, j) => byParameter[j].push(iv));
     out.traces = prof.traces;
     out.ms.profile = performance.now() - t0;
@@ -140,7 +157,46 @@ export function fitIntervals(
     out.bootstrap = run;
     out.ms.bootstrap = performance.now() - t0;
   }
+  if (quantities.length > 0) {
+    const t0 = performance.now();
+    out.derived = derivedResults(quantities, params, solution.estimates, {
+      profile: methods.has("profile") ? profileInput : null,
+      covariance: st.covariance,
+      bootstrap: out.bootstrap ?? null,
+      n: problem.n,
+      q,
+      level,
+    });
+    out.ms.derived = performance.now() - t0;
+  }
   return out;
+}
+
+/** A derived quantity's expression parsed against the parameters, its errors on `derived`. */
+function parseDerived(
+  d: { name: string; text: string },
+  params: readonly string[],
+): DerivedQuantity {
+  if (params.includes(d.name)) {
+    throw new CellError(
+      `Derived quantity "${d.name}" has the name of a parameter of the model: give it another name`,
+      ["derived", d.name],
+    );
+  }
+  try {
+    return { name: d.name, text: d.text, expr: parseColumnExpression(d.text, params) };
+  } catch (e) {
+    if (e instanceof ExprError) {
+      const message = e.message.replace(
+        /Unknown column "([^"]+)": a derived column may use only columns and the constants pi and e/,
+        `Unknown parameter "$1" in derived quantity "${d.name}": it may use the model's parameters (${
+          params.join(", ")
+        }), numbers, functions and the constants pi and e`,
+      ).replace(/Unknown column/, "Unknown parameter");
+      throw new CellError(message, ["derived", d.name], e.offset);
+    }
+    throw e;
+  }
 }
 
 /** The quantile q of the level on the fit's reference law (t with n − p df, or normal). */

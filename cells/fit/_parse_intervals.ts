@@ -5,6 +5,8 @@
  * intervals: [wald, profile, bootstrap]   # which intervals (Wald always; default: wald, and
  *                                         #   profile for a nonlinear model)
  * bootstrap: { resamples: 2000, resample: residuals }   # or cases; implies bootstrap intervals
+ * derived:                                # quantities computed from the parameters
+ *   half_life: log(2)/k
  * ```
  *
  * @module
@@ -21,7 +23,12 @@ export type IntervalMethod = typeof INTERVAL_METHODS[number];
 export interface IntervalsSpec {
   intervals?: IntervalMethod[];
   bootstrap?: { resamples: number; resample: Resample };
+  /** Derived quantities in the order written: a name and an expression of the parameters. */
+  derived?: { name: string; text: string }[];
 }
+
+/** A derived quantity's name: a letter or _, then letters, digits and _. */
+const NAME = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
 /** Fewest and most resamples (BCa needs a few hundred at least; common practice, no source). */
 export const RESAMPLES = { min: 200, max: 100_000, default: 2000 } as const;
@@ -92,6 +99,34 @@ export function parseIntervals(ctx: ParseContext): IntervalsSpec {
       );
     }
     out.bootstrap = { resamples: count, resample: how };
+  }
+  if (o.derived !== undefined && o.derived !== null) {
+    const d = o.derived;
+    if (typeof d !== "object" || Array.isArray(d)) {
+      throw new CellError(
+        `Option "derived" of fit "${ctx.name}" is a mapping of names to expressions of the parameters, as in derived: { half_life: log(2)/k }`,
+        ["derived"],
+      );
+    }
+    const list: { name: string; text: string }[] = [];
+    for (const [name, text] of Object.entries(d as Record<string, unknown>)) {
+      if (!NAME.test(name)) {
+        throw new CellError(
+          `Derived quantity "${name}" of fit "${ctx.name}": a name is a letter or _, then letters, digits or _`,
+          ["derived", name],
+        );
+      }
+      if (typeof text !== "string" && typeof text !== "number") {
+        throw new CellError(
+          `Derived quantity "${name}" of fit "${ctx.name}" is "${
+            shown(text)
+          }": write an expression of the parameters, such as log(2)/k`,
+          ["derived", name],
+        );
+      }
+      list.push({ name, text: String(text) });
+    }
+    out.derived = list;
   }
   return out;
 }

@@ -81,6 +81,47 @@ const LIMIT_TOL = 1e-9;
 const CONSTRAINED = { ftol: 1e-13, xtol: 1e-12, gtol: 1e-13, maxIterations: 200 };
 
 /**
+ * How values of the profiled quantity are held while the others move: the
+ * free coordinates z (one fewer than the parameters) and the full θ they
+ * give at level c.
+ */
+export interface Constraint {
+  /** Writes θ from z at level c into `full`; false when no θ has that level there. */
+  expand(z: Float64Array, c: number, full: Float64Array): boolean;
+  /** The Jacobian in z (m × (p − 1), column-major) from ∂F/∂θ at `full`. */
+  reduce(fullJac: Float64Array, full: Float64Array, out: Float64Array, m: number): void;
+  /** z of a full θ (warm starts). */
+  shrink(full: Float64Array): Float64Array;
+  /** Bounds of z. */
+  lower: Float64Array;
+  upper: Float64Array;
+  /** The profiled quantity's range ends (a parameter's `within`), else ±Infinity. */
+  range: [number, number];
+}
+
+/** θⱼ held at c: z is θ without θⱼ. */
+export function parameterConstraint(input: ProfileInput, j: number): Constraint {
+  const p = input.parameters.length;
+  return {
+    expand(z, c, full) {
+      for (let k = 0, i = 0; k < p; k++) full[k] = k === j ? c : z[i++];
+      return true;
+    },
+    reduce(fullJac, _full, out, m) {
+      for (let k = 0, i = 0; k < p; k++) {
+        if (k === j) continue;
+        out.set(fullJac.subarray(k * m, (k + 1) * m), i * m);
+        i++;
+      }
+    },
+    shrink: (full) => dropAt(full, j),
+    lower: dropAt(input.lower, j),
+    upper: dropAt(input.upper, j),
+    range: [input.lower[j], input.upper[j]],
+  };
+}
+
+/**
  * Profile intervals of every parameter.
  *
  * @param input The fit's functions, estimates, standard errors, level and ranges.
@@ -91,35 +132,65 @@ export function profileIntervals(
 ): { intervals: LabelledInterval[]; traces: ProfileTrace[] } {
   const intervals: LabelledInterval[] = [];
   const traces: ProfileTrace[] = [];
-  const s0 = sumSquares(input.fns, input.estimates);
-  const scale2 = input.inference === "t" ? s0 / input.dfResidual : 1;
   for (let j = 0; j < input.parameters.length; j++) {
-    const profiler = new Profiler(input, j, s0, scale2);
-    const se = input.stdErrors[j] ?? NaN;
-    if (!Number.isFinite(se) || se <= 0) {
-      intervals.push({
+    const got = profileOf(
+      input,
+      parameterConstraint(input, j),
+      input.parameters[j],
+      input.estimates[j],
+      input.stdErrors[j] ?? NaN,
+    );
+    intervals.push(got.interval);
+    traces.push(got.trace);
+  }
+  return { intervals, traces };
+}
+
+/**
+ * The profile interval of one quantity under a constraint.
+ *
+ * @param input The fit.
+ * @param constraint How the quantity is held.
+ * @param name The quantity's name (traces).
+ * @param estimate Its estimate.
+ * @param se Its standard error (the first step's scale); NaN or 0: not profiled.
+ * @returns The interval and the trace.
+ */
+export function profileOf(
+  input: ProfileInput,
+  constraint: Constraint,
+  name: string,
+  estimate: number,
+  se: number,
+): { interval: LabelledInterval; trace: ProfileTrace } {
+  if (!Number.isFinite(se) || se <= 0) {
+    return {
+      interval: {
         method: "profile",
         level: input.level,
         lower: null,
         upper: null,
         note: "not profiled: the estimate has no standard error (it is held on a range's end)",
-      });
-      traces.push({ parameter: input.parameters[j], at: [], tau: [] });
-      continue;
-    }
-    const lo = profiler.side(-1, se);
-    const hi = profiler.side(1, se);
-    const notes = [lo.note, hi.note].filter((n): n is string => n !== undefined);
-    intervals.push({
+      },
+      trace: { parameter: name, at: [], tau: [] },
+    };
+  }
+  const s0 = sumSquares(input.fns, input.estimates);
+  const scale2 = input.inference === "t" ? s0 / input.dfResidual : 1;
+  const profiler = new Profiler(input, constraint, name, estimate, s0, scale2);
+  const lo = profiler.side(-1, se);
+  const hi = profiler.side(1, se);
+  const notes = [lo.note, hi.note].filter((n): n is string => n !== undefined);
+  return {
+    interval: {
       method: "profile",
       level: input.level,
       lower: lo.limit,
       upper: hi.limit,
       ...(notes.length > 0 ? { note: notes.join("; ") } : {}),
-    });
-    traces.push(profiler.trace());
-  }
-  return { intervals, traces };
+    },
+    trace: profiler.trace(),
+  };
 }
 
 function sumSquares(fns: ModelFunctions, x: Float64Array): number {
@@ -136,92 +207,94 @@ interface Side {
   note?: string;
 }
 
-/** The profile of one parameter: constrained fits, warm-started, remembered. */
+/** A point of the profile: distance from the estimate, |τ| and the full θ there. */
+interface Point {
+  d: number;
+  tau: number;
+  theta: Float64Array;
+}
+
+/** The profile of one quantity: constrained fits, warm-started, remembered. */
 class Profiler {
   readonly #in: ProfileInput;
-  readonly #j: number;
+  readonly #con: Constraint;
+  readonly #name: string;
+  readonly #est: number;
   readonly #s0: number;
   readonly #scale2: number;
   readonly #m: number;
   readonly #p: number;
-  /** Evaluated points: parameter value → τ (for the trace). */
+  /** Evaluated points: value → τ (for the trace). */
   #points = new Map<number, number>();
   #full: Float64Array;
   #fullJac: Float64Array;
-  #lower: Float64Array;
-  #upper: Float64Array;
 
-  constructor(input: ProfileInput, j: number, s0: number, scale2: number) {
+  constructor(
+    input: ProfileInput,
+    constraint: Constraint,
+    name: string,
+    estimate: number,
+    s0: number,
+    scale2: number,
+  ) {
     this.#in = input;
-    this.#j = j;
+    this.#con = constraint;
+    this.#name = name;
+    this.#est = estimate;
     this.#s0 = s0;
     this.#scale2 = scale2;
     this.#m = input.fns.problem.m;
     this.#p = input.parameters.length;
     this.#full = new Float64Array(this.#p);
     this.#fullJac = new Float64Array(this.#m * this.#p);
-    this.#lower = dropAt(input.lower, j);
-    this.#upper = dropAt(input.upper, j);
-    this.#points.set(input.estimates[j], 0);
-  }
-
-  /** The parameter's name. */
-  get name(): string {
-    return this.#in.parameters[this.#j];
+    this.#points.set(estimate, 0);
   }
 
   /**
-   * τ at θⱼ = c, minimising over the others from `warm`.
+   * τ at level c, minimising over the free coordinates from the full θ `warm`.
    *
-   * @returns τ and the others' values, or null when the constrained fit failed.
+   * @returns τ and the full θ there, or null when the constrained fit failed.
    */
-  tauAt(c: number, warm: Float64Array): { tau: number; rest: Float64Array } | null {
-    const j = this.#j, p = this.#p, m = this.#m;
+  tauAt(c: number, warm: Float64Array): { tau: number; theta: Float64Array } | null {
+    const { m, p } = { m: this.#m, p: this.#p };
     const fns = this.#in.fns;
+    const con = this.#con;
     const full = this.#full, fullJac = this.#fullJac;
-    const put = (z: Float64Array) => {
-      for (let k = 0, i = 0; k < p; k++) full[k] = k === j ? c : z[i++];
-    };
+    const z0 = clampInto(con.shrink(warm), con.lower, con.upper);
     if (p === 1) {
-      full[0] = c;
+      if (!con.expand(z0, c, full)) return null;
       const s = sumSquares(fns, full);
       if (!Number.isFinite(s)) return null;
-      const tau = this.#tauOf(c, s);
-      return { tau, rest: new Float64Array(0) };
+      return { tau: this.#tauOf(c, s), theta: full.slice() };
     }
+    const nan = () => Number.NaN;
     const r = lmder(
       {
         m,
         n: p - 1,
         fcn: (z, f) => {
-          put(z);
-          fns.problem.fcn(full, f);
+          if (!con.expand(z, c, full)) f.fill(nan());
+          else fns.problem.fcn(full, f);
         },
         jac: (z, out) => {
-          put(z);
-          fns.problem.jac(full, fullJac);
-          for (let k = 0, i = 0; k < p; k++) {
-            if (k === j) continue;
-            out.set(fullJac.subarray(k * m, (k + 1) * m), i * m);
-            i++;
+          if (!con.expand(z, c, full)) {
+            out.fill(nan());
+            return;
           }
+          fns.problem.jac(full, fullJac);
+          con.reduce(fullJac, full, out, m);
         },
       },
-      clampInto(warm, this.#lower, this.#upper),
-      {
-        ...CONSTRAINED,
-        lower: this.#lower,
-        upper: this.#upper,
-      },
+      z0,
+      { ...CONSTRAINED, lower: con.lower, upper: con.upper },
     );
-    if (!r.converged || !Number.isFinite(r.fnorm)) return null;
-    const tau = this.#tauOf(c, r.fnorm * r.fnorm);
-    return { tau, rest: r.x };
+    if (!r.converged || !Number.isFinite(r.fnorm) || !con.expand(r.x, c, full)) return null;
+    return { tau: this.#tauOf(c, r.fnorm * r.fnorm), theta: full.slice() };
   }
 
   #tauOf(c: number, s: number): number {
     const rise = Math.max(0, s - this.#s0);
-    const tau = Math.sign(c - this.#in.estimates[this.#j]) * Math.sqrt(rise / this.#scale2);
+    const tau = Math.sign(c - this.#est) * Math.sqrt(rise / this.#scale2);
     this.#points.set(c, tau);
     return tau;
   }
@@ -231,13 +304,11 @@ class Profiler {
    * doubled from the Wald half-width until |τ| passes q, then the crossing.
    */
   side(dir: 1 | -1, se: number): Side {
-    const j = this.#j;
-    const est = this.#in.estimates[j];
+    const est = this.#est;
     const q = this.#in.q;
-    const bound = dir > 0 ? this.#in.upper[j] : this.#in.lower[j];
+    const bound = dir > 0 ? this.#con.range[1] : this.#con.range[0];
     const word = dir > 0 ? "above" : "below";
-    let warm = dropAt(this.#in.estimates, j);
-    let inside = { d: 0, tau: 0, rest: warm };
+    let inside: Point = { d: 0, tau: 0, theta: this.#in.estimates.slice() };
     let d = q * se;
     let lastTau = 0;
     let flat = 0;
@@ -249,7 +320,7 @@ class Profiler {
         d = Math.abs(bound - est);
         atBound = true;
       }
-      const got = this.tauAt(c, warm);
+      const got = this.tauAt(c, inside.theta);
       if (got === null) {
         return {
           limit: null,
@@ -259,7 +330,7 @@ class Profiler {
         };
       }
       const t = Math.abs(got.tau);
-      if (t >= q) return this.#crossing(dir, inside, { d, tau: t, rest: got.rest });
+      if (t >= q) return this.#crossing(dir, inside, { d, tau: t, theta: got.theta });
       if (atBound) {
         return {
           limit: c,
@@ -277,8 +348,7 @@ class Profiler {
         };
       }
       lastTau = t;
-      inside = { d, tau: t, rest: got.rest };
-      warm = got.rest;
+      inside = { d, tau: t, theta: got.theta };
       d *= 2;
     }
     return {
@@ -290,12 +360,8 @@ class Profiler {
   }
 
   /** The crossing |τ| = q between two distances from the estimate (Illinois steps). */
-  #crossing(
-    dir: 1 | -1,
-    a0: { d: number; tau: number; rest: Float64Array },
-    b0: { d: number; tau: number; rest: Float64Array },
-  ): Side {
-    const est = this.#in.estimates[this.#j];
+  #crossing(dir: 1 | -1, a0: Point, b0: Point): Side {
+    const est = this.#est;
     const q = this.#in.q;
     let a = a0, b = b0;
     let fa = a.tau - q, fb = b.tau - q;
@@ -303,7 +369,7 @@ class Profiler {
     for (let k = 0; k < MAX_ROOT_STEPS; k++) {
       let d = (a.d * fb - b.d * fa) / (fb - fa);
       if (!(d > Math.min(a.d, b.d) && d < Math.max(a.d, b.d))) d = (a.d + b.d) / 2;
-      const warm = Math.abs(d - a.d) < Math.abs(d - b.d) ? a.rest : b.rest;
+      const warm = Math.abs(d - a.d) < Math.abs(d - b.d) ? a.theta : b.theta;
       const got = this.tauAt(est + dir * d, warm);
       if (got === null) {
         return {
@@ -318,12 +384,12 @@ class Profiler {
         return { limit: est + dir * d };
       }
       if (f > 0) {
-        b = { d, tau: Math.abs(got.tau), rest: got.rest };
+        b = { d, tau: Math.abs(got.tau), theta: got.theta };
         fb = f;
         if (side === 1) fa /= 2;
         side = 1;
       } else {
-        a = { d, tau: Math.abs(got.tau), rest: got.rest };
+        a = { d, tau: Math.abs(got.tau), theta: got.theta };
         fa = f;
         if (side === -1) fb /= 2;
         side = -1;
@@ -336,11 +402,12 @@ class Profiler {
   /** The evaluated points, ascending. */
   trace(): ProfileTrace {
     const at = [...this.#points.keys()].sort((x, y) => x - y);
-    return { parameter: this.name, at, tau: at.map((c) => this.#points.get(c)!) };
+    return { parameter: this.#name, at, tau: at.map((c) => this.#points.get(c)!) };
   }
 }
 
-function dropAt(v: Float64Array, j: number): Float64Array {
+/** v without its entry j. */
+export function dropAt(v: Float64Array, j: number): Float64Array {
   const out = new Float64Array(v.length - 1);
   for (let k = 0, i = 0; k < v.length; k++) if (k !== j) out[i++] = v[k];
   return out;

@@ -195,3 +195,105 @@ Deno.test("interval options are checked where written", () => {
     /residuals .* or cases/,
   );
 });
+
+/** Fieller's interval for ρ with a + ρ·b = 0 (ρ = −a/b): the roots of (â + ρb̂)² = t²·Var(â + ρb̂). */
+function fieller(a: number, b: number, vaa: number, vab: number, vbb: number, t: number) {
+  const A = b * b - t * t * vbb, B = 2 * (a * b - t * t * vab), C = a * a - t * t * vaa;
+  const disc = Math.sqrt(B * B - 4 * A * C);
+  const r1 = (-B - disc) / (2 * A), r2 = (-B + disc) / (2 * A);
+  return [Math.min(r1, r2), Math.max(r1, r2)];
+}
+
+type Derived = {
+  name: string;
+  estimate: number;
+  std_error: number;
+  intervals: LabelledInterval[];
+  note?: string;
+};
+
+for (
+  const c of [{ slope: 0.8, noise: 0.3, label: "a well-determined slope" }, {
+    slope: 0.12,
+    noise: 0.45,
+    label: "a weak slope",
+  }]
+) {
+  Deno.test(`derived x0 = −a/b of a line (${c.label}): the profile interval is Fieller's exactly; the delta method is said to disagree when it does`, () => {
+    // Invented, deterministic data.
+    const x = Array.from({ length: 12 }, (_, i) => i + 1);
+    const y = x.map((v) => 1.5 + c.slope * v + c.noise * Math.sin(3.1 * v));
+    const { result } = fitResult("line", "y = a + b*x", makeTable({ x, y }), {
+      intervals: ["profile"],
+      derived: { x0: "-a/b" },
+    });
+    const r = result as unknown as {
+      parameters: Param[];
+      covariance: number[][];
+      df_residual: number;
+      derived: Derived[];
+    };
+    const [a, b] = r.parameters;
+    const t = studentT(r.df_residual).upperQuantile(0.025);
+    const [lo, hi] = fieller(
+      a.estimate,
+      b.estimate,
+      r.covariance[0][0],
+      r.covariance[0][1],
+      r.covariance[1][1],
+      t,
+    );
+    const x0 = r.derived[0];
+    assert.ok(Math.abs(x0.estimate + a.estimate / b.estimate) < 1e-12 * Math.abs(x0.estimate));
+    const prof = x0.intervals.find((i) => i.method === "profile")!;
+    // Fieller (1954): for a linear model the likelihood-ratio set of ρ is exactly his interval.
+    assert.ok(Math.abs(prof.lower! - lo) <= 1e-7 * Math.abs(lo), `${prof.lower} vs ${lo}`);
+    assert.ok(Math.abs(prof.upper! - hi) <= 1e-7 * Math.abs(hi), `${prof.upper} vs ${hi}`);
+    // The delta method: se² = ∇gᵀ·Cov·∇g, ∇g = (−1/b, a/b²) (exact derivative).
+    const g = [-1 / b.estimate, a.estimate / b.estimate ** 2];
+    const v = g[0] * g[0] * r.covariance[0][0] + 2 * g[0] * g[1] * r.covariance[0][1] +
+      g[1] * g[1] * r.covariance[1][1];
+    assert.ok(Math.abs(x0.std_error - Math.sqrt(v)) <= 1e-10 * Math.sqrt(v));
+    const wald = x0.intervals[0];
+    const off = Math.max(Math.abs(wald.lower! - lo), Math.abs(wald.upper! - hi)) /
+      (t * x0.std_error);
+    if (off > 0.1) assert.match(x0.note!, /the methods disagree: profile/);
+    else assert.equal(x0.note, undefined);
+    if (c.slope === 0.12) assert.ok(off > 0.1, `the weak slope's case disagrees (${off})`);
+    else assert.ok(off < 0.1, `the strong slope's case agrees (${off})`);
+  });
+}
+
+Deno.test("a derived half-life carries delta, profile and bootstrap intervals; a bad expression is refused on its name", () => {
+  // Invented decay data.
+  const t = Array.from({ length: 20 }, (_, i) => i * 0.5);
+  const y = t.map((v, i) => 10 * Math.exp(-0.3 * v) + 0.15 * Math.cos(2.7 * i));
+  const { result } = fitResult("decay", "y = y0*exp(-k*t)", makeTable({ t, y }), {
+    start: { y0: 8, k: 0.2 },
+    bootstrap: { resamples: 1000 },
+    derived: { half_life: "log(2)/k" },
+  });
+  const hl = (result as unknown as { derived: Derived[] }).derived[0];
+  const k = paramsOf(result)[1];
+  assert.ok(Math.abs(hl.estimate - Math.LN2 / k.estimate) < 1e-12);
+  assert.deepEqual(hl.intervals.map((i) => i.method), [
+    "wald",
+    "profile",
+    "bootstrap-percentile",
+    "bootstrap-bca",
+  ]);
+  // log(2)/k is monotone in k: its profile interval is k's mapped through it (exact).
+  const pk = byMethod(k, "profile");
+  const ph = hl.intervals[1];
+  assert.ok(Math.abs(ph.lower! - Math.LN2 / pk.upper!) <= 1e-7 * ph.lower!);
+  assert.ok(Math.abs(ph.upper! - Math.LN2 / pk.lower!) <= 1e-7 * ph.upper!);
+  assert.throws(
+    () =>
+      fitResult("decay", "y = y0*exp(-k*t)", makeTable({ t, y }), {
+        start: { y0: 8, k: 0.2 },
+        derived: { half_life: "log(2)/kk" },
+      }),
+    (e: Error & { path?: unknown }) =>
+      /Unknown parameter "kk" in derived quantity "half_life"/.test(e.message),
+  );
+});

@@ -19,6 +19,7 @@ import type { Fit } from "./fit.ts";
 import type { InEngineRecord } from "./_in_engine.ts";
 import type { FitIntervals } from "./_intervals.ts";
 import type { LabelledInterval } from "./_profile.ts";
+import type { DerivedResult } from "./_derived.ts";
 import type { Weighting } from "./_weighting.ts";
 import { plainArray, rowValues } from "../../kernel/arrays.ts";
 
@@ -143,6 +144,8 @@ export interface FitResult {
   rank_deficient: null;
   /** RUN-JSON addition: how the labelled intervals were computed; absent for fits in a database. */
   intervals?: IntervalsRecord;
+  /** RUN-JSON addition: the fit's derived quantities (`derived:`), each with every method used. */
+  derived?: DerivedResult[];
 }
 
 /** The weighting of a fit in plain words (shown in the view and the result). */
@@ -244,6 +247,9 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
     iterations: fit.iterations,
     rank_deficient: null,
     ...(fit.intervals === undefined ? {} : { intervals: intervalsRecord(fit.intervals) }),
+    ...(fit.intervals === undefined || fit.intervals.derived.length === 0
+      ? {}
+      : { derived: fit.intervals.derived }),
   };
 }
 

@@ -73,6 +73,11 @@ export const FIT_OPTIONS: OptionDecls = {
     doc:
       "interval methods beside Wald: profile (likelihood), bootstrap; default profile for nonlinear models",
   },
+  derived: {
+    type: "mapping",
+    doc:
+      "quantities computed from the parameters, name: expression (delta method, profile and bootstrap intervals)",
+  },
   bootstrap: {
     type: "mapping",
     doc: "bootstrap intervals: resamples (default 2000) and resample: residuals (default) or cases",
