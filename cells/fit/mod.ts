@@ -90,9 +90,11 @@ function fitDetails(r: FitResult): string[] {
     const others = (p.intervals ?? []).filter((i) => i.method !== "wald").map((i) =>
       `${METHOD_WORDS[i.method]} ${side(i.lower, u, p.estimate)} … ${side(i.upper, u, p.estimate)}`
     );
-    return `${p.name} = ${formatEstimate(p.estimate, u)}, u ${formatUncertainty(u)}${unit}, ${level} ${
-      others.length > 0 ? "Wald " : ""
-    }${ci}${others.map((o) => `; ${o}`).join("")}`;
+    return `${p.name} = ${formatEstimate(p.estimate, u)}, u ${
+      formatUncertainty(u)
+    }${unit}, ${level} ${others.length > 0 ? "Wald " : ""}${ci}${
+      others.map((o) => `; ${o}`).join("")
+    }`;
   });
 }
 
