@@ -243,7 +243,9 @@ function disagreement(intervals: LabelledInterval[], half: number): string | nul
     }
   }
   if (apart.length === 0) return null;
-  return `the methods disagree: ${apart.join(", ")} differ from the delta method by more than ${
+  return `the methods disagree: ${apart.join(", ")} ${
+    apart.length === 1 ? "differs" : "differ"
+  } from the delta method by more than ${
     DISAGREE * 100
   }% of its half-width; the delta method's symmetric interval is then the least trustworthy`;
 }

@@ -78,7 +78,7 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
  */
 function fitDetails(r: FitResult): string[] {
   const level = `${Math.round(r.confidence * 1000) / 10}%`;
-  return r.parameters.map((p) => {
+  const lines = r.parameters.map((p) => {
     const u = p.std_error;
     const unit = p.unit ? ` ${p.unit}` : "";
     if (u === null) {
@@ -86,16 +86,45 @@ function fitDetails(r: FitResult): string[] {
         p.at_bound ? "held at its limit" : "no standard uncertainty"
       })`;
     }
-    const ci = formatIntervalAt(p.ci, u, p.estimate, { open: "", sep: " … ", close: "" });
-    const others = (p.intervals ?? []).filter((i) => i.method !== "wald").map((i) =>
-      `${METHOD_WORDS[i.method]} ${side(i.lower, u, p.estimate)} … ${side(i.upper, u, p.estimate)}`
-    );
     return `${p.name} = ${formatEstimate(p.estimate, u)}, u ${
       formatUncertainty(u)
-    }${unit}, ${level} ${others.length > 0 ? "Wald " : ""}${ci}${
-      others.map((o) => `; ${o}`).join("")
-    }`;
+    }${unit}, ${level} ${intervalsText(p.ci, p.intervals ?? [], u, p.estimate, "Wald")}`;
   });
+  for (const d of r.derived ?? []) {
+    const u = d.std_error;
+    if (d.estimate === null) {
+      lines.push(`${d.name} = ${d.expression}: not finite at the estimates`);
+      continue;
+    }
+    const w = d.intervals[0];
+    const ci: [number, number] | null = w.lower === null || w.upper === null
+      ? null
+      : [w.lower, w.upper];
+    lines.push(
+      u === null
+        ? `${d.name} = ${formatEstimate(d.estimate, null)} (${d.expression})`
+        : `${d.name} = ${formatEstimate(d.estimate, u)}, u ${
+          formatUncertainty(u)
+        } (${d.expression}), ${level} ${intervalsText(ci, d.intervals, u, d.estimate, "delta")}`,
+    );
+    if (d.note) lines.push(`  note: ${d.note}`);
+  }
+  return lines;
+}
+
+/** The Wald interval, then every other method's, each named. */
+function intervalsText(
+  ci: [number, number] | null,
+  intervals: readonly { method: string; lower: number | null; upper: number | null }[],
+  u: number,
+  estimate: number,
+  first: string,
+): string {
+  const wald = formatIntervalAt(ci, u, estimate, { open: "", sep: " … ", close: "" });
+  const others = intervals.filter((i) => i.method !== "wald").map((i) =>
+    `${METHOD_WORDS[i.method]} ${side(i.lower, u, estimate)} … ${side(i.upper, u, estimate)}`
+  );
+  return `${others.length > 0 ? `${first} ` : ""}${wald}${others.map((o) => `; ${o}`).join("")}`;
 }
 
 /** How each interval method is named in the CLI summary. */
