@@ -62,9 +62,22 @@ export interface BootstrapRun {
   failed: number;
   resample: Resample;
   seed: number;
-  /** Jackknife estimates (n × p, row-major) for BCa's acceleration. */
+  /**
+   * Jackknife estimates (`jackknifeRows` × p, row-major) for BCa's
+   * acceleration: leave-one-row-out up to {@link JACKKNIFE_GROUPS} rows,
+   * beyond that leave-one-group-out over that many contiguous groups.
+   */
   jackknife: Float64Array | null;
+  /** Rows of `jackknife`: n, or the number of groups. */
+  jackknifeRows: number;
 }
+
+/**
+ * Most leave-out refits for BCa's acceleration: beyond this many rows the
+ * jackknife leaves out groups of rows instead (a grouped jackknife, Efron &
+ * Tibshirani 1993 §11.6), so a large fit does not refit once per row.
+ */
+export const JACKKNIFE_GROUPS = 500;
 
 /** Tolerances of each refit: looser than the fit itself (the spread is the point, not the digits). */
 const REFIT = { ftol: 1e-10, xtol: 1e-10, gtol: 1e-12, maxIterations: 100 };
@@ -119,7 +132,7 @@ export function bootstrap(input: BootstrapInput): BootstrapRun {
       out.set(fit.x, kept * p);
       kept++;
     } else failed++;
-    if ((r & 63) === 63) input.progress?.((r + 1) / (input.b + n));
+    if ((r & 63) === 63) input.progress?.((r + 1) / (input.b + Math.min(n, JACKKNIFE_GROUPS)));
   }
   const jackknife = jackknifeOf(input, base, full);
   return {
@@ -129,6 +142,7 @@ export function bootstrap(input: BootstrapInput): BootstrapRun {
     resample: input.resample,
     seed: input.seed,
     jackknife,
+    jackknifeRows: Math.min(n, JACKKNIFE_GROUPS),
   };
 }
 
@@ -181,21 +195,32 @@ function gathered(
   };
 }
 
-/** Leave-one-row-out refits (n × p), for BCa's acceleration; null when one fails. */
+/**
+ * Leave-one-out refits (rows × p) for BCa's acceleration: each row, or each
+ * of {@link JACKKNIFE_GROUPS} contiguous groups of rows; null when one fails.
+ */
 function jackknifeOf(input: BootstrapInput, base: Float64Array, full: Float64Array) {
   const n = input.y.length, p = input.estimates.length;
-  const out = new Float64Array(n * p);
-  const idx = new Int32Array(n - 1);
-  for (let leave = 0; leave < n; leave++) {
-    for (let i = 0, k = 0; i < n; i++) if (i !== leave) idx[k++] = i;
-    const fit = lmder(gathered(input.fns, idx, base, full, p), input.estimates.slice(), {
-      ...REFIT,
-      lower: input.lower,
-      upper: input.upper,
-    });
+  const groups = Math.min(n, JACKKNIFE_GROUPS);
+  const out = new Float64Array(groups * p);
+  const idx = new Int32Array(n);
+  for (let g = 0; g < groups; g++) {
+    // Group g holds rows [⌊g·n/groups⌋, ⌊(g+1)·n/groups⌋).
+    const from = Math.floor((g * n) / groups), to = Math.floor(((g + 1) * n) / groups);
+    let k = 0;
+    for (let i = 0; i < n; i++) if (i < from || i >= to) idx[k++] = i;
+    const fit = lmder(
+      gathered(input.fns, idx.subarray(0, k), base, full, p),
+      input.estimates.slice(),
+      {
+        ...REFIT,
+        lower: input.lower,
+        upper: input.upper,
+      },
+    );
     if (!fit.converged || !fit.x.every(Number.isFinite)) return null;
-    out.set(fit.x, leave * p);
-    if ((leave & 31) === 31) input.progress?.((input.b + leave + 1) / (input.b + n));
+    out.set(fit.x, g * p);
+    if ((g & 31) === 31) input.progress?.((input.b + g + 1) / (input.b + groups));
   }
   return out;
 }

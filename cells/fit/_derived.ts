@@ -132,10 +132,12 @@ function one(
       for (let k = 0; k < p; k++) theta[k] = run.replicates[r * p + k];
       values[r] = g(theta);
     }
-    const jack = run.jackknife === null ? null : Float64Array.from({ length: input.n }, (_, i) => {
-      for (let k = 0; k < p; k++) theta[k] = run.jackknife![i * p + k];
-      return g(theta);
-    });
+    const jack = run.jackknife === null
+      ? null
+      : Float64Array.from({ length: run.jackknifeRows }, (_, i) => {
+        for (let k = 0; k < p; k++) theta[k] = run.jackknife![i * p + k];
+        return g(theta);
+      });
     intervals.push(...bootstrapIntervals(values, est, jack, level));
   }
   const note = disagreement(intervals, input.q * se);

@@ -151,7 +151,7 @@ export function fitIntervals(
       for (let r = 0; r < run.b; r++) values[r] = run.replicates[r * p + j];
       const jack = run.jackknife === null
         ? null
-        : Float64Array.from({ length: problem.n }, (_, i) => run.jackknife![i * p + j]);
+        : Float64Array.from({ length: run.jackknifeRows }, (_, i) => run.jackknife![i * p + j]);
       byParameter[j].push(...bootstrapIntervals(values, solution.estimates[j], jack, level));
     }
     out.bootstrap = run;
