@@ -61,7 +61,6 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
   .pl-cell { padding-left: .45rem; }
   .pl-prose { font-size: 16px; }
   .pl-cell-actions { margin-left: 0; }
-  .pl-result dl { grid-template-columns: minmax(0, 45%) minmax(0, 1fr); }
 }
 .pl-main { min-width: 0; }
 
@@ -222,7 +221,10 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-outline-cell { padding-left: .6rem; font-family: var(--mono); font-size: 12px; }
 
 /* Kind views: shared by the live page and the record. */
+.plumb-table-source { overflow-wrap: anywhere; }
 .plumb-sha { margin-left: .75em; color: var(--muted); font-size: 12px; }
+/* A database's fingerprint on a line of its own under the engine and file, never split from its label. */
+.plumb-table-fingerprint { display: block; margin-left: 0; }
 .plumb-table-query { margin: .3rem 0; padding: .4rem .6rem; background: var(--wash); max-width: 100%;
   white-space: pre-wrap; overflow-wrap: anywhere; font-size: 12.5px; }
 .pl-result table { border-collapse: collapse; font-size: 13px; font-variant-numeric: tabular-nums; margin: .35rem 0; }
@@ -232,6 +234,9 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-result p { margin: .3rem 0; }
 .pl-result dl { display: grid; grid-template-columns: max-content 1fr; gap: 0 1rem; margin: .35rem 0;
   font-size: 13px; font-variant-numeric: tabular-nums; }
+/* A phone: the terms get under half the width, so a long term wraps and its value stays on screen
+   (after the rule above, which it overrides). */
+@media (max-width: 40rem) { .pl-result dl { grid-template-columns: minmax(0, 45%) minmax(0, 1fr); } }
 .pl-result dt { color: var(--muted); }
 .pl-result dd { margin: 0; }
 .pl-result h4 { margin: .5rem 0 .2rem; font-size: 13px; }
@@ -245,6 +250,12 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .plumb-calc-console { margin: .45rem 0 .2rem; }
 .plumb-calc-console pre { white-space: pre-wrap; overflow-wrap: anywhere; }
 .plumb-calc-note { font-size: 12.5px; }
+/* fit computed in its database: where each number came from, set off by a rule at the left. */
+.plumb-fit-engine { margin: .45rem 0; padding: .1rem 0 .1rem .6rem; border-left: 2px solid var(--rule);
+  font-size: 13px; overflow-wrap: break-word; }
+.pl-result .plumb-fit-engine p { margin: .2rem 0; }
+.plumb-fit-engine h5 { margin: .5rem 0 .1rem; font-size: 12px; font-weight: 600; color: var(--muted); }
+.plumb-fit-engine-passes { margin: .1rem 0; padding-left: 1.4rem; font-size: 12.5px; }
 
 ${PRINT_STYLE}
 `;

@@ -2,8 +2,9 @@
  * The fit cell's view: the model, a parameter table (estimate and its unit,
  * standard uncertainty, interval at the document's confidence level, t, p), the fit
  * statistics (with known σ the Wald χ² of the slopes and the χ² goodness of
- * fit in place of the F test), the weighting stated plainly and the k
- * convention of the criteria. Shared by the live page and the static record, so it is plain
+ * fit in place of the F test), the weighting stated plainly, the k
+ * convention of the criteria, and for a fit computed in its database where
+ * each number was computed (_in_engine_view.tsx). Shared by the live page and the static record, so it is plain
  * markup with no scripts or state.
  *
  * @module
@@ -21,6 +22,7 @@ import {
   squaredUnit,
   withUnit,
 } from "../shared/format.ts";
+import { InEngineSection } from "./_in_engine_view.tsx";
 
 /**
  * Renders a fit result.
@@ -56,6 +58,7 @@ export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
         <code>{r.model}</code> <span class="plumb-fit-method">{r.method} least squares</span>
       </p>
       <p class="plumb-fit-weighting">Weighting: {r.weighting_statement}</p>
+      {r.in_engine_detail !== undefined && <InEngineSection d={r.in_engine_detail} />}
       <table class="plumb-fit-parameters">
         <thead>
           <tr>

@@ -29,7 +29,7 @@ function Source({ r }: { r: TableResult }): VNode {
               </>
             )}
           {d.kept && " · rows kept in the database"}
-          <span class="plumb-sha" title={`rows:hash ${d.fingerprint}`}>
+          <span class="plumb-sha plumb-table-fingerprint" title={`rows:hash ${d.fingerprint}`}>
             fingerprint {d.fingerprint.slice(0, 24)}
             {d.fingerprint.length > 24 ? "…" : ""}
           </span>
