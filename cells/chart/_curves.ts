@@ -1,21 +1,20 @@
 /**
- * Fitted curves and the confidence band of the mean on a grid of x values.
+ * Fitted curves on a grid of x values, and what every band is built from.
  *
  * Method: the curve is the fitted model f(x; θ̂) evaluated on the grid. The
- * band is the delta method (Draper & Smith, *Applied Regression Analysis*,
- * 3rd ed., §3.2 for the straight line, ch. 24 for nonlinear models; from
- * memory for the sections): with g = ∂f/∂θ at (x, θ̂) and Cov(θ̂) the fit's
- * covariance, se_fit(x) = √(gᵀ Cov(θ̂) g), and the band is
- * f ± q·se_fit with q the t quantile t_{(1+c)/2; n−p} (the normal quantile
- * for fits with known standard deviations). For a linear model g is the
- * design row and this is the exact interval of the mean. A transformed
- * response is back-transformed end by end (monotone steps, `responseInverse`
- * of kernel/expr).
+ * standard error of the fitted mean is the delta method's (Draper & Smith,
+ * *Applied Regression Analysis*, 3rd ed., §3.2 for the straight line, ch. 24
+ * for nonlinear models; from memory for the sections): with g = ∂f/∂θ at
+ * (x, θ̂) from the expression's exact derivatives and Cov(θ̂) the fit's
+ * covariance, se_fit(x) = √(gᵀ Cov(θ̂) g). For a linear model g is the
+ * design row and f ± t·se_fit is the exact interval of the mean. The
+ * multipliers and the band of a new observation are `_bands.ts`'s. A
+ * transformed response is back-transformed end by end (monotone steps,
+ * `responseInverse` of kernel/expr).
  *
  * @module
  */
 import { compile, derivative, type ResponseInverse } from "../../kernel/expr/mod.ts";
-import { standardNormal, studentT } from "../../kernel/stats/mod.ts";
 import type { Fit } from "../fit/fit.ts";
 
 /**
@@ -48,36 +47,51 @@ export function gridOver(lo: number, hi: number, n: number, log: boolean): Float
  * @returns f(x; θ̂) back-transformed, NaN where undefined.
  */
 export function curveOn(fit: Fit, grid: Float64Array, inverse: ResponseInverse): Float64Array {
-  const f = compile(fit.model.rhs, fit.model.columns, fit.parameters);
-  const v = f(fit.model.columns.map(() => grid), fit.estimates, grid.length);
-  return v.map(inverse);
+  return meanOn(fit, grid).map(inverse);
 }
 
 /**
- * The half width q·se_fit of the mean's interval on the fitted scale, per grid point.
+ * A one-predictor fit's mean on the grid, on the fitted (possibly transformed) scale.
  *
  * @param fit The fit.
  * @param grid x values.
- * @param confidence Confidence level in (0, 1).
- * @returns Half widths, the quantile used, and whether a held parameter (NaN covariance) was left out.
+ * @returns f(x; θ̂), NaN where undefined.
  */
-export function halfWidthOn(
-  fit: Fit,
-  grid: Float64Array,
-  confidence: number,
-): { half: Float64Array; q: number; held: boolean } {
+export function meanOn(fit: Fit, grid: Float64Array): Float64Array {
+  const f = compile(fit.model.rhs, fit.model.columns, fit.parameters);
+  return f(fit.model.columns.map(() => grid), fit.estimates, grid.length);
+}
+
+/** The delta method's standard error of the fitted mean on a grid. */
+export interface SeFit {
+  /** se_fit(x) = √(gᵀ Cov(θ̂) g) per grid point, on the fitted scale. */
+  se: Float64Array;
+  /** g_j(x) = ∂f/∂θ_j at θ̂, one array per parameter. */
+  gradient: Float64Array[];
+  /** Whether a parameter held at a bound (NaN covariance) was left out. */
+  held: boolean;
+  /** Parameters with a finite variance: the dimension of the band's direction space. */
+  free: number;
+}
+
+/**
+ * se_fit on the grid by the delta method, with exact derivatives of the model.
+ *
+ * @param fit The fit.
+ * @param grid x values.
+ * @returns The standard errors, the gradients, and what was left out.
+ */
+export function seFitOn(fit: Fit, grid: Float64Array): SeFit {
   const { model, parameters: names, estimates } = fit;
   const p = names.length, n = grid.length;
   const cols = model.columns.map(() => grid);
-  const g = names.map((name) =>
+  const gradient = names.map((name) =>
     compile(derivative(model.rhs, name), model.columns, names)(cols, estimates, n)
   );
   const cov = fit.statistics.covariance;
-  let held = false;
-  const half = new Float64Array(n);
-  const s = fit.statistics;
-  const ref = s.inference === "normal" ? standardNormal : studentT(s.dfResidual);
-  const q = ref.upperQuantile((1 - confidence) / 2);
+  let held = false, free = 0;
+  for (let j = 0; j < p; j++) if (Number.isFinite(cov[j + j * p])) free++;
+  const se = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     let v = 0;
     for (let j = 0; j < p; j++) {
@@ -85,37 +99,32 @@ export function halfWidthOn(
         const c = cov[j + k * p];
         // A parameter held at a bound has NaN covariance: it adds no uncertainty.
         if (Number.isNaN(c)) held = true;
-        else v += g[j][i] * c * g[k][i];
+        else v += gradient[j][i] * c * gradient[k][i];
       }
     }
-    half[i] = q * Math.sqrt(Math.max(v, 0));
+    se[i] = Math.sqrt(Math.max(v, 0));
   }
-  return { half, q, held };
+  return { se, gradient, held, free };
 }
 
 /**
- * The confidence band of the mean on the grid, on the response column's scale.
+ * A band's ends on the response column's scale: mean ± half, each end back-transformed.
  *
- * @param fit The fit.
- * @param grid x values.
- * @param confidence Confidence level in (0, 1).
+ * @param mean The fitted mean on the fitted scale.
+ * @param half Half widths on the fitted scale (NaN: no band there).
  * @param inverse Back-transform of the response.
- * @returns Lower and upper ends, and whether a held parameter was left out.
+ * @returns Lower and upper ends (a decreasing inverse swaps them back).
  */
-export function bandOn(
-  fit: Fit,
-  grid: Float64Array,
-  confidence: number,
+export function bandEnds(
+  mean: Float64Array,
+  half: Float64Array,
   inverse: ResponseInverse,
-): { lo: Float64Array; hi: Float64Array; held: boolean } {
-  const f = compile(fit.model.rhs, fit.model.columns, fit.parameters);
-  const mean = f(fit.model.columns.map(() => grid), fit.estimates, grid.length);
-  const { half, held } = halfWidthOn(fit, grid, confidence);
-  const lo = new Float64Array(grid.length), hi = new Float64Array(grid.length);
-  for (let i = 0; i < grid.length; i++) {
+): { lo: Float64Array; hi: Float64Array } {
+  const lo = new Float64Array(mean.length), hi = new Float64Array(mean.length);
+  for (let i = 0; i < mean.length; i++) {
     const a = inverse(mean[i] - half[i]), b = inverse(mean[i] + half[i]);
     lo[i] = Math.min(a, b);
     hi[i] = Math.max(a, b);
   }
-  return { lo, hi, held };
+  return { lo, hi };
 }

@@ -75,6 +75,31 @@ export async function addFit(
 }
 
 /**
+ * Runs a fit cell with any options (weights, known_sigma, bootstrap, …) into `cells`.
+ *
+ * @param cells Where outputs are kept (the table must be there).
+ * @param name The fit's name.
+ * @param options The fit's options (`on`, `model`, …).
+ * @param warnings Where the fit's warnings go (optional).
+ */
+export async function addFitWith(
+  cells: Cells,
+  name: string,
+  options: Record<string, unknown>,
+  warnings: string[] = [],
+) {
+  const spec = fitKind.parse({
+    name,
+    kind: "fit",
+    body: "",
+    options,
+    settings: SETTINGS,
+    warn: (m) => warnings.push(m),
+  });
+  cells[name] = await fitKind.run(spec, ctx(name, cells, warnings));
+}
+
+/**
  * Parses and runs a chart cell named "c".
  *
  * @param cells The outputs it may read.

@@ -4,7 +4,8 @@
  * ```
  *  table ─columns x, y─▶ rows with finite x, y (positive on a log axis)
  *     ├─ rows ≤ bin_above: points           └─ more: 2-D density (BIN_GRID)
- *  fits ─drawnFits─▶ curves on a grid over the x range ─┬─ band (one fit)
+ *  fits ─drawnFits─▶ curves on a grid over the x range ─┬─ bands of one fit (_bands.ts):
+ *                                                      │  mean and/or new observation
  *                                                      └─ residual panel
  * ```
  *
@@ -15,12 +16,13 @@
 import { plainArray } from "../../kernel/arrays.ts";
 import { CellError } from "../../kernel/errors.ts";
 import type { CellOutput, NumberColumn, RunContext, Table } from "../../kernel/contract/mod.ts";
-import type { ChartAxis, ChartData, ChartResiduals } from "../shared/chart_data.ts";
+import type { ChartAxis, ChartBand, ChartData, ChartResiduals } from "../shared/chart_data.ts";
 import { fitColor } from "../shared/palette.ts";
 import { numberColumnOf } from "../shared/number_column.ts";
 import type { ChartSpec } from "./spec.ts";
 import { type DrawnFit, drawnFits } from "./_fit_layers.ts";
-import { bandOn, curveOn, gridOver } from "./_curves.ts";
+import { curveOn, gridOver } from "./_curves.ts";
+import { bandsOf } from "./_bands.ts";
 import { BIN_GRID, binEdges, binMeans, binPoints } from "./_bins.ts";
 
 /** Points of the grid the curves and the band are evaluated at. */
@@ -33,7 +35,7 @@ export interface ChartOutput extends CellOutput {
 }
 
 /**
- * Computes a chart's points or bins, curves, band and residual panel.
+ * Computes a chart's points or bins, curves, bands and residual panel.
  *
  * @param spec The normalised options.
  * @param ctx Inputs (the table under `spec.on`, the fits), settings, warning sink.
@@ -65,9 +67,13 @@ export function runChart(spec: ChartSpec, ctx: RunContext): ChartOutput {
     model: d.fit.model.text,
     y: finiteOrNull(curveOn(d.fit, grid, d.inverse), spec.logY),
   }));
-  const band = bandFor(spec, ctx, fits, grid);
+  const bands = bandsFor(spec, ctx, fits, grid);
   const binned = x.length > spec.binAbove;
-  const yDomain = extentOfAll([y, ...curves.map((c) => c.y), band?.lo ?? [], band?.hi ?? []]);
+  const yDomain = extentOfAll([
+    y,
+    ...curves.map((c) => c.y),
+    ...bands.flatMap((b) => [b.lo, b.hi]),
+  ]);
   const bins = binned
     ? binPoints(
       x,
@@ -79,7 +85,7 @@ export function runChart(spec: ChartSpec, ctx: RunContext): ChartOutput {
     )
     : null;
   const residuals = spec.residuals ? residualPanel(spec, table, fits, [xc, yc], xDomain) : null;
-  const marks = 1 + curves.length + (band ? 1 : 0) +
+  const marks = 1 + curves.length + bands.length +
     (residuals ? residuals.series.length + 1 : 0);
   const data: ChartData = {
     marks,
@@ -94,7 +100,8 @@ export function runChart(spec: ChartSpec, ctx: RunContext): ChartOutput {
     bins,
     grid: plainArray(grid),
     curves,
-    band,
+    band: bands[0] ?? null,
+    bands,
     residuals,
   };
   return { type: "Chart", data };
@@ -165,22 +172,50 @@ function keptRows(
   return [x, y];
 }
 
-function bandFor(spec: ChartSpec, ctx: RunContext, fits: DrawnFit[], grid: Float64Array) {
-  if (spec.band === null) return null;
+/** The bands of the `band` fit, as plot-ready data (ends null where not finite or ≤ 0 on a log y). */
+function bandsFor(
+  spec: ChartSpec,
+  ctx: RunContext,
+  fits: DrawnFit[],
+  grid: Float64Array,
+): ChartBand[] {
+  if (spec.band === null) return [];
   const d = fits.find((f) => f.name === spec.band)!;
-  const { lo, hi, held } = bandOn(d.fit, grid, ctx.settings.confidence, d.inverse);
-  if (held) {
-    ctx.warn(
-      `Band of "${d.name}" in chart "${ctx.name}" leaves out the parameters held at a bound: they have no standard error`,
-    );
-  }
-  return {
+  return bandsOf(spec, ctx, d, grid).map((b) => ({
     fit: d.name,
     color: fitColor(d.name),
-    level: ctx.settings.confidence,
-    lo: finiteOrNull(lo, spec.logY),
-    hi: finiteOrNull(hi, spec.logY),
-  };
+    level: b.level,
+    kind: b.kind,
+    coverage: b.coverage,
+    method: b.method,
+    quantile: b.quantile,
+    quantile_of: b.quantileOf,
+    note: b.note,
+    new_observation: b.newObservation,
+    label: bandLabel(d.name, b.kind, b.level, b.method),
+    lo: finiteOrNull(b.lo, spec.logY),
+    hi: finiteOrNull(b.hi, spec.logY),
+  }));
+}
+
+/**
+ * A band's label, as the chart and its key show it.
+ *
+ * @param fit The fit's name.
+ * @param kind Of the mean, or of a new observation.
+ * @param level The level.
+ * @param method The method in words.
+ * @returns e.g. `root: 95% band of the mean (Scheffé, simultaneous)`.
+ */
+export function bandLabel(
+  fit: string,
+  kind: "mean" | "observation",
+  level: number,
+  method: string,
+): string {
+  const pct = `${Number((level * 100).toPrecision(6))}%`;
+  const of = kind === "mean" ? "band of the mean" : "band of a new observation";
+  return `${fit}: ${pct} ${of} (${method})`;
 }
 
 function residualPanel(

@@ -46,6 +46,25 @@ Deno.test("renderChartSvg() draws points, curves, band and residuals (snapshot)"
   await assertSvgSnapshot(svg, new URL("chart-fade.svg", SNAPSHOTS));
 });
 
+Deno.test("renderChartSvg() draws the bands of the mean and of a new observation (snapshot)", async () => {
+  const { out } = await runChartCell(await fade(40), {
+    on: "cycles",
+    x: "cycle",
+    y: "capacity",
+    band: "root",
+    band_for: "both",
+    band_method: "scheffe",
+  });
+  const svg = renderChartSvg(chartKind.summary(out, {} as never), chartDocument());
+  ok(
+    svg.includes("root: 95% band of the mean (Scheffé, simultaneous)"),
+    "the mean's band labelled",
+  );
+  ok(svg.includes("root: 95% band of a new observation (Scheffé, simultaneous)"), "and the other");
+  ok(svg.includes('stroke-dasharray="4,3"'), "the new observation's edges dashed");
+  await assertSvgSnapshot(svg, new URL("chart-bands.svg", SNAPSHOTS));
+});
+
 Deno.test("renderChartSvg() draws a binned chart on log axes (snapshot)", async () => {
   const { out } = await runChartCell(await fade(6000), {
     on: "cycles",

@@ -6,7 +6,11 @@
  * x: cycle                 # column on the horizontal axis (required)
  * y: capacity              # column on the vertical axis (required)
  * fits: [line, root]       # fit cells drawn as curves over the x range (optional)
- * band: root               # fit whose confidence band of the mean is drawn (optional)
+ * band: root               # fit whose band is drawn (optional)
+ * band_for: mean           # the band of the mean, of a new observation, or both (default mean)
+ * band_method: pointwise   # pointwise (delta), scheffe or bootstrap: simultaneous (default pointwise)
+ * band_level: 0.95         # the band's level (default: the document's confidence)
+ * new_observations: 1      # new observations averaged, for the band of a new observation (default 1)
  * residuals: true          # a residual panel under the chart (default false)
  * log: x                   # logarithmic axis: x, y or both (default none)
  * title: Capacity fade     # a title over the chart (optional)
@@ -24,6 +28,8 @@ import {
   type OptionDecls,
   type ParseContext,
   readBoolean,
+  readChoice,
+  readNumber,
   shown,
 } from "../../kernel/contract/mod.ts";
 
@@ -36,6 +42,14 @@ export interface ChartSpec {
   fits: string[];
   /** The fit whose band is drawn (its curve is drawn too, after `fits`, when not listed there). */
   band: string | null;
+  /** Which bands: of the mean, of a new observation, or both. */
+  bandFor: BandFor;
+  /** Pointwise (delta method) or simultaneous over the plotted range (Scheffé, bootstrap sup-t). */
+  bandMethod: BandMethod;
+  /** The bands' level; null: the document's confidence. */
+  bandLevel: number | null;
+  /** m, the new observations averaged in the band of a new observation. */
+  newObservations: number;
   residuals: boolean;
   logX: boolean;
   logY: boolean;
@@ -43,6 +57,14 @@ export interface ChartSpec {
   /** Rows beyond this count are drawn as a 2-D density. */
   binAbove: number;
 }
+
+/** The bands `band_for` can ask. */
+export const BAND_FOR = ["mean", "observation", "both"] as const;
+export type BandFor = typeof BAND_FOR[number];
+
+/** The band methods `band_method` can ask. */
+export const BAND_METHODS = ["pointwise", "scheffe", "bootstrap"] as const;
+export type BandMethod = typeof BAND_METHODS[number];
 
 /** Rows beyond which points are binned, unless `bin_above` says otherwise (about 5,000: issue 5). */
 export const DEFAULT_BIN_ABOVE = 5000;
@@ -53,7 +75,28 @@ export const CHART_OPTIONS: OptionDecls = {
   x: { type: "text", doc: "the column on the horizontal axis", required: true, names: "column" },
   y: { type: "text", doc: "the column on the vertical axis", required: true, names: "column" },
   fits: { type: "list", doc: "fit cells drawn as curves over the x range", names: "cells" },
-  band: { type: "text", doc: "a fit whose confidence band of the mean is drawn", names: "cell" },
+  band: { type: "text", doc: "a fit whose band is drawn", names: "cell" },
+  band_for: {
+    type: "choice",
+    doc: "the band of the mean, of a new observation (prediction band), or both",
+    choices: BAND_FOR,
+    default: "mean",
+  },
+  band_method: {
+    type: "choice",
+    doc: "pointwise (delta method), or simultaneous over the plotted range: scheffe or bootstrap",
+    choices: BAND_METHODS,
+    default: "pointwise",
+  },
+  band_level: {
+    type: "number",
+    doc: "the band's level in (0, 1) (default the document's confidence)",
+  },
+  new_observations: {
+    type: "whole number",
+    doc: "new observations averaged, for the band of a new observation",
+    default: 1,
+  },
   residuals: { type: "boolean", doc: "whether a residual panel is drawn under the chart" },
   log: { type: "choice", doc: "logarithmic axes", choices: ["x", "y", "both"] },
   title: { type: "text", doc: "a title over the chart" },
@@ -69,8 +112,9 @@ export const CHART_OPTIONS: OptionDecls = {
  * @param ctx The parse context (cell name, YAML options).
  * @returns The spec.
  * @throws {CellError} For a missing `on`, `x` or `y`, a cell or column name
- *   that is not a single word, a bad `fits`, `log`, `residuals`, `title` or
- *   `bin_above`, or an unknown option.
+ *   that is not a single word, a bad `fits`, `log`, `residuals`, `title`,
+ *   `bin_above` or band option, a band option without `band`, a bootstrap
+ *   band of a new observation, or an unknown option.
  * @example
  * ```ts
  * import { parseChartSpec } from "./spec.ts";
@@ -94,12 +138,54 @@ export function parseChartSpec(ctx: ParseContext): ChartSpec {
     y: required(ctx, "y", "the column on the vertical axis, as in y: capacity"),
     fits,
     band,
+    ...bandOptions(ctx, band, fits),
     residuals: readBoolean(ctx, "residuals", false),
     logX: log.x,
     logY: log.y,
     title: titleText(ctx, o.title),
     binAbove: binAbove(ctx, o.bin_above),
   };
+}
+
+/** The band options, refused without `band` and in the one combination with no method. */
+function bandOptions(ctx: ParseContext, band: string | null, fits: string[]) {
+  const keys = ["band_for", "band_method", "band_level", "new_observations"] as const;
+  const given = keys.filter((k) => ctx.options[k] !== undefined && ctx.options[k] !== null);
+  if (band === null && given.length > 0) {
+    throw new CellError(
+      `Option "${
+        given[0]
+      }" of chart "${ctx.name}" needs "band": name the fit whose band is drawn, as in band: ${
+        fits[0] ?? "line"
+      }`,
+      [given[0]],
+    );
+  }
+  const bandFor = readChoice(ctx, "band_for", BAND_FOR) ?? "mean";
+  const bandMethod = readChoice(ctx, "band_method", BAND_METHODS) ?? "pointwise";
+  if (bandMethod === "bootstrap" && bandFor !== "mean") {
+    throw new CellError(
+      `Option "band_method" of chart "${ctx.name}" is "bootstrap", and the bootstrap band is of the mean only (the refits give curves, not new observations): use band_method: scheffe for a simultaneous band of a new observation`,
+      ["band_method"],
+    );
+  }
+  const bandLevel = ctx.options.band_level === undefined || ctx.options.band_level === null
+    ? null
+    : readNumber(ctx, "band_level", NaN, (v) => v > 0 && v < 1, "a level in (0, 1), such as 0.95");
+  const newObservations = readNumber(
+    ctx,
+    "new_observations",
+    1,
+    (v) => Number.isInteger(v) && v >= 1,
+    "a whole number of new observations, 1 or more",
+  );
+  if (newObservations !== 1 && bandFor === "mean") {
+    throw new CellError(
+      `Option "new_observations" of chart "${ctx.name}" applies to the band of a new observation: add band_for: observation (or both)`,
+      ["new_observations"],
+    );
+  }
+  return { bandFor, bandMethod, bandLevel, newObservations };
 }
 
 function required(ctx: ParseContext, key: "on" | "x" | "y", what: string): string {

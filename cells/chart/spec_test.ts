@@ -31,6 +31,10 @@ Deno.test("parseChartSpec() fills defaults", () => {
     y: "y",
     fits: [],
     band: null,
+    bandFor: "mean",
+    bandMethod: "pointwise",
+    bandLevel: null,
+    newObservations: 1,
     residuals: false,
     logX: false,
     logY: false,
@@ -76,6 +80,56 @@ Deno.test("parseChartSpec() refuses missing and malformed options at their place
     { on: "t", x: "x", y: "y", bin_above: 2.5 },
     `Option "bin_above" of chart "c" is "2.5": expected a whole number of rows, 0 or more`,
     ["bin_above"],
+  );
+});
+
+Deno.test("parseChartSpec() reads the band options", () => {
+  const spec = parse({
+    on: "t",
+    x: "x",
+    y: "y",
+    band: "root",
+    band_for: "both",
+    band_method: "scheffe",
+    band_level: 0.9,
+    new_observations: 3,
+  });
+  deepEqual(
+    [spec.bandFor, spec.bandMethod, spec.bandLevel, spec.newObservations],
+    ["both", "scheffe", 0.9, 3],
+  );
+});
+
+Deno.test("parseChartSpec() refuses band options without a band, and bad ones, at their place", () => {
+  refused(
+    { on: "t", x: "x", y: "y", fits: ["root"], band_method: "scheffe" },
+    `Option "band_method" of chart "c" needs "band": name the fit whose band is drawn, as in band: root`,
+    ["band_method"],
+  );
+  refused(
+    { on: "t", x: "x", y: "y", band: "root", band_method: "sheffe" },
+    `Option "band_method" of chart "c" is "sheffe": did you mean "scheffe"?`,
+    ["band_method"],
+  );
+  refused(
+    { on: "t", x: "x", y: "y", band: "root", band_for: "observation", band_method: "bootstrap" },
+    `Option "band_method" of chart "c" is "bootstrap", and the bootstrap band is of the mean only (the refits give curves, not new observations): use band_method: scheffe for a simultaneous band of a new observation`,
+    ["band_method"],
+  );
+  refused(
+    { on: "t", x: "x", y: "y", band: "root", band_level: 95 },
+    `Option "band_level" of chart "c" is "95": expected a level in (0, 1), such as 0.95`,
+    ["band_level"],
+  );
+  refused(
+    { on: "t", x: "x", y: "y", band: "root", band_for: "both", new_observations: 0 },
+    `Option "new_observations" of chart "c" is "0": expected a whole number of new observations, 1 or more`,
+    ["new_observations"],
+  );
+  refused(
+    { on: "t", x: "x", y: "y", band: "root", new_observations: 4 },
+    `Option "new_observations" of chart "c" applies to the band of a new observation: add band_for: observation (or both)`,
+    ["new_observations"],
   );
 });
 

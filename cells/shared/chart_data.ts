@@ -7,7 +7,7 @@
  * ```
  *  ┌ main panel ───────────────────────────┐
  *  │ points  or  bins (2-D density)        │   x.domain × y.domain
- *  │ band (one fit)   curves (each fit)    │
+ *  │ bands (one fit)  curves (each fit)    │
  *  └───────────────────────────────────────┘
  *  ┌ residual panel (optional) ────────────┐
  *  │ residual per row (or per x bin), 0 ── │
@@ -50,12 +50,28 @@ export interface ChartCurve {
   y: (number | null)[];
 }
 
-/** The confidence band of the mean of one fit, on the grid. */
+/** A band of one fit on the grid: of the mean (confidence band) or of a new observation (prediction band). */
 export interface ChartBand {
   fit: string;
   color: string;
   /** Confidence level, e.g. 0.95. */
   level: number;
+  /** Of the mean response, or of a new observation. */
+  kind: "mean" | "observation";
+  /** Each x on its own, or every x of the plotted range at once. */
+  coverage: "pointwise" | "simultaneous";
+  /** "delta, pointwise", "Scheffé, simultaneous", "bootstrap sup-t, simultaneous, B = 2000". */
+  method: string;
+  /** q in fit ± q·se. */
+  quantile: number;
+  /** The quantile named, e.g. `√(2·F(0.95; 2, 8))`. */
+  quantile_of: string;
+  /** What the method rests on here (Working–Hotelling, linearised, …), or null. */
+  note: string | null;
+  /** A new observation's variance in words (bands of a new observation), else null. */
+  new_observation: string | null;
+  /** The label drawn: fit, level, which band and method. */
+  label: string;
   lo: (number | null)[];
   hi: (number | null)[];
 }
@@ -97,6 +113,9 @@ export interface ChartData {
   /** x values the curves and the band are evaluated at. */
   grid: number[];
   curves: ChartCurve[];
+  /** The first of `bands` (kept for readers of the first release), or null. */
   band: ChartBand | null;
+  /** Every band drawn: the mean's first, then a new observation's. */
+  bands: ChartBand[];
   residuals: ChartResiduals | null;
 }

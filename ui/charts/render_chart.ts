@@ -38,7 +38,7 @@ const MARGIN_LEFT = 72;
  *   y: { column: "y", unit: null, label: "y", log: false, domain: [0, 2] },
  *   data: { x: [0, 1], y: [0, 2] }, bins: null, grid: [0, 1],
  *   curves: [{ fit: "line", color: "#0072B2", model: "y = b*x", y: [0, 2] }],
- *   band: null, residuals: null,
+ *   band: null, bands: [], residuals: null,
  * }, chartDocument());
  * if (!svg.includes("x (s)")) throw new Error(svg);
  * ```
@@ -141,20 +141,27 @@ function mainMarks(data: ChartData): Plot.Markish[] {
     }));
   } else if (data.data) marks.push(rings(data.data.x, data.data.y, "rows"));
   const g = data.grid;
-  if (data.band) {
-    const band = data.band;
+  // Older results carry only `band`. A new observation's band is drawn lighter with dashed
+  // edges, the mean's band over it with solid ones: the two differ by shape, not colour alone.
+  for (const band of data.bands ?? (data.band ? [data.band] : [])) {
+    const observation = band.kind === "observation";
     marks.push(Plot.areaY(g, {
       x: g,
       y1: band.lo,
       y2: band.hi,
       fill: band.color,
-      fillOpacity: 0.14,
-      ariaDescription: `band ${band.fit}`,
+      fillOpacity: observation ? 0.07 : 0.14,
+      ariaDescription: `band ${band.fit}${observation ? " new observation" : ""}`,
     }));
     for (const edge of [band.lo, band.hi]) {
-      marks.push(
-        Plot.line(g, { x: g, y: edge, stroke: band.color, strokeWidth: 0.6, strokeOpacity: 0.6 }),
-      );
+      marks.push(Plot.line(g, {
+        x: g,
+        y: edge,
+        stroke: band.color,
+        strokeWidth: observation ? 0.9 : 0.6,
+        strokeOpacity: 0.6,
+        strokeDasharray: observation ? "4,3" : undefined,
+      }));
     }
   }
   for (const c of data.curves) {
@@ -191,9 +198,10 @@ function note(data: ChartData): string | null {
       } rows drawn as density: darker cells hold more rows (up to ${data.bins.max})`,
     );
   }
-  if (data.band) {
+  for (const band of data.bands ?? (data.band ? [data.band] : [])) {
     parts.push(
-      `band: ${Math.round(data.band.level * 1000) / 10}% interval of the mean of ${data.band.fit}`,
+      band.label ??
+        `band: ${Math.round(band.level * 1000) / 10}% interval of the mean of ${band.fit}`,
     );
   }
   if (data.residuals?.binned) parts.push("residuals: mean per x cell");
