@@ -256,6 +256,27 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .pl-result .plumb-fit-engine p { margin: .2rem 0; }
 .plumb-fit-engine h5 { margin: .5rem 0 .1rem; font-size: 12px; font-weight: 600; color: var(--muted); }
 .plumb-fit-engine-passes { margin: .1rem 0; padding-left: 1.4rem; font-size: 12.5px; }
+/* intervals by method: a compact table that scrolls on its own on a phone; traces folded. */
+.plumb-fit-intervals { margin: .5rem 0; max-width: 100%; }
+.plumb-fit-interval-scroll { max-width: 100%; overflow-x: auto; }
+.plumb-fit-interval-table { border-collapse: collapse; font-size: 13px; font-variant-numeric: tabular-nums; }
+.plumb-fit-interval-table caption { text-align: left; font-weight: 600; font-size: 12.5px; color: var(--muted); padding-bottom: .2rem; }
+.plumb-fit-interval-basis { font-weight: 400; }
+.plumb-fit-interval-table th, .plumb-fit-interval-table td { padding: .15rem .6rem .15rem 0; text-align: left; white-space: nowrap; vertical-align: top; }
+.plumb-fit-interval-table thead th { border-bottom: 1px solid var(--rule); font-weight: 600; font-size: 12px; }
+.plumb-fit-derived { white-space: normal; font-weight: 400; }
+.plumb-fit-interval-notes { margin: .2rem 0; padding-left: 1.4rem; font-size: 12.5px; color: var(--muted); }
+.plumb-fit-traces summary { cursor: pointer; font-size: 13px; }
+.plumb-fit-traces-key { font-size: 12.5px; color: var(--muted); margin: .2rem 0; }
+.plumb-fit-trace-grid { display: flex; flex-wrap: wrap; gap: .6rem; }
+.plumb-fit-traces .plumb-fit-trace { margin: 0; flex: 0 1 220px; width: 220px; max-width: 100%; }
+.pl-result .plumb-fit-traces .plumb-fit-trace svg { width: 100%; min-width: 0; height: auto; display: block; }
+.plumb-fit-trace figcaption { text-align: center; font-size: 12.5px; }
+.plumb-trace-axis { stroke: var(--rule); }
+.plumb-trace-level { stroke: var(--muted); stroke-dasharray: 4 3; }
+.plumb-trace-line { fill: none; stroke: var(--accent); stroke-width: 1.5; }
+.plumb-trace-point { fill: var(--accent); }
+.plumb-trace-tick { font-size: 10px; fill: var(--muted); }
 
 ${PRINT_STYLE}
 `;

@@ -225,6 +225,13 @@ function derivedConstraint(
   };
 }
 
+/** Each method in the note's words. */
+const METHOD_WORDS: Record<string, string> = {
+  profile: "the profile interval",
+  "bootstrap-percentile": "the bootstrap percentile interval",
+  "bootstrap-bca": "the bootstrap BCa interval",
+};
+
 /** A sentence when some method's limit is more than DISAGREE of the delta half-width from delta's. */
 function disagreement(intervals: LabelledInterval[], half: number): string | null {
   const delta = intervals[0];
@@ -239,8 +246,10 @@ function disagreement(intervals: LabelledInterval[], half: number): string | nul
     if (worst > DISAGREE * half) {
       apart.push(
         worst === Infinity
-          ? `${iv.method} (open on one side)`
-          : `${iv.method} (by ${Math.round((worst / half) * 100)}% of the half-width)`,
+          ? `${METHOD_WORDS[iv.method]} (open on one side)`
+          : `${METHOD_WORDS[iv.method]} (by ${
+            Math.round((worst / half) * 100)
+          }% of the half-width)`,
       );
     }
   }

@@ -3,8 +3,9 @@
  * standard uncertainty, interval at the document's confidence level, t, p), the fit
  * statistics (with known σ the Wald χ² of the slopes and the χ² goodness of
  * fit in place of the F test), the weighting stated plainly, the k
- * convention of the criteria, and for a fit computed in its database where
- * each number was computed (_in_engine_view.tsx). Shared by the live page and the static record, so it is plain
+ * convention of the criteria, for a fit computed in its database where
+ * each number was computed (_in_engine_view.tsx), and intervals beyond Wald
+ * with profile traces (_intervals_view.tsx). Shared by the live page and the static record, so it is plain
  * markup with no scripts or state.
  *
  * @module
@@ -23,6 +24,7 @@ import {
   withUnit,
 } from "../shared/format.ts";
 import { InEngineSection } from "./_in_engine_view.tsx";
+import { IntervalsSection } from "./_intervals_view.tsx";
 
 /**
  * Renders a fit result.
@@ -98,6 +100,7 @@ export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
           ))}
         </ol>
       )}
+      <IntervalsSection r={r} />
       <p class="plumb-fit-rounding">
         Estimates and interval limits are given to the digit of the standard uncertainty's second
         significant figure (GUM §7.2.6).
