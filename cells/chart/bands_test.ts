@@ -406,6 +406,6 @@ Deno.test("runChart() bootstrap band from the fit's own residual bootstrap lies 
   ok(out.data.band!.method.endsWith("B = 999"), out.data.band!.method);
   equal(
     chartKind.line(chartKind.summary(out, {} as never)),
-    "y against x · 20 points · 1 curve · band line",
+    "y against x · 20 points · 1 curve · line: 95% band of the mean (bootstrap sup-t, simultaneous, B = 999)",
   );
 });

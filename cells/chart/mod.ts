@@ -53,7 +53,11 @@ export const chartKind: CellKind<ChartSpec, ChartOutput, ChartData> = {
     `${r.y.column} against ${r.x.column} · ${
       r.binned ? `${r.rows} rows binned` : `${r.points} points`
     } · ${r.curves.length} ${r.curves.length === 1 ? "curve" : "curves"}${
-      r.band ? ` · band ${r.band.fit}` : ""
+      (r.bands ?? []).length > 0
+        ? ` · ${r.bands.map((b) => b.label).join("; ")}`
+        : r.band
+        ? ` · band ${r.band.fit}`
+        : ""
     }`,
   options: CHART_OPTIONS,
   template: chartTemplate,
