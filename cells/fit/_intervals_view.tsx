@@ -144,6 +144,7 @@ export function IntervalsSection({ r }: { r: FitResult }): VNode | null {
           </tbody>
         </table>
       </div>
+      {boot && <MonteCarlo rows={rows} />}
       {notes.length > 0 && (
         <ol class="plumb-fit-interval-notes">
           {notes.map((n) => <li key={n}>{n}</li>)}
@@ -168,6 +169,25 @@ function limits(iv: LabelledInterval, row: Row): VNode {
     }`
     : undefined;
   return <span title={title}>{end(iv.lower)} … {end(iv.upper)}</span>;
+}
+
+/** One line: the largest Monte Carlo standard error of each quantity's bootstrap limits. */
+function MonteCarlo({ rows }: { rows: Row[] }): VNode | null {
+  const parts = rows.flatMap((row) => {
+    let worst = -Infinity;
+    for (const iv of row.intervals) {
+      for (const v of [iv.mc_error?.lower, iv.mc_error?.upper]) {
+        if (typeof v === "number" && v > worst) worst = v;
+      }
+    }
+    return worst > -Infinity ? [`${row.name} ${formatNumber(worst, 2)}`] : [];
+  });
+  if (parts.length === 0) return null;
+  return (
+    <p class="plumb-fit-interval-mc">
+      Monte Carlo standard error of the bootstrap limits, at most: {parts.join(", ")}
+    </p>
+  );
 }
 
 /** Folded: one small plot of the profile t per parameter, ±q marked. */

@@ -85,6 +85,7 @@ Deno.test("the fit view lists every interval by method, a derived quantity's not
   match(html, /<code>efficiency<\/code>/);
   match(html, /the methods disagree/);
   match(html, /Monte Carlo standard error of the limits/);
+  match(html, /Monte Carlo standard error of the bootstrap limits, at most: Vm [0-9.]+, K [0-9.]+/);
   match(html, /<summary>Profile traces<\/summary>/);
   match(html, /aria-label="Profile t of K"/);
   const open = renderToString(h(FitView, { name: "open", result: results.get("open")! }));
