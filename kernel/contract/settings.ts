@@ -21,6 +21,13 @@ export interface DocSettings {
    * Absent: the default, 100.
    */
   history?: number;
+  /**
+   * Seconds a database statement may run before the engine stops it; 0 for
+   * no limit (`query_time_limit: none`). Absent: the default, 1,800
+   * (`QUERY_TIME_LIMIT_DEFAULT` in kernel/engine/types.ts). Read on the
+   * main thread when a run asks its engine (kernel/worker/client.ts).
+   */
+  queryTimeLimit?: number;
   /** Everything else that was in the front matter. */
   extra: Record<string, unknown>;
 }

@@ -9,6 +9,7 @@
  * | `criterion` | `"aicc"` | `aic`, `aicc`, `bic` or `loo` (any letter case) |
  * | `max_file_size` | 512 MiB | bytes, or text like `512 MB`, `2 GiB` |
  * | `history` | `100` | records the run history keeps: a whole number 1 to 100,000, or `off` |
+ * | `query_time_limit` | 1,800 s | seconds a database statement may run: a number, text like `90 s`, `30 min`, `2 h`, or `none` (also 0) |
  *
  * Every other key is kept in `extra`.
  *
@@ -30,10 +31,38 @@ export interface SettingsResult {
 }
 
 const CRITERIA = ["aic", "aicc", "bic", "loo"];
-const KNOWN = new Set(["title", "confidence", "seed", "criterion", "max_file_size", "history"]);
+const KNOWN = new Set([
+  "title",
+  "confidence",
+  "seed",
+  "criterion",
+  "max_file_size",
+  "history",
+  "query_time_limit",
+]);
 
 /** The most records a history may keep (a bound on the file, not a target). */
 const MOST_RECORDS = 100_000;
+
+/** The longest statement time limit, in seconds (a week; longer is `none`). */
+const MOST_QUERY_SECONDS = 7 * 24 * 3600;
+
+const TIME_UNITS: Record<string, number> = { s: 1, min: 60, h: 3600 };
+
+/**
+ * A statement time limit in seconds (0 for none), from a number of seconds,
+ * text with a unit (`90 s`, `30 min`, `1.5 h`), or `none`/`off`; null when
+ * it is none of these.
+ */
+function querySeconds(v: unknown): number | null {
+  if (v === false) return 0;
+  if (typeof v === "number") return Number.isFinite(v) && v >= 0 ? v : null;
+  if (typeof v !== "string") return null;
+  const t = v.trim().toLowerCase();
+  if (t === "none" || t === "off") return 0;
+  const m = /^(\d+(?:\.\d+)?)\s*(s|min|h)$/.exec(t);
+  return m ? Number(m[1]) * TIME_UNITS[m[2]] : null;
+}
 
 function describe(value: unknown): string {
   if (Array.isArray(value)) return "a list";
@@ -94,6 +123,16 @@ const CHECKS: Record<string, [keyof DocSettings, Check]> = {
           problem: `must be a whole number from 1 to ${MOST_RECORDS.toLocaleString("en")}, or off`,
         },
   ],
+  query_time_limit: ["queryTimeLimit", (v) => {
+    const s = querySeconds(v);
+    if (s === null) {
+      return { problem: "must be seconds (a number, or text such as 90 s, 30 min, 2 h), or none" };
+    }
+    return s <= MOST_QUERY_SECONDS ? { value: s } : {
+      problem: `must be at most ${MOST_QUERY_SECONDS.toLocaleString("en")} seconds (a week)`,
+      hint: "; for no limit write none",
+    };
+  }],
 };
 
 /** The settings of a document without front matter (each key's default). */

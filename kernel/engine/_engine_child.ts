@@ -11,11 +11,28 @@
  *   and port (never the rest) so the parent can grant the network for them.
  *
  * ```
- *  stdin  {"id", "op": "rows", "sql", "maxRows"} | {"id", "op": "rfactor", "sql"} | {"id", "op": "cancel"}
+ *  stdin  {"id", "op": "rows", "sql", "maxRows", "limitMs"?, "progress"?, "expectRows"?}
+ *         | {"id", "op": "rfactor", "sql", "limitMs"?, "progress"?, "expectRows"?}
+ *         | {"id", "op": "cancel"}
  *         (cancel names the request: waiting, it is answered without running; running, the
  *         engine is asked to stop it, again every CANCEL_AGAIN_MS until it has)
  *  stdout {"id", "ok": true, "value"} | {"id", "ok": false, "why", "message"}
+ *         | {"id", "progress": {"fraction"?, "rows"?}}   (only when asked; before the answer)
  * ```
+ *
+ * Progress, when a request asks for it: from PROGRESS_AFTER_MS into the
+ * statement, every PROGRESS_EVERY_MS, a line when something moved. DuckDB
+ * reports the share of its work (its progress bar's figure, enabled on the
+ * connection and never printed); a streamed statement reports the rows read,
+ * and a share of `expectRows` when the caller knows the count. PostgreSQL
+ * reports no share of a statement's work, so it gives rows only.
+ *
+ * A time limit (`limitMs`, 0 or absent for none) counts from the statement's
+ * start: past it the statement is stopped as a cancel is (DuckDB's
+ * interrupt, PostgreSQL's pg_cancel_backend), and PostgreSQL's own
+ * `statement_timeout` is set to it in the read-only transaction as well, so
+ * the server stops a statement even if this process is busy. The answer is
+ * a "query" failure whose sentence names the limit and the setting.
  *
  * Numeric columns travel as base64 of their Float64Array bytes.
  *
@@ -35,6 +52,12 @@ interface Request {
   op: "rows" | "rfactor" | "cancel";
   sql?: string;
   maxRows?: number;
+  /** Milliseconds the statement may run; 0 or absent for none. */
+  limitMs?: number;
+  /** Whether progress lines are wanted. */
+  progress?: boolean;
+  /** Rows the statement will give, when the caller knows. */
+  expectRows?: number;
 }
 
 class Failure extends Error {
@@ -43,12 +66,29 @@ class Failure extends Error {
   }
 }
 
+/** The statement ran past its time limit (PostgreSQL's statement_timeout said so). */
+class OverTime extends Failure {
+  constructor() {
+    super("query", "The statement ran past its time limit");
+  }
+}
+
 /** What one engine can do. */
 interface Connection {
-  rows(sql: string, maxRows: number): Promise<{ columns: Column[]; rows: number; more: boolean }>;
+  rows(
+    sql: string,
+    maxRows: number,
+    limitMs: number,
+  ): Promise<{ columns: Column[]; rows: number; more: boolean }>;
   /** Calls `each` with blocks of numeric columns. */
-  blocks(sql: string, each: (cols: Float64Array[], n: number) => void): Promise<number>;
+  blocks(
+    sql: string,
+    each: (cols: Float64Array[], n: number) => void,
+    limitMs: number,
+  ): Promise<number>;
   cancel(): void;
+  /** The running statement's share done, in [0, 1], or null where the engine says none. */
+  progress(): number | null;
 }
 
 const BLOCK_ROWS = 50_000;
@@ -61,6 +101,29 @@ const BLOCK_ROWS = 50_000;
 const CANCEL_AGAIN_MS = 100;
 
 const CANCELLED = "The statement was cancelled";
+
+/** Progress is first looked at this long into a statement (ms): a quick one reports none. */
+const PROGRESS_AFTER_MS = 250;
+/** Then this often (ms): a few lines a second at most. */
+const PROGRESS_EVERY_MS = 250;
+
+/**
+ * A time limit in words: whole minutes as minutes, else seconds.
+ *
+ * @param ms The limit in milliseconds.
+ */
+function limitWords(ms: number): string {
+  const s = ms / 1000;
+  if (s >= 60 && s % 60 === 0) return `${(s / 60).toLocaleString("en")} min`;
+  return `${Number(s.toPrecision(6)).toLocaleString("en")} s`;
+}
+
+/** The answer of a statement stopped at its time limit. */
+function overTimeMessage(ms: number): string {
+  return `The statement ran longer than the time limit of ${
+    limitWords(ms)
+  } and was stopped (set query_time_limit in the front matter to raise it, or to none)`;
+}
 
 function write(line: unknown): void {
   const bytes = new TextEncoder().encode(JSON.stringify(line) + "\n");
@@ -96,7 +159,6 @@ async function duckdb(file: string): Promise<Connection> {
       enable_external_access: "false",
       autoload_known_extensions: "false",
       autoinstall_known_extensions: "false",
-      lock_configuration: "true",
     });
   } catch (e) {
     const said = firstLine(e);
@@ -109,6 +171,12 @@ async function duckdb(file: string): Promise<Connection> {
     );
   }
   const con = await instance.connect();
+  // Progress is kept by DuckDB only with its progress bar on (a session setting, not one of
+  // the instance's): on from the first moment, never printed; then the settings are locked.
+  await con.run("SET enable_progress_bar = true");
+  await con.run("SET enable_progress_bar_print = false");
+  await con.run("SET progress_bar_time = 0");
+  await con.run("SET lock_configuration = true");
   const NUMERIC = new Set<number>([
     DuckDBTypeId.TINYINT,
     DuckDBTypeId.SMALLINT,
@@ -190,6 +258,10 @@ async function duckdb(file: string): Promise<Connection> {
     },
     cancel() {
       con.interrupt();
+    },
+    progress() {
+      const p = con.progress.percentage;
+      return Number.isFinite(p) && p >= 0 ? Math.min(1, p / 100) : null;
     },
   };
 }
@@ -284,7 +356,11 @@ async function postgres(variable: string): Promise<Connection> {
     // The server counts from the start of the cursor's declaration.
     const position = Number((e as { position?: string }).position) - CURSOR.length;
     const near = position > 0 ? /^\S{1,40}/.exec(sql.slice(position - 1))?.[0] : undefined;
-    if (code === "57014") return new Failure("cancelled", CANCELLED);
+    if (code === "57014") {
+      return /statement timeout/.test(firstLine(e))
+        ? new OverTime()
+        : new Failure("cancelled", CANCELLED);
+    }
     const why: EngineStop = code === "25006" ? "refused" : "query";
     const said = scrub(firstLine(e), config.password);
     // PostgreSQL's syntax errors name the place already ("at or near …").
@@ -293,6 +369,7 @@ async function postgres(variable: string): Promise<Connection> {
   };
   const inCursor = async <T>(
     sql: string,
+    limitMs: number,
     body: (
       fetch: (
         n: number,
@@ -304,6 +381,10 @@ async function postgres(variable: string): Promise<Connection> {
       // Plan the cursor for all its rows (the default plans for a tenth): on a sharded engine the
       // sums are then pushed to the shards rather than added on the coordinator.
       await client.query("SET LOCAL cursor_tuple_fraction = 1");
+      // The server stops each statement (each FETCH) past the limit on its own as well.
+      if (limitMs > 0) {
+        await client.query(`SET LOCAL statement_timeout = ${Math.ceil(limitMs)}`);
+      }
       await client.query(CURSOR + sql);
       const out = await body((n) =>
         client.query({ text: `FETCH ${n} FROM plumb_c`, rowMode: "array" })
@@ -316,8 +397,8 @@ async function postgres(variable: string): Promise<Connection> {
     }
   };
   return {
-    rows(sql, maxRows) {
-      return inCursor(sql, async (fetch) => {
+    rows(sql, maxRows, limitMs) {
+      return inCursor(sql, limitMs, async (fetch) => {
         const got = await fetch(maxRows + 1);
         const more = got.rows.length > maxRows;
         const rows = got.rows.slice(0, maxRows);
@@ -333,8 +414,8 @@ async function postgres(variable: string): Promise<Connection> {
         return { columns, rows: rows.length, more };
       });
     },
-    blocks(sql, each) {
-      return inCursor(sql, async (fetch) => {
+    blocks(sql, each, limitMs) {
+      return inCursor(sql, limitMs, async (fetch) => {
         let total = 0;
         for (;;) {
           const got = await fetch(BLOCK_ROWS);
@@ -359,6 +440,9 @@ async function postgres(variable: string): Promise<Connection> {
       other.connect().then(() => other.query("SELECT pg_cancel_backend($1)", [pid]))
         .catch(() => {}).finally(() => other.end().catch(() => {}));
     },
+    progress() {
+      return null; // PostgreSQL reports no share of a running SELECT's work
+    },
   };
 }
 
@@ -375,6 +459,50 @@ function scrub(text: string, password: string): string {
 
 // ---------------------------------------------------------------- the loop
 
+/**
+ * Watches a running statement: its time limit (`over` is called once when it
+ * passes) and, when asked, its progress written as lines for the request.
+ *
+ * @returns Stops watching.
+ */
+function watch(
+  req: Request,
+  c: Connection,
+  limitMs: number,
+  rowsRead: () => number,
+  over: () => void,
+): () => void {
+  const timer = limitMs > 0 ? setTimeout(over, limitMs) : undefined;
+  let ticker: ReturnType<typeof setInterval> | undefined;
+  let lastFraction = -1;
+  let lastRows = -1;
+  const look = () => {
+    const rows = rowsRead();
+    let fraction = c.progress();
+    if (fraction === null && rows >= 0 && req.expectRows !== undefined && req.expectRows > 0) {
+      fraction = Math.min(1, rows / req.expectRows);
+    }
+    const said: { fraction?: number; rows?: number } = {};
+    // A share is never said lower than before (an engine may re-estimate its work).
+    if (fraction !== null && fraction > lastFraction) said.fraction = lastFraction = fraction;
+    if (rows > lastRows) said.rows = lastRows = rows;
+    if (said.fraction !== undefined || said.rows !== undefined) {
+      write({ id: req.id, progress: said });
+    }
+  };
+  const first = req.progress
+    ? setTimeout(() => {
+      look();
+      ticker = setInterval(look, PROGRESS_EVERY_MS);
+    }, PROGRESS_AFTER_MS)
+    : undefined;
+  return () => {
+    clearTimeout(timer);
+    clearTimeout(first);
+    clearInterval(ticker);
+  };
+}
+
 async function serve(open: () => Promise<Connection>): Promise<void> {
   let connection: Connection | null = null;
   const connect = async () => {
@@ -390,12 +518,15 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
   let busy: Promise<void> = Promise.resolve();
   /** Requests asked to stop (waiting or running). */
   const cancelled = new Set<number>();
+  /** Requests stopped at their time limit. */
+  const overTime = new Set<number>();
   let running: number | null = null;
   const stopIfCancelled = (id: number) => {
     if (cancelled.has(id)) throw new Failure("cancelled", CANCELLED);
+    if (overTime.has(id)) throw new OverTime();
   };
-  const cancel = (id: number) => {
-    cancelled.add(id);
+  /** Asks the engine to stop request `id` while it runs, again until it has. */
+  const stop = (id: number) => {
     const again = () => {
       if (running !== id || connection === null) return;
       connection.cancel();
@@ -403,14 +534,26 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
     };
     again();
   };
+  const cancel = (id: number) => {
+    cancelled.add(id);
+    stop(id);
+  };
   const handle = async (req: Request) => {
     running = req.id;
+    let unwatch = () => {};
+    const limitMs = req.limitMs !== undefined && req.limitMs > 0 ? req.limitMs : 0;
+    let rowsRead = -1; // a streamed statement's rows so far; -1 for one that is not streamed
     try {
       stopIfCancelled(req.id);
       const c = await connect();
       stopIfCancelled(req.id);
+      unwatch = watch(req, c, limitMs, () => rowsRead, () => {
+        overTime.add(req.id);
+        stop(req.id);
+      });
       if (req.op === "rows") {
-        const got = await c.rows(req.sql!, Math.max(0, req.maxRows ?? 0));
+        const got = await c.rows(req.sql!, Math.max(0, req.maxRows ?? 0), limitMs);
+        unwatch();
         write({
           id: req.id,
           ok: true,
@@ -428,6 +571,7 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
         let r: StackedR | null = null;
         let skipped = 0;
         const row: number[] = [];
+        rowsRead = 0;
         await c.blocks(req.sql!, (cols, n) => {
           stopIfCancelled(req.id);
           r ??= new StackedR(cols.length);
@@ -441,7 +585,9 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
             if (finite) r.add(row);
             else skipped++;
           }
-        });
+          rowsRead += n;
+        }, limitMs);
+        unwatch();
         const s = r as StackedR | null;
         const value = s === null
           ? { r: "", k: 0, rows: 0, skipped }
@@ -449,8 +595,11 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
         write({ id: req.id, ok: true, value });
       }
     } catch (e) {
+      unwatch();
       const f = cancelled.has(req.id)
         ? new Failure("cancelled", CANCELLED)
+        : overTime.has(req.id) || e instanceof OverTime
+        ? new Failure("query", overTimeMessage(limitMs))
         : e instanceof Failure
         ? e
         : new Failure("query", `The database said: ${firstLine(e)}`);
@@ -458,6 +607,7 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
     } finally {
       running = null;
       cancelled.delete(req.id);
+      overTime.delete(req.id);
     }
   };
   const lines = Deno.stdin.readable.pipeThrough(new TextDecoderStream());

@@ -9,6 +9,8 @@
  *                        PostgreSQL  → probe (--allow-env=VAR) → host:port
  *                                      → deno run --allow-env=VAR --allow-net=host:port … postgres VAR
  *  a request's signal aborted → {"op": "cancel"} → the engine cancels the statement
+ *  a request's time limit (default QUERY_TIME_LIMIT_DEFAULT s) → the engine stops the statement
+ *  a request's progress callback ← {"id", "progress": {fraction?, rows?}} lines before its answer
  * ```
  *
  * @module
@@ -16,13 +18,16 @@
 import { isAbsolute, relative, resolve } from "node:path";
 import { cannotStart, spawnDeno } from "../sandbox/_spawn.ts";
 import { checkQuery } from "./guard.ts";
-import type {
-  DatabaseRef,
-  EngineAnswer,
-  EngineColumn,
-  EngineRFactor,
-  EngineRows,
-  EngineStop,
+import {
+  type DatabaseRef,
+  type EngineAnswer,
+  type EngineAskOptions,
+  type EngineColumn,
+  type EngineProgress,
+  type EngineRFactor,
+  type EngineRows,
+  type EngineStop,
+  QUERY_TIME_LIMIT_DEFAULT,
 } from "./types.ts";
 
 const CHILD = new URL("./_engine_child.ts", import.meta.url);
@@ -32,11 +37,32 @@ const path = (u: URL) => decodeURIComponent(u.pathname);
 
 type Reply = { ok: true; value: unknown } | { ok: false; why: EngineStop; message: string };
 
+/** The most a time limit may be (ms): what a timer and PostgreSQL's statement_timeout hold. */
+const MOST_LIMIT_MS = 2 ** 31 - 1;
+
+/**
+ * A request's options from the last argument of {@link EngineClient.rows} or
+ * {@link EngineClient.rfactor}: an AbortSignal alone (the older form) or the options.
+ */
+function optionsOf(last: AbortSignal | EngineAskOptions | undefined): EngineAskOptions {
+  if (last === undefined) return {};
+  return last instanceof AbortSignal ? { signal: last } : last;
+}
+
+/** A time limit in seconds (0 for none) as the engine's milliseconds (0 for none). */
+function limitMs(seconds: number | undefined): number {
+  const s = seconds ?? QUERY_TIME_LIMIT_DEFAULT;
+  if (!(s > 0)) return 0;
+  return Math.min(MOST_LIMIT_MS, Math.max(1, Math.round(s * 1000)));
+}
+
 /** One engine process and its requests in flight. */
 class Engine {
   #child: Deno.ChildProcess;
   #writer: WritableStreamDefaultWriter<Uint8Array>;
   #waiting = new Map<number, (r: Reply) => void>();
+  /** Progress callbacks of requests in flight that asked for them. */
+  #progress = new Map<number, (p: EngineProgress) => void>();
   #next = 1;
   #dead: string | null = null;
 
@@ -68,10 +94,14 @@ class Engine {
         while ((nl = pending.indexOf("\n")) >= 0) {
           const line = pending.slice(0, nl);
           pending = pending.slice(nl + 1);
-          let msg: { id: number } & Reply;
+          let msg: { id: number; progress?: EngineProgress } & Reply;
           try {
             msg = JSON.parse(line);
           } catch {
+            continue;
+          }
+          if (msg.progress !== undefined) {
+            this.#progress.get(msg.id)?.(msg.progress);
             continue;
           }
           const done = this.#waiting.get(msg.id);
@@ -83,10 +113,16 @@ class Engine {
     } catch { /* the process ended: its status answers what is waiting */ }
   }
 
-  ask(op: "rows" | "rfactor", sql: string, maxRows: number, signal?: AbortSignal): Promise<Reply> {
+  ask(
+    op: "rows" | "rfactor",
+    sql: string,
+    maxRows: number,
+    options: EngineAskOptions,
+  ): Promise<Reply> {
     if (this.#dead !== null) {
       return Promise.resolve({ ok: false, why: "connect", message: this.#dead });
     }
+    const { signal, progress, expectRows } = options;
     const id = this.#next++;
     return new Promise<Reply>((resolveReply) => {
       let cancelled = false;
@@ -97,8 +133,10 @@ class Engine {
       signal?.addEventListener("abort", onAbort, { once: true });
       // Awaited requests keep Plumb alive; an idle engine does not.
       this.#child.ref();
+      if (progress) this.#progress.set(id, progress);
       this.#waiting.set(id, (r) => {
         signal?.removeEventListener("abort", onAbort);
+        this.#progress.delete(id);
         if (this.#waiting.size === 0) this.#child.unref();
         resolveReply(
           cancelled && !r.ok
@@ -106,7 +144,15 @@ class Engine {
             : r,
         );
       });
-      this.#send({ id, op, sql, maxRows });
+      this.#send({
+        id,
+        op,
+        sql,
+        maxRows,
+        limitMs: limitMs(options.timeLimit),
+        ...(progress ? { progress: true } : {}),
+        ...(expectRows !== undefined && expectRows > 0 ? { expectRows } : {}),
+      });
       if (signal?.aborted) onAbort();
     });
   }
@@ -138,16 +184,18 @@ export class EngineClient {
    * @param db The database.
    * @param sql The statement (checked again here).
    * @param maxRows The most rows.
-   * @param signal Aborting it cancels the statement.
+   * @param options The progress callback, the time limit in seconds (default
+   *   {@link QUERY_TIME_LIMIT_DEFAULT}, 0 for none), the rows expected, and a signal whose
+   *   abort cancels the statement; or that signal alone.
    */
   async rows(
     db: DatabaseRef,
     sql: string,
     maxRows: number,
-    signal?: AbortSignal,
+    options?: AbortSignal | EngineAskOptions,
   ): Promise<EngineAnswer<EngineRows>> {
     const t0 = performance.now();
-    const r = await this.#ask(db, "rows", sql, maxRows, signal);
+    const r = await this.#ask(db, "rows", sql, maxRows, optionsOf(options));
     const ms = performance.now() - t0;
     if (!r.ok) return { ...r, ms };
     const v = r.value as {
@@ -168,15 +216,15 @@ export class EngineClient {
    *
    * @param db The database.
    * @param sql The statement.
-   * @param signal Aborting it cancels the statement.
+   * @param options As for {@link EngineClient.rows}.
    */
   async rfactor(
     db: DatabaseRef,
     sql: string,
-    signal?: AbortSignal,
+    options?: AbortSignal | EngineAskOptions,
   ): Promise<EngineAnswer<EngineRFactor>> {
     const t0 = performance.now();
-    const r = await this.#ask(db, "rfactor", sql, 0, signal);
+    const r = await this.#ask(db, "rfactor", sql, 0, optionsOf(options));
     const ms = performance.now() - t0;
     if (!r.ok) return { ...r, ms };
     const v = r.value as { r: string; k: number; rows: number; skipped: number };
@@ -197,13 +245,13 @@ export class EngineClient {
     op: "rows" | "rfactor",
     sql: string,
     maxRows: number,
-    signal?: AbortSignal,
+    options: EngineAskOptions,
   ): Promise<Reply> {
     const refused = checkQuery(sql);
     if (refused) return { ok: false, why: "refused", message: refused.message };
     const engine = await this.#engine(db);
     if (!(engine instanceof Engine)) return engine;
-    return engine.ask(op, sql, maxRows, signal);
+    return engine.ask(op, sql, maxRows, options);
   }
 
   #engine(db: DatabaseRef): Promise<Engine | Reply> {

@@ -6,11 +6,14 @@
  */
 export { checkQuery, type QueryRefusal } from "./guard.ts";
 export { answerBuffers, EngineClient } from "./client.ts";
+export { QUERY_TIME_LIMIT_DEFAULT } from "./types.ts";
 export type {
   DatabaseRef,
   EngineAccess,
   EngineAnswer,
+  EngineAskOptions,
   EngineColumn,
+  EngineProgress,
   EngineRFactor,
   EngineRows,
   EngineStop,

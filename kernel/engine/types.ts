@@ -8,6 +8,12 @@
  *           ─▶ ctx.engine.rfactor(db, sql)          ─┘  ─▶ engine child (one per database) ─▶ DuckDB | PostgreSQL
  * ```
  *
+ * While a statement runs the engine may report its progress (DuckDB: the
+ * share of the work done; PostgreSQL: rows fetched through the cursor, a
+ * share only against a count the caller knows), and a statement that runs
+ * past its time limit is stopped in the engine and answered with a
+ * sentence naming the limit (the document's `query_time_limit`).
+ *
  * Every statement is one read-only SELECT: the user's query is checked
  * before it reaches the engine (kernel/engine/guard.ts) and the connection
  * is read-only as well. SQL that kinds build wraps the user's query as a
@@ -15,6 +21,9 @@
  *
  * @module
  */
+
+/** Seconds a statement may run when nothing says otherwise (the `query_time_limit` default). */
+export const QUERY_TIME_LIMIT_DEFAULT = 1800;
 
 /**
  * A database a table reads: an embedded DuckDB file beside the document
@@ -40,7 +49,11 @@ export type EngineStop =
   | "connect"
   /** The statement is not one read-only SELECT (said before it reached the engine, or by it). */
   | "refused"
-  /** The engine reported an error running the statement. */
+  /**
+   * The engine reported an error running the statement, or the statement ran
+   * past its time limit and was stopped (the message names the limit and the
+   * setting).
+   */
   | "query"
   /** The run that asked was stopped (its inputs changed); the statement was cancelled. */
   | "cancelled"
@@ -76,6 +89,36 @@ export interface EngineRFactor {
   skipped: number;
 }
 
+/**
+ * How far a running statement has come, as the engine reports it: a share
+ * of the work (DuckDB's progress; or rows read against `expectRows`), the
+ * rows read so far (streamed statements), or both. Neither is guessed.
+ */
+export interface EngineProgress {
+  /** Share done, in [0, 1], never less than the last one reported. */
+  fraction?: number;
+  /** Rows read from the statement so far. */
+  rows?: number;
+}
+
+/** What may go with a request besides its statement. */
+export interface EngineAskOptions {
+  /**
+   * Called while the statement runs, at most a few times a second and only
+   * once it has run a quarter of a second, where the engine reports progress.
+   */
+  progress?: (p: EngineProgress) => void;
+  /**
+   * Seconds the statement may run before the engine stops it; 0 for none.
+   * Default {@link QUERY_TIME_LIMIT_DEFAULT} (the document setting's default).
+   */
+  timeLimit?: number;
+  /** The rows the statement will give, when the caller knows (a share of them is then reported). */
+  expectRows?: number;
+  /** Aborting it cancels the statement. */
+  signal?: AbortSignal;
+}
+
 /** `RunContext.engine`: database access for a run; never throws. */
 export interface EngineAccess {
   /**
@@ -84,14 +127,26 @@ export interface EngineAccess {
    * @param db The database.
    * @param sql The statement.
    * @param maxRows The most rows to return.
+   * @param options Progress, time limit, expected rows (a run's are set by the kernel from the
+   *   document's settings and its progress report).
    */
-  rows(db: DatabaseRef, sql: string, maxRows: number): Promise<EngineAnswer<EngineRows>>;
+  rows(
+    db: DatabaseRef,
+    sql: string,
+    maxRows: number,
+    options?: EngineAskOptions,
+  ): Promise<EngineAnswer<EngineRows>>;
   /**
    * Streams a read-only SELECT whose columns are all numeric through
    * blocked Householder QR in the engine's process and returns R.
    *
    * @param db The database.
    * @param sql The statement.
+   * @param options As for {@link EngineAccess.rows}.
    */
-  rfactor(db: DatabaseRef, sql: string): Promise<EngineAnswer<EngineRFactor>>;
+  rfactor(
+    db: DatabaseRef,
+    sql: string,
+    options?: EngineAskOptions,
+  ): Promise<EngineAnswer<EngineRFactor>>;
 }

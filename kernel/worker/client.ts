@@ -14,7 +14,7 @@ import type { CellOutput } from "../contract/mod.ts";
 import { HALVES_FROM, halvesHelperWorker } from "../csv/mod.ts";
 import { checkProgram, runIsolated } from "../sandbox/mod.ts";
 import { answerBuffers, type EngineClient } from "../engine/client.ts";
-import type { EngineAnswer, EngineRFactor, EngineRows } from "../engine/types.ts";
+import type { EngineAnswer, EngineProgress, EngineRFactor, EngineRows } from "../engine/types.ts";
 import {
   type DoneMessage,
   type EngineRequest,
@@ -39,6 +39,37 @@ interface Pending {
   key: string;
   /** A run (not a summary request). */
   run?: boolean;
+  /** A run's statement time limit in seconds (the document's `query_time_limit`; 0 none). */
+  timeLimit?: number;
+  /** The last share of the run's progress reported (the cell's own or its statement's). */
+  fraction?: number;
+}
+
+/**
+ * A statement's progress as a cell's progress report: the bar takes the
+ * engine's share where it gives one (else it stays where the cell's last
+ * report left it), and the note says it is the database's.
+ *
+ * @param p What the engine reported.
+ * @param fraction The run's last reported share, if any.
+ * @returns The share and the note.
+ * @example
+ * ```ts
+ * import { engineProgressReport } from "./client.ts";
+ * const r = engineProgressReport({ fraction: 0.4 }, 0.1);
+ * if (r.fraction !== 0.4 || r.note !== "the database: 40%") throw new Error(r.note);
+ * const s = engineProgressReport({ rows: 150000 }, 0.1);
+ * if (s.fraction !== 0.1 || s.note !== "the database: 150,000 rows read") throw new Error(s.note);
+ * ```
+ */
+export function engineProgressReport(
+  p: EngineProgress,
+  fraction: number | undefined,
+): { fraction: number; note: string } {
+  const parts: string[] = [];
+  if (p.fraction !== undefined) parts.push(`${Math.floor(100 * p.fraction)}%`);
+  if (p.rows !== undefined) parts.push(`${p.rows.toLocaleString("en")} rows read`);
+  return { fraction: p.fraction ?? fraction ?? 0, note: `the database: ${parts.join(" · ")}` };
 }
 
 /** A compute worker with no permissions. */
@@ -194,9 +225,22 @@ export class ComputeWorker {
     }
     let abort = this.#engineRuns.get(m.id);
     if (abort === undefined) this.#engineRuns.set(m.id, abort = new AbortController());
+    // The run's own progress report shows the statement's; its settings give the time limit.
+    const run = this.#pending.get(m.id);
+    const options = {
+      signal: abort.signal,
+      timeLimit: run?.timeLimit,
+      progress: run?.onProgress === undefined ? undefined : (e: EngineProgress) => {
+        const p = this.#pending.get(m.id);
+        if (p?.onProgress === undefined) return;
+        const r = engineProgressReport(e, p.fraction);
+        p.fraction = r.fraction;
+        p.onProgress(r.fraction, r.note);
+      },
+    };
     const asked = m.ask === "rows"
-      ? this.#engine.rows(m.db, m.sql, m.maxRows, abort.signal)
-      : this.#engine.rfactor(m.db, m.sql, abort.signal);
+      ? this.#engine.rows(m.db, m.sql, m.maxRows, options)
+      : this.#engine.rfactor(m.db, m.sql, options);
     asked.then(reply);
   }
 
@@ -216,6 +260,7 @@ export class ComputeWorker {
     const p = this.#pending.get(m.id);
     if (!p) return;
     if (m.op === "progress") {
+      p.fraction = m.fraction;
       p.onProgress?.(m.fraction, m.note);
       return;
     }
@@ -281,7 +326,13 @@ export class ComputeWorker {
     }
     const id = this.#nextId++;
     return new Promise((resolve) => {
-      this.#pending.set(id, { resolve, onProgress: job.onProgress, key: job.key, run: true });
+      this.#pending.set(id, {
+        resolve,
+        onProgress: job.onProgress,
+        key: job.key,
+        run: true,
+        timeLimit: job.settings.queryTimeLimit,
+      });
       this.#post({
         op: "run",
         id,
