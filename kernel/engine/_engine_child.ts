@@ -20,12 +20,13 @@
  *         | {"id", "progress": {"fraction"?, "rows"?}}   (only when asked; before the answer)
  * ```
  *
- * Progress, when a request asks for it: from PROGRESS_AFTER_MS into the
- * statement, every PROGRESS_EVERY_MS, a line when something moved. DuckDB
- * reports the share of its work (its progress bar's figure, enabled on the
- * connection and never printed); a streamed statement reports the rows read,
- * and a share of `expectRows` when the caller knows the count. PostgreSQL
- * reports no share of a statement's work, so it gives rows only.
+ * Progress, when a request asks for it (kernel/engine/_engine_watch.ts): from
+ * a quarter of a second into the statement, a few times a second, a line when
+ * something moved. DuckDB reports the share of its work (its progress bar's
+ * figure, enabled on the connection and never printed); a streamed statement
+ * reports the rows read, and a share of `expectRows` when the caller knows the
+ * count. PostgreSQL reports no share of a statement's work, so it gives rows
+ * only.
  *
  * A time limit (`limitMs`, 0 or absent for none) counts from the statement's
  * start: past it the statement is stopped as a cancel is (DuckDB's
@@ -40,6 +41,7 @@
  */
 import process from "node:process";
 import { StackedR } from "../linalg/stacked_r.ts";
+import { overTimeMessage, watchStatement } from "./_engine_watch.ts";
 import type { EngineStop } from "./types.ts";
 
 // Libraries read the environment for defaults; this process may read one variable only.
@@ -101,29 +103,6 @@ const BLOCK_ROWS = 50_000;
 const CANCEL_AGAIN_MS = 100;
 
 const CANCELLED = "The statement was cancelled";
-
-/** Progress is first looked at this long into a statement (ms): a quick one reports none. */
-const PROGRESS_AFTER_MS = 250;
-/** Then this often (ms): a few lines a second at most. */
-const PROGRESS_EVERY_MS = 250;
-
-/**
- * A time limit in words: whole minutes as minutes, else seconds.
- *
- * @param ms The limit in milliseconds.
- */
-function limitWords(ms: number): string {
-  const s = ms / 1000;
-  if (s >= 60 && s % 60 === 0) return `${(s / 60).toLocaleString("en")} min`;
-  return `${Number(s.toPrecision(6)).toLocaleString("en")} s`;
-}
-
-/** The answer of a statement stopped at its time limit. */
-function overTimeMessage(ms: number): string {
-  return `The statement ran longer than the time limit of ${
-    limitWords(ms)
-  } and was stopped (set query_time_limit in the front matter to raise it, or to none)`;
-}
 
 function write(line: unknown): void {
   const bytes = new TextEncoder().encode(JSON.stringify(line) + "\n");
@@ -459,50 +438,6 @@ function scrub(text: string, password: string): string {
 
 // ---------------------------------------------------------------- the loop
 
-/**
- * Watches a running statement: its time limit (`over` is called once when it
- * passes) and, when asked, its progress written as lines for the request.
- *
- * @returns Stops watching.
- */
-function watch(
-  req: Request,
-  c: Connection,
-  limitMs: number,
-  rowsRead: () => number,
-  over: () => void,
-): () => void {
-  const timer = limitMs > 0 ? setTimeout(over, limitMs) : undefined;
-  let ticker: ReturnType<typeof setInterval> | undefined;
-  let lastFraction = -1;
-  let lastRows = -1;
-  const look = () => {
-    const rows = rowsRead();
-    let fraction = c.progress();
-    if (fraction === null && rows >= 0 && req.expectRows !== undefined && req.expectRows > 0) {
-      fraction = Math.min(1, rows / req.expectRows);
-    }
-    const said: { fraction?: number; rows?: number } = {};
-    // A share is never said lower than before (an engine may re-estimate its work).
-    if (fraction !== null && fraction > lastFraction) said.fraction = lastFraction = fraction;
-    if (rows > lastRows) said.rows = lastRows = rows;
-    if (said.fraction !== undefined || said.rows !== undefined) {
-      write({ id: req.id, progress: said });
-    }
-  };
-  const first = req.progress
-    ? setTimeout(() => {
-      look();
-      ticker = setInterval(look, PROGRESS_EVERY_MS);
-    }, PROGRESS_AFTER_MS)
-    : undefined;
-  return () => {
-    clearTimeout(timer);
-    clearTimeout(first);
-    clearInterval(ticker);
-  };
-}
-
 async function serve(open: () => Promise<Connection>): Promise<void> {
   let connection: Connection | null = null;
   const connect = async () => {
@@ -547,9 +482,18 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
       stopIfCancelled(req.id);
       const c = await connect();
       stopIfCancelled(req.id);
-      unwatch = watch(req, c, limitMs, () => rowsRead, () => {
-        overTime.add(req.id);
-        stop(req.id);
+      unwatch = watchStatement({
+        id: req.id,
+        limitMs,
+        progress: req.progress === true,
+        expectRows: req.expectRows,
+        share: () => c.progress(),
+        rowsRead: () => rowsRead,
+        over: () => {
+          overTime.add(req.id);
+          stop(req.id);
+        },
+        say: write,
       });
       if (req.op === "rows") {
         const got = await c.rows(req.sql!, Math.max(0, req.maxRows ?? 0), limitMs);
