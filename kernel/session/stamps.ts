@@ -22,6 +22,16 @@ import { hashValue } from "../hash.ts";
 import { type CellNode, locateError } from "../graph/build.ts";
 import type { LocatedError } from "../errors.ts";
 
+/** Database access whose statements run under the document's `query_time_limit`. */
+function withTimeLimit(engine: EngineAccess, settings: DocSettings): EngineAccess {
+  const limit = settings.queryTimeLimit;
+  if (limit === undefined) return engine;
+  return {
+    rows: (db, sql, maxRows, o) => engine.rows(db, sql, maxRows, { timeLimit: limit, ...o }),
+    rfactor: (db, sql, o) => engine.rfactor(db, sql, { timeLimit: limit, ...o }),
+  };
+}
+
 /** One kept stamp and how to ask for it again. */
 interface Kept {
   stamp: string;
@@ -74,8 +84,8 @@ export class Stamps {
       const key = Stamps.keyOf(node);
       if (this.#kept.has(key)) continue;
       const plugin = node.plugin;
-      const ask = () =>
-        plugin.stamp!(node.spec, { name: node.name, settings, engine: this.#engine });
+      const engine = withTimeLimit(this.#engine, settings);
+      const ask = () => plugin.stamp!(node.spec, { name: node.name, settings, engine });
       asked.push((async () => {
         const t0 = performance.now();
         try {

@@ -167,3 +167,30 @@ Deno.test({
     });
   },
 });
+
+Deno.test({
+  name: "DuckDB: the fingerprint asked at planning runs under the document's query_time_limit",
+  sanitizeResources: false,
+  sanitizeOps: false,
+  fn: async () => {
+    await withFolder(async (dir) => {
+      // A view whose every full read takes far longer than the limit: 30,000 × 30,000 rows.
+      await makeDuckdb(join(dir, "slow.duckdb"), [
+        "CREATE VIEW slow AS SELECT a.range AS x, b.range AS y FROM range(30000) a, range(30000) b",
+      ]);
+      const s = new Session({ registry, workerUrl: WORKER, dir });
+      try {
+        const doc = "---\nquery_time_limit: 0.3\n---\n\n" +
+          fence("table", "t", "database: slow.duckdb\nquery: SELECT x, y FROM slow");
+        const t0 = performance.now();
+        const r = await s.run(doc);
+        const t = resultOf(r, "t");
+        equal(t.state, "failed");
+        match(t.error!.message, /ran longer than the time limit/);
+        ok(performance.now() - t0 < 20_000, "stopped, not run to its end");
+      } finally {
+        s.close();
+      }
+    });
+  },
+});
