@@ -91,6 +91,8 @@ interface Connection {
   cancel(): void;
   /** The running statement's share done, in [0, 1], or null where the engine says none. */
   progress(): number | null;
+  /** Lets go of the database (DuckDB: its file lock, so other programs may write); optional. */
+  close?(): void;
 }
 
 const BLOCK_ROWS = 50_000;
@@ -129,25 +131,52 @@ function asNumber(v: unknown): number {
 
 // ---------------------------------------------------------------- DuckDB
 
+/** Tries to open a DuckDB file another program holds for writing, LOCK_WAIT_MS apart. */
+const LOCK_TRIES = 10;
+const LOCK_WAIT_MS = 300;
+
+/**
+ * How long a DuckDB file stays open with no statement to run (ms): then it is
+ * closed, so a program that appends measurements to it can take its write
+ * lock (DuckDB lets one writer or any readers hold a file). Reopening costs a
+ * few milliseconds; a document's statements come in bursts.
+ */
+export const DUCKDB_IDLE_CLOSE_MS = 500;
+
+function openFailure(name: string | undefined, said: string): Failure {
+  return new Failure(
+    "connect",
+    /does not exist|No such file|Cannot open file/i.test(said)
+      ? `The DuckDB file "${name}" does not exist`
+      : `The DuckDB file "${name}" could not be opened: ${said}`,
+  );
+}
+
 async function duckdb(file: string): Promise<Connection> {
   const { DuckDBInstance, DuckDBTypeId } = await import("@duckdb/node-api");
   let instance;
-  try {
-    instance = await DuckDBInstance.create(file, {
-      access_mode: "READ_ONLY",
-      enable_external_access: "false",
-      autoload_known_extensions: "false",
-      autoinstall_known_extensions: "false",
-    });
-  } catch (e) {
-    const said = firstLine(e);
-    const name = file.split("/").pop();
-    throw new Failure(
-      "connect",
-      /does not exist|No such file|Cannot open file/i.test(said)
-        ? `The DuckDB file "${name}" does not exist`
-        : `The DuckDB file "${name}" could not be opened: ${said}`,
-    );
+  const name = file.split("/").pop();
+  for (let attempt = 0;; attempt++) {
+    try {
+      instance = await DuckDBInstance.create(file, {
+        access_mode: "READ_ONLY",
+        enable_external_access: "false",
+        autoload_known_extensions: "false",
+        autoinstall_known_extensions: "false",
+      });
+      break;
+    } catch (e) {
+      const said = firstLine(e);
+      if (!/Could not set lock|Conflicting lock/i.test(said)) throw openFailure(name, said);
+      // A program writing to the file holds its lock: wait a little for it to let go.
+      if (attempt >= LOCK_TRIES) {
+        throw new Failure(
+          "connect",
+          `The DuckDB file "${name}" is held by another program that is writing to it; Plumb reads it once that program closes it`,
+        );
+      }
+      await new Promise((r) => setTimeout(r, LOCK_WAIT_MS));
+    }
   }
   const con = await instance.connect();
   // Progress is kept by DuckDB only with its progress bar on (a session setting, not one of
@@ -241,6 +270,12 @@ async function duckdb(file: string): Promise<Connection> {
     progress() {
       const p = con.progress.percentage;
       return Number.isFinite(p) && p >= 0 ? Math.min(1, p / 100) : null;
+    },
+    close() {
+      try {
+        con.closeSync();
+        instance!.closeSync();
+      } catch { /* closed already */ }
     },
   };
 }
@@ -438,8 +473,20 @@ function scrub(text: string, password: string): string {
 
 // ---------------------------------------------------------------- the loop
 
-async function serve(open: () => Promise<Connection>): Promise<void> {
+async function serve(open: () => Promise<Connection>, idleCloseMs = 0): Promise<void> {
   let connection: Connection | null = null;
+  /** Requests queued or running; when none are left for idleCloseMs, the database is let go. */
+  let inFlight = 0;
+  let idleTimer: ReturnType<typeof setTimeout> | null = null;
+  const letGoLater = () => {
+    if (idleCloseMs <= 0 || inFlight > 0 || connection?.close === undefined) return;
+    idleTimer = setTimeout(() => {
+      idleTimer = null;
+      if (inFlight > 0 || connection === null) return;
+      connection.close?.();
+      connection = null;
+    }, idleCloseMs);
+  };
   const connect = async () => {
     if (connection !== null) return connection;
     try {
@@ -569,7 +616,13 @@ async function serve(open: () => Promise<Connection>): Promise<void> {
         continue;
       }
       // One statement at a time on the connection; a cancel goes past the queue.
-      busy = busy.then(() => handle(req));
+      inFlight++;
+      if (idleTimer !== null) clearTimeout(idleTimer);
+      idleTimer = null;
+      busy = busy.then(() => handle(req)).finally(() => {
+        inFlight--;
+        letGoLater();
+      });
     }
   }
   await busy;
@@ -585,7 +638,7 @@ if (mode === "probe") {
     write({ ok: false, why: f.why, message: f.message });
   }
 } else if (mode === "duckdb") {
-  await serve(() => duckdb(target));
+  await serve(() => duckdb(target), DUCKDB_IDLE_CLOSE_MS);
 } else if (mode === "postgres") {
   await serve(() => postgres(target));
 }

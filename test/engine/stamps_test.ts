@@ -12,6 +12,7 @@ import { Session } from "../../kernel/session/session.ts";
 import { LiveWorkspace } from "../../kernel/server/live_workspace.ts";
 import { startCluster } from "./_cluster.ts";
 import { makeDuckdb, withoutPostgres } from "./_engine_testing.ts";
+import { DuckDBInstance } from "@duckdb/node-api";
 
 const WORKER = new URL("../../cells/worker.ts", import.meta.url);
 const ignore = withoutPostgres("stamps");
@@ -190,6 +191,60 @@ Deno.test({
         ok(performance.now() - t0 < 20_000, "stopped, not run to its end");
       } finally {
         s.close();
+      }
+    });
+  },
+});
+
+Deno.test({
+  name:
+    "DuckDB: a program appending to the file between runs can write (Plumb lets the file go when idle), and the new rows are noticed",
+  sanitizeResources: false,
+  sanitizeOps: false,
+  fn: async () => {
+    await withFolder(async (dir) => {
+      const file = join(dir, "plant.duckdb");
+      await makeDuckdb(file, [
+        "CREATE TABLE readings (x DOUBLE, y DOUBLE)",
+        "INSERT INTO readings SELECT i, 2 + 3 * i + sin(i) FROM range(1, 31) AS r(i)",
+      ]);
+      const s = new Session({ registry, workerUrl: WORKER, dir });
+      try {
+        const doc = DOC("database: plant.duckdb");
+        equal((resultOf(await s.run(doc), "f").result as { n: number }).n, 30);
+        // The logger's append: it needs the file's write lock, which Plumb lets go when idle.
+        await new Promise((r) => setTimeout(r, 1200));
+        await makeDuckdb(file, [
+          "INSERT INTO readings SELECT i, 2 + 3 * i + sin(i) FROM range(31, 41) AS r(i)",
+        ]);
+        equal(await s.recheckStamps(), true);
+        const after = await s.run(doc);
+        deepEqual(after.ran.toSorted(), ["f", "t"]);
+        equal((resultOf(after, "f").result as { n: number }).n, 40);
+      } finally {
+        s.close();
+      }
+    });
+  },
+});
+
+Deno.test({
+  name: "DuckDB: a file another program keeps open for writing is said in plain words on the table",
+  sanitizeResources: false,
+  sanitizeOps: false,
+  fn: async () => {
+    await withFolder(async (dir) => {
+      const file = join(dir, "plant.duckdb");
+      await makeDuckdb(file, ["CREATE TABLE readings AS SELECT 1.0 AS x, 2.0 AS y"]);
+      const writer = await DuckDBInstance.create(file);
+      const s = new Session({ registry, workerUrl: WORKER, dir });
+      try {
+        const t = resultOf(await s.run(DOC("database: plant.duckdb")), "t");
+        equal(t.state, "failed");
+        match(t.error!.message, /held by another program that is writing to it/);
+      } finally {
+        s.close();
+        writer.closeSync();
       }
     });
   },
