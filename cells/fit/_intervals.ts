@@ -42,12 +42,20 @@ export interface FitIntervals {
   ms: Partial<Record<"profile" | "bootstrap" | "derived", number>>;
 }
 
-/** The methods asked, with the default for the kind of fit. */
+/**
+ * The methods asked: the cell's `intervals`, else the document's, else the
+ * default for the kind of fit (Wald; and profile for a nonlinear model).
+ */
 export function methodsFor(
   spec: IntervalsSpec,
   linear: boolean,
+  document?: readonly string[],
 ): Set<"wald" | "profile" | "bootstrap"> {
-  const asked = spec.intervals ?? (linear ? ["wald"] : ["wald", "profile"]);
+  const asked = (spec.intervals ?? document ?? (linear ? ["wald"] : ["wald", "profile"])) as (
+    | "wald"
+    | "profile"
+    | "bootstrap"
+  )[];
   const set = new Set<"wald" | "profile" | "bootstrap">(["wald", ...asked]);
   if (spec.bootstrap !== undefined) set.add("bootstrap");
   return set;
@@ -84,7 +92,7 @@ export function fitIntervals(
       ...(ci === null ? { note: "no standard error" } : {}),
     }];
   });
-  const methods = methodsFor(spec, linear);
+  const methods = methodsFor(spec, linear, ctx.settings.intervals);
   const quantities = (spec.derived ?? []).map((d) => parseDerived(d, params));
   const out: FitIntervals = { byParameter, derived: [], ms: {} };
   const q = referenceQuantile(st, level);

@@ -5,7 +5,9 @@
  * brute-force resampling of its own.
  */
 import assert from "node:assert/strict";
-import { fitResult, makeTable } from "./_fixtures_test.ts";
+import { fitResult, makeTable, parseContext, runContext } from "./_fixtures_test.ts";
+import { fitKind } from "./mod.ts";
+import type { Fit } from "./fit.ts";
 import { studentT } from "../../kernel/stats/mod.ts";
 import { mulberry32 } from "../../kernel/random.ts";
 import type { LabelledInterval } from "./_profile.ts";
@@ -296,4 +298,22 @@ Deno.test("a derived half-life carries delta, profile and bootstrap intervals; a
     (e: Error & { path?: unknown }) =>
       /Unknown parameter "kk" in derived quantity "half_life"/.test(e.message),
   );
+});
+
+Deno.test("the document's intervals setting is each fit's default; a fit's own option overrides it", () => {
+  const x = Array.from({ length: 10 }, (_, i) => i + 1);
+  const y = x.map((v) => 2 + 0.5 * v + 0.2 * Math.sin(2.2 * v));
+  const t = makeTable({ x, y });
+  const withSetting = (extra: Record<string, unknown>) => {
+    const spec = fitKind.parse({
+      ...parseContext("f", { on: "data", model: "y = a + b*x", ...extra }),
+    });
+    const ctx = runContext("f", "data", t);
+    const settings = { ...ctx.settings, intervals: ["wald", "profile"] };
+    const out = fitKind.run(spec, { ...ctx, settings }) as Fit;
+    return fitKind.summary(out, spec);
+  };
+  const methods = (r: unknown) => paramsOf(r)[1].intervals.map((i) => i.method);
+  assert.deepEqual(methods(withSetting({})), ["wald", "profile"]);
+  assert.deepEqual(methods(withSetting({ intervals: ["wald"] })), ["wald"]);
 });

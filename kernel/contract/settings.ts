@@ -28,6 +28,12 @@ export interface DocSettings {
    * main thread when a run asks its engine (kernel/worker/client.ts).
    */
   queryTimeLimit?: number;
+  /**
+   * Interval methods a fit computes by default (`intervals: [wald, profile]`):
+   * any of "wald", "profile", "bootstrap"; a fit's own `intervals` option
+   * overrides it. Absent: Wald, and profile likelihood for nonlinear fits.
+   */
+  intervals?: string[];
   /** Everything else that was in the front matter. */
   extra: Record<string, unknown>;
 }

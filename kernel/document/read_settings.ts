@@ -9,6 +9,7 @@
  * | `criterion` | `"aicc"` | `aic`, `aicc`, `bic` or `loo` (any letter case) |
  * | `max_file_size` | 512 MiB | bytes, or text like `512 MB`, `2 GiB` |
  * | `history` | `100` | records the run history keeps: a whole number 1 to 100,000, or `off` |
+ * | `intervals` | Wald (+ profile for nonlinear fits) | interval methods fits compute by default: any of `wald`, `profile`, `bootstrap` (one word or a list) |
  * | `query_time_limit` | 1,800 s | seconds a database statement may run: a number, text like `90 s`, `30 min`, `2 h`, or `none` (also 0) |
  *
  * Every other key is kept in `extra`.
@@ -39,7 +40,11 @@ const KNOWN = new Set([
   "max_file_size",
   "history",
   "query_time_limit",
+  "intervals",
 ]);
+
+/** The interval methods the `intervals` setting may name. */
+const INTERVAL_METHODS = ["wald", "profile", "bootstrap"];
 
 /** The most records a history may keep (a bound on the file, not a target). */
 const MOST_RECORDS = 100_000;
@@ -123,6 +128,18 @@ const CHECKS: Record<string, [keyof DocSettings, Check]> = {
           problem: `must be a whole number from 1 to ${MOST_RECORDS.toLocaleString("en")}, or off`,
         },
   ],
+  intervals: ["intervals", (v) => {
+    const list = Array.isArray(v) ? v : [v];
+    const words = list.map((w) => (typeof w === "string" ? w.trim().toLowerCase() : ""));
+    const bad = words.findIndex((w) => !INTERVAL_METHODS.includes(w));
+    if (list.length === 0 || bad >= 0) {
+      return {
+        problem: `must name interval methods among ${INTERVAL_METHODS.join(", ")}`,
+        hint: bad >= 0 ? didYouMean(String(list[bad]), INTERVAL_METHODS) : "",
+      };
+    }
+    return { value: [...new Set(words)] };
+  }],
   query_time_limit: ["queryTimeLimit", (v) => {
     const s = querySeconds(v);
     if (s === null) {

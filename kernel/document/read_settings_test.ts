@@ -105,3 +105,19 @@ Deno.test("readSettings() reads history: a number of records, or off", () => {
     ['Setting "history" must be a whole number from 1 to 100,000, or off: got 0', 2],
   ]);
 });
+
+Deno.test("readSettings() reads intervals: one method or a list; an unknown one is refused at its line", () => {
+  assert.deepEqual(settingsOf("---\nintervals: [wald, Profile, wald]\n---\n").settings.intervals, [
+    "wald",
+    "profile",
+  ]);
+  assert.deepEqual(settingsOf("---\nintervals: bootstrap\n---\n").settings.intervals, [
+    "bootstrap",
+  ]);
+  const { settings, errors } = settingsOf("---\nintervals: [wald, profil]\n---\n");
+  assert.equal(settings.intervals, undefined);
+  assert.equal(errors.length, 1);
+  assert.match(errors[0].message, /interval methods among wald, profile, bootstrap/);
+  assert.match(errors[0].message, /profile/);
+  assert.equal(errors[0].pos.line, 2);
+});
