@@ -79,6 +79,7 @@ export function gather(
   if (c.type === "number") {
     const values = all ? c.values : gatherValues(c.values, idx);
     const lo = c.lo === null ? null : all ? c.lo : gatherValues(c.lo, idx);
+    const flags = "below" in c ? c.below : undefined;
     return {
       name: c.name,
       type: "number",
@@ -86,6 +87,9 @@ export function gather(
       values,
       lo,
       missing: all ? c.missing : countNaN(values),
+      ...(flags === undefined
+        ? {}
+        : { below: all ? flags : Uint8Array.from(idx, (i) => flags[i]) }),
     };
   }
   const values = all ? c.values : Array.from(idx, (i) => c.values[i]);

@@ -19,6 +19,7 @@ import type { Column, NumberColumn, RunContext, Table } from "../../kernel/contr
 import { addDerived, checkUnits } from "./_derive.ts";
 import { readSource } from "./_read_source.ts";
 import { readDatabaseTable } from "./_read_database.ts";
+import { withBelowLimit } from "./_below_limit.ts";
 import { gatherInt } from "../../kernel/arrays.ts";
 import { gather, indexesOf, keptAfterExclusions } from "./_select.ts";
 import { evaluateWhere } from "./_where.ts";
@@ -62,7 +63,11 @@ function applyWhere(spec: TableSpec, columns: Column[], rows: Int32Array): Int32
  */
 export function runTable(spec: TableSpec, ctx: RunContext): TableOutput | Promise<TableOutput> {
   if (spec.source !== null) return readDatabaseTable(spec, ctx);
-  const data = readSource(spec, ctx);
+  const read = readSource(spec, ctx);
+  const data = spec.belowLimit === undefined ? read : {
+    ...read,
+    columns: withBelowLimit(read.columns, spec.belowLimit, (i) => i + 1),
+  };
   const kept = keptAfterExclusions(spec, data.rowCount);
   const names = [...data.columns.map((c) => c.name), ...spec.derive.map((d) => d.name)];
   checkUnits(spec.units, names);

@@ -31,6 +31,7 @@ import { parseInline } from "./_parse_inline.ts";
 import { parseDerive, parseWhere } from "./_parse_derive.ts";
 import { checkFromPath, parseDecimalOption, parseDelimiter } from "./_parse_source.ts";
 import { type DatabaseSource, parseDatabaseSource } from "./_parse_database.ts";
+import { parseBelowLimit } from "./_below_limit.ts";
 
 import type { InlineData } from "./_parse_inline.ts";
 export type { InlineData };
@@ -55,6 +56,8 @@ export interface TableSpec {
   where: string | null;
   /** A query in a database (instead of a file or inline rows), or null. */
   source: DatabaseSource | null;
+  /** Columns whose cells may be written `<L` (below a detection limit L); absent when none. */
+  belowLimit?: string[];
 }
 
 /** Options a `table` cell understands, each declared once. */
@@ -78,6 +81,11 @@ export const TABLE_OPTIONS: OptionDecls = {
   },
   types: { type: "mapping", doc: "forced column types, number or text", names: "columns" },
   units: { type: "mapping", doc: "units of the columns", names: "columns" },
+  below_limit: {
+    type: "list",
+    doc:
+      "columns whose cells may be written <L, below the detection limit L (left-censored values)",
+  },
   exclude: { type: "list", doc: "rows left out, each entry with rows and why" },
   derive: { type: "mapping", doc: "derived number columns by expression, in order" },
   where: { type: "expression", doc: "a row filter, such as temp >= 20" },
@@ -182,6 +190,12 @@ export function parseTableSpec(ctx: ParseContext): TableSpec {
   const o = ctx.options;
   checkOptionKeys(ctx, TABLE_OPTIONS);
   const source = parseDatabaseSource(o, ctx.name);
+  if (source !== null && o.below_limit !== undefined) {
+    throw new CellError(
+      `Option "below_limit" applies to files and inline rows: in a query, give the limit in one column and a 0/1 flag in another, and name the flag in the fit's censored_by`,
+      ["below_limit"],
+    );
+  }
   if (source !== null) {
     return {
       from: null,
@@ -233,5 +247,8 @@ export function parseTableSpec(ctx: ParseContext): TableSpec {
     derive: parseDerive(o.derive),
     where: parseWhere(o.where),
     source: null,
+    ...(o.below_limit === undefined || o.below_limit === null
+      ? {}
+      : { belowLimit: parseBelowLimit(o.below_limit) }),
   };
 }

@@ -13,6 +13,8 @@ export interface TableColumnResult {
   unit: string | null;
   /** Missing values among the rows used. */
   missing: number;
+  /** RUN-JSON addition: rows whose value is a detection limit the quantity lies below (`below_limit`); absent otherwise. */
+  below_limit?: number;
 }
 
 /** The `table` result object of RUN-JSON (see shared RUN-JSON.md; extra fields are additions). */
@@ -84,6 +86,9 @@ export function summarizeTable(out: TableOutput): TableResult {
       type: c.type,
       unit: c.unit,
       missing: c.missing,
+      ...(c.type === "number" && c.below !== undefined
+        ? { below_limit: c.below.reduce((t, v) => t + v, 0) }
+        : {}),
     })),
     sha256: out.sha256,
     source: out.source,

@@ -80,6 +80,12 @@ export interface NumberColumn {
    */
   lo: Float64Array | null;
   missing: number;
+  /**
+   * Per row, 1 where the value is a detection limit the quantity lies below
+   * (written `<L` in a column the table's `below_limit` names); absent for
+   * columns with no such notation.
+   */
+  below?: Uint8Array;
 }
 
 /** A text column. Missing values are null. */
