@@ -160,9 +160,11 @@ function valueOf(e: Expr, parameters: readonly string[]): (theta: Float64Array) 
 
 /**
  * g(θ) = c held by solving θₖ from the others (Newton on g), k the
- * parameter whose change moves g most at θ̂ (|∂g/∂θₖ|·scale).
+ * parameter whose change moves g most at θ̂ (|∂g/∂θₖ|·scale); null when g
+ * does not move with any parameter there. Also predict's mean response at a
+ * point (cells/predict/_point_intervals.ts).
  */
-function derivedConstraint(
+export function derivedConstraint(
   input: ProfileInput,
   g: (t: Float64Array) => number,
   grad: ((t: Float64Array) => number)[],

@@ -21,7 +21,12 @@ import { standardNormal, studentT } from "../../kernel/stats/mod.ts";
 import type { RunContext } from "../../kernel/contract/mod.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";
 import type { FitStatistics } from "./_statistics.ts";
-import { type LabelledInterval, profileIntervals, type ProfileTrace } from "./_profile.ts";
+import {
+  type LabelledInterval,
+  type ProfileInput,
+  profileIntervals,
+  type ProfileTrace,
+} from "./_profile.ts";
 import { bootstrap, bootstrapIntervals, type BootstrapRun } from "./_bootstrap.ts";
 import type { IntervalsSpec } from "./_parse_intervals.ts";
 import { type DerivedQuantity, type DerivedResult, derivedResults } from "./_derived.ts";
@@ -40,6 +45,12 @@ export interface FitIntervals {
   derived: DerivedResult[];
   /** Milliseconds each method took. */
   ms: Partial<Record<"profile" | "bootstrap" | "derived", number>>;
+  /**
+   * The parameters' ranges (the fit's `within`; ±Infinity where open), kept
+   * when profile or bootstrap intervals were computed, so that a later cell
+   * can profile another function of the parameters (predict's mean response).
+   */
+  bounds?: { lower: Float64Array; upper: Float64Array };
 }
 
 /**
@@ -109,25 +120,9 @@ export function fitIntervals(
   }
   const fns = modelFunctions(problem);
   const p = params.length;
-  const lower = new Float64Array(p).fill(-Infinity), upper = new Float64Array(p).fill(Infinity);
-  for (const [k, [lo, hi]] of Object.entries(problem.limits ?? {})) {
-    const j = params.indexOf(k);
-    if (j < 0) continue;
-    if (lo !== null) lower[j] = lo;
-    if (hi !== null) upper[j] = hi;
-  }
-  const profileInput = {
-    fns,
-    parameters: params,
-    estimates: solution.estimates,
-    stdErrors: st.stdErrors,
-    dfResidual: st.dfResidual,
-    inference: st.inference,
-    q,
-    level,
-    lower,
-    upper,
-  };
+  const { lower, upper } = parameterBounds(params, problem.limits);
+  out.bounds = { lower, upper };
+  const profileInput = profileInputOf(fns, params, solution.estimates, st, q, level, out.bounds);
   if (methods.has("profile")) {
     const t0 = performance.now();
     const prof = profileIntervals(profileInput);
@@ -178,6 +173,72 @@ export function fitIntervals(
     out.ms.derived = performance.now() - t0;
   }
   return out;
+}
+
+/**
+ * The parameters' ranges from a fit's `within` limits: ±Infinity where open.
+ *
+ * @param params The parameter names, in order.
+ * @param limits Bounds by name (`null` for an open end), or undefined.
+ * @returns Lower and upper bounds, in parameter order.
+ * @example
+ * ```ts
+ * import { parameterBounds } from "./_intervals.ts";
+ * const b = parameterBounds(["a", "k"], { k: [0, null] });
+ * if (b.lower[1] !== 0 || b.upper[1] !== Infinity || b.lower[0] !== -Infinity) throw new Error();
+ * ```
+ */
+export function parameterBounds(
+  params: readonly string[],
+  limits: FitProblem["limits"],
+): { lower: Float64Array; upper: Float64Array } {
+  const p = params.length;
+  const lower = new Float64Array(p).fill(-Infinity), upper = new Float64Array(p).fill(Infinity);
+  for (const [k, [lo, hi]] of Object.entries(limits ?? {})) {
+    const j = params.indexOf(k);
+    if (j < 0) continue;
+    if (lo !== null) lower[j] = lo;
+    if (hi !== null) upper[j] = hi;
+  }
+  return { lower, upper };
+}
+
+/**
+ * What profiling needs of a fitted problem: its functions, estimates,
+ * standard errors, residual df and reference law, the quantile of the level
+ * and the parameters' ranges (the profile of a parameter, of a derived
+ * quantity, or of predict's mean response at a point).
+ *
+ * @param fns The model functions of the fitted rows (`modelFunctions`).
+ * @param params The parameter names.
+ * @param estimates θ̂.
+ * @param st The fit's statistics (standard errors, df, law).
+ * @param q The quantile of the level on the fit's law.
+ * @param level The confidence level.
+ * @param bounds The parameters' ranges ({@link parameterBounds}).
+ * @returns The profile input.
+ */
+export function profileInputOf(
+  fns: ReturnType<typeof modelFunctions>,
+  params: readonly string[],
+  estimates: Float64Array,
+  st: Pick<FitStatistics, "stdErrors" | "dfResidual" | "inference">,
+  q: number,
+  level: number,
+  bounds: { lower: Float64Array; upper: Float64Array },
+): ProfileInput {
+  return {
+    fns,
+    parameters: params,
+    estimates,
+    stdErrors: st.stdErrors,
+    dfResidual: st.dfResidual,
+    inference: st.inference,
+    q,
+    level,
+    lower: bounds.lower,
+    upper: bounds.upper,
+  };
 }
 
 /** A derived quantity's expression parsed against the parameters, its errors on `derived`. */

@@ -14,13 +14,20 @@
  * `mean_estimates`; per inverse prediction `method`, `interval_for` and
  * `extrapolated`.
  *
+ * RUN-JSON additions of issue 19 (every interval labelled by its method):
+ * per point `intervals` (the mean response: Wald, equal to `ci`, then
+ * profile and bootstrap as the fit computed them) and `pi_intervals` (a new
+ * observation: Wald, equal to `pi`, then the bootstrap's), each entry the
+ * fit's `LabelledInterval` shape; `interval_methods` in words.
+ *
  * @module
  */
 import type { CellOutput } from "../../kernel/contract/mod.ts";
 import type { HCType } from "../../kernel/stats/mod.ts";
 import type { MeanEstimate } from "./log_mean.ts";
+import type { LabelledInterval } from "../fit/_profile.ts";
 
-export type { MeanEstimate };
+export type { LabelledInterval, MeanEstimate };
 
 /** One prediction point. Values that do not exist (the model is not finite there) are null. */
 export interface PredictPointResult {
@@ -50,11 +57,26 @@ export interface PredictPointResult {
   unit: string | null;
   /** Our addition, log responses: labelled estimates of the mean of y (`estimate` is its median). */
   mean_estimates?: MeanEstimate[];
+  /**
+   * RUN-JSON addition (issue 19): every interval of the mean response, labelled by
+   * its method, on the reporting scale: Wald first (equal to `ci`), then profile,
+   * bootstrap percentile and BCa as the fit computed them; empty where no estimate
+   * (absent in records made before it existed).
+   */
+  intervals?: LabelledInterval[];
+  /**
+   * RUN-JSON addition (issue 19): every interval for a new observation (the mean of
+   * `replicates`), labelled: Wald first (equal to `pi`), then the bootstrap's
+   * ("bootstrap-percentile", of the prediction error) when the fit has replicates.
+   */
+  pi_intervals?: LabelledInterval[];
   /** Our addition, transformed responses only: the same values on the model scale. */
   model_scale?: {
     estimate: number | null;
     ci: [number, number] | null;
     pi: [number, number] | null;
+    intervals?: LabelledInterval[];
+    pi_intervals?: LabelledInterval[];
   };
 }
 
@@ -102,6 +124,11 @@ export interface PredictResult {
   estimate_is?: string;
   /** Our addition: how se_fit was computed, in words. */
   mean_method: string;
+  /**
+   * RUN-JSON addition (issue 19): the interval methods of the points beyond Wald and
+   * what they rest on, in words (the fit's profile, its bootstrap replicates and seed).
+   */
+  interval_methods?: string;
 }
 
 /** Output of `predict`: the computed predictions (the result is all there is). */

@@ -7,6 +7,8 @@
  *        └─predictCovariance─▶ cov (the fit's, or robust HC0–HC3)
  *                                       responseScale ─g⁻¹─▶ reporting scale (+ log means)
  *  solve values ─g─▶ z₀ ─inversePrediction─▶ x̂₀ and its interval   (solve_all.ts)
+ *  points ─pointIntervals─▶ intervals (Wald = ci, profile, bootstrap), pi_intervals
+ *                            (Wald = pi, bootstrap prediction error)   (_point_intervals.ts)
  * ```
  *
  * A transformed response (`log(y) = …`) is reported on the original scale
@@ -30,6 +32,7 @@ import { fittedRanges, outside, pointsOf, warnExtrapolation } from "./_points.ts
 import { invalidValueMessage } from "./new_observation.ts";
 import { logBase, type LogMeanContext, logMeans } from "./log_mean.ts";
 import { solveAll } from "./solve_all.ts";
+import { type LabelledInterval, type PointIntervals, pointIntervals } from "./_point_intervals.ts";
 
 export { BAND_MARGIN, ROOT_MARGIN } from "./solve_all.ts";
 
@@ -41,6 +44,8 @@ interface Shared {
   scale: ResponseScale;
   covariance: Float64Array;
   middle: Float64Array | null;
+  /** The points' intervals beyond Wald, as the fit computed them. */
+  beyond: PointIntervals;
 }
 
 /**
@@ -65,6 +70,11 @@ export function runPredict(spec: PredictSpec, ctx: RunContext): Predictions {
     scale,
     covariance: cov.covariance,
     middle: cov.middle,
+    beyond: pointIntervals(fit, {
+      level: settings.level,
+      q: settings.q,
+      seed: ctx.settings.seed,
+    }),
   };
   const at = spec.at === null ? [] : predictAt(ctx, spec, s);
   const solve = spec.solve === null ? [] : solveAll(ctx, spec, s);
@@ -88,6 +98,7 @@ export function runPredict(spec: PredictSpec, ctx: RunContext): Predictions {
     covariance: cov.statement,
     robust: spec.robust ?? null,
     mean_method: meanMethod(fit, spec.robust !== undefined),
+    interval_methods: intervalMethods(fit, s.beyond, spec.robust !== undefined),
     ...(scale.transformed ? { estimate_is: estimateIs(fit, scale) } : {}),
   };
   return { type: "Predictions", result };
@@ -100,6 +111,30 @@ function meanMethod(fit: Fit, robust: boolean): string {
   return fit.method === "linear"
     ? `exact: model linear in its parameters, ${form}, g the design row`
     : `delta method: ${form}, g = ∂f/∂θ at the estimates (first order, approximate)`;
+}
+
+/** What the points' labelled intervals rest on, in words. */
+function intervalMethods(fit: Fit, b: PointIntervals, robust: boolean): string {
+  const parts = ["wald: ci and pi"];
+  if (b.profile) {
+    parts.push(
+      `profile: of f(x₀; θ) at each point, the fit's least-squares criterion minimised with it held${
+        robust ? " (likelihood-based: not robust)" : ""
+      }`,
+    );
+  }
+  const run = fit.intervals?.bootstrap;
+  if (run !== undefined && b.resamples > 0) {
+    parts.push(
+      `bootstrap: f(x₀; θ*) over the fit's ${run.b} ${
+        run.resample === "cases" ? "case" : "residual"
+      } resamples (percentile; BCa with the fit's jackknife${
+        run.jackknife === null ? ", not available here" : ""
+      }); a new observation by the prediction error f(x₀; θ*) − (f(x₀; θ̂) + ε*), ε* a centred modified residual scaled to the point (Davison & Hinkley 1997, Alg. 6.4), seed ${run.seed}`,
+    );
+  }
+  if (parts.length === 1) parts.push("the fit carries no profile or bootstrap intervals");
+  return parts.join("; ");
 }
 
 function estimateIs(fit: Fit, scale: ResponseScale): string {
@@ -151,11 +186,20 @@ function predictAt(ctx: RunContext, spec: PredictSpec, sh: Shared): PredictPoint
         ...own,
         extrapolated: false,
         unit,
+        intervals: [],
+        pi_intervals: [],
       });
       continue;
     }
     if (obs.kind !== null && obs.known && Number.isNaN(nw.variance[i])) invalid.push(i);
     const row = pointRow(x, est, se, nw.variance[i] / obs.m, s.q);
+    const x0 = fit.model.columns.map((_, j) => pts.cols[j][i]);
+    row.intervals = [wald(row.ci, s.level, "no standard error"), ...sh.beyond.mean(x0, se)];
+    const boot = sh.beyond.newObservation(x0, i, est, nw.variance[i], obs.m);
+    row.pi_intervals = [
+      wald(row.pi, s.level, "the variance of a new observation is not known here"),
+      ...(boot === null ? [] : [boot]),
+    ];
     Object.assign(row, own, { extrapolated: outside(ranges, pts, i), unit });
     if (lm !== null) row.mean_estimates = logMeans(lm, est, se, nw.variance[i]);
     out.push(row);
@@ -188,17 +232,31 @@ function pointRow(
   };
 }
 
+/** A Wald interval (`ci` or `pi`) as a labelled one. */
+function wald(iv: [number, number] | null, level: number, why: string): LabelledInterval {
+  return iv === null
+    ? { method: "wald", level, lower: null, upper: null, note: why }
+    : { method: "wald", level, lower: iv[0], upper: iv[1] };
+}
+
 /** Estimates and interval ends through g⁻¹, the model-scale values kept in `model_scale`. */
 function backTransform(ctx: RunContext, scale: ResponseScale, rows: PredictPointResult[]) {
   let unmapped = false;
   for (const row of rows) {
     if (row.estimate === null) continue;
-    const { estimate: est, ci, pi } = row;
+    const { estimate: est, ci, pi, intervals = [], pi_intervals = [] } = row;
     const e = scale.inverse(est),
       ce = ci && mapInterval(scale, ci),
       p = pi && mapInterval(scale, pi);
     unmapped ||= e === null || ce === null || (pi !== null && p === null);
-    Object.assign(row, { estimate: e, ci: ce, pi: p, model_scale: { estimate: est, ci, pi } });
+    Object.assign(row, {
+      estimate: e,
+      ci: ce,
+      pi: p,
+      intervals: intervals.map((iv) => mapLabelled(scale, iv, est)),
+      pi_intervals: pi_intervals.map((iv) => mapLabelled(scale, iv, est)),
+      model_scale: { estimate: est, ci, pi, intervals, pi_intervals },
+    });
   }
   if (unmapped) {
     const why = scale.noInverse ?? `no finite "${scale.column}" gives them`;
@@ -216,6 +274,46 @@ function mapInterval(scale: ResponseScale, [a, b]: [number, number]): [number, n
   const u = scale.inverse(a), v = scale.inverse(b);
   if (u === null || v === null) return null;
   return u <= v ? [u, v] : [v, u];
+}
+
+/**
+ * A labelled interval through g⁻¹: each end mapped (swapped for a decreasing g), a
+ * Monte Carlo error L ± u mapped as half the width of g⁻¹ over it (ẑ = `at`, the
+ * model-scale estimate, for g⁻¹'s direction); an end with no
+ * finite value is null, said in the note.
+ */
+function mapLabelled(scale: ResponseScale, iv: LabelledInterval, at: number): LabelledInterval {
+  const end = (v: number | null) => (v === null ? null : scale.inverse(v));
+  let lower = end(iv.lower), upper = end(iv.upper);
+  const mcOf = (v: number | null, u: number | null | undefined) => {
+    if (v === null || u === null || u === undefined) return null;
+    const a = scale.inverse(v - u), b = scale.inverse(v + u);
+    return a === null || b === null ? null : Math.abs(b - a) / 2;
+  };
+  let mc = iv.mc_error === undefined ? undefined : {
+    lower: mcOf(iv.lower, iv.mc_error.lower),
+    upper: mcOf(iv.upper, iv.mc_error.upper),
+  };
+  const lost = (iv.lower !== null && lower === null) || (iv.upper !== null && upper === null);
+  // A decreasing g⁻¹ turns the ends round (both ends compared; a lone end by g⁻¹'s slope at ẑ).
+  const h = 1e-6 * Math.max(1, Math.abs(at)), a = scale.inverse(at - h), b = scale.inverse(at + h);
+  const decreasing = lower !== null && upper !== null
+    ? lower > upper
+    : a !== null && b !== null && b < a;
+  if (decreasing) {
+    [lower, upper] = [upper, lower];
+    if (mc !== undefined) mc = { lower: mc.upper, upper: mc.lower };
+  }
+  const notes = [iv.note, lost ? `no finite "${scale.column}" gives an end` : undefined]
+    .filter((n): n is string => n !== undefined);
+  return {
+    method: iv.method,
+    level: iv.level,
+    lower,
+    upper,
+    ...(notes.length > 0 ? { note: notes.join("; ") } : {}),
+    ...(mc === undefined ? {} : { mc_error: mc }),
+  };
 }
 
 function shownPoint(x: Record<string, number>): string {
