@@ -38,7 +38,7 @@ import { predictHistory } from "./history.ts";
 import type { TemplateContext } from "../../kernel/contract/mod.ts";
 import { cellsOf, fitColumns } from "../shared/template_cells.ts";
 import { formatEstimate, formatIntervalAt, formatNumber, withUnit } from "../shared/format.ts";
-import { digitsFrom, solveUncertainty } from "./_digits.ts";
+import { digitsFrom, predictDetails, solveUncertainty } from "./_digits.ts";
 
 export type { PredictSpec } from "./spec.ts";
 export type {
@@ -59,6 +59,8 @@ export const predictKind: CellKind<PredictSpec, Predictions, PredictResult> = {
   run: runPredict,
   summary: (out) => out.result,
   line: predictLine,
+  // Points with intervals beyond Wald: every interval named by its method (issue 19).
+  details: predictDetails,
   options: PREDICT_OPTIONS,
   template: predictTemplate,
   history: predictHistory,

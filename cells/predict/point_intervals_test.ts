@@ -280,3 +280,30 @@ Deno.test("a fit without profile or bootstrap gives Wald only, said in interval_
   assert.deepEqual(result.at[0].intervals!.map((i) => i.method), ["wald"]);
   assert.match(result.interval_methods!, /carries no profile or bootstrap/);
 });
+
+Deno.test("the CLI lines and the page name every interval's method", async () => {
+  const { renderToString } = await import("preact-render-to-string");
+  const { PredictView } = await import("./view.tsx");
+  const { predictKind } = await import("./mod.ts");
+  const fit = fitOf({ conc: CONC, rate: RATE }, "rate = Vm*conc/(K + conc)", {
+    start: { Vm: 200, K: 0.1 },
+    bootstrap: { resamples: 300 },
+  });
+  const { result } = predict(fit, { at: { conc: [0.05, 0.5] } });
+  const lines = predictKind.details!(result);
+  assert.equal(lines.length, 2);
+  assert.match(
+    lines[0],
+    /^conc = 0\.05: .* · 95% mean Wald .*; profile .*; bootstrap percentile .*; bootstrap BCa .* · new observation Wald .*; bootstrap percentile /,
+  );
+  const html = renderToString(PredictView({ name: "p", result }));
+  for (const m of ["Wald", "profile", "bootstrap percentile", "bootstrap BCa", "MC ±"]) {
+    assert.ok(html.includes(m), m);
+  }
+  assert.ok(html.includes("Interval methods: wald: ci and pi; profile"));
+  // A Wald-only prediction keeps its one line and its page as before.
+  const plain = fitOf({ x: [1, 2, 3, 4], y: [1.1, 1.9, 3.2, 3.9] }, "y = a + b*x");
+  const wald = predict(plain, { at: { x: [2.5] } }).result;
+  assert.deepEqual(predictKind.details!(wald), []);
+  assert.ok(!renderToString(PredictView({ name: "p", result: wald })).includes("Interval methods"));
+});

@@ -7,6 +7,12 @@
  * (response value, the x that gives it, its interval and the method). Plain
  * markup, shared by the live page and the static record.
  *
+ * Intervals beyond Wald (issue 19: profile, bootstrap percentile and BCa of
+ * the mean response, the bootstrap's for a new observation) sit under the
+ * Wald interval in the same cell, one line each, named by method, with the
+ * larger Monte Carlo error of a bootstrap interval's limits in text (a
+ * printed record has no hover) and notes numbered under the table.
+ *
  * @module
  */
 import type { VNode } from "preact";
@@ -19,7 +25,15 @@ import {
   formatUncertainty,
   withUnit,
 } from "../shared/format.ts";
-import { digitsFrom, quarterWidth, solveUncertainty } from "./_digits.ts";
+import {
+  beyondWald,
+  digitsFrom,
+  end,
+  METHOD_WORDS,
+  quarterWidth,
+  solveUncertainty,
+} from "./_digits.ts";
+import type { LabelledInterval } from "./result.ts";
 
 /**
  * Renders a predict result.
@@ -55,6 +69,14 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
   const yUnit = r.at.find((p) => p.unit)?.unit ?? null;
   // A standard error on the model's scale (log y) sets no digits for an estimate on y's.
   const sameScale = r.se_scale === r.scale;
+  const beyond = r.at.some(beyondWald);
+  const notes: string[] = [];
+  const mark = (text: string) => {
+    const k = notes.indexOf(text);
+    if (k >= 0) return k + 1;
+    notes.push(text);
+    return notes.length;
+  };
   return (
     <section class="plumb-predict" aria-label={`Predictions ${name}`}>
       <p class="plumb-predict-basis">
@@ -64,6 +86,7 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
         {own === null ? "" : `; its ${own}: ${r.weight_source}`}.
         {r.estimate_is ? ` Estimate: ${r.estimate_is}.` : ""}
         {means.map((m) => ` Mean (${m.method}): ${m.label}.`).join("")}
+        {beyond && r.interval_methods ? ` Interval methods: ${r.interval_methods}.` : ""}
       </p>
       {r.at.length > 0 && (
         <table class="plumb-predict-points">
@@ -94,15 +117,31 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
                 <td>{formatUncertainty(p.se_fit)}</td>
                 <td>{formatUncertainty(p.se_prediction)}</td>
                 {own && <td>{formatNumber(ownValue(p, own), 4)}</td>}
-                <td>{formatIntervalAt(p.ci, digitsFrom(p.se_fit, p.ci, sameScale), p.estimate)}</td>
                 <td>
+                  {beyond && <span class="pl-muted">Wald&nbsp;</span>}
+                  {formatIntervalAt(p.ci, digitsFrom(p.se_fit, p.ci, sameScale), p.estimate)}
+                  {others(p.intervals, digitsFrom(p.se_fit, p.ci, sameScale), p.estimate, mark)}
+                </td>
+                <td>
+                  {beyond && <span class="pl-muted">Wald&nbsp;</span>}
                   {formatIntervalAt(p.pi, digitsFrom(p.se_prediction, p.pi, sameScale), p.estimate)}
+                  {others(
+                    p.pi_intervals,
+                    digitsFrom(p.se_prediction, p.pi, sameScale),
+                    p.estimate,
+                    mark,
+                  )}
                 </td>
                 {means.map((m, k) => <td key={m.method}>{meanCell(p, k)}</td>)}
               </tr>
             ))}
           </tbody>
         </table>
+      )}
+      {notes.length > 0 && (
+        <ol class="plumb-predict-notes pl-note">
+          {notes.map((n) => <li key={n}>{n}</li>)}
+        </ol>
       )}
       {r.solve.length > 0 && (
         <table class="plumb-predict-solve">
@@ -128,6 +167,29 @@ export function PredictView({ name, result: r }: ViewProps<PredictResult>): VNod
       )}
     </section>
   );
+}
+
+/**
+ * The intervals beyond Wald under the Wald one, a line each: method, limits ("open" for a
+ * side not bounded), the larger Monte Carlo error of the two limits, a note's number.
+ */
+function others(
+  list: LabelledInterval[] | undefined,
+  u: number | null,
+  estimate: number | null,
+  mark: (note: string) => number,
+): VNode[] {
+  return (list ?? []).filter((i) => i.method !== "wald").map((i) => {
+    const mc = Math.max(i.mc_error?.lower ?? 0, i.mc_error?.upper ?? 0);
+    return (
+      <div class="plumb-predict-alt" key={i.method}>
+        <span class="pl-muted">{METHOD_WORDS[i.method]}</span> [{end(i.lower, u, estimate)},{" "}
+        {end(i.upper, u, estimate)}]
+        {mc > 0 && <span class="pl-muted">{` MC ±${formatUncertainty(mc)}`}</span>}
+        {i.note && <sup>{mark(i.note)}</sup>}
+      </div>
+    );
+  });
 }
 
 function ownValue(p: PredictPointResult, own: "weight" | "sigma"): number | null {
