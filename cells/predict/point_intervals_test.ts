@@ -307,3 +307,27 @@ Deno.test("the CLI lines and the page name every interval's method", async () =>
   assert.deepEqual(predictKind.details!(wald), []);
   assert.ok(!renderToString(PredictView({ name: "p", result: wald })).includes("Interval methods"));
 });
+
+Deno.test("under 1/x² weights the bootstrap prediction interval widens with x as the Wald one does", () => {
+  // Invented: errors proportional to x (σᵢ = 0.05·xᵢ), fitted with weights 1/x².
+  const r = mulberry32(21);
+  const x = Array.from({ length: 40 }, (_, i) => 1 + (i % 20) * 0.5);
+  const y = x.map((v) => 2 + 3 * v + 0.05 * v * 2 * Math.sqrt(3) * (r() - 0.5));
+  const fit = fitOf({ x, y }, "y = a + b*x", {
+    weights: "1/x^2",
+    bootstrap: { resamples: 2000 },
+  });
+  const { result } = predict(fit, { at: { x: [1.5, 10] } });
+  const width = (list: LabelledInterval[] | undefined, m: LabelledInterval["method"]) => {
+    const i = by(list, m)!;
+    return i.upper! - i.lower!;
+  };
+  const [near1, far] = result.at;
+  // The new observation's error is scaled by 1/√w₀ = x₀ (s²/w₀, new_observation.ts): the ratio of
+  // widths follows the Wald intervals' within 20 % (common practice, no source; Monte Carlo noise).
+  const boot = width(far.pi_intervals, "bootstrap-percentile") /
+    width(near1.pi_intervals, "bootstrap-percentile");
+  const wald = width(far.pi_intervals, "wald") / width(near1.pi_intervals, "wald");
+  near(boot, wald, 0.2, "width ratio, x = 10 against x = 1.5");
+  assert.ok(wald > 5, String(wald));
+});
