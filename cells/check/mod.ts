@@ -48,6 +48,7 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
         ["fit"],
       );
     }
+    if (fit.robust !== undefined) robustFitNote(spec, fit, ctx.warn);
     return { type: "Diagnostics", ...diagnose(fit, spec, ctx.settings.confidence) };
   },
   summary: summaryOf,
@@ -67,6 +68,28 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
     `fit: ${cellsOf(ctx, "Fit").at(-1)?.name ?? "fit1"}
 `,
 };
+
+/**
+ * A robust fit (cells/fit/_robust.ts) is judged by its residuals as they are;
+ * the check says so, and refuses HC covariances, which are made for
+ * least-squares residuals (the fit's own covariance is already a sandwich).
+ */
+function robustFitNote(spec: CheckSpec, fit: Fit, warn: (m: string) => void): void {
+  const b = fit.robust!;
+  if (spec.robust !== null) {
+    throw new CellError(
+      `Cannot give robust: ${spec.robust} for "${spec.fit}": it is an M-estimate (loss ${b.loss}), whose standard errors already come from Huber's sandwich; HC covariances are made for least-squares residuals: remove robust`,
+      ["robust"],
+    );
+  }
+  let down = 0;
+  for (const u of b.scaled) if (Math.abs(u) > b.tuning) down++;
+  warn(
+    `"${spec.fit}" is a robust fit (${b.loss} loss, tuning ${b.tuning}, ${down} ${
+      down === 1 ? "row" : "rows"
+    } down-weighted): its residuals are judged as they are, with least-squares leverage, Cook's distance and tests; rows the loss down-weighted stand out here by design`,
+  );
+}
 
 /**
  * The RUN-JSON `check` object: the per-row fields asked for made plain arrays

@@ -141,6 +141,14 @@ function fitInput(ctx: RunContext, name: string, j: number): Fit {
   if (out === undefined || out.type !== "Fit") {
     throw new CellError(`Cannot compare "${ctx.name}": cell "${name}" gives no fit`, ["fits", j]);
   }
+  const robust = (out as Fit).robust;
+  if (robust !== undefined) {
+    // An M-estimate has no Gaussian likelihood and minimises no sum of squares (cells/fit/_robust.ts).
+    throw new CellError(
+      `Cannot compare "${ctx.name}": fit "${name}" is a robust M-estimate (loss ${robust.loss}), and the comparison's log-likelihood, AIC, AICc, BIC, F tests and leave-one-out RMSE belong to least-squares fits; judge it beside the least-squares fit in a check or a chart instead`,
+      ["fits", j],
+    );
+  }
   return out as Fit;
 }
 

@@ -12,6 +12,7 @@ import type { Weighting } from "./_weighting.ts";
 import type { DesignFactor } from "./problem.ts";
 import type { InEngineRecord } from "./_in_engine.ts";
 import type { FitIntervals } from "./_intervals.ts";
+import type { RobustRecord } from "./_robust.ts";
 
 /** A fitted model with everything downstream cells need to judge and use it. */
 export interface Fit extends CellOutput {
@@ -85,6 +86,15 @@ export interface Fit extends CellOutput {
    * (_intervals.ts). Absent for fits computed in a database.
    */
   intervals?: FitIntervals;
+  /**
+   * A robust fit (`loss:`): the loss, tuning constant, robust scale, final
+   * weights and the sandwich covariance (_robust.ts). Then `estimates`,
+   * `fitted` and `residuals` are the M-estimate's, `statistics.covariance`
+   * the sandwich, `statistics.sigma` the robust scale, `unscaledCovariance`
+   * (X̃ᵀX̃)⁻¹ at the estimates; `weights` stay the prior weights. Absent for
+   * least squares.
+   */
+  robust?: RobustRecord;
   /**
    * The bootstrap replicates (when bootstrap intervals were asked): B×p,
    * row-major in the order of `parameters` (chart bands read them).

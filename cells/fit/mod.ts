@@ -29,6 +29,7 @@ import { type FitResult, summarizeFit } from "./result.ts";
 import { runFit } from "./run.ts";
 import { FIT_OPTIONS } from "./spec.ts";
 import { fitHistory } from "./history.ts";
+import type { RobustResult } from "./_robust_result.ts";
 import type { TemplateContext } from "../../kernel/contract/mod.ts";
 import { numberColumns, tableFor } from "../shared/template_cells.ts";
 import {
@@ -61,9 +62,9 @@ export const fitKind: CellKind<FitSpec, Fit, FitResult> = {
   run: runFit,
   summary: (out, _spec, leaveOut) => summarizeFit(out, leaveOut),
   line: (r) =>
-    `${r.model} · n ${r.n} · R² ${formatR2(r.r2)} · σ ${
+    `${r.model} · n ${r.n} · R² ${formatR2(r.r2)} · ${r.robust ? "s" : "σ"} ${
       withUnit(formatNumber(r.sigma, 3), r.sigma_unit)
-    }`,
+    }${r.robust ? ` · ${robustLine(r.robust)}` : ""}`,
   details: fitDetails,
   options: FIT_OPTIONS,
   page: { omit: ["fitted", "residuals", "rows", "rows_missing"] },
@@ -109,7 +110,25 @@ function fitDetails(r: FitResult): string[] {
     );
     if (d.note) lines.push(`  note: ${d.note}`);
   }
+  if (r.robust !== undefined) lines.push(...robustDetails(r.robust));
   return lines;
+}
+
+/** `Huber loss, 3 rows down-weighted` for the one-line summary. */
+function robustLine(b: RobustResult): string {
+  const k = b.down_weighted.length;
+  return `${b.loss_name} loss, ${k} ${k === 1 ? "row" : "rows"} down-weighted`;
+}
+
+/** The robust fit in the CLI details: loss, scale, covariance, the rows down-weighted. */
+function robustDetails(b: RobustResult): string[] {
+  const rows = b.down_weighted.map((d) => `${d.row} (weight ${formatNumber(d.weight, 2)})`);
+  return [
+    `robust: ${b.loss_name} loss, tuning ${b.tuning}; scale s = ${
+      formatNumber(b.scale, 4)
+    } (normalised MAD); ${b.covariance_form} covariance; ${b.iterations} reweighted fits from ${b.start}`,
+    `  down-weighted (|r|/s > ${b.tuning}): ${rows.length === 0 ? "none" : rows.join(", ")}`,
+  ];
 }
 
 /** The Wald interval, then every other method's, each named. */

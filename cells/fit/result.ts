@@ -22,6 +22,7 @@ import type { LabelledInterval } from "./_profile.ts";
 import type { DerivedResult } from "./_derived.ts";
 import type { Weighting } from "./_weighting.ts";
 import { plainArray, rowValues } from "../../kernel/arrays.ts";
+import { type RobustResult, robustResult } from "./_robust_result.ts";
 
 /** One parameter row. */
 export interface FitParameterResult {
@@ -146,6 +147,13 @@ export interface FitResult {
   intervals?: IntervalsRecord;
   /** RUN-JSON addition: the fit's derived quantities (`derived:`), each with every method used. */
   derived?: DerivedResult[];
+  /**
+   * RUN-JSON addition, robust fits only (`loss:`): the loss, tuning constant,
+   * robust scale and how it was estimated, the covariance's form, the rows
+   * down-weighted with their weights. `sigma` is then the robust scale and
+   * `covariance` the sandwich; the likelihood, criteria and F test are null.
+   */
+  robust?: RobustResult;
 }
 
 /** The weighting of a fit in plain words (shown in the view and the result). */
@@ -250,6 +258,7 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
     ...(fit.intervals === undefined || fit.intervals.derived.length === 0
       ? {}
       : { derived: fit.intervals.derived }),
+    ...(fit.robust === undefined ? {} : { robust: robustResult(fit.robust, fit.rows) }),
   };
 }
 

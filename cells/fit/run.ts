@@ -31,6 +31,7 @@ import { applyWeighting, parseAgainst } from "./_weighting.ts";
 import { fitIntervals } from "./_intervals.ts";
 import { identifierOffset } from "./_offsets.ts";
 import { type ModelUnits, modelUnits } from "../../kernel/units/mod.ts";
+import { robustSolve, robustStatistics } from "./_robust.ts";
 
 /**
  * Fits the spec's model to its table.
@@ -75,17 +76,27 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
   }
   const linear = isLinearIn(model.rhs, model.parameters);
   const weightsText = spec.weights ?? spec.knownSigma;
-  const solution = solveOrExplain(problem, table, linear);
+  const leastSquares = solveOrExplain(problem, table, linear);
+  // A robust loss: IRLS from the least-squares fit (_robust.ts), its sandwich covariance.
+  const robust = spec.loss === undefined
+    ? null
+    : robustSolve(problem, leastSquares, linear, spec.loss, spec.tuning);
+  const solution = robust?.solution ?? leastSquares;
   for (const w of model.warnings) ctx.warn(w.message);
   const units = unitsOf(ctx.name, model, table);
   for (const w of units.warnings) ctx.warn(w.message);
   if (linear) warnUnused(spec, ctx);
-  const statistics = fitStatistics(problem, solution, {
+  const squares = fitStatistics(problem, solution, {
     confidence: ctx.settings.confidence,
     weighting: weighted.weighting,
     countVariance: spec.countVariance !== false,
   }, ctx.warn);
-  const intervals = fitIntervals(spec, problem, solution, statistics, linear, ctx);
+  const statistics = robust === null
+    ? squares
+    : robustStatistics(squares, robust.record, solution.estimates);
+  const intervals = robust === null
+    ? fitIntervals(spec, problem, solution, statistics, linear, ctx)
+    : fitIntervals(spec, problem, solution, statistics, linear, waldOnly(ctx));
   if (intervals.bootstrap !== undefined && intervals.bootstrap.failed > 0) {
     const b = intervals.bootstrap;
     ctx.warn(
@@ -124,6 +135,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
     iterations: solution.iterations,
     ...(solution.atBound ? { atBound: solution.atBound } : {}),
     intervals,
+    ...(robust === null ? {} : { robust: robust.record }),
     ...(intervals.bootstrap === undefined ? {} : {
       bootstrap: {
         replicates: intervals.bootstrap.replicates,
@@ -142,6 +154,12 @@ type InEngineTable = Table & { database: TableInEngine };
  * (_in_engine.ts), no per-row values in the result.
  */
 async function runFitInEngine(spec: FitSpec, ctx: RunContext, table: InEngineTable): Promise<Fit> {
+  if (spec.loss !== undefined) {
+    throw new CellError(
+      `Cannot fit "${ctx.name}" with loss ${spec.loss} in the database: table "${spec.on}" keeps its ${table.database.rowsInEngine} rows there, and a robust fit reweights every row at each iteration; narrow the query to at most 1,000,000 rows`,
+      ["loss"],
+    );
+  }
   const problem = buildProblem(ctx.name, spec, table, ctx.warn);
   const { model } = problem;
   if (model.parameters.length === 0) {
@@ -203,6 +221,23 @@ async function runFitInEngine(spec: FitSpec, ctx: RunContext, table: InEngineTab
       n.toLocaleString("en-US")
     } rows and residuals stay there`,
   };
+}
+
+/**
+ * A robust fit's context for its intervals: Wald only (the cell's own
+ * profile or bootstrap are refused at parse, _robust_parse.ts); a document
+ * default naming them is set aside with a warning.
+ */
+function waldOnly(ctx: RunContext): RunContext {
+  const asked = (ctx.settings.intervals ?? []).filter((m) => m !== "wald");
+  if (asked.length > 0) {
+    ctx.warn(
+      `Fit "${ctx.name}" gives only Wald intervals (from its sandwich covariance), not the document's ${
+        asked.join(" and ")
+      }: both refit by least squares, which a robust fit is not`,
+    );
+  }
+  return { ...ctx, settings: { ...ctx.settings, intervals: ["wald"] } };
 }
 
 /** Start values and ranges mean nothing to a model linear in its parameters. */

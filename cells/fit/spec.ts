@@ -11,6 +11,8 @@
  * within: { a: [0, null] }            # ranges that nonlinear estimates stay inside (optional)
  * intervals: [wald, profile]          # interval methods (default: wald; + profile if nonlinear)
  * bootstrap: { resamples: 2000, resample: residuals }   # bootstrap intervals (or cases)
+ * loss: huber                         # a robust fit: huber, soft_l1 or bisquare (default least squares)
+ * tuning: 1.345                       # the loss's tuning constant (default: 95% efficiency)
  * ```
  *
  * Model text is only checked for being a string here: its names are known only
@@ -30,9 +32,15 @@ import {
 import { parseWeighting } from "./_parse_weighting.ts";
 import { type Limits, parseLimits } from "./_parse_limits.ts";
 import { type IntervalsSpec, parseIntervals } from "./_parse_intervals.ts";
+import {
+  LOSS_CHOICES,
+  parseRobust,
+  refuseRobustIntervals,
+  type RobustSpec,
+} from "./_robust_parse.ts";
 
 /** A `fit` cell's normalised options (plain JSON: hashed into the cache key). */
-export interface FitSpec extends IntervalsSpec {
+export interface FitSpec extends IntervalsSpec, RobustSpec {
   /** Name of the table cell to fit. */
   on: string;
   /** The model equation as written. */
@@ -82,6 +90,18 @@ export const FIT_OPTIONS: OptionDecls = {
     type: "mapping",
     doc: "bootstrap intervals: resamples (default 2000) and resample: residuals (default) or cases",
   },
+  loss: {
+    type: "choice",
+    doc:
+      "least_squares, or a robust M-estimate by huber, soft_l1 or bisquare loss (IRLS, MAD scale, sandwich covariance)",
+    default: "least_squares",
+    choices: LOSS_CHOICES,
+  },
+  tuning: {
+    type: "number",
+    doc:
+      "the robust loss's tuning constant in units of the scale (default 1.345, 1.287, 4.685: 95% efficiency at the normal)",
+  },
 };
 
 /**
@@ -91,7 +111,7 @@ export const FIT_OPTIONS: OptionDecls = {
  * @returns The spec.
  * @throws {CellError} For a missing or non-text `on` or `model`, a bad `start`
  *   mapping, bad weighting options (see `_parse_weighting.ts`), a bad `within` range
- *   (see `_parse_limits.ts`) or an unknown option.
+ *   (see `_parse_limits.ts`), a bad `loss` or `tuning` (`_robust_parse.ts`) or an unknown option.
  * @example
  * ```ts
  * import { parseFitSpec } from "./spec.ts";
@@ -106,14 +126,17 @@ export const FIT_OPTIONS: OptionDecls = {
 export function parseFitSpec(ctx: ParseContext): FitSpec {
   const o = ctx.options;
   checkOptionKeys(ctx, FIT_OPTIONS);
-  return {
+  const spec: FitSpec = {
     on: readCellName(ctx, "on", "table", "name the table cell to fit, as in on: cycles"),
     model: modelText(ctx, o.model),
     start: startValues(ctx),
     ...parseWeighting(ctx),
     ...parseLimits(ctx),
     ...parseIntervals(ctx),
+    ...parseRobust(ctx),
   };
+  refuseRobustIntervals(ctx, spec);
+  return spec;
 }
 
 function modelText(ctx: ParseContext, v: unknown): string {

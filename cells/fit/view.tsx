@@ -25,6 +25,7 @@ import {
 } from "../shared/format.ts";
 import { InEngineSection } from "./_in_engine_view.tsx";
 import { IntervalsSection } from "./_intervals_view.tsx";
+import { RobustSection } from "./_robust_view.tsx";
 
 /**
  * Renders a fit result.
@@ -57,9 +58,15 @@ export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
   return (
     <section class="plumb-fit" aria-label={`Fit ${name}`}>
       <p class="plumb-fit-model">
-        <code>{r.model}</code> <span class="plumb-fit-method">{r.method} least squares</span>
+        <code>{r.model}</code>{" "}
+        <span class="plumb-fit-method">
+          {r.robust
+            ? `${r.method} M-estimate, ${r.robust.loss_name} loss`
+            : `${r.method} least squares`}
+        </span>
       </p>
       <p class="plumb-fit-weighting">Weighting: {r.weighting_statement}</p>
+      {r.robust !== undefined && <RobustSection b={r.robust} unit={r.sigma_unit} />}
       {r.in_engine_detail !== undefined && <InEngineSection d={r.in_engine_detail} />}
       <table class="plumb-fit-parameters">
         <thead>
@@ -157,7 +164,9 @@ function statistics(r: FitResult): [string, string][] {
       withUnit(formatNumber(r.rss, 6), r.weighted ? null : squaredUnit(u)),
     ],
     [
-      "Scatter about the model, σ = √(RSS/df)",
+      r.robust
+        ? "Robust scale of the residuals, s (normalised MAD)"
+        : "Scatter about the model, σ = √(RSS/df)",
       withUnit(formatNumber(r.sigma, 4), r.weighted ? null : u),
     ],
     ["Share of variation explained, R²", formatR2(r.r2) + uncentred + nonlinear],

@@ -26,6 +26,7 @@
  */
 import { type HCType, standardNormal, studentT } from "../../kernel/stats/mod.ts";
 import { type Fit, fitRobust } from "../fit/mod.ts";
+import { CellError } from "../../kernel/errors.ts";
 import type { PredictSpec } from "./spec.ts";
 import { type NewObservation, newObservation } from "./new_observation.ts";
 
@@ -112,6 +113,7 @@ const HC_WORDS: Record<HCType, string> = {
  * ```
  */
 export function predictCovariance(fit: Fit, robust: HCType | undefined): PredictCovariance {
+  if (fit.robust !== undefined) return mEstimateCovariance(fit, robust);
   if (robust === undefined) {
     const own = fit.weighting === "absolute"
       ? "(XᵀWX)⁻¹ with W the known 1/σᵢ² (not rescaled)"
@@ -134,5 +136,28 @@ export function predictCovariance(fit: Fit, robust: HCType | undefined): Predict
     statement: `heteroscedasticity-consistent ${
       HC_WORDS[robust]
     }: (XᵀWX)⁻¹(Σ ωᵢ xᵢxᵢᵀ)(XᵀWX)⁻¹, ${x}${w}`,
+  };
+}
+
+/**
+ * A robust fit's (cells/fit/_robust.ts) own sandwich covariance, read as a
+ * given covariance (a copy, so mean_response.ts takes gᵀ·C·g rather than
+ * s²·‖R⁻ᵀg‖²); HC estimators of least-squares residuals do not apply to it.
+ */
+function mEstimateCovariance(fit: Fit, robust: HCType | undefined): PredictCovariance {
+  const loss = fit.robust!.loss;
+  if (robust !== undefined) {
+    throw new CellError(
+      `Cannot use robust: ${robust} here: the fit (${fit.model.text}) is an M-estimate (loss ${loss}) whose covariance is already Huber's sandwich, and ${robust} is made for least-squares residuals; remove robust`,
+      ["robust"],
+    );
+  }
+  return {
+    covariance: fit.statistics.covariance.slice(),
+    middle: null,
+    statement:
+      `the robust fit's: Huber's sandwich (loss ${loss}; see the fit's robust.covariance_statement)${
+        fit.method === "linear" ? "" : ", X the Jacobian at the estimates"
+      }`,
   };
 }

@@ -105,7 +105,9 @@ export function runPredict(spec: PredictSpec, ctx: RunContext): Predictions {
 }
 
 function meanMethod(fit: Fit, robust: boolean): string {
-  const form = robust
+  const form = fit.robust !== undefined
+    ? "se² = gᵀ·C·g with C the robust fit's sandwich covariance"
+    : robust
     ? "se² = zᵀ·M·z with Rᵀz = g through the fit's own triangular factor, M the robust covariance's middle Σ ωᵢ·qᵢqᵢᵀ (qᵢ row i of Q)"
     : "se² = s²·‖R⁻ᵀg‖² through the fit's own triangular factor";
   return fit.method === "linear"
