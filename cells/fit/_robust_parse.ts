@@ -8,8 +8,9 @@
  *
  * Refused at their place: an unknown loss (with the nearest name), a tuning
  * constant that is not a positive number, `tuning` without a robust loss,
- * and a robust loss with `known_sigma` (the robust scale would replace the
- * standard deviations the fit was told are known).
+ * a robust loss with `known_sigma` (the robust scale would replace the
+ * standard deviations the fit was told are known) or with `censored_by`
+ * (censored responses are fitted by normal maximum likelihood).
  *
  * @module
  */
@@ -62,6 +63,12 @@ export function parseRobust(ctx: ParseContext): RobustSpec {
   if (loss !== null && ctx.options.known_sigma !== undefined && ctx.options.known_sigma !== null) {
     throw new CellError(
       `Cannot fit "${ctx.name}" with loss ${loss} and known_sigma: a robust fit estimates the scale of the residuals itself (their normalised median absolute deviation), which known standard deviations would fix; give relative weights instead (weights: 1/(σ)^2) or drop the loss`,
+      ["loss"],
+    );
+  }
+  if (loss !== null && ctx.options.censored_by !== undefined && ctx.options.censored_by !== null) {
+    throw new CellError(
+      `Cannot fit "${ctx.name}" with loss ${loss} and censored_by: responses below a detection limit are fitted by maximum likelihood under normal errors, which a robust loss replaces; fit one or the other`,
       ["loss"],
     );
   }

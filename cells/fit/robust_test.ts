@@ -332,6 +332,7 @@ Deno.test("fit options: bad robust input gets located errors", () => {
   refused({ loss: "huber", tuning: "wide" }, "tuning", /expected a positive number/);
   refused({ tuning: 2 }, "tuning", /no robust loss to tune/);
   refused({ loss: "huber", known_sigma: "0.1" }, "loss", /known_sigma/);
+  refused({ loss: "huber", censored_by: "below" }, "loss", /censored_by/);
   refused(
     { loss: "bisquare", intervals: ["wald", "profile"] },
     "intervals",

@@ -214,6 +214,22 @@ Deno.test("extrusion: collinear throughput and screw speed, throughput kept, run
   deepEqual(chosen.findings.map((f) => [f.code, f.rows]), [["high-leverage", [29]]]);
   const pi = (cell(json, "setpoint").at as { pi: number[] }[])[0].pi;
   ok(pi[1] < 140, "the set point stays below the 140 bar the prose names");
+  // The robust (Huber) fit beside it: the throughput slope within a fifth of a standard error of
+  // least squares' and no run weighted below one half, as the prose says (common practice, no
+  // source: what "no run drives the fit" means here).
+  const ls = cell(json, "by-throughput") as {
+    parameters: { estimate: number; std_error: number }[];
+  };
+  const rob = cell(json, "by-throughput-robust") as {
+    parameters: { estimate: number }[];
+    robust: { loss: string; down_weighted: { weight: number }[] };
+  };
+  equal(rob.robust.loss, "huber");
+  ok(
+    Math.abs(rob.parameters[1].estimate - ls.parameters[1].estimate) <
+      0.2 * ls.parameters[1].std_error,
+  );
+  ok(rob.robust.down_weighted.length > 0 && rob.robust.down_weighted.every((d) => d.weight > 0.5));
 });
 
 Deno.test("fade/generate_later.ts re-creates the demo's later file byte for byte", async () => {
