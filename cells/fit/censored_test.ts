@@ -12,6 +12,9 @@ import { parseModel } from "../../kernel/expr/mod.ts";
 import { modelFunctions } from "../../kernel/optim/mod.ts";
 import { standardNormal } from "../../kernel/stats/mod.ts";
 import { fitCensored } from "./_censored.ts";
+import { fitResult, makeTable, parseContext, runContext } from "./_fixtures_test.ts";
+import { tableKind } from "../table/mod.ts";
+import type { ParseContext, Table } from "../../kernel/contract/mod.ts";
 
 /** EM for y = a + b·x with responses below Lᵢ where flagged: (a, b, σ). */
 function emLine(x: number[], y: number[], below: number[]): [number, number, number] {
@@ -113,4 +116,53 @@ Deno.test("with nothing below a limit, the censored ML is least squares (σ by n
   assert.ok(Math.abs(fit.estimates[0] - a) < 1e-9 && Math.abs(fit.estimates[1] - b) < 1e-9);
   const rss = y.reduce((t, v, i) => t + (v - a - b * x[i]) ** 2, 0);
   assert.ok(Math.abs(fit.sigma - Math.sqrt(rss / 8)) < 1e-9);
+});
+
+Deno.test("a fit on a table with cells written <L is the censored ML fit (equal to EM); substitute is warned and compared; refusals at their options", () => {
+  // Invented nitrate decline through a limit of 1 (cells below it written "<1").
+  const day = Array.from({ length: 16 }, (_, i) => i + 1);
+  const raw = day.map((d) => 4.6 - 0.45 * d + 0.25 * Math.sin(2.1 * d));
+  const cells = raw.map((v) => (v < 1 ? "<1" : String(Number(v.toFixed(4)))));
+  const table = tableKind.run(
+    tableKind.parse(
+      parseContext("water", {
+        columns: ["day", "nitrate"],
+        rows: day.map((d, i) => [d, cells[i]]),
+        below_limit: ["nitrate"],
+      }) as unknown as ParseContext,
+    ),
+    runContext("water", "x", makeTable({ x: [1] })),
+  ) as Table;
+  const y = cells.map((c) => (c === "<1" ? 1 : Number(c)));
+  const below: number[] = cells.map((c) => (c === "<1" ? 1 : 0));
+  assert.ok(below.reduce((t, v) => t + v, 0) >= 4);
+  const { result, warnings } = fitResult("trend", "nitrate = a + b*day", table);
+  const r = result as unknown as {
+    parameters: { estimate: number }[];
+    sigma: number;
+    r2: number | null;
+    censoring: { rows_below: number; method: string; substitutions: { label: string }[] };
+  };
+  const [a, b, s] = emLine(day, y, below);
+  assert.ok(Math.abs(r.parameters[0].estimate - a) < 1e-6 * Math.abs(a));
+  assert.ok(Math.abs(r.parameters[1].estimate - b) < 1e-6 * Math.abs(b));
+  assert.ok(Math.abs(r.sigma - s) < 1e-6 * s);
+  assert.equal(r.r2, null);
+  assert.equal(r.censoring.method, "maximum likelihood");
+  assert.deepEqual(r.censoring.substitutions.map((x) => x.label), ["0", "L/2", "L/√2", "L"]);
+  assert.match(warnings.join("\n"), /lie below their detection limit/);
+  const half = fitResult("halved", "nitrate = a + b*day", table, { substitute: 0.5 });
+  assert.match(half.warnings.join("\n"), /were given 0.5·L \(substitute\)/);
+  assert.throws(
+    () => fitResult("t", "nitrate = a + b*day", table, { weights: "1/day" }),
+    /below a detection limit and weights/,
+  );
+  assert.throws(
+    () => fitResult("t", "1/nitrate = a + b*day", table),
+    /only under an increasing transform/,
+  );
+  assert.throws(
+    () => fitResult("t", "nitrate = a + b*day", table, { intervals: ["profile"] }),
+    /profile or bootstrap intervals/,
+  );
 });

@@ -12,6 +12,7 @@ import type { Weighting } from "./_weighting.ts";
 import type { DesignFactor } from "./problem.ts";
 import type { InEngineRecord } from "./_in_engine.ts";
 import type { FitIntervals } from "./_intervals.ts";
+import type { CensoringRecord } from "./_censored_fit.ts";
 import type { RobustRecord } from "./_robust.ts";
 
 /** A fitted model with everything downstream cells need to judge and use it. */
@@ -86,6 +87,8 @@ export interface Fit extends CellOutput {
    * (_intervals.ts). Absent for fits computed in a database.
    */
   intervals?: FitIntervals;
+  /** A response with rows below a detection limit: how it was fitted (_censored_fit.ts). */
+  censoring?: CensoringRecord;
   /**
    * A robust fit (`loss:`): the loss, tuning constant, robust scale, final
    * weights and the sandwich covariance (_robust.ts). Then `estimates`,

@@ -20,6 +20,7 @@ import type { InEngineRecord } from "./_in_engine.ts";
 import type { FitIntervals } from "./_intervals.ts";
 import type { LabelledInterval } from "./_profile.ts";
 import type { DerivedResult } from "./_derived.ts";
+import type { CensoringRecord } from "./_censored_fit.ts";
 import type { Weighting } from "./_weighting.ts";
 import { plainArray, rowValues } from "../../kernel/arrays.ts";
 import { type RobustResult, robustResult } from "./_robust_result.ts";
@@ -145,6 +146,8 @@ export interface FitResult {
   rank_deficient: null;
   /** RUN-JSON addition: how the labelled intervals were computed; absent for fits in a database. */
   intervals?: IntervalsRecord;
+  /** RUN-JSON addition: a response with rows below a detection limit (`below_limit`, `censored_by`): how it was fitted. */
+  censoring?: CensoringRecord;
   /** RUN-JSON addition: the fit's derived quantities (`derived:`), each with every method used. */
   derived?: DerivedResult[];
   /**
@@ -255,6 +258,7 @@ export function summarizeFit(fit: Fit, leaveOut?: ReadonlySet<string>): FitResul
     iterations: fit.iterations,
     rank_deficient: null,
     ...(fit.intervals === undefined ? {} : { intervals: intervalsRecord(fit.intervals) }),
+    ...(fit.censoring === undefined ? {} : { censoring: fit.censoring }),
     ...(fit.intervals === undefined || fit.intervals.derived.length === 0
       ? {}
       : { derived: fit.intervals.derived }),

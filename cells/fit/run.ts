@@ -29,6 +29,7 @@ import { solveNonlinear } from "./solve_nonlinear.ts";
 import { fitStatistics } from "./_statistics.ts";
 import { applyWeighting, parseAgainst } from "./_weighting.ts";
 import { fitIntervals } from "./_intervals.ts";
+import { censoredFit, censoringFlags, type CensoringRecord } from "./_censored_fit.ts";
 import { identifierOffset } from "./_offsets.ts";
 import { type ModelUnits, modelUnits } from "../../kernel/units/mod.ts";
 import { robustSolve, robustStatistics } from "./_robust.ts";
@@ -91,10 +92,44 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
     weighting: weighted.weighting,
     countVariance: spec.countVariance !== false,
   }, ctx.warn);
-  const statistics = robust === null
+  const flags = censoringFlags(problem, table, model.responseColumn, spec.censoredBy);
+  if (flags === null && spec.substitute !== undefined) {
+    ctx.warn(
+      `Fit "${ctx.name}": substitute is set but no row of ${model.responseColumn} lies below a detection limit, so nothing was substituted`,
+    );
+  }
+  if (flags !== null) checkCensoredFit(spec, ctx, model, weighted.weighting, robust !== null);
+  const censored = flags === null
+    ? null
+    : censoredFit(problem, leastSquares, flags.below, squares, {
+      substitute: spec.substitute ?? null,
+      from: flags.from,
+      countVariance: spec.countVariance !== false,
+      solve: (pr) => solveOrExplain(pr, table, linear),
+      statistics: (pr, sol) =>
+        fitStatistics(pr, sol, {
+          confidence: ctx.settings.confidence,
+          weighting: weighted.weighting,
+          countVariance: spec.countVariance !== false,
+        }, () => {}),
+    });
+  if (censored !== null) sayCensoring(ctx, model.parameters, censored.record, problem.n);
+  const statistics = censored !== null
+    ? censored.statistics
+    : robust === null
     ? squares
     : robustStatistics(squares, robust.record, solution.estimates);
-  const intervals = robust === null
+  const fitted = censored?.solution ?? solution;
+  const intervals = censored !== null
+    ? fitIntervals(
+      { ...spec, intervals: ["wald"], bootstrap: undefined },
+      problem,
+      fitted,
+      statistics,
+      linear,
+      waldOnly(ctx),
+    )
+    : robust === null
     ? fitIntervals(spec, problem, solution, statistics, linear, ctx)
     : fitIntervals(spec, problem, solution, statistics, linear, waldOnly(ctx));
   if (intervals.bootstrap !== undefined && intervals.bootstrap.failed > 0) {
@@ -107,7 +142,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
   }
   return {
     type: "Fit",
-    method: solution.method,
+    method: fitted.method,
     on: spec.on,
     model,
     responseText: model.text.slice(model.response.start, model.response.end),
@@ -117,25 +152,26 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
     ...(weightsText === undefined ? {} : { weightsText }),
     parameters: model.parameters,
     units,
-    estimates: solution.estimates,
-    unscaledCovariance: solution.unscaledCovariance,
+    estimates: fitted.estimates,
+    unscaledCovariance: fitted.unscaledCovariance,
     statistics,
     columns: problem.columns,
     y: problem.y,
-    fitted: solution.fitted,
-    residuals: solution.residuals,
+    fitted: fitted.fitted,
+    residuals: fitted.residuals,
     rows: problem.rows,
     ...(problem.rowsMissing ? { rowsMissing: problem.rowsMissing } : {}),
-    design: solution.design,
-    ...(solution.designQR ? { designQR: solution.designQR } : {}),
-    offset: solution.offset,
-    hasIntercept: solution.hasIntercept,
-    conditionNumber: solution.conditionNumber,
-    converged: solution.converged,
-    iterations: solution.iterations,
-    ...(solution.atBound ? { atBound: solution.atBound } : {}),
+    design: fitted.design,
+    ...(fitted.designQR ? { designQR: fitted.designQR } : {}),
+    offset: fitted.offset,
+    hasIntercept: fitted.hasIntercept,
+    conditionNumber: fitted.conditionNumber,
+    converged: fitted.converged,
+    iterations: fitted.iterations,
+    ...(fitted.atBound ? { atBound: fitted.atBound } : {}),
     intervals,
     ...(robust === null ? {} : { robust: robust.record }),
+    ...(censored === null ? {} : { censoring: censored.record }),
     ...(intervals.bootstrap === undefined ? {} : {
       bootstrap: {
         replicates: intervals.bootstrap.replicates,
@@ -221,6 +257,73 @@ async function runFitInEngine(spec: FitSpec, ctx: RunContext, table: InEngineTab
       n.toLocaleString("en-US")
     } rows and residuals stay there`,
   };
+}
+
+/** Refusals for a censored response: weights, known σ, a robust loss, a decreasing transform, non-Wald intervals. */
+function checkCensoredFit(
+  spec: FitSpec,
+  ctx: RunContext,
+  model: FitProblem["model"],
+  weighting: string,
+  robust: boolean,
+): void {
+  const refuse = (what: string, path: (string | number)[]) => {
+    throw new CellError(
+      `Cannot fit "${ctx.name}" with rows below a detection limit ${what}`,
+      path,
+    );
+  };
+  if (weighting !== "none") {
+    refuse(
+      "and weights: the censored-normal likelihood here has one σ for every row",
+      [spec.weights !== undefined ? "weights" : "known_sigma"],
+    );
+  }
+  if (robust) refuse("and a robust loss: choose one of the two", ["loss"]);
+  const response = model.text.slice(model.response.start, model.response.end).replace(/\s+/g, "");
+  const column = model.responseColumn;
+  if (![column, `log(${column})`, `log10(${column})`, `sqrt(${column})`].includes(response)) {
+    refuse(
+      `through the response ${response}: a limit stays a limit only under an increasing transform (the column itself, log, log10 or sqrt)`,
+      ["model"],
+    );
+  }
+  if ((spec.intervals ?? []).some((m) => m !== "wald") || spec.bootstrap !== undefined) {
+    refuse(
+      "and profile or bootstrap intervals: they refit by least squares; its intervals are Wald's, from the observed information",
+      [spec.bootstrap !== undefined ? "bootstrap" : "intervals"],
+    );
+  }
+}
+
+/** The censored fit said on the cell: how, and (with `substitute`) what ML gives instead. */
+function sayCensoring(
+  ctx: RunContext,
+  parameters: readonly string[],
+  r: CensoringRecord,
+  n: number,
+): void {
+  if (r.method === "maximum likelihood") {
+    ctx.warn(
+      `Fit "${ctx.name}": ${r.rows_below} of ${n} rows lie below their detection limit (${r.flags_from}); fitted by maximum likelihood with those rows entering through the normal distribution function, so R² and the F test do not apply${
+        r.converged ? "" : "; the likelihood's maximum was not reached within the iteration limit"
+      }`,
+    );
+    return;
+  }
+  const sub = r.substitutions.find((x) => Math.abs(x.fraction - r.substitute!) < 1e-12);
+  const ml = parameters.map((name, j) => `${name} ${Number(r.ml_estimates[j].toPrecision(4))}`)
+    .join(", ");
+  const worst = sub === undefined ? null : Math.max(
+    ...sub.shift.map((v) => (v === null ? 0 : Math.abs(v))),
+  );
+  ctx.warn(
+    `Fit "${ctx.name}": the ${r.rows_below} rows below their detection limit were given ${r.substitute}·L (substitute) and fitted as if measured: such substitution biases estimates and understates their uncertainty; maximum likelihood (leave substitute out) gives ${ml}${
+      worst === null
+        ? ""
+        : `, up to ${Number(worst.toPrecision(2))} standard errors from the substituted fit`
+    }`,
+  );
 }
 
 /**

@@ -38,9 +38,10 @@ import {
   refuseRobustIntervals,
   type RobustSpec,
 } from "./_robust_parse.ts";
+import { type CensoringSpec, parseCensoring } from "./_parse_censoring.ts";
 
 /** A `fit` cell's normalised options (plain JSON: hashed into the cache key). */
-export interface FitSpec extends IntervalsSpec, RobustSpec {
+export interface FitSpec extends IntervalsSpec, RobustSpec, CensoringSpec {
   /** Name of the table cell to fit. */
   on: string;
   /** The model equation as written. */
@@ -102,6 +103,17 @@ export const FIT_OPTIONS: OptionDecls = {
     doc:
       "the robust loss's tuning constant in units of the scale (default 1.345, 1.287, 4.685: 95% efficiency at the normal)",
   },
+  censored_by: {
+    type: "text",
+    doc:
+      "a 0/1 column: 1 where the response holds a detection limit it lies below (maximum likelihood, censored normal)",
+    names: "columns",
+  },
+  substitute: {
+    type: "number",
+    doc:
+      "least squares with each detection limit L replaced by this fraction of L, instead of maximum likelihood (warned)",
+  },
 };
 
 /**
@@ -134,6 +146,7 @@ export function parseFitSpec(ctx: ParseContext): FitSpec {
     ...parseLimits(ctx),
     ...parseIntervals(ctx),
     ...parseRobust(ctx),
+    ...parseCensoring(ctx),
   };
   refuseRobustIntervals(ctx, spec);
   return spec;
