@@ -26,6 +26,7 @@ import {
 import { InEngineSection } from "./_in_engine_view.tsx";
 import { IntervalsSection } from "./_intervals_view.tsx";
 import { RobustSection } from "./_robust_view.tsx";
+import { CensoredSection } from "./_censored_view.tsx";
 
 /**
  * Renders a fit result.
@@ -68,6 +69,13 @@ export function FitView({ name, result: r }: ViewProps<FitResult>): VNode {
       <p class="plumb-fit-weighting">Weighting: {r.weighting_statement}</p>
       {r.robust !== undefined && <RobustSection b={r.robust} unit={r.sigma_unit} />}
       {r.in_engine_detail !== undefined && <InEngineSection d={r.in_engine_detail} />}
+      {r.censoring !== undefined && (
+        <CensoredSection
+          c={r.censoring}
+          parameters={r.parameters.map((p) => p.name)}
+          n={r.n}
+        />
+      )}
       <table class="plumb-fit-parameters">
         <thead>
           <tr>

@@ -51,7 +51,17 @@ function doc(): string {
       "fit mm",
       "on: puro\nmodel: rate = Vm*conc/(K + conc)\nstart: { Vm: 200, K: 0.1 }\nbootstrap: { resamples: 1000 }\nderived:\n  efficiency_per_unit_concentration: Vm/K",
     ) +
-    fence("fit open", "on: flat\nmodel: y = a*(1 - exp(-b*x))\nstart: { a: 50, b: 0.05 }");
+    fence("fit open", "on: flat\nmodel: y = a*(1 - exp(-b*x))\nstart: { a: 50, b: 0.05 }") +
+    // Invented: a decline through a detection limit of 1 (cells below it written "<1").
+    fence(
+      "table water",
+      "columns: [day, nitrate]\nbelow_limit: [nitrate]\nrows:\n" +
+        Array.from({ length: 14 }, (_, i) => {
+          const v = 4.6 - 0.45 * (i + 1) + 0.25 * Math.sin(2.1 * (i + 1));
+          return `  - [${i + 1}, "${v < 1 ? "<1" : v.toFixed(3)}"]`;
+        }).join("\n"),
+    ) +
+    fence("fit censored", "on: water\nmodel: nitrate = a + b*day");
 }
 
 const WIDTHS = [{ width: 390, height: 844 }, { width: 960, height: 800 }, {
@@ -75,7 +85,7 @@ function overflows(page: Page): Promise<string[]> {
     if (document.documentElement.scrollWidth > vw) {
       bad.push(`page scrolls sideways: ${document.documentElement.scrollWidth} > ${vw}`);
     }
-    for (const name of ["mm", "open"]) {
+    for (const name of ["mm", "open", "censored"]) {
       const block = document.querySelector(`[data-block="${name}"]`)!;
       if (block.getBoundingClientRect().right > vw + 1) bad.push(`${name}: past the screen`);
       const result = block.querySelector(".pl-result");
@@ -127,6 +137,13 @@ Deno.test({
       );
       match(open, /… open/);
       match(open, /the profile does not close above/);
+      const censored = await page.$eval(
+        '[data-block="censored"] .plumb-fit-censored',
+        (e) => e.textContent ?? "",
+      );
+      match(censored, /rows lie below their detection limit/);
+      match(censored, /maximum likelihood, censored normal/);
+      match(censored, /L\/√2/);
       await page.$$eval(".plumb-fit-traces", (ds) => ds.forEach((d) => d.setAttribute("open", "")));
       for (const vp of WIDTHS) {
         await page.setViewport(vp);

@@ -95,3 +95,22 @@ Deno.test("the fit view lists every interval by method, a derived quantity's not
   doesNotMatch(line, /by method/);
   ok(!line.includes("Profile traces"));
 });
+
+Deno.test("the fit view of a response below a detection limit: rows, method and the substitutions beside ML", async () => {
+  // Invented: a decline through a detection limit of 1 (cells below it written "<1").
+  const rows = Array.from({ length: 14 }, (_, i) => {
+    const v = 4.6 - 0.45 * (i + 1) + 0.25 * Math.sin(2.1 * (i + 1));
+    return `  - [${i + 1}, "${v < 1 ? "<1" : v.toFixed(3)}"]`;
+  }).join("\n");
+  const doc =
+    fence("table water", `columns: [day, nitrate]\nbelow_limit: [nitrate]\nrows:\n${rows}`) +
+    fence("fit ml", "on: water\nmodel: nitrate = a + b*day") +
+    fence("fit half", "on: water\nmodel: nitrate = a + b*day\nsubstitute: 0.5");
+  const results = await resultsOf(doc);
+  const ml = renderToString(h(FitView, { name: "ml", result: results.get("ml")! }));
+  match(ml, /rows lie below their detection limit \(cells of nitrate written &lt;L\)/);
+  match(ml, /maximum likelihood, censored normal/);
+  for (const label of ["L/2", "L/√2"]) match(ml, new RegExp(`<th scope="row">${label}</th>`));
+  const half = renderToString(h(FitView, { name: "half", result: results.get("half")! }));
+  match(half, /given 0.5·L and fitted as if measured \(substitution\)/);
+});
