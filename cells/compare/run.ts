@@ -149,6 +149,14 @@ function fitInput(ctx: RunContext, name: string, j: number): Fit {
       ["fits", j],
     );
   }
+  const censoring = (out as Fit).censoring;
+  if (censoring !== undefined && censoring.method === "maximum likelihood") {
+    // A censored-normal likelihood is not the Gaussian one the comparison's criteria use.
+    throw new CellError(
+      `Cannot compare "${ctx.name}": fit "${name}" has ${censoring.rows_below} rows below a detection limit, fitted by censored maximum likelihood, and the comparison's F tests and leave-one-out RMSE belong to least-squares fits; read each such fit's own log-likelihood and AIC (same table, same limits) instead`,
+      ["fits", j],
+    );
+  }
   return out as Fit;
 }
 

@@ -12,7 +12,10 @@ import { parseModel } from "../../kernel/expr/mod.ts";
 import { modelFunctions } from "../../kernel/optim/mod.ts";
 import { standardNormal } from "../../kernel/stats/mod.ts";
 import { fitCensored } from "./_censored.ts";
-import { fitResult, makeTable, parseContext, runContext } from "./_fixtures_test.ts";
+import { fitResult, makeTable, parseContext, runContext, SETTINGS } from "./_fixtures_test.ts";
+import { fitKind } from "./mod.ts";
+import type { Fit } from "./fit.ts";
+import { compareKind } from "../compare/mod.ts";
 import { tableKind } from "../table/mod.ts";
 import type { ParseContext, Table } from "../../kernel/contract/mod.ts";
 
@@ -164,5 +167,38 @@ Deno.test("a fit on a table with cells written <L is the censored ML fit (equal 
   assert.throws(
     () => fitResult("t", "nitrate = a + b*day", table, { intervals: ["profile"] }),
     /profile or bootstrap intervals/,
+  );
+});
+
+Deno.test("compare refuses a censored fit at its place, saying what to read instead", () => {
+  const table = tableKind.run(
+    tableKind.parse(
+      parseContext("water", {
+        columns: ["day", "nitrate"],
+        rows: [[1, "3.1"], [2, "2.6"], [3, "2.2"], [4, "1.5"], [5, "<1"], [6, "<1"], [7, "1.2"]],
+        below_limit: ["nitrate"],
+      }) as unknown as ParseContext,
+    ),
+    runContext("water", "x", makeTable({ x: [1] })),
+  ) as Table;
+  const spec = fitKind.parse(parseContext("ml", { on: "data", model: "nitrate = a + b*day" }));
+  const fit = fitKind.run(spec, runContext("ml", "data", table)) as Fit;
+  const cspec = compareKind.parse({
+    name: "cmp",
+    kind: "compare",
+    options: { fits: ["ml", "ml2"] },
+    body: "",
+    settings: SETTINGS,
+    warn() {},
+  });
+  assert.throws(
+    () =>
+      compareKind.run(cspec, {
+        ...runContext("cmp", "x", table),
+        inputs: { ml: fit, ml2: fit },
+      }),
+    (e: Error & { path?: unknown[] }) =>
+      /below a detection limit, fitted by censored maximum likelihood/.test(e.message) &&
+      JSON.stringify(e.path) === '["fits",0]',
   );
 });
