@@ -24,6 +24,7 @@ import type { Table } from "../../kernel/contract/mod.ts";
 import type { FitProblem, FitSolution } from "./problem.ts";
 import type { FitStatistics } from "./_statistics.ts";
 import { fitCensored } from "./_censored.ts";
+import { identifierOffset } from "./_offsets.ts";
 
 /** What RUN-JSON says of a censored fit (`censoring`). */
 export interface CensoringRecord {
@@ -60,6 +61,31 @@ const FRACTIONS: [number, string][] = [
   [Math.SQRT1_2, "L/√2"],
   [1, "L"],
 ];
+
+/**
+ * Refuses a predictor with values below a detection limit: only a censored
+ * response is modelled.
+ *
+ * @param problem The fit's problem (its rows are source row numbers).
+ * @param table The table.
+ * @throws {CellError} At the predictor's place in the model, naming a flagged row.
+ */
+export function refuseCensoredPredictors(problem: FitProblem, table: Table): void {
+  const used = new Set(problem.rows);
+  for (const name of problem.model.columns) {
+    const c = table.columns.find((c) => c.name === name);
+    if (c?.type !== "number" || c.below === undefined) continue;
+    const at = c.below.findIndex((v, i) => v === 1 && used.has(table.rows[i]));
+    if (at < 0) continue;
+    throw new CellError(
+      `Cannot fit "${problem.name}": predictor "${name}" has values below a detection limit (row ${
+        table.rows[at]
+      } is written <L); only a response below a limit is modelled (censored), not a predictor: leave those rows out, or model ${name} as the response`,
+      ["model"],
+      identifierOffset(problem.model.rhs, name),
+    );
+  }
+}
 
 /**
  * The censoring flags of the rows a fit uses, or null when none is below a limit.

@@ -202,3 +202,22 @@ Deno.test("compare refuses a censored fit at its place, saying what to read inst
       JSON.stringify(e.path) === '["fits",0]',
   );
 });
+
+Deno.test("a predictor with values below a detection limit is refused at its place in the model", () => {
+  const table = tableKind.run(
+    tableKind.parse(
+      parseContext("water", {
+        columns: ["nitrate", "flow"],
+        rows: [["3.1", 10], ["2.6", 12], ["<1", 15], ["1.5", 18], ["1.2", 20]],
+        below_limit: ["nitrate"],
+      }) as unknown as ParseContext,
+    ),
+    runContext("water", "x", makeTable({ x: [1] })),
+  ) as Table;
+  assert.throws(
+    () => fitResult("f", "flow = a + b*nitrate", table),
+    (e: Error & { path?: unknown[]; offset?: number }) =>
+      /predictor "nitrate" has values below a detection limit \(row 3/.test(e.message) &&
+      JSON.stringify(e.path) === '["model"]' && e.offset === "flow = a + b*".length,
+  );
+});

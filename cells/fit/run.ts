@@ -29,7 +29,12 @@ import { solveNonlinear } from "./solve_nonlinear.ts";
 import { fitStatistics } from "./_statistics.ts";
 import { applyWeighting, parseAgainst } from "./_weighting.ts";
 import { fitIntervals } from "./_intervals.ts";
-import { censoredFit, censoringFlags, type CensoringRecord } from "./_censored_fit.ts";
+import {
+  censoredFit,
+  censoringFlags,
+  type CensoringRecord,
+  refuseCensoredPredictors,
+} from "./_censored_fit.ts";
 import { identifierOffset } from "./_offsets.ts";
 import { type ModelUnits, modelUnits } from "../../kernel/units/mod.ts";
 import { robustSolve, robustStatistics } from "./_robust.ts";
@@ -92,6 +97,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
     weighting: weighted.weighting,
     countVariance: spec.countVariance !== false,
   }, ctx.warn);
+  refuseCensoredPredictors(problem, table);
   const flags = censoringFlags(problem, table, model.responseColumn, spec.censoredBy);
   if (flags === null && spec.substitute !== undefined) {
     ctx.warn(
