@@ -25,7 +25,8 @@ export type OutputType =
   | "Predictions"
   | "Chart"
   | "Value"
-  | "Ranked";
+  | "Ranked"
+  | "JointFit";
 
 /** Base of every cell output. */
 export interface CellOutput {
