@@ -13,6 +13,7 @@ import { chartKind } from "./chart/mod.ts";
 import { checkKind } from "./check/mod.ts";
 import { searchKind } from "./search/mod.ts";
 import { calcKind } from "./calc/mod.ts";
+import { jointKind } from "./joint/mod.ts";
 
 /** Every kind Plumb knows, by name. */
 export const registry: Registry = makeRegistry([
@@ -24,4 +25,5 @@ export const registry: Registry = makeRegistry([
   chartKind,
   searchKind,
   calcKind,
+  jointKind,
 ]);

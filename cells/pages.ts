@@ -20,13 +20,24 @@ import { predictPage } from "./predict/view.tsx";
 import { chartPage } from "./chart/view.tsx";
 import { searchPage } from "./search/view.tsx";
 import { calcPage } from "./calc/view.tsx";
+import { jointPage } from "./joint/view.tsx";
 
 // deno-lint-ignore no-explicit-any
 type AnyPage = PageFace<any, VNode>;
 
 /** Every page face, by kind name. */
 export const pages: ReadonlyMap<string, AnyPage> = new Map(
-  [tablePage, fitPage, comparePage, checkPage, predictPage, chartPage, searchPage, calcPage]
+  [
+    tablePage,
+    fitPage,
+    comparePage,
+    checkPage,
+    predictPage,
+    chartPage,
+    searchPage,
+    calcPage,
+    jointPage,
+  ]
     .map((p) => [p.kind, p]),
 );
 

@@ -11,7 +11,7 @@
  */
 import { CellError } from "../../kernel/errors.ts";
 import { didYouMean } from "../../kernel/suggest.ts";
-import type { Model } from "../../kernel/expr/mod.ts";
+import { isLinearIn, type Model } from "../../kernel/expr/mod.ts";
 import { lmder, type ModelFunctions, modelFunctions, multiStart } from "../../kernel/optim/mod.ts";
 import type { Group } from "./_groups.ts";
 import type { Layout } from "./_stacked.ts";
@@ -62,6 +62,7 @@ export function startVector(
   seed: number,
   warn: (m: string) => void,
 ): Float64Array {
+  const linear = isLinearIn(model.rhs, model.parameters);
   const params = model.parameters, labels = groups.map((g) => g.label);
   const shared = new Set(spec.shared);
   for (const [k, v] of Object.entries(spec.start)) {
@@ -112,6 +113,8 @@ export function startVector(
   x0.forEach((v, i) => {
     if (Number.isNaN(v)) x0[i] = pooled[layout.parameter[i]];
   });
+  // A model linear in its parameters needs no start: the solution is unique whatever it is.
+  if (linear) return x0;
   warn(
     `Start values of "${name}" for ${
       quoted(missing.length > 6 ? [...missing.slice(0, 5), "…"] : missing)

@@ -97,12 +97,22 @@ function jointDetails(r: JointResult): string[] {
   return lines;
 }
 
-/** A new joint fit: the last two tables, a straight line with a shared slope. */
+/**
+ * A new joint fit: the latest two tables that share two number columns, a
+ * straight line through them with a shared slope.
+ */
 function jointTemplate(ctx: TemplateContext): string {
-  const tables = ctx.cells.filter((c) => c.output === "Table");
-  const last = tables.slice(-2);
-  const cols = last.length > 0 ? numberColumns(last[last.length - 1]) : [];
-  const [x, y] = cols.length >= 2 ? cols.slice(-2) : ["x", "y"];
-  const names = last.length === 2 ? last.map((t) => t.name) : ["table1", "table2"];
-  return `tables: [${names.join(", ")}]\nmodel: ${y} = a + b*${x}\nshared: [b]\n`;
+  const tables = ctx.cells.filter((c) => c.output === "Table").reverse();
+  for (let i = 0; i < tables.length; i++) {
+    for (let j = i + 1; j < tables.length; j++) {
+      const other = new Set(numberColumns(tables[j]));
+      const common = numberColumns(tables[i]).filter((c) => other.has(c));
+      if (common.length < 2) continue;
+      const [x, y] = common.slice(-2);
+      return `tables: [${tables[j].name}, ${
+        tables[i].name
+      }]\nmodel: ${y} = a + b*${x}\nshared: [b]\n`;
+    }
+  }
+  return "tables: [table1, table2]\nmodel: y = a + b*x\nshared: [b]\n";
 }

@@ -24,7 +24,7 @@ Deno.test("views render the demo's table and fit results to HTML", async () => {
       const view = pages.get(cell.kind)!.view;
       const html = renderToString(h(view, { name: cell.name, result: cell.result }));
       ok(html.length > 100, `${cell.name} renders something`);
-      if (cell.kind === "table") {
+      if (cell.kind === "table" && cell.name === "cycles") {
         match(html, /capacity/);
         match(html, /thermocouple came loose/);
       }
