@@ -21,6 +21,7 @@ import type { Fit } from "../fit/mod.ts";
 import { type CheckSpec, parseCheckSpec } from "./spec.ts";
 import { type CheckResult, type Diagnostics, ROW_FIELDS, type RowField } from "./result.ts";
 import { diagnose } from "./diagnose.ts";
+import { diagnoseInEngine } from "./in_engine.ts";
 import { CHECK_OPTIONS } from "./spec.ts";
 import { checkHistory } from "./history.ts";
 import { type CheckChartInput, checkDensity } from "./density.ts";
@@ -29,18 +30,25 @@ import { cellsOf } from "../shared/template_cells.ts";
 export type { CheckSpec } from "./spec.ts";
 export type { CheckResult, Diagnostics, Finding } from "./result.ts";
 
+type InEngineFit = Fit & { inEngine: NonNullable<Fit["inEngine"]> };
+
 /** The `check` kind record. */
 export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
   kind: "check",
   body: "yaml",
   output: "Diagnostics",
   description: "judges a fit: leverage, influence, residual tests and findings",
+  // A fit computed in its database is judged from the sums it brought back (in_engine.ts).
+  readsKept: true,
   parse: parseCheckSpec,
   inputs: (spec) => [{ name: spec.fit, accepts: ["Fit"], path: ["fit"] }],
   run: (spec, ctx) => {
     const fit = ctx.inputs[spec.fit] as Fit | undefined;
     if (!fit || fit.type !== "Fit") {
       throw new CellError(`Cannot check "${spec.fit}": it is not a fit cell`, ["fit"]);
+    }
+    if (fit.inEngine !== undefined) {
+      return { type: "Diagnostics", ...diagnoseInEngine(fit as InEngineFit, spec) };
     }
     if (fit.residuals.length <= fit.design.length) {
       throw new CellError(

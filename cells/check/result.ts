@@ -118,6 +118,46 @@ export interface CheckResult {
     covariance: (number | null)[][];
   } | null;
   findings: Finding[];
+  /**
+   * Addition: present when the fit was computed in its database (its rows stay there): the
+   * per-row fields above are then empty, and this says what was judged from sums and what not.
+   */
+  in_engine?: InEngineCheck;
+}
+
+/** What the check of a fit computed in its database judged, from the engine's sums. */
+export interface InEngineCheck {
+  engine: "duckdb" | "postgres";
+  /** One sentence: the rows stay in the database, so no panel of rows can be drawn. */
+  note: string;
+  /** What was judged from sums, in words. */
+  judged: string[];
+  /** What was not, and why, in words. */
+  not_judged: string[];
+  /** The column Durbin–Watson followed, or null (then it was not computed). */
+  order_by: string | null;
+  /** κ of the centred, unit-column design (the fit's `in_engine_detail.kappa`). */
+  kappa: number;
+  leverage: { max: number; over_2p: number; over_3p: number; limit_2p: number; limit_3p: number };
+  influence: {
+    max_abs_studentized: number | null;
+    studentized_over_3: number;
+    max_cooks_distance: number | null;
+    cooks_cut: number;
+    cooks_over_cut: number;
+    leverage_one: number;
+    press: number | null;
+    loo_rmse: number | null;
+  };
+  /** Central moments (divide by n) of the residuals (√w·e when weighted), their unit's powers. */
+  residual_moments: {
+    mean: number;
+    m2: number;
+    m3: number;
+    m4: number;
+    skewness: number | null;
+    kurtosis: number | null;
+  };
 }
 
 /** The per-row fields of the RUN-JSON `check` object (`CellKind.rows`), in their order there. */

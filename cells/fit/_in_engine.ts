@@ -13,6 +13,8 @@
  *  solve   R₁₁γ = r (back substitution), (X̃ᵀWX̃)⁻¹ = R₁₁⁻¹R₁₁⁻ᵀ, back to the model's θ
  *  pass 3  with γ as literals: Σw·e², Σe, Σw·e, Breusch–Pagan's sums, hᵢ = wᵢ‖R₁₁⁻ᵀx̃ᵢ‖²
  *  pass 4  Durbin–Watson's Σ(e_t − e_{t−1})² in an order column's order
+ *  pass 5  residual moments, studentized residuals, Cook's distance, PRESS  ┐ for a check
+ *  pass 6  Durbin–Watson's null moments (with an order column)             ┘ (_in_engine_moments.ts)
  * ```
  *
  * Both routes end in the same triangular factor R of the augmented,
@@ -55,6 +57,7 @@ import { likelihood } from "./_likelihood.ts";
 import { type Centring, pass1, pass2, pass3, pass4, rfactorSql } from "./_in_engine_sql.ts";
 import { augmentedCholesky, breuschPaganOfSums } from "./_in_engine_algebra.ts";
 import { type Design, design, Stop } from "./_in_engine_design.ts";
+import { type InEngineJudged, judgeInEngine } from "./_in_engine_moments.ts";
 import {
   at,
   centringOf,
@@ -141,20 +144,30 @@ export interface InEngineFit {
   breuschPagan: BreuschPagan | null;
   /** Leverage hᵢ summarised; `sum` equals p (a check). */
   leverage: { max: number; over2p: number; over3p: number; sum: number };
-  computed: Record<
-    | "counts"
-    | "sums"
-    | "cross_products"
-    | "solve"
-    | "refinement"
-    | "rss"
-    | "residual_sums"
-    | "leverage"
-    | "breusch_pagan"
-    | "durbin_watson"
-    | "criteria",
-    ComputedWhere | "not computed"
-  >;
+  computed:
+    & Record<
+      | "counts"
+      | "sums"
+      | "cross_products"
+      | "solve"
+      | "refinement"
+      | "rss"
+      | "residual_sums"
+      | "leverage"
+      | "breusch_pagan"
+      | "durbin_watson"
+      | "criteria",
+      ComputedWhere | "not computed"
+    >
+    & // What a check reads (_in_engine_moments.ts): always set by fitInEngine.
+    Partial<
+      Record<
+        "residual_moments" | "influence" | "collinearity" | "durbin_watson_null",
+        ComputedWhere | "not computed"
+      >
+    >;
+  /** What a check reads: residual moments, influence, VIF, σmax/σmin, Durbin–Watson's null law. */
+  judged: InEngineJudged;
   /** Each statement's name, milliseconds (the engine's) and text. */
   passes: { name: string; ms: number; sql: string }[];
 }
@@ -258,7 +271,23 @@ async function run(
     );
     dwNumerator = at(four, "dw");
   }
+  say(0.9, "residual moments and influence in the database");
+  const rssZ = at(three, "rss");
+  const judged = await judgeInEngine({
+    parameters: req.model.parameters,
+    d,
+    centring,
+    gram,
+    r,
+    solved,
+    n: counts.n,
+    rssZ,
+    sumZ: at(three, "se"),
+    durbinWatson: dwNumerator === null || !(rssZ > 0) ? null : dwNumerator / rssZ,
+    ask: (name, sql) => ask(engine, db, passes, name, sql),
+  });
   return finish(req, d, {
+    judged,
     counts,
     centring,
     gram,
@@ -303,6 +332,7 @@ interface Gathered {
   three: Map<string, number>;
   dwNumerator: number | null;
   passes: InEngineFit["passes"];
+  judged: InEngineJudged;
 }
 
 function finish(req: InEngineRequest, d: Design, g: Gathered): InEngineFit {
@@ -364,8 +394,13 @@ function finish(req: InEngineRequest, d: Design, g: Gathered): InEngineFit {
       breusch_pagan: "engine",
       durbin_watson: g.dwNumerator === null ? "not computed" : "engine",
       criteria: "plumb",
+      residual_moments: "engine",
+      influence: "engine",
+      collinearity: "plumb",
+      durbin_watson_null: g.judged.durbin_watson_test === null ? "not computed" : "engine",
     },
     passes: g.passes,
+    judged: g.judged,
   };
 }
 
@@ -483,6 +518,19 @@ export interface InEngineRecord {
   leverage: InEngineFit["leverage"];
   durbin_watson: number | null;
   breusch_pagan: BreuschPagan | null;
+  // What a check reads (_in_engine_moments.ts); set by solveInEngine, optional for records
+  // built elsewhere (a page copy, a test's hand-made record).
+  /** Central moments of √w·e (divide by n) with skewness, kurtosis and Jarque–Bera (pass 5). */
+  residual_moments?: InEngineJudged["residual_moments"];
+  /** Studentized residuals, Cook's distance and PRESS summarised over the rows (pass 5). */
+  influence?: InEngineJudged["influence"];
+  /** VIF by parameter (none for the constant term; null: infinite), from the fit's sums. */
+  vif?: InEngineJudged["vif"];
+  vif_form?: InEngineJudged["vif_form"];
+  /** σmax/σmin of √W·X unscaled, as a check gives it (`kappa` is of the centred, unit-column design). */
+  condition_number?: number | null;
+  /** Durbin–Watson's null mean, variance and p-values by the beta law (pass 6), or null. */
+  durbin_watson_test?: InEngineJudged["durbin_watson_test"];
   /** Milliseconds of each statement, in order. */
   passes: { name: string; ms: number }[];
 }
@@ -567,6 +615,12 @@ export async function solveInEngine(
     leverage: f.leverage,
     durbin_watson: f.durbinWatson,
     breusch_pagan: f.breuschPagan,
+    residual_moments: f.judged.residual_moments,
+    influence: f.judged.influence,
+    vif: f.judged.vif,
+    vif_form: f.judged.vif_form,
+    condition_number: f.judged.condition_number,
+    durbin_watson_test: f.judged.durbin_watson_test,
     passes: f.passes.map(({ name, ms }) => ({ name, ms })),
   };
   return { solution, n: f.n, record, statistics: f.statistics };

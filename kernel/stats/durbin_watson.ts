@@ -165,8 +165,15 @@ export function durbinWatsonTest(
   };
 }
 
-/** P(d ≤ d₀) for d/4 beta-distributed with d's mean and variance (Durbin & Watson 1971, §4). */
-function betaCdf(d0: number, mean: number, variance: number): number {
+/**
+ * P(d ≤ d₀) for d/4 beta-distributed with d's mean and variance (Durbin & Watson 1971, §4).
+ *
+ * @param d0 The observed d.
+ * @param mean E d under the null.
+ * @param variance Var d under the null.
+ * @returns The lower tail.
+ */
+export function betaCdf(d0: number, mean: number, variance: number): number {
   const mu = mean / 4, v = variance / 16;
   const common = (mu * (1 - mu)) / v - 1;
   if (!(common > 0)) return d0 < mean ? 0 : 1;

@@ -47,6 +47,7 @@ export {
 } from "./variance_inflation.ts";
 export { conditionNumber, conditionNumberOfFactor } from "./condition_number.ts";
 export {
+  betaCdf as durbinWatsonBetaCdf,
   durbinWatson,
   type DurbinWatsonTest,
   durbinWatsonTest,
