@@ -33,6 +33,7 @@ interface TestRow {
 function testRows(r: CheckResult): TestRow[] {
   const a = `p < ${r.significance}`;
   const bp = r.breusch_pagan, lof = r.lack_of_fit;
+  if (r.in_engine !== undefined) return inEngineTests(r, a);
   return [
     {
       name: "Shapiro–Wilk W",
@@ -83,6 +84,111 @@ function testRows(r: CheckResult): TestRow[] {
       rule: lof ? a : "no replicate rows",
     },
   ];
+}
+
+/**
+ * The tests of a fit computed in its database: those sums can give (Jarque–Bera is then the
+ * normality test that makes a finding); the others are listed as not judged.
+ */
+function inEngineTests(r: CheckResult, a: string): TestRow[] {
+  const bp = r.breusch_pagan, dw = r.durbin_watson_test;
+  return [
+    {
+      name: `Breusch–Pagan (${bp?.variant ?? "koenker"})`,
+      statistic: fmt(bp?.statistic ?? null),
+      p: bp?.p_value ?? null,
+      rule: a,
+    },
+    {
+      name: r.in_engine?.order_by
+        ? `Durbin–Watson (order of ${r.in_engine.order_by})`
+        : "Durbin–Watson",
+      statistic: r.durbin_watson === null ? "not computed" : fmt(r.durbin_watson),
+      p: dw ? Math.min(dw.p_value, dw.p_value_negative) : null,
+      rule: r.durbin_watson === null
+        ? "needs an order column (order_by)"
+        : `${a}, the smaller one-sided p (beta approx.)`,
+    },
+    {
+      name: "Jarque–Bera",
+      statistic: fmt(r.jarque_bera?.statistic ?? null),
+      p: r.jarque_bera?.p_value ?? null,
+      rule: a,
+    },
+  ];
+}
+
+/** The summaries of the rows a database's sums gave: leverage, studentized residuals, Cook's D, moments. */
+function InEngineSums({ r }: { r: CheckResult }): VNode {
+  const e = r.in_engine!, l = e.leverage, f = e.influence, m = e.residual_moments;
+  const rows: [string, string, string][] = [
+    [
+      "Leverage",
+      `largest ${fmt(l.max, 3)}`,
+      `${l.over_2p.toLocaleString("en-US")} rows > 2p/n = ${fmt(l.limit_2p, 2)}, ${
+        l.over_3p.toLocaleString("en-US")
+      } > 3p/n = ${fmt(l.limit_3p, 2)}`,
+    ],
+    [
+      "Externally studentized residual",
+      `largest |t| ${fmt(f.max_abs_studentized)}`,
+      `${f.studentized_over_3.toLocaleString("en-US")} rows beyond ±3`,
+    ],
+    [
+      "Cook's distance",
+      `largest ${fmt(f.max_cooks_distance)}`,
+      `${f.cooks_over_cut.toLocaleString("en-US")} rows > ${fmt(f.cooks_cut)}`,
+    ],
+    [
+      "Residual shape",
+      `skewness ${fmt(m.skewness)}, kurtosis ${fmt(m.kurtosis)}`,
+      "normal: 0 and 3",
+    ],
+  ];
+  return (
+    <table class="plumb-check-tests plumb-check-sums">
+      <caption>
+        From sums over the rows in {e.engine === "postgres" ? "PostgreSQL" : "DuckDB"}
+      </caption>
+      <thead>
+        <tr>
+          <th scope="col">Measure</th>
+          <th scope="col">Value</th>
+          <th scope="col">Rows</th>
+        </tr>
+      </thead>
+      <tbody>
+        {rows.map(([name, value, count]) => (
+          <tr key={name}>
+            <th scope="row">{name}</th>
+            <td>{value}</td>
+            <td>{count}</td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+/** The sentence that the rows stay in the database, and what was judged from sums and what not. */
+function InEngineNote({ r }: { r: CheckResult }): VNode {
+  const e = r.in_engine!;
+  return (
+    <div class="plumb-check-in-engine">
+      <p>{e.note}</p>
+      <details>
+        <summary>What was judged from sums, and what needs the rows</summary>
+        <p>Judged from sums:</p>
+        <ul>
+          {e.judged.map((s) => <li key={s}>{s}</li>)}
+        </ul>
+        <p>Not judged (the rows stay in the database):</p>
+        <ul>
+          {e.not_judged.map((s) => <li key={s}>{s}</li>)}
+        </ul>
+      </details>
+    </div>
+  );
 }
 
 /** Interval limits joined by "to", as the robust table writes them. */
@@ -168,11 +274,13 @@ export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
             ))}
           </ul>
         )}
-      <div class="plumb-check-charts">
-        {(charts.density !== undefined || (r.fitted?.length ?? 0) > 0) && (
-          <DrawnFigure draw={(d) => checkFigure(charts, d)} data={r} />
-        )}
-      </div>
+      {r.in_engine !== undefined ? <InEngineNote r={r} /> : (
+        <div class="plumb-check-charts">
+          {(charts.density !== undefined || (r.fitted?.length ?? 0) > 0) && (
+            <DrawnFigure draw={(d) => checkFigure(charts, d)} data={r} />
+          )}
+        </div>
+      )}
       <table class="plumb-check-tests">
         <thead>
           <tr>
@@ -193,9 +301,11 @@ export function CheckView({ name, result: r }: ViewProps<CheckResult>): VNode {
           ))}
         </tbody>
       </table>
+      {r.in_engine !== undefined && <InEngineSums r={r} />}
       <p class="plumb-check-summary">
-        Condition number {fmt(r.condition_number)} · PRESS{" "}
-        {withUnit(fmt(r.press), squaredUnit(plainUnit(r)))} · leave-one-out RMSE{" "}
+        Condition number {fmt(r.condition_number)}
+        {r.in_engine !== undefined && ` (κ of the centred design ${fmt(r.in_engine.kappa)})`}{" "}
+        · PRESS {withUnit(fmt(r.press), squaredUnit(plainUnit(r)))} · leave-one-out RMSE{" "}
         {withUnit(fmt(r.loo_rmse), plainUnit(r))}
         {Object.keys(r.vif).length > 0 &&
           ` · VIF${r.vif_form === "uncentred" ? " (uncentred)" : ""} ${
