@@ -26,7 +26,8 @@ export type OutputType =
   | "Chart"
   | "Value"
   | "Ranked"
-  | "JointFit";
+  | "JointFit"
+  | "Agreement";
 
 /** Base of every cell output. */
 export interface CellOutput {
