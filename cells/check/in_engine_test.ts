@@ -197,6 +197,21 @@ Deno.test("check of a weighted in-engine fit equals the in-memory check to 1e-9"
   }
 });
 
+Deno.test("check of in-engine fits without an intercept and with a part free of parameters equals the in-memory check to 1e-9", async () => {
+  const data = readings(4_000, 7);
+  const engine = await DuckDbTestEngine.open();
+  try {
+    await engine.load("readings", data);
+    for (const model of ["y = b1*x1 + b2*x3 + b3*x4", "y = 2*x1 + a + b*x2 + c*log(x4)"]) {
+      const e = check(await engineFit(engine, data, "t", { model }));
+      assertSameJudgement(e, check(memoryFit(data, { model })), true);
+      assert.equal(e.vif_form, model.includes(" a ") ? "centred" : "uncentred");
+    }
+  } finally {
+    engine.close();
+  }
+});
+
 Deno.test("check of an in-engine fit refuses robust: at its option, in a sentence", async () => {
   const data = readings(500, 9);
   const engine = await DuckDbTestEngine.open();
