@@ -14,6 +14,7 @@ import { checkKind } from "./check/mod.ts";
 import { searchKind } from "./search/mod.ts";
 import { calcKind } from "./calc/mod.ts";
 import { jointKind } from "./joint/mod.ts";
+import { agreementKind } from "./agreement/mod.ts";
 
 /** Every kind Plumb knows, by name. */
 export const registry: Registry = makeRegistry([
@@ -26,4 +27,5 @@ export const registry: Registry = makeRegistry([
   searchKind,
   calcKind,
   jointKind,
+  agreementKind,
 ]);

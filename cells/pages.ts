@@ -21,6 +21,7 @@ import { chartPage } from "./chart/view.tsx";
 import { searchPage } from "./search/view.tsx";
 import { calcPage } from "./calc/view.tsx";
 import { jointPage } from "./joint/view.tsx";
+import { agreementPage } from "./agreement/view.tsx";
 
 // deno-lint-ignore no-explicit-any
 type AnyPage = PageFace<any, VNode>;
@@ -37,6 +38,7 @@ export const pages: ReadonlyMap<string, AnyPage> = new Map(
     searchPage,
     calcPage,
     jointPage,
+    agreementPage,
   ]
     .map((p) => [p.kind, p]),
 );

@@ -11,13 +11,19 @@
  */
 import type { Agreement } from "./agreement.ts";
 import type { AgreementVerdict } from "./result.ts";
-import { formatNumber } from "../shared/format.ts";
+import { formatIntervalAt, formatNumber } from "../shared/format.ts";
 
 const excludes = (lo: number | null, hi: number | null, v: number): boolean | null =>
   lo === null || hi === null ? null : lo > v || hi < v;
 
+/** `1.010 … 1.049`, to the place a standard error of a quarter of the width would give. */
 const range = (lo: number | null, hi: number | null) =>
-  `${lo === null ? "open" : formatNumber(lo, 4)} … ${hi === null ? "open" : formatNumber(hi, 4)}`;
+  formatIntervalAt(
+    [lo, hi],
+    lo !== null && hi !== null && hi > lo ? (hi - lo) / 4 : null,
+    lo !== null && hi !== null ? (lo + hi) / 2 : null,
+    { open: "", sep: " … ", close: "" },
+  ).replaceAll("—", "open");
 
 /**
  * The verdict.
