@@ -15,8 +15,8 @@
 import type { VNode } from "preact";
 import type { PageFace, ViewProps } from "../../kernel/contract/mod.ts";
 import type { AgreementResult, Estimated } from "./result.ts";
-import { formatEstimated } from "./_format.ts";
-import { formatNumber, formatP, withUnit } from "../shared/format.ts";
+import { formatEstimated, roundingScale } from "./_format.ts";
+import { formatEstimate, formatNumber, formatP, withUnit } from "../shared/format.ts";
 import { FAINT_INK, INK } from "../shared/palette.ts";
 
 const ACCENT = "var(--accent, #0b5cad)";
@@ -277,7 +277,7 @@ function AgreementPlot({ r }: { r: AgreementResult }): VNode {
             />
             <text x={x1 + 4} y={f.sy(e.estimate) - 2} font-size="11" fill={INK}>{label}</text>
             <text x={x1 + 4} y={f.sy(e.estimate) + 11} font-size="11" fill={INK}>
-              {formatEstimated({ ...e, intervals: [] })}
+              {formatEstimate(e.estimate, roundingScale(e))}
             </text>
           </g>
         ))}
@@ -350,15 +350,15 @@ function MethodsPlot({ r }: { r: AgreementResult }): VNode {
         {lines.map((l, k) => (
           <g key={`key-${l.key}`}>
             <line
-              x1={W - R + 6}
-              x2={W - R + 24}
-              y1={T + 10 + 16 * k}
-              y2={T + 10 + 16 * k}
+              x1={L + 10}
+              x2={L + 28}
+              y1={T + 14 + 16 * k}
+              y2={T + 14 + 16 * k}
               stroke={l.color === FAINT_INK ? INK : l.color}
               stroke-width={l.key === "deming" ? 2 : 1.25}
               stroke-dasharray={l.dash}
             />
-            <text x={W - R + 28} y={T + 14 + 16 * k} font-size="10" fill={INK}>{l.label}</text>
+            <text x={L + 32} y={T + 18 + 16 * k} font-size="11" fill={INK}>{l.label}</text>
           </g>
         ))}
       </svg>
