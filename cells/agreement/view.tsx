@@ -8,7 +8,9 @@
  * The plots are ours: differences against means as open rings, the bias as
  * a solid rule in the accent colour, the limits as dashed rules, each rule's
  * confidence interval a pale band behind it, the zero line faint, every rule
- * named at its right end (shape and words, never colour alone).
+ * named at its right end (shape and words, never colour alone). Like every
+ * chart of the page, a plot takes the column's width and never less than
+ * 30rem; narrower, its figure scrolls in itself.
  *
  * @module
  */
@@ -224,7 +226,7 @@ function AgreementPlot({ r }: { r: AgreementResult }): VNode {
         viewBox={`0 0 ${W} ${H}`}
         role="img"
         aria-label={`Differences of ${r.y} and ${r.x} against their means, with the bias and limits of agreement`}
-        style="width:100%;min-width:20rem;height:auto;display:block"
+        style="width:100%;min-width:30rem;height:auto;display:block"
       >
         {rules.map(({ key, e }) => {
           const i = e.intervals[0];
@@ -325,7 +327,7 @@ function MethodsPlot({ r }: { r: AgreementResult }): VNode {
         viewBox={`0 0 ${W} ${H}`}
         role="img"
         aria-label={`${r.y} against ${r.x} with the line of identity and both regression lines`}
-        style="width:100%;min-width:20rem;height:auto;display:block"
+        style="width:100%;min-width:30rem;height:auto;display:block"
       >
         <defs>
           <clipPath id={`plumb-agreement-clip-${r.x}-${r.y}`.replace(/[^\w-]/g, "_")}>
