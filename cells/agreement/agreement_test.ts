@@ -152,3 +152,14 @@ Deno.test("agreement: a variance ratio that is not a positive number is refused 
   const same = refused({ y: "x" });
   match(same.message, /names column "x" as both methods/);
 });
+
+Deno.test("agreement: columns in two units are compared with a warning that says so", () => {
+  const t = readings(40, { seed: 2 });
+  t.columns[0].unit = "mmol/L";
+  t.columns[1].unit = "mg/dL";
+  const { warnings } = runAgreementCell({}, t);
+  ok(
+    warnings.some((w) => w.includes(`compares "x" in mmol/L with "y" in mg/dL`)),
+    warnings.join("\n"),
+  );
+});

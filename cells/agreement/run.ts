@@ -39,6 +39,12 @@ export function runAgreement(spec: AgreementSpec, ctx: RunContext): Agreement {
       `Agreement "${ctx.name}": no value of "${spec.sample}" occurs twice, so every row is a sample of its own`,
     );
   }
+  const { x: ux, y: uy } = s.units;
+  if (ux !== null && uy !== null && ux !== uy) {
+    ctx.warn(
+      `Agreement "${ctx.name}" compares "${spec.x}" in ${ux} with "${spec.y}" in ${uy}: two methods of one quantity should report it in one unit, and the differences, bias and limits are taken in ${ux}`,
+    );
+  }
   const n = s.groups.length;
   if (n < 40) {
     ctx.warn(
