@@ -21,6 +21,7 @@ import type { Fit } from "../fit/mod.ts";
 import { type CheckSpec, parseCheckSpec } from "./spec.ts";
 import { type CheckResult, type Diagnostics, ROW_FIELDS, type RowField } from "./result.ts";
 import { diagnose } from "./diagnose.ts";
+import { type CensoredCheck, censoredForCheck } from "./censored.ts";
 import { diagnoseInEngine } from "./in_engine.ts";
 import { CHECK_OPTIONS } from "./spec.ts";
 import { checkHistory } from "./history.ts";
@@ -57,6 +58,12 @@ export const checkKind: CellKind<CheckSpec, Diagnostics, CheckResult> = {
       );
     }
     if (fit.robust !== undefined) robustFitNote(spec, fit, ctx.warn);
+    if (fit.censoring !== undefined && fit.below !== undefined) {
+      const c = censoredForCheck(fit as Fit & { below: Uint8Array }, ctx.settings.seed);
+      ctx.warn(censoredNote(spec.fit, c.record));
+      const d = diagnose(c.fit, spec, ctx.settings.confidence);
+      return { type: "Diagnostics", result: { ...d.result, censored: c.record }, perRow: d.perRow };
+    }
     return { type: "Diagnostics", ...diagnose(fit, spec, ctx.settings.confidence) };
   },
   summary: summaryOf,
@@ -97,6 +104,14 @@ function robustFitNote(spec: CheckSpec, fit: Fit, warn: (m: string) => void): vo
       down === 1 ? "row" : "rows"
     } down-weighted): its residuals are judged as they are, with least-squares leverage, Cook's distance and tests; rows the loss down-weighted stand out here by design`,
   );
+}
+
+/** What the check says of a fit with rows below a detection limit. */
+function censoredNote(name: string, c: CensoredCheck): string {
+  const rows = `${c.rows_below} ${c.rows_below === 1 ? "row" : "rows"} below a detection limit`;
+  return c.residuals === "substituted"
+    ? `"${name}" substituted a fraction of the limit in its ${rows}: those values are judged here as if they had been measured, which flatters or hides what the limit hides; fit by maximum likelihood (leave out substitute) to judge them as censored`
+    : `"${name}" is a censored fit (${rows}): those rows enter with randomized quantile residuals (Dunn & Smyth 1996), drawn below each limit from the fitted normal with the document's seed ${c.seed}; the tests of the residuals keep their meaning, while Cook's distance and the studentized residuals are least-squares formulas at the ML estimates, so read them as a guide`;
 }
 
 /**

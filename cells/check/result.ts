@@ -12,6 +12,7 @@
  */
 import type { CellOutput } from "../../kernel/contract/mod.ts";
 import type { DurbinWatsonTest } from "../../kernel/stats/mod.ts";
+import type { CensoredCheck } from "./censored.ts";
 
 /** One finding: a code, the source rows it concerns, a plain sentence with evidence and threshold. */
 export interface Finding {
@@ -123,6 +124,12 @@ export interface CheckResult {
    * per-row fields above are then empty, and this says what was judged from sums and what not.
    */
   in_engine?: InEngineCheck;
+  /**
+   * Addition: present when the fit's response has rows below a detection limit: how those
+   * rows entered the check (randomized quantile residuals for an ML fit, seeded; or the
+   * substituted values, judged as if measured).
+   */
+  censored?: CensoredCheck;
 }
 
 /** What the check of a fit computed in its database judged, from the engine's sums. */

@@ -99,6 +99,12 @@ export interface Fit extends CellOutput {
    */
   robust?: RobustRecord;
   /**
+   * Censored response only (`below_limit`, `censored_by`): 1 for each row (in
+   * the order of `rows`) whose response lies below its detection limit; `y`
+   * then holds the limit. Absent when no row is below a limit.
+   */
+  below?: Uint8Array;
+  /**
    * The bootstrap replicates (when bootstrap intervals were asked): B×p,
    * row-major in the order of `parameters` (chart bands read them).
    */

@@ -177,7 +177,7 @@ export function runFit(spec: FitSpec, ctx: RunContext): Fit | Promise<Fit> {
     ...(fitted.atBound ? { atBound: fitted.atBound } : {}),
     intervals,
     ...(robust === null ? {} : { robust: robust.record }),
-    ...(censored === null ? {} : { censoring: censored.record }),
+    ...(censored === null ? {} : { censoring: censored.record, below: flags!.below }),
     ...(intervals.bootstrap === undefined ? {} : {
       bootstrap: {
         replicates: intervals.bootstrap.replicates,
