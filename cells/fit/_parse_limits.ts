@@ -50,16 +50,30 @@ export function parseLimits(ctx: ParseContext): { within?: Limits } {
   }
   const out: Limits = {};
   for (const [k, range] of Object.entries(v as Record<string, unknown>)) {
-    out[k] = oneRange(ctx, k, range);
+    out[k] = parseRange(ctx, k, range);
   }
   return { within: out };
 }
 
-function oneRange(ctx: ParseContext, k: string, range: unknown): [number | null, number | null] {
+/**
+ * One parameter's range `[lower, upper]` (null or ±∞: open), located at `within.k`.
+ *
+ * @param ctx The cell's parse context (its name for the message).
+ * @param k The parameter.
+ * @param range The range as written.
+ * @param kind The cell's kind, as the message names it ("fit", "joint").
+ * @returns The ends, null where open.
+ */
+export function parseRange(
+  ctx: ParseContext,
+  k: string,
+  range: unknown,
+  kind = "fit",
+): [number | null, number | null] {
   const end = (x: unknown) => x === null || (typeof x === "number" && !Number.isNaN(x));
   if (!Array.isArray(range) || range.length !== 2 || !range.every(end)) {
     throw new CellError(
-      `Range of "${k}" in fit "${ctx.name}" is "${
+      `Range of "${k}" in ${kind} "${ctx.name}" is "${
         JSON.stringify(range)
       }": expected [lower, upper] with numbers or null for an open end, such as [0, null]`,
       ["within", k],
@@ -69,7 +83,7 @@ function oneRange(ctx: ParseContext, k: string, range: unknown): [number | null,
   const hi = range[1] === null || range[1] === Infinity ? null : range[1] as number;
   if (lo !== null && hi !== null && !(lo < hi)) {
     throw new CellError(
-      `Range of "${k}" in fit "${ctx.name}" is [${lo}, ${hi}]: the lower end must be below the upper end`,
+      `Range of "${k}" in ${kind} "${ctx.name}" is [${lo}, ${hi}]: the lower end must be below the upper end`,
       ["within", k],
     );
   }

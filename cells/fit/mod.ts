@@ -48,6 +48,7 @@ export type { FitProblem, FitSolution } from "./problem.ts";
 export { refit, refitProblem } from "./refit.ts";
 export { fitBasis, fitFactor, fitLeverage, fitRobust, preciseAt } from "./fit_leverage.ts";
 export { type Likelihood, likelihood } from "./_likelihood.ts";
+export { parseRange } from "./_parse_limits.ts";
 
 /** The `fit` kind record. */
 export const fitKind: CellKind<FitSpec, Fit, FitResult> = {

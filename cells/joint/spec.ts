@@ -19,6 +19,7 @@
  *
  * @module
  */
+import { parseRange } from "../fit/mod.ts";
 import { CellError } from "../../kernel/errors.ts";
 import {
   badOption,
@@ -275,25 +276,6 @@ function ranges(ctx: ParseContext): Record<string, [number | null, number | null
   const v = readMapping(ctx, "within", "{ k: [0, null] }");
   if (v === null) return {};
   const out: Record<string, [number | null, number | null]> = {};
-  const end = (x: unknown) => x === null || (typeof x === "number" && !Number.isNaN(x));
-  for (const [k, range] of Object.entries(v)) {
-    if (!Array.isArray(range) || range.length !== 2 || !range.every(end)) {
-      throw new CellError(
-        `Range of "${k}" in joint "${ctx.name}" is "${
-          JSON.stringify(range)
-        }": expected [lower, upper] with numbers or null for an open end, such as [0, null]`,
-        ["within", k],
-      );
-    }
-    const lo = range[0] === null || range[0] === -Infinity ? null : range[0] as number;
-    const hi = range[1] === null || range[1] === Infinity ? null : range[1] as number;
-    if (lo !== null && hi !== null && !(lo < hi)) {
-      throw new CellError(
-        `Range of "${k}" in joint "${ctx.name}" is [${lo}, ${hi}]: the lower end must be below the upper end`,
-        ["within", k],
-      );
-    }
-    out[k] = [lo, hi];
-  }
+  for (const [k, range] of Object.entries(v)) out[k] = parseRange(ctx, k, range, "joint");
   return out;
 }
