@@ -56,7 +56,10 @@ export async function appendOnce(
   if (before && !plain && (scan.cut > 0 || records + 1 > keep)) {
     return await rewrite(path, temp, before, scan, { record, bytes }, keep);
   }
-  if (!await appendBytes(path, bytes, before === null)) return null;
+  // Bounded: the count above holds only while the file is as read; the append checks it under
+  // an exclusive lock, so that two appenders cannot both add to a file already at `keep`.
+  const expect = before && !plain && Number.isFinite(keep) ? before.bytes.length : null;
+  if (!await appendBytes(path, bytes, before === null, expect)) return null;
   return { written: true, records: records + 1, dropped: 0, repaired: 0 };
 }
 
@@ -93,19 +96,28 @@ export async function snapshot(
 
 /**
  * Writes the bytes at the end of the file in one call and flushes them,
- * holding a shared lock so that no rewrite renames the file away meanwhile.
+ * holding a lock so that no rewrite renames the file away meanwhile: shared,
+ * or exclusive when the append counts on the file's size.
  *
- * @returns False, having written nothing, when the file was renamed away before the lock was held.
+ * @param expect The size the file must still have (the appender counted its records), or null.
+ * @returns False, having written nothing, when the file was renamed away before the lock was
+ *   held, or no longer has the expected size.
  */
-async function appendBytes(path: string, bytes: Uint8Array, create: boolean): Promise<boolean> {
+async function appendBytes(
+  path: string,
+  bytes: Uint8Array,
+  create: boolean,
+  expect: number | null,
+): Promise<boolean> {
   const file = await at(
     create ? "folder" : "file",
     Deno.open(path, { read: true, append: true, create: true }),
   );
   try {
-    await lock(file, false);
+    await lock(file, expect !== null);
     const info = await file.stat();
     if (!await isNamed(file, path)) return false;
+    if (expect !== null && info.size !== expect) return false;
     let out = bytes;
     if (info.size > 0) {
       // A last line without its line break (a write cut short, an editor): ours starts on a new line.
