@@ -267,6 +267,7 @@ code, pre, textarea { font-family: var(--mono); font-size: 13px; }
 .plumb-fit-derived { white-space: normal; font-weight: 400; }
 .plumb-fit-censored { margin: .45rem 0; padding: .1rem 0 .1rem .6rem; border-left: 2px solid var(--rule); font-size: 13px; }
 .pl-result .plumb-fit-censored p { margin: .2rem 0; }
+.pl-result .plumb-fit-censored p.plumb-fit-censored-caption { margin: .45rem 0 .1rem; font-weight: 600; font-size: 12.5px; color: var(--muted); }
 .plumb-fit-interval-mc { margin: .2rem 0; font-size: 12.5px; color: var(--muted); }
 .plumb-fit-interval-notes { margin: .2rem 0; padding-left: 1.4rem; font-size: 12.5px; color: var(--muted); }
 .plumb-fit-traces summary { cursor: pointer; font-size: 13px; }

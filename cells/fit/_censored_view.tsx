@@ -26,6 +26,8 @@ import { formatNumber } from "../shared/format.ts";
  * @param props The record, the parameter names, rows in the fit.
  * @returns The part.
  */
+const CAPTION = "What substituting the limit gives instead (shift in ML standard errors)";
+
 export function CensoredSection(
   { c, parameters, n }: { c: CensoringRecord; parameters: string[]; n: number },
 ): VNode {
@@ -43,9 +45,9 @@ export function CensoredSection(
           )
           : <>maximum likelihood, censored normal; σ = {formatNumber(c.sigma, 4)}</>}
       </p>
+      <p class="plumb-fit-censored-caption">{CAPTION}</p>
       <div class="plumb-fit-interval-scroll">
-        <table class="plumb-fit-interval-table">
-          <caption>What substituting the limit gives instead (shift in ML standard errors)</caption>
+        <table class="plumb-fit-interval-table" aria-label={CAPTION}>
           <thead>
             <tr>
               <th scope="col">Rows below the limit set to</th>
