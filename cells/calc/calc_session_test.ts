@@ -164,3 +164,60 @@ Deno.test("a runtime error in calc code points at its line", async () => {
     equal(c.error!.line, source.split("\n").findIndex((l) => l.startsWith("throw")) + 1);
   });
 });
+
+Deno.test("a calc cell reads a joint fit as its RUN-JSON result: parameters by group, sharing tests, per-row fields", async () => {
+  // Invented data for this test: two groups with their own intercepts and one slope.
+  const g1 = [[1, 3.1], [2, 4.9], [3, 7.0], [4, 9.1]];
+  const g2 = [[1, 5.0], [2, 7.1], [3, 8.9], [4, 11.0]];
+  const tables = cell("table", "g1", `columns: [x, y]\nrows: ${JSON.stringify(g1)}`) +
+    cell("table", "g2", `columns: [x, y]\nrows: ${JSON.stringify(g2)}`);
+  const joint = cell("joint", "both", "tables: [g1, g2]\nmodel: y = a + b*x\nshared: [b]");
+  const calc = cell(
+    "calc",
+    "read",
+    "reads: both\n---\n" +
+      "const b = both.parameters.find((p) => p.name === 'b')!;\n" +
+      "const own = both.parameters.filter((p) => p.table !== null).map((p) => [p.table, p.estimate]);\n" +
+      "return { b: b.estimate, se: b.std_error, own, groups: both.groups.map((g) => g.name),\n" +
+      "  shareable: both.sharing[0].shareable, rows: both.residuals.length,\n" +
+      "  residuals_typed: both.residuals instanceof Float64Array };",
+  );
+  const misspelled = cell("calc", "oops", "reads: both\n---\nreturn both.sharng.length;");
+  await withSession(async (s) => {
+    const r = await s.run(tables + joint + calc + misspelled);
+    const c = find(r, "read");
+    equal(c.state, "current", c.error?.message ?? find(r, "both").error?.message);
+    const v = (c.result as { value: Record<string, unknown> }).value;
+    const res = find(r, "both").result as {
+      parameters: { name: string; estimate: number; std_error: number }[];
+    };
+    // The code sees the joint result itself: the same numbers.
+    const b = res.parameters.find((p) => p.name === "b")!;
+    equal(v.b, b.estimate);
+    equal(v.se, b.std_error);
+    deepEqual(v.own, [["g1", res.parameters[0].estimate], ["g2", res.parameters[1].estimate]]);
+    deepEqual(v.groups, ["g1", "g2"]);
+    equal(v.shareable, true);
+    equal(v.rows, 8);
+    equal(v.residuals_typed, true);
+    // Exact arithmetic: with an intercept per group and one slope, b is the pooled within-group
+    // slope Σ_g Sxy_g / Σ_g Sxx_g.
+    let sxy = 0, sxx = 0;
+    for (const g of [g1, g2]) {
+      const xBar = g.reduce((t, p) => t + p[0], 0) / g.length;
+      const yBar = g.reduce((t, p) => t + p[1], 0) / g.length;
+      for (const [x, y] of g) {
+        sxy += (x - xBar) * (y - yBar);
+        sxx += (x - xBar) ** 2;
+      }
+    }
+    ok(Math.abs((v.b as number) - sxy / sxx) < 1e-12, `${v.b} against ${sxy / sxx}`);
+    // Its shape is declared from the result: a misspelled field is a type error with the near miss.
+    const oops = find(r, "oops");
+    equal(oops.state, "failed");
+    match(
+      oops.error!.message,
+      /^Type error: Property 'sharng' does not exist .*Did you mean 'sharing'\?/,
+    );
+  });
+});

@@ -46,7 +46,16 @@ export const calcKind: CellKind<CalcSpec, CalcOutput | CalcTableOutput, CalcResu
   inputs: (spec) =>
     spec.reads.map((r) => ({
       name: r.cell,
-      accepts: ["Table", "Fit", "Comparison", "Diagnostics", "Predictions", "Value", "Ranked"],
+      accepts: [
+        "Table",
+        "Fit",
+        "Comparison",
+        "Diagnostics",
+        "Predictions",
+        "Value",
+        "Ranked",
+        "JointFit",
+      ],
       path: ["reads"],
       offset: r.offset,
     })),
