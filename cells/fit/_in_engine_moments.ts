@@ -5,7 +5,7 @@
  *
  * ```
  *  pass 5  u = √w·e, d = u − s (s: a provisional mean), gap = 1 − hᵢ
- *          Σd, Σd², Σd³, Σd⁴, Σu⁴     ─▶ central moments m₂ m₃ m₄ (binomial correction
+ *          Σd, Σd², Σd³, Σd⁴ (Σu⁴ from them) ─▶ central moments m₂ m₃ m₄ (binomial correction
  *                                         by δ = Σd/n), skewness, kurtosis (Jarque–Bera)
  *          max |tᵢ|, #|tᵢ| > 3          externally studentized residuals
  *          max Dᵢ, #Dᵢ > cut            Cook's distance, cut = max(4/n, F(0.5; p, n − p))
@@ -52,7 +52,7 @@ import {
   fisherF,
   type JarqueBera,
 } from "../../kernel/stats/mod.ts";
-import { centredLayer, type Centring } from "./_in_engine_sql.ts";
+import { centredLayer, type Centring, flag } from "./_in_engine_sql.ts";
 import { invertUpper } from "./_in_engine_algebra.ts";
 import type { Design } from "./_in_engine_design.ts";
 import { at, type Gram, type Solved } from "./_in_engine_solve.ts";
@@ -159,53 +159,58 @@ function shiftOf(j: JudgeInput): number {
   return j.d.sql.weight === null ? j.sumZ / j.n : 0;
 }
 
-/** Pass 5's SQL. */
+/**
+ * Pass 5's SQL.
+ *
+ * PostgreSQL computes no common subexpression: every sum re-evaluates the residual and the
+ * leverage it reads, and the leverage is the costly one (a quadratic form in the
+ * coordinates). So each is read as few times as the numbers allow:
+ *
+ * - two tests of a row are grouping keys, computed once a row and referred to, not evaluated
+ *   again, wherever an aggregate repeats them whole (PostgreSQL matches an expression of the
+ *   GROUP BY inside the aggregates): `one`, leverage 1 (1 − h < 1e-10), and `pos`, a leave-one-
+ *   out RSS above 0. Booleans, so each partition has at most four groups (Plumb adds them);
+ * - tᵢ = |uᵢ|/√((RSS·gapᵢ − uᵢ²)/(df − 1)), the same number as |uᵢ|/√(s₍ᵢ₎²·gapᵢ) with
+ *   s₍ᵢ₎² = (RSS − uᵢ²/gapᵢ)/(df − 1), reading gap once;
+ * - powers of d by `power` (d read once), and Σu⁴ from them (u = d + s, binomial expansion).
+ */
 function pass5(j: JudgeInput): string {
   const { d, solved, n, rssZ } = j;
   const S = sumOf(d), p = d.p, df = n - p;
   const lead = d.sql.partitionBy === null ? "" : "plumb_part, ";
-  const group = d.sql.partitionBy === null ? "" : " GROUP BY plumb_part";
   const num = sqlNumber;
-  const ok = `gap >= ${num(LEVERAGE_ONE)}`;
-  // tᵢ = uᵢ/√(s₍ᵢ₎²·gap), s₍ᵢ₎² = (RSS − uᵢ²/gap)/(df − 1); Dᵢ = uᵢ²hᵢ/(p·s²·gap²).
-  const loo = `(${num(rssZ)} - u * u / gap)`;
+  const one = flag(`gap < ${num(LEVERAGE_ONE)}`);
+  const pos = flag(`${num(rssZ)} * gap - u * u > 0`);
+  const unless = (test: string, x: string) => `CASE WHEN ${test} THEN NULL ELSE ${x} END`;
   const t = df > 1
-    ? `CASE WHEN ${ok} AND ${loo} > 0 THEN abs(u) / sqrt(${loo} / ${num(df - 1)} * gap) END`
+    ? unless(`${one} OR NOT ${pos}`, `abs(u) / sqrt((${num(rssZ)} * gap - u * u) / ${num(df - 1)})`)
     : "CAST(NULL AS DOUBLE PRECISION)";
+  // Dᵢ = uᵢ²hᵢ/(p·s²·gapᵢ²).
   const s2 = rssZ / df;
   const cook = s2 > 0
-    ? `CASE WHEN ${ok} THEN u * u * (1 - gap) / (${num(p * s2)} * gap * gap) END`
+    ? unless(one, `power(u / gap, 2) * (1 - gap) / ${num(p * s2)}`)
     : "CAST(NULL AS DOUBLE PRECISION)";
-  const cut = cooksCut(n, p);
   const inner = [
     `sqrt(w) * (${solved.residualSql}) AS u`,
     `1 - (${solved.leverageSql}) AS gap`,
     ...(d.sql.partitionBy === null ? [] : ["plumb_part"]),
   ];
-  const middle = [
-    "u",
-    `u - ${num(shiftOf(j))} AS d`,
-    "gap",
-    `${t} AS t`,
-    `${cook} AS cook`,
-    ...(d.sql.partitionBy === null ? [] : ["plumb_part"]),
-  ];
+  const dd = `(u - ${num(shiftOf(j))})`;
   const cols = [
-    `${S("d")} AS m1`,
-    `${S("d * d")} AS m2`,
-    `${S("d * d * d")} AS m3`,
-    `${S("d * d * d * d")} AS m4`,
-    `${S("u * u * u * u")} AS u4`,
-    "max(t) AS max_t",
-    `sum(CASE WHEN t > 3 THEN 1 ELSE 0 END) AS t3`,
-    "max(cook) AS max_cook",
-    `sum(CASE WHEN cook > ${num(cut)} THEN 1 ELSE 0 END) AS cooks`,
-    `sum(CASE WHEN gap < ${num(LEVERAGE_ONE)} THEN 1 ELSE 0 END) AS h1`,
-    `${S(`CASE WHEN ${ok} THEN (u / gap) * (u / gap) END`)} AS press`,
+    `${S(dd)} AS m1`,
+    `${S(`power(${dd}, 2)`)} AS m2`,
+    `${S(`power(${dd}, 3)`)} AS m3`,
+    `${S(`power(${dd}, 4)`)} AS m4`,
+    `max(${t}) AS max_t`,
+    `sum(CASE WHEN ${t} > 3 THEN 1 ELSE 0 END) AS t3`,
+    `max(${cook}) AS max_cook`,
+    `sum(CASE WHEN ${cook} > ${num(cooksCut(n, p))} THEN 1 ELSE 0 END) AS cooks`,
+    `sum(CASE WHEN ${one} THEN 1 ELSE 0 END) AS h1`,
+    `${S(unless(one, "power(u / gap, 2)"))} AS press`,
   ];
-  return `SELECT ${lead}${cols.join(", ")} FROM (SELECT ${middle.join(", ")} FROM (SELECT ${
-    inner.join(", ")
-  } FROM ${centredLayer(d.sql, j.centring)}) AS plumb_u WHERE u IS NOT NULL) AS plumb_v${group}`;
+  return `SELECT ${lead}${cols.join(", ")} FROM (SELECT ${inner.join(", ")} FROM ${
+    centredLayer(d.sql, j.centring)
+  }) AS plumb_u GROUP BY ${lead}${one}, ${pos}`;
 }
 
 /** Cook's distance cut: above 4/n and the median of F(p, n − p) (cells/check/findings.ts). */
@@ -250,8 +255,15 @@ function momentsOf(j: JudgeInput, five: Map<string, number>, sy: number): Residu
     jarque_bera: skewness === null || kurtosis === null
       ? null
       : jarqueBeraOf(n, skewness, kurtosis),
-    sum_fourth_raw: at(five, "u4") * sy ** 4,
+    sum_fourth_raw: fourthAboutZero(j, five) * sy ** 4,
   };
+}
+
+/** Σu⁴ from Σdᵏ, u = d + s: Σ(d + s)⁴ expanded (exact algebra; s is 0 or the mean of u). */
+function fourthAboutZero(j: JudgeInput, five: Map<string, number>): number {
+  const s = shiftOf(j);
+  const [m1, m2, m3, m4] = ["m1", "m2", "m3", "m4"].map((k) => at(five, k));
+  return m4 + s * (4 * m3 + s * (6 * m2 + s * (4 * m1 + s * j.n)));
 }
 
 /** Jarque–Bera from S and K: kernel/stats `jarqueBera` on a sample with these moments. */

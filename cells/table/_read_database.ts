@@ -57,11 +57,13 @@ export function fingerprintSql(
   else if (partitionBy === null || columns.length === 0) {
     hash = "CAST(sum(hashtextextended(CAST(plumb_q AS text), 0)) AS text)";
   } else {
-    const one = columns.map((c, j) =>
-      c.type === "number"
-        ? `coalesce(hashfloat8extended(CAST(${quoteName(c.name)} AS float8), ${j}), 0)`
-        : `coalesce(hashtextextended(CAST(${quoteName(c.name)} AS text), ${j}), 0)`
-    ).join(" # ");
+    // CASE, not coalesce: postgres_fdw (15) sends no COALESCE to a shard, and the rows travel.
+    const one = columns.map((c, j) => {
+      const hash = c.type === "number"
+        ? `hashfloat8extended(CAST(${quoteName(c.name)} AS float8), ${j})`
+        : `hashtextextended(CAST(${quoteName(c.name)} AS text), ${j})`;
+      return `CASE WHEN ${quoteName(c.name)} IS NULL THEN 0 ELSE ${hash} END`;
+    }).join(" # ");
     hash = `CAST(sum(${one}) AS text)`;
   }
   const group = partitionBy === null ? "" : ` GROUP BY ${quoteName(partitionBy)}`;
