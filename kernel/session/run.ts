@@ -30,7 +30,7 @@ import type { FileData } from "../contract/mod.ts";
 import type { LocatedError } from "../errors.ts";
 import { type CellNode, locateError } from "../graph/build.ts";
 import type { ComputeWorker } from "../worker/client.ts";
-import type { DoneMessage } from "../worker/protocol.ts";
+import { type DoneMessage, transientAnswer } from "../worker/protocol.ts";
 import { answerReport, failedReport, heldReport } from "./_cell_report.ts";
 import { isTransient, located, type Outcome, type Prepared, type RunHost } from "./_run_parts.ts";
 import { referencedFields } from "./inline_refs.ts";
@@ -492,7 +492,13 @@ export class Run {
         worker.importOutput(key, out, { kind: made.kind, spec: made.spec });
         continue;
       }
-      const again = await this.#computeOn(worker, this.#plan.graph.byName.get(dep)!, "nothing");
+      const made = this.#plan.graph.byName.get(dep)!;
+      // An input that cannot compute (its file unread, its options wrong) is not computed
+      // again for a cell sent ahead of it: that cell is answered held once the input fails.
+      if (made.error || this.#fileErrors.has(made)) {
+        return transientAnswer(-1, `Input "${dep}" cannot be computed`);
+      }
+      const again = await this.#computeOn(worker, made, "nothing");
       if (!again.ok) return again;
     }
     return null;

@@ -153,3 +153,15 @@ Deno.test("bad input: a 200 MB file loads without exhausting memory", async () =
   equal((c.result as { rows_read: number }).rows_read, rows);
   ok(rows * line.length >= 200e6);
 });
+
+Deno.test("bad input: a cell reading a computing table and one whose file is missing is held, not a crash", async () => {
+  // The joint cell is sent to the worker ahead of its inputs' answers (behind the table that
+  // computes); its other input cannot be read, and was once computed again there without its
+  // file: an uncaught TypeError that stopped the run (fuzz run, seed 11, input 132).
+  const doc = GOOD + "\n```table late\nfrom: missing.csv\n```\n\n" +
+    "```joint both\ntables: [good, late]\nmodel: y = a + b*x\nshared: [b]\n```\n";
+  const r = await runCase(doc);
+  equal(cellNamed(r, "late").state, "failed");
+  match(cellNamed(r, "late").error!.message, /missing\.csv/);
+  equal(cellNamed(r, "both").state, "held");
+});

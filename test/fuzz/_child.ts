@@ -108,7 +108,10 @@ async function main(): Promise<void> {
 
 globalThis.addEventListener("unhandledrejection", (e) => {
   e.preventDefault();
-  emit({ fatal: String((e as PromiseRejectionEvent).reason).slice(0, 500) });
+  const r = (e as PromiseRejectionEvent).reason;
+  // FUZZ_STACK=1 prints where it was thrown (run the child alone with the driver's flags).
+  if (Deno.env.get("FUZZ_STACK")) console.error(r?.stack ?? r);
+  emit({ fatal: String(r).slice(0, 500) });
   Deno.exit(3);
 });
 
