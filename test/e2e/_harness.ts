@@ -250,6 +250,28 @@ export async function allCurrent(page: Page, timeout = 30_000): Promise<void> {
   }, { timeout, polling: 50 });
 }
 
+/**
+ * Waits until every cell block on the page has settled: current or failed.
+ *
+ * @param page The page.
+ * @param timeout In ms.
+ * @returns Nothing; throws on timeout.
+ */
+export async function settled(page: Page, timeout = 60_000): Promise<void> {
+  await page.waitForFunction(() => {
+    const cells = [...document.querySelectorAll("[data-block][data-state]")];
+    return cells.length > 0 &&
+      cells.every((c) => ["current", "failed"].includes(c.getAttribute("data-state") ?? ""));
+  }, { timeout, polling: 50 });
+}
+
+/** A phone, a half screen and a desktop: the widths every browser feature is tested at. */
+export const THREE_WIDTHS = [
+  { width: 390, height: 844 },
+  { width: 960, height: 800 },
+  { width: 1440, height: 900 },
+];
+
 /** Where screenshots go (git-ignored; made here, so the first suite to run finds it). */
 export const ARTIFACTS = new URL("test/artifacts/", REPO);
 Deno.mkdirSync(ARTIFACTS, { recursive: true });

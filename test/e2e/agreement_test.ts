@@ -8,23 +8,18 @@
  */
 import { equal, match, ok } from "node:assert/strict";
 import type { Page } from "puppeteer-core";
-import { ARTIFACTS, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
+import {
+  ARTIFACTS,
+  settled,
+  skipWithoutBrowser,
+  THREE_WIDTHS,
+  withServedBrowser,
+} from "./_harness.ts";
 
 const ignore = skipWithoutBrowser("agreement");
 
-const WIDTHS = [{ width: 390, height: 844 }, { width: 960, height: 800 }, {
-  width: 1440,
-  height: 900,
-}];
+const WIDTHS = THREE_WIDTHS;
 const BLOCKS = ["meter", "one-run"];
-
-async function settled(page: Page): Promise<void> {
-  await page.waitForFunction(() => {
-    const cells = [...document.querySelectorAll("[data-block][data-state]")];
-    return cells.length > 0 &&
-      cells.every((c) => ["current", "failed"].includes(c.getAttribute("data-state") ?? ""));
-  }, { timeout: 60_000, polling: 50 });
-}
 
 /** Sideways overflow of the page, of a block past the screen, of a result, of a plot past its block. */
 function overflows(page: Page): Promise<string[]> {

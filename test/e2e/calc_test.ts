@@ -11,7 +11,13 @@
 import { equal, match, ok } from "node:assert/strict";
 import type { Page } from "puppeteer-core";
 import type { CellMessage } from "../../kernel/server/protocol.ts";
-import { allCurrent, ARTIFACTS, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
+import {
+  allCurrent,
+  ARTIFACTS,
+  skipWithoutBrowser,
+  THREE_WIDTHS,
+  withServedBrowser,
+} from "./_harness.ts";
 
 const ignore = skipWithoutBrowser("calc");
 
@@ -33,10 +39,7 @@ const DOC = "---\ntitle: Crossing of 2,000 mAh\n---\n\n" +
   ) +
   fence("calc", "crossing", `reads: power\n---\n${CODE}`);
 
-const WIDTHS = [{ width: 390, height: 844 }, { width: 960, height: 800 }, {
-  width: 1440,
-  height: 900,
-}];
+const WIDTHS = THREE_WIDTHS;
 
 /** At each width: no sideways scroll, the calc block inside the screen; a screenshot. */
 async function fitsEveryWidth(page: Page, state: string): Promise<void> {

@@ -12,14 +12,17 @@
  * Screenshots: test/artifacts/changes-*.png.
  */
 import { ok } from "node:assert/strict";
-import { allCurrent, ARTIFACTS, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
+import {
+  allCurrent,
+  ARTIFACTS,
+  skipWithoutBrowser,
+  THREE_WIDTHS,
+  withServedBrowser,
+} from "./_harness.ts";
 
 const ignore = skipWithoutBrowser("changes");
 
-const WIDTHS = [{ width: 390, height: 844 }, { width: 960, height: 800 }, {
-  width: 1440,
-  height: 900,
-}];
+const WIDTHS = THREE_WIDTHS;
 
 Deno.test({
   name: "changes: the panel appears live after a data append and fits at 390, 960 and 1440 px",

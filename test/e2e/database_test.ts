@@ -27,7 +27,14 @@ import type { Page } from "puppeteer-core";
 import type { CellMessage } from "../../kernel/server/protocol.ts";
 import { formatNumber } from "../../cells/shared/format.ts";
 import { makeDuckdb } from "../engine/_engine_testing.ts";
-import { ARTIFACTS, type Session, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
+import {
+  ARTIFACTS,
+  type Session,
+  settled,
+  skipWithoutBrowser,
+  THREE_WIDTHS,
+  withServedBrowser,
+} from "./_harness.ts";
 
 const ignore = skipWithoutBrowser("database");
 
@@ -82,19 +89,9 @@ function doc(query: string): string {
 }
 
 const BLOCKS = ["line-one", "batches", "line-plane", "plane", "curve", "scrap"];
-const WIDTHS = [{ width: 390, height: 844 }, { width: 960, height: 800 }, {
-  width: 1440,
-  height: 900,
-}];
+const WIDTHS = THREE_WIDTHS;
 
 /** Waits until every block is settled (current or failed). */
-async function settled(page: Page, timeout = 60_000): Promise<void> {
-  await page.waitForFunction(() => {
-    const cells = [...document.querySelectorAll("[data-block][data-state]")];
-    return cells.length > 0 &&
-      cells.every((c) => ["current", "failed"].includes(c.getAttribute("data-state") ?? ""));
-  }, { timeout, polling: 50 });
-}
 
 /** The newest result the page was sent for a cell. */
 function resultOf<T>(b: Session, name: string): T {

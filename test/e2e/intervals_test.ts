@@ -14,7 +14,13 @@
 import { equal, match, ok } from "node:assert/strict";
 import { join } from "node:path";
 import type { Page } from "puppeteer-core";
-import { ARTIFACTS, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
+import {
+  ARTIFACTS,
+  settled,
+  skipWithoutBrowser,
+  THREE_WIDTHS,
+  withServedBrowser,
+} from "./_harness.ts";
 
 const ignore = skipWithoutBrowser("intervals");
 
@@ -64,18 +70,7 @@ function doc(): string {
     fence("fit censored", "on: water\nmodel: nitrate = a + b*day");
 }
 
-const WIDTHS = [{ width: 390, height: 844 }, { width: 960, height: 800 }, {
-  width: 1440,
-  height: 900,
-}];
-
-async function settled(page: Page): Promise<void> {
-  await page.waitForFunction(() => {
-    const cells = [...document.querySelectorAll("[data-block][data-state]")];
-    return cells.length > 0 &&
-      cells.every((c) => ["current", "failed"].includes(c.getAttribute("data-state") ?? ""));
-  }, { timeout: 60_000, polling: 50 });
-}
+const WIDTHS = THREE_WIDTHS;
 
 /** Sideways overflow of the page, of a block past the screen, or of a block's result. */
 function overflows(page: Page): Promise<string[]> {

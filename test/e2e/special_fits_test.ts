@@ -10,22 +10,17 @@
  */
 import { equal, match, ok } from "node:assert/strict";
 import type { Page } from "puppeteer-core";
-import { ARTIFACTS, skipWithoutBrowser, withServedBrowser } from "./_harness.ts";
+import {
+  ARTIFACTS,
+  settled,
+  skipWithoutBrowser,
+  THREE_WIDTHS,
+  withServedBrowser,
+} from "./_harness.ts";
 
 const ignore = skipWithoutBrowser("special fits");
 
-const WIDTHS = [{ width: 390, height: 844 }, { width: 960, height: 800 }, {
-  width: 1440,
-  height: 900,
-}];
-
-async function settled(page: Page): Promise<void> {
-  await page.waitForFunction(() => {
-    const cells = [...document.querySelectorAll("[data-block][data-state]")];
-    return cells.length > 0 &&
-      cells.every((c) => ["current", "failed"].includes(c.getAttribute("data-state") ?? ""));
-  }, { timeout: 60_000, polling: 50 });
-}
+const WIDTHS = THREE_WIDTHS;
 
 /** Sideways overflow of the page, and blocks past the screen. */
 function overflows(page: Page, names: string[]): Promise<string[]> {
