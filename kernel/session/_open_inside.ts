@@ -25,7 +25,6 @@ import { promises as fsp } from "node:fs";
 import fs from "node:fs";
 import { isAbsolute, join, relative } from "node:path";
 import { CellError, type OptionPath } from "../errors.ts";
-import { countLineFeeds } from "../csv/mod.ts";
 
 /** An open data file with the status of what was opened. */
 export interface OpenedFile {
@@ -121,14 +120,12 @@ export async function openInside(
   }
 }
 
-/** What {@link readOpened} gives: the bytes, their SHA-256 and their line feeds. */
+/** What {@link readOpened} gives: the bytes and their SHA-256. */
 export interface ReadBytes {
   /** The content, in a SharedArrayBuffer (handed to the compute worker without a copy). */
   bytes: Uint8Array;
   /** Lower-case hex SHA-256 of `bytes`. */
   sha256: string;
-  /** How many of the bytes are line feeds. */
-  lineFeeds: number;
 }
 
 /** Bytes read per request: big enough that requests cost nothing, small enough to overlap. */
@@ -137,7 +134,7 @@ const CHUNK = 1 << 22;
 /**
  * Reads an opened file from its handle into one buffer of the size fstat gave
  * (no more: a file growing meanwhile is read again on the watcher's next
- * change), hashing and counting line feeds chunk by chunk while the next
+ * change), hashing chunk by chunk while the next
  * chunk is being read.
  *
  * The buffer is a SharedArrayBuffer: the compute worker is handed the same
@@ -149,14 +146,14 @@ const CHUNK = 1 << 22;
  * refuses shared memory).
  *
  * @param file From {@link openInside}.
- * @returns The bytes (shorter when the file shrank meanwhile), their SHA-256 and line feeds.
+ * @returns The bytes (shorter when the file shrank meanwhile) and their SHA-256.
  */
 export async function readOpened(file: OpenedFile): Promise<ReadBytes> {
   const bytes = new Uint8Array(new SharedArrayBuffer(file.size));
   const hash = createHash("sha256");
   const readAt = (at: number) =>
     file.handle.read(bytes, at, Math.min(CHUNK, file.size - at), at).then((r) => r.bytesRead);
-  let at = 0, lineFeeds = 0;
+  let at = 0;
   let next = file.size > 0 ? readAt(0) : null;
   while (next !== null) {
     const got = await next;
@@ -165,12 +162,10 @@ export async function readOpened(file: OpenedFile): Promise<ReadBytes> {
     next = end < file.size ? readAt(end) : null;
     const chunk = bytes.subarray(at, end);
     hash.update(chunk);
-    lineFeeds += countLineFeeds(chunk);
     at = end;
   }
   return {
     bytes: at === file.size ? bytes : bytes.subarray(0, at),
     sha256: hash.digest("hex"),
-    lineFeeds,
   };
 }
