@@ -112,6 +112,27 @@ export function fitLeverage(
   return h;
 }
 
+/**
+ * Whether {@link fitLeverage} already holds this fit's leverages.
+ *
+ * @param fit The fit output.
+ * @returns True when they are remembered.
+ */
+export function leverageKnown(fit: object): boolean {
+  return remembered.has(fit);
+}
+
+/**
+ * Remembers leverages computed elsewhere in the way {@link fitLeverage} computes them (the same
+ * factor and rows: the check forms Q₁'s rows once for Durbin–Watson's traces and the leverages).
+ *
+ * @param fit The fit output.
+ * @param h hᵢ per row.
+ */
+export function rememberLeverage(fit: object, h: Float64Array): void {
+  remembered.set(fit, h);
+}
+
 /** The first `rank` columns of Q, Q·eₖ (Golub & Van Loan, *Matrix Computations*, 4th ed., §5.2). */
 function basisOf(f: QRFactorization): Float64Array[] {
   const e = new Float64Array(f.m);

@@ -46,7 +46,15 @@ export type { Fit } from "./fit.ts";
 export type { FitParameterResult, FitResult } from "./result.ts";
 export type { FitProblem, FitSolution } from "./problem.ts";
 export { refit, refitProblem } from "./refit.ts";
-export { fitBasis, fitFactor, fitLeverage, fitRobust, preciseAt } from "./fit_leverage.ts";
+export {
+  fitBasis,
+  fitFactor,
+  fitLeverage,
+  fitRobust,
+  leverageKnown,
+  preciseAt,
+  rememberLeverage,
+} from "./fit_leverage.ts";
 export { type Likelihood, likelihood } from "./_likelihood.ts";
 export { parseRange } from "./_parse_limits.ts";
 

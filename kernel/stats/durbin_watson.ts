@@ -273,6 +273,8 @@ export function tracesOfBasis(basis: readonly Float64Array[], n: number): Design
  * @param f R̃ of √W·X·S with its pivot order and scales.
  * @param design The design columns it was made from, by its column numbers.
  * @param weights wᵢ per row, or null.
+ * @param leverage When given (n long), filled with hᵢ = ‖zᵢ‖² of the same rows: a check needs
+ *   both, and forming Q₁'s rows is most of either's cost.
  * @returns The traces for the column space of the columns the factor covers.
  * @example
  * ```ts
@@ -290,6 +292,7 @@ export function tracesOfFactor(
   f: TriangularFactor,
   design: readonly Float64Array[],
   weights: Float64Array | null,
+  leverage?: Float64Array,
 ): DesignTraces {
   const n = design[0].length, sums = new TraceSums(f.p);
   let root: Float64Array | null = null;
@@ -297,7 +300,17 @@ export function tracesOfFactor(
     root = new Float64Array(n);
     for (let i = 0; i < n; i++) root[i] = Math.sqrt(weights[i]);
   }
-  qRows(f, design, n, root, (_, z) => sums.push(z));
+  if (leverage === undefined) qRows(f, design, n, root, (_, z) => sums.push(z));
+  else {
+    // hᵢ = ‖zᵢ‖², summed as kernel/linalg's inverseGramForms sums it (the same bits).
+    const p = f.p;
+    qRows(f, design, n, root, (i, z) => {
+      let ss = 0;
+      for (let k = 0; k < p; k++) ss += z[k] * z[k];
+      leverage[i] = ss;
+      sums.push(z);
+    });
+  }
   return sums.done();
 }
 

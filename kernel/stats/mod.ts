@@ -48,6 +48,7 @@ export {
 export { conditionNumber, conditionNumberOfFactor } from "./condition_number.ts";
 export {
   betaCdf as durbinWatsonBetaCdf,
+  type DesignTraces,
   durbinWatson,
   type DurbinWatsonTest,
   durbinWatsonTest,
