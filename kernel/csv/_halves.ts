@@ -1,15 +1,19 @@
 /**
  * A large file's records read in two halves at once: the second half by a
  * helper thread running the fast lane (`plainLoop` of `_plain_rows.ts`),
- * while this thread reads the first half as usual.
+ * while this thread reads the first half as usual. The line feeds that size
+ * the columns and number the helper's rows are counted on both sides of the
+ * cut at once too.
  *
  * ```
  *  bytes:  header │ first half ··········· │ second half ··········· │
  *                 dataStart                 mid (after a line feed)
- *  this thread:   readRows(dataStart → mid, rows 0 … F−1)      F = line feeds before mid
- *  helper:                                  plainLoop(mid →, rows F …) into the same
- *                                           shared columns, stopping at the first record
- *                                           that is not plain
+ *  1. count:  this thread: F = line feeds in [dataStart, mid)
+ *             helper:      G = line feeds in [mid, end)        (at the same time)
+ *     then columns for F + G + 1 records (recordBound's figure, in half the time)
+ *  2. read:   this thread: readRows(dataStart → mid, rows 0 … F−1)
+ *             helper:      plainLoop(mid →, rows F …) into the same shared
+ *                          columns, stopping at the first record that is not plain
  *  then:   first half ended exactly at mid on row F?  yes ─▶ take the helper's rows, read on
  *                                                     no  ─▶ stop the helper, read on from
  *                                                            where this thread stopped
@@ -18,7 +22,9 @@
  * The helper is a worker with no permissions made from source text (a
  * worker without permissions cannot load modules from files), used for one
  * read and then closed (an idle thread never collects its garbage, so a kept
- * helper held the last file's memory). Inside the compute worker it is not
+ * helper held the last file's memory). It is given two jobs in turn: the
+ * count, then (once this thread has made the columns) the rows, or a word
+ * to close when the file is read in one thread after all. Inside the compute worker it is not
  * started there: a worker started from a worker took about a second to begin
  * here (from the main thread, about 35 ms), longer than the read it was to
  * share. The main thread starts it when it hands over a large file and gives
@@ -28,7 +34,9 @@
  * the same code. Its rows are taken only when the first half had exactly as
  * many records as line feeds (no blank line, no quoted line break, no lone
  * CR): otherwise its row numbers would be off, and this thread reads the
- * rest itself, as a one-thread read would. Long numbers, quotes, stray
+ * rest itself, as a one-thread read would. A helper that has not begun its
+ * count when this thread has finished its own is not waited for: this
+ * thread counts the second half too. Long numbers, quotes, stray
  * values: the helper stops there and this thread reads on from that record.
  * The two threads meet through a small shared status array (Atomics), so the
  * reader stays synchronous.
@@ -40,22 +48,35 @@ import { MissingMarkers } from "./_fields.ts";
 import type { NumberPass } from "./_passes.ts";
 import { plainLoop } from "./_plain_rows.ts";
 import { POW10 } from "./decimal_parser.ts";
+import { countLineFeeds, LFS } from "./line_feeds.ts";
 import { type Place, readRows } from "./_read_rows.ts";
 import type { ResolvedOptions } from "./_options.ts";
 
 /** Files from this size are read in halves (smaller ones take less than a helper's start). */
 export const HALVES_FROM = 32 << 20;
 
-// The status array: [state, row reached, byte reached, rows done so far, missing per column …].
-const STATE = 0, ROW = 1, POS = 2, DONE = 3, MISSED = 4;
+// The status array: [state, row reached, byte reached, rows done so far, line feeds counted,
+// missing per column …].
+const STATE = 0, ROW = 1, POS = 2, DONE = 3, FEEDS = 4, MISSED = 5;
 // Its states: 0 posted, 1 working, 2 finished, 3 asked to stop, 4 stopped, 5 failed, 6 taken
-// back before it began (the helper, run from its source text, writes them as numbers).
-const POSTED = 0, WORKING = 1, FINISHED = 2, STOP = 3, FAILED = 5, TAKEN_BACK = 6;
+// back before it began, 7 counted (waiting for the rows) (the helper, run from its source text,
+// writes them as numbers).
+const POSTED = 0, WORKING = 1, FINISHED = 2, STOP = 3, FAILED = 5, TAKEN_BACK = 6, COUNTED = 7;
 /** How long a helper may go without finishing a block of rows before it is given up. */
 const STALL_MS = 10_000;
 
-/** The helper's job, as posted. */
-interface Job {
+/** The helper's first job: count the line feeds in `bytes[start, end)`. */
+interface CountJob {
+  op: "count";
+  bytes: Uint8Array;
+  status: SharedArrayBuffer;
+  start: number;
+  end: number;
+}
+
+/** The helper's second job: read plain records into the shared columns. */
+interface ReadJob {
+  op: "read";
   bytes: Uint8Array;
   values: (Float64Array | null)[];
   status: SharedArrayBuffer;
@@ -68,14 +89,35 @@ interface Job {
   markers: readonly string[];
 }
 
+/** What the helper is posted: a job, or a word to close (no rows for it after all). */
+type HelperMessage = CountJob | ReadJob | { op: "close" };
+
 /** The helper thread's message loop (run there from its source text; see the module notes). */
 function helperMain(): void {
-  // One job, posted to the thread or through a port given first; then the thread closes.
-  self.onmessage = (e: MessageEvent<Job | { port: MessagePort }>) => {
-    if ("port" in e.data) e.data.port.onmessage = (j: MessageEvent<Job>) => job(j.data);
-    else job(e.data);
+  // Its jobs, posted to the thread or through a port given first; then the thread closes.
+  const take = (m: HelperMessage) => {
+    if (m.op === "count") count(m);
+    else if (m.op === "read") job(m);
+    else self.close();
   };
-  const job = (m: Job) => {
+  self.onmessage = (e: MessageEvent<HelperMessage | { port: MessagePort }>) => {
+    if ("port" in e.data) e.data.port.onmessage = (j: MessageEvent<HelperMessage>) => take(j.data);
+    else take(e.data);
+  };
+  const count = (m: CountJob) => {
+    const st = new Int32Array(m.status);
+    if (Atomics.compareExchange(st, 0, 0, 1) !== 0) return self.close(); // taken back before it began
+    let ok = false;
+    try {
+      st[4] = countLineFeeds(m.bytes, m.start, m.end);
+      ok = true;
+    } finally {
+      Atomics.store(st, 0, ok ? 7 : 5);
+      Atomics.notify(st, 0);
+      if (!ok) self.close();
+    }
+  };
+  const job = (m: ReadJob) => {
     const st = new Int32Array(m.status), n = m.values.length;
     if (Atomics.compareExchange(st, 0, 0, 1) !== 0) return self.close(); // taken back before it began
     const missed = new Int32Array(n);
@@ -109,7 +151,7 @@ function helperMain(): void {
     } finally {
       st[1] = row;
       st[2] = pos;
-      for (let c = 0; c < n; c++) st[4 + c] = missed[c];
+      for (let c = 0; c < n; c++) st[5 + c] = missed[c];
       if (Atomics.compareExchange(st, 0, 1, ok ? 2 : 5) === 3) Atomics.store(st, 0, ok ? 4 : 5);
       Atomics.notify(st, 0);
       self.close();
@@ -119,7 +161,7 @@ function helperMain(): void {
 
 /** Where a job goes: a helper this thread started, or a port to one another thread started. */
 interface Helper {
-  postMessage(job: Job): void;
+  postMessage(message: HelperMessage): void;
 }
 
 let helper: Worker | null | undefined;
@@ -159,6 +201,9 @@ export function halvesHelperWorker(): Worker | null {
       `const SPLITTER = 134217729;`, // 2^27 + 1, as kernel/dd.ts (productError's splitter)
       `const POW10 = new Float64Array([${Array.from(POW10).join(", ")}]);`,
       `const productError = ${productError.toString()};`,
+      `const EMPTY = new Int32Array(0);`,
+      `const LFS = ${LFS};`,
+      `const countLineFeeds = ${countLineFeeds.toString()};`,
       `const encoder = new TextEncoder();`,
       `const MissingMarkers = ${MissingMarkers.toString()};`,
       `const plainLoop = ${plainLoop.toString()};`,
@@ -181,10 +226,12 @@ function helperThread(): Helper | null {
     const { port, used } = given;
     if (port === null) return null;
     given = { port: null, used };
+    let first = true;
     return {
-      postMessage(job) {
-        port.postMessage(job);
-        used();
+      postMessage(message) {
+        port.postMessage(message);
+        if (first) used(); // the port's helper is this read's: ask for another
+        first = false;
       },
     };
   }
@@ -206,6 +253,83 @@ export function stopHalvesHelper(): void {
   helper = undefined;
 }
 
+/** A large file cut in two after a line feed near its middle, each side's line feeds counted. */
+export interface Cut {
+  /** One past the line feed the second half starts after. */
+  mid: number;
+  /** Line feeds in [dataStart, mid): the second half's first row. */
+  firstRows: number;
+  /** Line feeds in [dataStart, end) (end before the trailing line ends): recordBound's count. */
+  feeds: number;
+  /** The helper, having counted, waiting for its rows; null when this thread counted alone. */
+  helper: { thread: Helper; status: Int32Array } | null;
+}
+
+/**
+ * Cuts a large file in two and counts the line feeds of both sides at once
+ * (the second side by the helper, which then waits for its rows: give them
+ * with {@link readInHalves}, or let it go with {@link releaseCut}).
+ *
+ * @param bytes The file.
+ * @param dataStart The first record's byte.
+ * @param end One past the last byte that is not a trailing line end.
+ * @returns The cut, or null for a file too short to cut (count it in one).
+ */
+export function cutInHalves(bytes: Uint8Array, dataStart: number, end: number): Cut | null {
+  if (bytes.length >= 2 ** 31) return null;
+  const mid = bytes.indexOf(0x0a, (dataStart + bytes.length) >> 1) + 1;
+  if (mid <= dataStart || mid >= end) return null;
+  const thread = helperThread();
+  const st = new Int32Array(new SharedArrayBuffer(4 * MISSED));
+  thread?.postMessage({
+    op: "count",
+    bytes,
+    status: st.buffer as SharedArrayBuffer,
+    start: mid,
+    end,
+  });
+  const firstRows = countLineFeeds(bytes, dataStart, mid);
+  if (thread !== null && waitForCount(st)) {
+    const feeds = firstRows + st[FEEDS];
+    return { mid, firstRows, feeds, helper: { thread, status: st } };
+  }
+  // No helper, or one that did not begin in time (it closes when it sees its job taken back, or
+  // on this word after a late count).
+  thread?.postMessage({ op: "close" });
+  stopHalvesHelper();
+  return { mid, firstRows, feeds: firstRows + countLineFeeds(bytes, mid, end), helper: null };
+}
+
+/** Waits for the helper's count (or takes its job back when it has not begun); true if counted. */
+function waitForCount(st: Int32Array): boolean {
+  const until = Date.now() + STALL_MS;
+  while (halvesForTests.waitForHelper && Atomics.load(st, STATE) === POSTED && Date.now() < until) {
+    Atomics.wait(st, STATE, POSTED, 10);
+  }
+  if (Atomics.compareExchange(st, STATE, POSTED, TAKEN_BACK) === POSTED) return false;
+  for (;;) {
+    const state = Atomics.load(st, STATE);
+    if (state === COUNTED) return true;
+    if (state !== WORKING || Date.now() > until) return false;
+    Atomics.wait(st, STATE, WORKING, 50);
+  }
+}
+
+/**
+ * Lets a cut's helper go without rows (the file is read in one thread after
+ * all), or after they were taken; safe to call more than once.
+ *
+ * @param cut From {@link cutInHalves}.
+ */
+export function releaseCut(cut: Cut): void {
+  const h = cut.helper;
+  cut.helper = null;
+  if (h !== null && Atomics.load(h.status, STATE) === COUNTED) {
+    h.thread.postMessage({ op: "close" });
+  }
+  stopHalvesHelper();
+}
+
 /**
  * Reads the records from `dataStart` on in two halves (see the module notes).
  *
@@ -215,9 +339,8 @@ export function stopHalvesHelper(): void {
  * @param ncols Fields per record.
  * @param progress Progress callback.
  * @param dataStart The first record's byte.
- * @param mid One past a line feed near the middle.
- * @param firstRows Line feeds between `dataStart` and `mid`.
- * @returns The row count, or null when no helper thread could be had (read it in one).
+ * @param cut From {@link cutInHalves}, its helper waiting for rows.
+ * @returns The row count, or null when the cut has no helper (read it in one).
  */
 export function readInHalves(
   bytes: Uint8Array,
@@ -226,13 +349,14 @@ export function readInHalves(
   ncols: number,
   progress: (fraction: number) => void,
   dataStart: number,
-  mid: number,
-  firstRows: number,
+  cut: Cut,
 ): number | null {
-  const thread = helperThread();
-  if (thread === null) return null;
+  const { mid, firstRows, helper } = cut;
+  if (helper === null) return null;
+  cut.helper = null;
   const st = new Int32Array(new SharedArrayBuffer(4 * (MISSED + ncols)));
-  const job: Job = {
+  const job: ReadJob = {
+    op: "read",
     bytes,
     values: pass.values,
     status: st.buffer as SharedArrayBuffer,
@@ -244,7 +368,7 @@ export function readInHalves(
     point: pass.parser.decimalByte,
     markers: o.missing,
   };
-  thread.postMessage(job);
+  helper.thread.postMessage(job);
   let first: Place;
   try {
     first = readRows(bytes, o, pass, ncols, progress, { pos: dataStart, row: 0 }, {
@@ -253,6 +377,7 @@ export function readInHalves(
     });
   } catch (err) {
     settle(st, true);
+    stopHalvesHelper();
     throw err;
   }
   const joined = first.row === firstRows && first.pos === mid;

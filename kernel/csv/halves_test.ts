@@ -7,7 +7,8 @@
 import assert from "node:assert/strict";
 import { mulberry32Uint } from "../random.ts";
 import { DelimitedError } from "./delimited_error.ts";
-import { halvesForTests, stopHalvesHelper } from "./_halves.ts";
+import { cutInHalves, halvesForTests, releaseCut, stopHalvesHelper } from "./_halves.ts";
+import { countLineFeeds, recordBound, recordsEnd } from "./line_feeds.ts";
 import { type DelimitedData, readDelimited, type ReadDelimitedOptions } from "./read_delimited.ts";
 
 const enc = new TextEncoder();
@@ -99,5 +100,37 @@ Deno.test({
       halvesForTests.waitForHelper = false;
       stopHalvesHelper();
     }
+  },
+});
+
+Deno.test({
+  name: "cutInHalves() counts both sides' line feeds as recordBound does, helper or not",
+  sanitizeResources: false,
+  fn() {
+    const rows = plainRows(5_000, 5);
+    // Exact: the two sides' line feeds add up to recordBound's count (exact counting, no source).
+    for (const tail of ["\n", "\n\n\r\n", ""]) {
+      const bytes = enc.encode("i,x,y\n" + rows.join("\n") + tail);
+      const dataStart = 6;
+      for (const wait of [true, false]) {
+        halvesForTests.waitForHelper = wait;
+        try {
+          const cut = cutInHalves(bytes, dataStart, recordsEnd(bytes));
+          assert.ok(cut !== null);
+          assert.equal(cut.feeds + 1, recordBound(bytes, dataStart));
+          assert.equal(cut.firstRows, countLineFeeds(bytes, dataStart, cut.mid));
+          assert.equal(bytes[cut.mid - 1], 0x0a, "cut after a line feed");
+          if (wait) assert.ok(cut.helper !== null, "the helper counted the second half");
+          releaseCut(cut);
+          releaseCut(cut); // twice: nothing more happens
+        } finally {
+          halvesForTests.waitForHelper = false;
+          stopHalvesHelper();
+        }
+      }
+    }
+    // A file whose second half is only line ends is not cut.
+    const short = enc.encode("i,x,y\n1,2,3\n" + "\n".repeat(40));
+    assert.equal(cutInHalves(short, 6, recordsEnd(short)), null);
   },
 });

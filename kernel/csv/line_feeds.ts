@@ -17,8 +17,8 @@
 
 const EMPTY = new Int32Array(0);
 
-/** A line feed in every byte lane. */
-const LFS = 0x0a0a0a0a;
+/** A line feed in every byte lane (exported for the CSV helper thread's source text). */
+export const LFS = 0x0a0a0a0a;
 
 /**
  * The number of line feeds (0x0A) in `bytes[start, end)`.
@@ -67,8 +67,7 @@ export function countLineFeeds(bytes: Uint8Array, start = 0, end: number = bytes
  * @returns At least the number of records there.
  */
 export function recordBound(bytes: Uint8Array, start: number): number {
-  let end = bytes.length;
-  while (end > start && (bytes[end - 1] === 0x0a || bytes[end - 1] === 0x0d)) end--;
+  const end = recordsEnd(bytes);
   if (end <= start) return 0;
   const lfs = countLineFeeds(bytes, start, end);
   if (lfs > 0) return lfs + 1;
@@ -81,4 +80,22 @@ export function recordBound(bytes: Uint8Array, start: number): number {
     crs++;
   }
   return crs + 1;
+}
+
+/**
+ * One past the last byte that is not a trailing line end (LF or CR): where
+ * {@link recordBound} stops counting.
+ *
+ * @param bytes The file.
+ * @returns The end of the last record.
+ * @example
+ * ```ts
+ * import { recordsEnd } from "./line_feeds.ts";
+ * if (recordsEnd(new TextEncoder().encode("a\n1\r\n\n")) !== 3) throw new Error("3");
+ * ```
+ */
+export function recordsEnd(bytes: Uint8Array): number {
+  let end = bytes.length;
+  while (end > 0 && (bytes[end - 1] === 0x0a || bytes[end - 1] === 0x0d)) end--;
+  return end;
 }

@@ -35,8 +35,8 @@ import { type ResolvedOptions, resolveOptions } from "./_options.ts";
 import { NumberPass, TextPass } from "./_passes.ts";
 import { type FieldSink, Scanner } from "./_scanner.ts";
 import { PROGRESS_EVERY, readRows, wrongCount } from "./_read_rows.ts";
-import { readInHalves } from "./_halves.ts";
-import { countLineFeeds, recordBound } from "./line_feeds.ts";
+import { cutInHalves, readInHalves, releaseCut } from "./_halves.ts";
+import { recordBound, recordsEnd } from "./line_feeds.ts";
 import { checkHeader, checkTypes, decideTypes } from "./_typing.ts";
 
 import type { ReadDelimitedOptions } from "./_options.ts";
@@ -128,27 +128,37 @@ export function readDelimited(
   const parser = new DecimalParser({ decimal: o.decimal });
   const dataStart = scanner.pos;
   const parse = declaredText.map((t) => !t);
-  // Room for every record at once (no growing, no trimming copy for the usual file).
-  const bound = recordBound(bytes, dataStart);
-  const parsed = parse.filter((p) => p).length;
-  const rowsWithLo = parsed === 0 ? Infinity : Math.floor(o.loLimit / parsed);
-  const progress = (f: number) => o.onProgress?.(0.9 * f);
-  const keepLo = bound < rowsWithLo;
-  const split = keepLo ? null : halves(bytes, dataStart, o);
-  let pass1 = new NumberPass(bytes, parse, parser, markers, keepLo, bound, split !== null);
-  let rows =
-    (split === null || pass1.markersFirst
+  // Room for every record at once (no growing, no trimming copy for the usual file). A large
+  // file is cut in two and each side's line feeds counted at once (_halves.ts).
+  const cut = bytes.length >= o.halvesFrom
+    ? cutInHalves(bytes, dataStart, recordsEnd(bytes))
+    : null;
+  let pass1: NumberPass, rows: number;
+  try {
+    const bound = cut !== null ? cut.feeds + 1 : recordBound(bytes, dataStart);
+    const parsed = parse.filter((p) => p).length;
+    const rowsWithLo = parsed === 0 ? Infinity : Math.floor(o.loLimit / parsed);
+    const progress = (f: number) => o.onProgress?.(0.9 * f);
+    const keepLo = bound < rowsWithLo;
+    const split = keepLo ? null : cut;
+    pass1 = new NumberPass(bytes, parse, parser, markers, keepLo, bound, split !== null);
+    rows = (split === null || pass1.markersFirst
       ? null
-      : readInHalves(bytes, o, pass1, ncols, progress, dataStart, split.mid, split.firstRows)) ??
+      : readInHalves(bytes, o, pass1, ncols, progress, dataStart, split)) ??
       readRows(bytes, o, pass1, ncols, progress, { pos: dataStart, row: 0 }).row;
-  if (bound >= rowsWithLo && rows < rowsWithLo) {
-    // Fewer records than the bound said (blank lines, quoted line ends) and few enough to keep
-    // their corrections: read again with them.
-    pass1 = new NumberPass(bytes, parse, parser, markers, true, rows);
-    rows = readRows(bytes, o, pass1, ncols, progress, { pos: dataStart, row: 0 }).row;
+    if (bound >= rowsWithLo && rows < rowsWithLo) {
+      // Fewer records than the bound said (blank lines, quoted line ends) and few enough to keep
+      // their corrections: read again with them.
+      pass1 = new NumberPass(bytes, parse, parser, markers, true, rows);
+      rows = readRows(bytes, o, pass1, ncols, progress, { pos: dataStart, row: 0 }).row;
+    }
+    // More records than the bound said (lone CR line ends among line feeds): too many to keep them.
+    if (rows >= rowsWithLo) {
+      pass1.lo.fill(null);
+    }
+  } finally {
+    if (cut !== null) releaseCut(cut);
   }
-  // More records than the bound said (lone CR line ends among line feeds): too many to keep them.
-  if (rows >= rowsWithLo) pass1.lo.fill(null);
   const kinds = decideTypes(names, o.types, pass1);
   const textCols = kinds.map((k) => k === "text");
   let pass2: TextPass | null = null;
@@ -171,22 +181,6 @@ export function readDelimited(
     };
   });
   return { rowCount: rows, columns, delimiter: o.delimiter, decimal: o.decimal };
-}
-
-/**
- * Where to cut a file read in halves (`_halves.ts`): after the line feed
- * nearest the middle of the records, with the line feeds before it; null
- * for a file under `halvesFrom` bytes or too short to cut.
- */
-function halves(
-  bytes: Uint8Array,
-  dataStart: number,
-  o: ResolvedOptions,
-): { mid: number; firstRows: number } | null {
-  if (bytes.length < o.halvesFrom || bytes.length >= 2 ** 31) return null;
-  const mid = bytes.indexOf(0x0a, (dataStart + bytes.length) >> 1) + 1;
-  if (mid <= dataStart || mid >= bytes.length) return null;
-  return { mid, firstRows: countLineFeeds(bytes, dataStart, mid) };
 }
 
 /** The first `rows` values: the array itself when it has exactly that many (the usual case). */
