@@ -31,7 +31,7 @@
 import { DecimalParser } from "./decimal_parser.ts";
 import { DelimitedError } from "./delimited_error.ts";
 import { decodeField, MissingMarkers } from "./_fields.ts";
-import { type ResolvedOptions, resolveOptions } from "./_options.ts";
+import { resolveOptions } from "./_options.ts";
 import { NumberPass, TextPass } from "./_passes.ts";
 import { type FieldSink, Scanner } from "./_scanner.ts";
 import { PROGRESS_EVERY, readRows, wrongCount } from "./_read_rows.ts";
