@@ -47,6 +47,8 @@ import { productError } from "../dd.ts";
 import { MissingMarkers } from "./_fields.ts";
 import type { NumberPass } from "./_passes.ts";
 import { plainLoop } from "./_plain_rows.ts";
+import { PLAIN_LANE_WASM } from "./_plain_lane_bytes.ts";
+import { makeWasmLane, useWasm, wasmLoop } from "./_plain_wasm.ts";
 import { POW10 } from "./decimal_parser.ts";
 import { countLineFeeds, LFS } from "./line_feeds.ts";
 import { type Place, readRows } from "./_read_rows.ts";
@@ -87,6 +89,8 @@ interface ReadJob {
   delim: number;
   point: number;
   markers: readonly string[];
+  /** Whether to read through the WebAssembly lane (`_plain_wasm.ts`). */
+  wasm: boolean;
 }
 
 /** What the helper is posted: a job, or a word to close (no rows for it after all). */
@@ -137,10 +141,13 @@ function helperMain(): void {
         slow: () => NaN, // a long number: this thread stops there
       };
       const los = m.values.map(() => null);
+      const w = m.wasm ? makeWasmLane(PLAIN_LANE_WASM, POW10) : null;
       while (row < m.limit && Atomics.load(st, 0) === 1) {
         const next = Math.min(m.limit, row + 65536);
         lane.missed.fill(0);
-        const r = plainLoop(lane, pos, row, next, m.values, los);
+        const r = w !== null
+          ? wasmLoop(w, lane, pos, row, next, m.values, los, plainLoop)
+          : plainLoop(lane, pos, row, next, m.values, los);
         for (let c = 0; c < n; c++) missed[c] += lane.missed[c];
         row = r;
         pos = lane.pos;
@@ -207,6 +214,9 @@ export function halvesHelperWorker(): Worker | null {
       `const encoder = new TextEncoder();`,
       `const MissingMarkers = ${MissingMarkers.toString()};`,
       `const plainLoop = ${plainLoop.toString()};`,
+      `const PLAIN_LANE_WASM = ${JSON.stringify(PLAIN_LANE_WASM)};`,
+      `const makeWasmLane = ${makeWasmLane.toString()};`,
+      `const wasmLoop = ${wasmLoop.toString()};`,
       `(${helperMain.toString()})();`,
     ].join("\n");
     const url = URL.createObjectURL(new Blob([source], { type: "application/javascript" }));
@@ -367,6 +377,7 @@ export function readInHalves(
     delim: o.delimByte,
     point: pass.parser.decimalByte,
     markers: o.missing,
+    wasm: useWasm(bytes.length - mid, ncols, []),
   };
   helper.thread.postMessage(job);
   let first: Place;
