@@ -1,5 +1,5 @@
 ;; The CSV reader's fast lane for plain records, in WebAssembly: the source of
-;; _plain_lane_bytes.ts (built by build_lane.ts with WABT; plain_wasm_test.ts
+;; _plain_lane_bytes.ts (built by kernel/wasm/build.ts with WABT; plain_wasm_test.ts
 ;; checks that the two agree). Driven by _plain_wasm.ts.
 ;;
 ;; rows(p, end, ncols, maxRows, out, stride, delim, point) reads plain records

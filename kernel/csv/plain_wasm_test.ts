@@ -8,7 +8,7 @@
  */
 import assert from "node:assert/strict";
 import { mulberry32Uint } from "../random.ts";
-import { buildLane } from "./build_lane.ts";
+import { buildWasm, SOURCES } from "../wasm/build.ts";
 import { PLAIN_LANE_WASM } from "./_plain_lane_bytes.ts";
 import { laneForTests, wasmTaken } from "./_plain_wasm.ts";
 import { halvesForTests, stopHalvesHelper } from "./_halves.ts";
@@ -17,7 +17,12 @@ import { type DelimitedData, readDelimited, type ReadDelimitedOptions } from "./
 const enc = new TextEncoder();
 
 Deno.test("_plain_lane_bytes.ts is what plain_lane.wat assembles to", async () => {
-  assert.equal(await buildLane(), PLAIN_LANE_WASM, "run kernel/csv/build_lane.ts after editing");
+  const source = SOURCES.find((s) => s.name === "PLAIN_LANE_WASM")!;
+  assert.equal(
+    await buildWasm(source.wat),
+    PLAIN_LANE_WASM,
+    "run kernel/wasm/build.ts after editing",
+  );
 });
 
 /** Fields for the module's every turn: what it reads, and what it leaves to the JavaScript lane. */

@@ -12,6 +12,7 @@
  * @module
  */
 import { columnNorm } from "./_householder.ts";
+import { wasmMatrix } from "./_wasm_vectors.ts";
 
 /** Scale factors s_j (a power of two; 1 for a zero column). */
 export function powerOfTwoScales(columns: readonly Float64Array[]): Float64Array {
@@ -29,7 +30,8 @@ export function scaledDesign(
   s: Float64Array,
   m: number,
 ): Float64Array {
-  const a = new Float64Array(m * columns.length);
+  // In WebAssembly memory for the QR's kernels, with room for one working vector (apply_qt.ts).
+  const a = wasmMatrix(m * columns.length, m);
   columns.forEach((c, j) => {
     const sj = s[j], o = j * m;
     for (let i = 0; i < m; i++) a[o + i] = c[i] * sj;

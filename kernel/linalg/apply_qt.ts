@@ -9,6 +9,7 @@
  * @module
  */
 import { applyReflector } from "./_householder.ts";
+import { kernelsOf, WASM_FROM } from "./_wasm_vectors.ts";
 import type { QRFactorization } from "./householder_qr.ts";
 
 function checkLength(f: QRFactorization, y: ArrayLike<number>, what: string): void {
@@ -59,7 +60,9 @@ export function applyQt(f: QRFactorization, y: ArrayLike<number>): Float64Array 
 export function applyQtInPlace(f: QRFactorization, z: Float64Array): Float64Array {
   checkLength(f, z, "Qᵀ");
   const { qr, tau, m } = f;
-  for (let i = 0; i < tau.length; i++) applyReflector(qr, i + i * m, tau[i], z, i, m - i);
+  const w = beside(f, z);
+  for (let i = 0; i < tau.length; i++) applyReflector(qr, i + i * m, tau[i], w, i, m - i);
+  if (w !== z) z.set(w);
   return z;
 }
 
@@ -107,6 +110,21 @@ export function applyQ(f: QRFactorization, z: ArrayLike<number>): Float64Array {
 export function applyQInPlace(f: QRFactorization, y: Float64Array): Float64Array {
   checkLength(f, y, "Q");
   const { qr, tau, m } = f;
-  for (let i = tau.length - 1; i >= 0; i--) applyReflector(qr, i + i * m, tau[i], y, i, m - i);
+  const w = beside(f, y);
+  for (let i = tau.length - 1; i >= 0; i--) applyReflector(qr, i + i * m, tau[i], w, i, m - i);
+  if (w !== y) y.set(w);
   return y;
+}
+
+/**
+ * Where to transform a vector: the spare vector of the factor's WebAssembly
+ * memory (a copy of `z`, so the reflectors run in its kernels;
+ * `_wasm_vectors.ts`), or `z` itself.
+ */
+function beside(f: QRFactorization, z: Float64Array): Float64Array {
+  if (z.buffer === f.qr.buffer || f.m <= WASM_FROM) return z;
+  const spare = kernelsOf(f.qr)?.spare;
+  if (spare === undefined || spare.length !== f.m) return z;
+  spare.set(z);
+  return spare;
 }
