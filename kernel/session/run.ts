@@ -37,12 +37,12 @@ import { referencedFields } from "./inline_refs.ts";
 import { lineCount } from "./files.ts";
 import { Waiting } from "./_waiting.ts";
 import type { CellReport, CellState, Plan, RunReport } from "./types.ts";
-import { collectGarbage } from "./_collect.ts";
+import { collectGarbage } from "../collect.ts";
 import { startAhead } from "../sandbox/mod.ts";
 
 /**
  * Bytes let go at once from which a run also drops them in the workers and collects garbage
- * (`once`; _collect.ts).
+ * (`once`; kernel/collect.ts).
  */
 const COLLECT_FROM = 32 << 20;
 
@@ -69,6 +69,10 @@ export class Run {
   #fileData = new Map<string, FileData>();
   /** With `once`: cells still to settle that read each file (counted at the first settle). */
   #readersLeft: Map<string, number> | null = null;
+  /** With `once`: cells not yet sent that read each file (counted at the first sending). */
+  #unsentReaders: Map<string, number> | null = null;
+  /** With `once`: cells counted in {@link Run.#unsentReaders} already. */
+  #sentReaders = new Set<CellNode>();
   /** With `once`: the files let go, as the report gives them. */
   #filesLetGo = new Map<string, RunReport["files"][number]>();
   #fileErrors = new Map<CellNode, LocatedError>();
@@ -454,6 +458,7 @@ export class Run {
     if (failed !== null) return failed;
     const files: Record<string, FileData> = {};
     for (const f of node.files) files[f.path] = this.#fileData.get(f.path)!;
+    const letGo = this.#lastReaderOf(node);
     if (tell === "start") this.#emit(node.name, "computing");
     const sent = { name: node.name, computed: false };
     this.#sent.push(sent);
@@ -468,6 +473,7 @@ export class Run {
       ...stampOf(this.#host.stamps.of(node)),
       ...this.#shapeOf(node.name),
       ...(this.#host.keep ? { keep: true } : {}),
+      ...(letGo.length > 0 ? { letGo } : {}),
       onProgress: (fraction, note) => {
         if (tell !== "nothing") this.#emit(node.name, "computing", fraction, note);
       },
@@ -502,6 +508,32 @@ export class Run {
       if (!again.ok) return again;
     }
     return null;
+  }
+
+  /**
+   * With `once`: the SHA-256s of the files this cell is the last to be sent
+   * that reads (`RunRequest.letGo`: the worker drops them after it). Counted
+   * once per cell, at its first sending.
+   */
+  #lastReaderOf(node: CellNode): string[] {
+    if (!this.#host.once || this.#sentReaders.has(node)) return [];
+    this.#sentReaders.add(node);
+    if (this.#unsentReaders === null) {
+      this.#unsentReaders = new Map();
+      for (const n of this.#plan.graph.nodes) {
+        for (const p of new Set(n.files.map((f) => f.path))) {
+          this.#unsentReaders.set(p, (this.#unsentReaders.get(p) ?? 0) + 1);
+        }
+      }
+    }
+    const last: string[] = [];
+    for (const path of new Set(node.files.map((f) => f.path))) {
+      const left = (this.#unsentReaders.get(path) ?? 1) - 1;
+      this.#unsentReaders.set(path, left);
+      const data = this.#fileData.get(path);
+      if (left === 0 && data !== undefined) last.push(data.sha256);
+    }
+    return last;
   }
 
   #emit(name: string, state: CellState, fraction?: number, note?: string): void {

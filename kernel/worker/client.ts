@@ -347,7 +347,10 @@ export class ComputeWorker {
         ...(job.page === undefined ? {} : { page: job.page }),
         ...(job.keep ? { keep: true } : {}),
         ...(job.lean === undefined ? {} : { lean: job.lean }),
+        ...(job.letGo === undefined ? {} : { letGo: job.letGo }),
       });
+      // The worker drops them after this run: a later run reading one sends it again.
+      for (const sha of job.letGo ?? []) this.#files.delete(sha);
     });
   }
 

@@ -70,3 +70,21 @@ Deno.test("ComputeWorker.retain() sent while a run waits in the queue keeps that
     deepEqual([b.ok, b.summary], [true, { value: 6 }]);
   });
 });
+
+Deno.test("ComputeWorker.run() with letGo: the worker drops the file after the run; a later reader sends it again", async () => {
+  await withWorker(async (w) => {
+    const bytes = new TextEncoder().encode("abcde");
+    const file = { path: "d.txt", bytes, sha256: "sha-of-abcde" };
+    const read = (key: string, letGo?: string[]) =>
+      w.run({
+        ...job("bytes", key, { from: "d.txt" }),
+        files: { "d.txt": file },
+        ...(letGo ? { letGo } : {}),
+      });
+    const first = await read("k1", ["sha-of-abcde"]);
+    deepEqual([first.ok, first.summary], [true, { value: 5 }]);
+    // Dropped in the worker and forgotten here: sent again with the next run that reads it.
+    const second = await read("k2");
+    deepEqual([second.ok, second.summary], [true, { value: 5 }]);
+  });
+});

@@ -21,6 +21,7 @@
 import type { CellOutput, Registry } from "../contract/mod.ts";
 import { resummarise, runCell, type WorkerStore } from "./_run_cell.ts";
 import { useHalvesHelper } from "../csv/mod.ts";
+import { collectGarbage } from "../collect.ts";
 import {
   type CancelMessage,
   type ExportRequest,
@@ -154,9 +155,27 @@ export function serveComputeWorker(registry: Registry): void {
               ? transientAnswer(msg.id, "Cancelled: a newer run took over", { cancelled: true })
               : await runCell(registry, store, msg, post),
           );
+          if (msg.letGo !== undefined) letGo(store, msg.letGo);
         });
     }
   };
+}
+
+/** Bytes dropped at once from which the worker collects its garbage before the next run. */
+const COLLECT_FROM = 32 << 20;
+
+/**
+ * Drops files no later run reads (`RunRequest.letGo`); large ones are freed
+ * at once by a collection (the worker's collector would otherwise wait, with
+ * a fit's arrays beside them; kernel/collect.ts).
+ */
+function letGo(store: WorkerStore, shas: readonly string[]): void {
+  let dropped = 0;
+  for (const sha of shas) {
+    dropped += store.files.get(sha)?.bytes.length ?? 0;
+    store.files.delete(sha);
+  }
+  if (dropped >= COLLECT_FROM) collectGarbage();
 }
 
 /** Notes runs to answer as cancelled when their turn comes. */

@@ -71,6 +71,13 @@ export interface RunRequest {
   /** True: also answer with what the run history keeps (`DoneMessage.kept`). */
   keep?: boolean;
   /**
+   * SHA-256s of files no run sent after this one reads (one-shot runs): the
+   * worker drops them once this run is done and, for large ones, collects its
+   * garbage before the next run, so their bytes do not stay resident beside
+   * the later cells' arrays until the run's end.
+   */
+  letGo?: string[];
+  /**
    * Present (requests without `page`): leave the kind's per-row fields
    * (`CellKind.rows`) out of the complete summary, except these (inline values
    * name them); the answer's `omitted` lists what was left out.
