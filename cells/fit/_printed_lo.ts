@@ -24,9 +24,14 @@
  * independent of its neighbours, so a block of rows gives the same
  * corrections as the whole column, and costs one try a value.
  *
+ * Speed: the same computation runs in WebAssembly a block of values at a
+ * time (kernel/csv/printed_lo.ts: the same bits, about four times as fast);
+ * {@link correction} here is its reference and its fallback.
+ *
  * @module
  */
 import { productError } from "../../kernel/dd.ts";
+import { wasmCorrections } from "../../kernel/csv/printed_lo.ts";
 import type { DDColumn } from "./_dd_design.ts";
 
 const POW10 = Array.from({ length: 23 }, (_, k) => 10 ** k); // exact up to 10^22
@@ -47,7 +52,7 @@ function decade(a: number): number {
 }
 
 /** The correction of one value (see the module notes); 0 when there is none to recover. */
-function correction(v: number): number {
+export function correction(v: number): number {
   if (Number.isInteger(v) || !Number.isFinite(v) || Math.abs(v) >= LIMIT) return 0;
   let k = Math.min(22, 14 - decade(Math.abs(v)));
   let t = POW10[k], p = v * t, m = Math.round(p);
@@ -74,6 +79,11 @@ function correction(v: number): number {
  */
 export function printedLo(values: ArrayLike<number>): Float64Array | null {
   const n = values.length;
+  if (values instanceof Float64Array && n >= 1024) {
+    const all = new Float64Array(n);
+    const some = wasmCorrections(values, 0, n, all);
+    if (some >= 0) return some > 0 ? all : null;
+  }
   let out: Float64Array | null = null;
   for (let i = 0; i < n; i++) {
     const lo = correction(values[i]);
@@ -116,6 +126,7 @@ export class PrintedColumn implements DDColumn {
     if (this.#lo === null) return out.fill(0, 0, len);
     if (this.#lo !== undefined) return this.#lo.subarray(start, start + len);
     const hi = this.hi;
+    if (wasmCorrections(hi, start, len, out) >= 0) return out;
     for (let i = 0; i < len; i++) out[i] = correction(hi[start + i]);
     return out;
   }

@@ -78,3 +78,58 @@ Deno.test("PrintedColumn.block() gives the whole column's corrections, a block a
   assert.deepEqual(lazy.lo, whole);
   assert.equal(new PrintedColumn(Float64Array.of(1, 2, 0.5)).lo, null);
 });
+
+Deno.test("the corrections in WebAssembly are correction()'s, bit for bit, for every kind of value", async () => {
+  // Exact: the JavaScript `correction` is the reference (same IEEE operations, same order).
+  const { correction } = await import("./_printed_lo.ts");
+  const { wasmCorrections } = await import("../../kernel/csv/printed_lo.ts");
+  const next = mulberry32Uint(1205);
+  const values: number[] = [
+    0,
+    -0,
+    1,
+    -7,
+    0.1,
+    88.2,
+    1e15,
+    999999999999999.9,
+    9.999999999999999e14,
+    1e-8,
+    9.9e-9,
+    1e-9,
+    0.30000000000000004,
+    2.5,
+    -2.5,
+    0.5,
+    -0.5,
+    1e22,
+    1e-300,
+    5e-324,
+    NaN,
+    Infinity,
+    -Infinity,
+    123456.789012345,
+    0.8116,
+    1e14 - 0.5,
+    99.99999999999999,
+    0.09999999999999999,
+  ];
+  while (values.length < 40_000) {
+    const digits = 1 + (next() % 17);
+    const m = Number(String(next()).padEnd(digits, "7").slice(0, digits));
+    const v = m / 10 ** (next() % 24) * (next() % 2 ? -1 : 1);
+    values.push(next() % 5 === 0 ? Math.fround(v) : v);
+  }
+  const hi = Float64Array.from(values);
+  const out = new Float64Array(hi.length);
+  const some = wasmCorrections(hi, 0, hi.length, out);
+  assert.ok(some > 1000, "WebAssembly available and most values have a correction");
+  hi.forEach((v, i) => {
+    const want = correction(v);
+    if (!Object.is(out[i], want)) assert.fail(`${v}: ${out[i]} against ${want}`);
+  });
+  // A block not at the start.
+  const part = new Float64Array(777);
+  wasmCorrections(hi, 12_345, 777, part);
+  for (let i = 0; i < 777; i++) assert.ok(Object.is(part[i], correction(hi[12_345 + i])));
+});

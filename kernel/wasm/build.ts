@@ -12,6 +12,7 @@
  * | text                       | bytes                          | used by                      |
  * | -------------------------- | ------------------------------ | ---------------------------- |
  * | kernel/csv/plain_lane.wat  | kernel/csv/_plain_lane_bytes.ts | the CSV reader's fast lane  |
+ * | kernel/csv/printed_lo.wat  | kernel/csv/_printed_lo_bytes.ts | decimal corrections, as printed |
  * | kernel/linalg/vectors.wat  | kernel/linalg/_vectors_bytes.ts | the Householder QR's loops  |
  *
  * @module
@@ -31,6 +32,11 @@ export const SOURCES: readonly WasmSource[] = [
     wat: new URL("../csv/plain_lane.wat", import.meta.url),
     out: new URL("../csv/_plain_lane_bytes.ts", import.meta.url),
     name: "PLAIN_LANE_WASM",
+  },
+  {
+    wat: new URL("../csv/printed_lo.wat", import.meta.url),
+    out: new URL("../csv/_printed_lo_bytes.ts", import.meta.url),
+    name: "PRINTED_LO_WASM",
   },
   {
     wat: new URL("../linalg/vectors.wat", import.meta.url),
