@@ -12,6 +12,10 @@
  *        └─────▶ number arrays: blocks of 2,048 joined, encoded ┴─▶ 1 MiB buffer ─▶ sink
  * ```
  *
+ * A block of whole numbers (row numbers: a quarter of a million-row check's
+ * RUN-JSON) is written digit by digit straight into the buffer, without a
+ * string a number (8 against 60 ns a number here); its text is `String`'s.
+ *
  * @module
  */
 
@@ -41,6 +45,35 @@ class Out {
     this.#at += this.#enc.encodeInto(s, this.#buf.subarray(this.#at)).written;
   }
 
+  /**
+   * Appends `sep` and each of `v[from, to)`, which are all whole numbers of
+   * magnitude below 2^31, as `String` writes them ("-0" is "0").
+   */
+  async ints(v: Indexed, from: number, to: number, sep: Uint8Array): Promise<void> {
+    const most = (to - from) * (sep.length + 11);
+    if (most > CHUNK - this.#at) await this.flush();
+    const buf = this.#buf, digits = this.#digits;
+    let at = this.#at;
+    for (let k = from; k < to; k++) {
+      for (let j = 0; j < sep.length; j++) buf[at++] = sep[j];
+      let x = v[k] | 0; // an int32 from here on: x / 10 is an integer division (by multiplication)
+      if (x < 0) {
+        buf[at++] = 0x2d;
+        x = -x;
+      }
+      let n = 0;
+      do {
+        const q = (x / 10) | 0;
+        digits[n++] = 0x30 + x - 10 * q;
+        x = q;
+      } while (x > 0);
+      while (n > 0) buf[at++] = digits[--n];
+    }
+    this.#at = at;
+  }
+
+  #digits = new Uint8Array(12);
+
   async flush(): Promise<void> {
     await this.#all(this.#buf.subarray(0, this.#at));
     this.#at = 0;
@@ -59,6 +92,15 @@ function isNumberArray(v: unknown): v is Indexed {
   }
   if (!Array.isArray(v) || v.length < 64) return false;
   for (let i = 0; i < v.length; i++) if (typeof v[i] !== "number") return false;
+  return true;
+}
+
+/** Whether every one of `v[from, to)` is a whole number of magnitude below 2^31. */
+function smallInts(v: Indexed, from: number, to: number): boolean {
+  for (let k = from; k < to; k++) {
+    const x = v[k];
+    if ((x | 0) !== x) return false; // NaN, ±Infinity, fractions and large values fail; −0 passes
+  }
   return true;
 }
 
@@ -102,11 +144,16 @@ async function walk(v: unknown, indent: string, out: Out): Promise<void> {
     await out.text("[");
     // A block of numbers joined into one string, encoded natively (encodeInto): byte by byte
     // from JavaScript it was about twice as slow; an await per number cost a promise each.
-    const sep = ",\n" + inner;
-    for (let i = 0; i < v.length; i += NUMBER_BLOCK) {
+    const sep = ",\n" + inner, sepBytes = new TextEncoder().encode(sep);
+    await out.text("\n" + inner + numberText(v[0]));
+    for (let i = 1; i < v.length; i += NUMBER_BLOCK) {
       const end = Math.min(v.length, i + NUMBER_BLOCK);
-      let s = i === 0 ? "\n" + inner + numberText(v[0]) : "";
-      for (let k = Math.max(i, 1); k < end; k++) s += sep + numberText(v[k]);
+      if (sep.length < 1000 && smallInts(v, i, end)) {
+        await out.ints(v, i, end, sepBytes);
+        continue;
+      }
+      let s = "";
+      for (let k = i; k < end; k++) s += sep + numberText(v[k]);
       await out.text(s);
     }
     return out.text(`\n${indent}]`);

@@ -50,3 +50,12 @@ Deno.test("writeJson streams a million-value array through a small sink", async 
   const v = { cells: [{ result: { fitted: big, n: big.length } }] };
   equal(await streamed(v), reference(v));
 });
+
+Deno.test("writeJson writes whole numbers digit by digit as String does, beside blocks that are not", async () => {
+  const rows = Float64Array.from({ length: 10_000 }, (_, i) => i + 1);
+  const edges = Float64Array.of(0, -0, 7, -7, 2 ** 31 - 1, -(2 ** 31), 10, -10, 1_000_000);
+  const mixed = Float64Array.from({ length: 5_000 }, (_, i) => (i < 3000 ? i - 1500 : i / 4));
+  const wide = Float64Array.of(2 ** 31, -(2 ** 31) - 1, 1e21, 2 ** 53);
+  const v = { rows, edges, mixed, wide, ints: Int32Array.from(rows), nested: [{ r: rows }] };
+  equal(await streamed(v), reference(v));
+});
