@@ -46,6 +46,7 @@ async function timedRun(
       "--allow-read",
       `--allow-write=${dir}`,
       "--allow-env=LOG_TOKENS,LOG_STREAM,INIT_CWD",
+      `--allow-run=${Deno.execPath()}`, // the demo's calc cell, as `deno task plumb` allows
       new URL("cells/main.ts", root).pathname,
       "run",
       "fade.md",

@@ -49,6 +49,8 @@ async function exportOnce(root: URL, doc: string, out: string): Promise<number> 
       "--allow-read",
       `--allow-write=${out.slice(0, out.lastIndexOf("/"))}`,
       "--allow-env=LOG_TOKENS,LOG_STREAM,SOURCE_DATE_EPOCH,INIT_CWD",
+      // The demo's calc cell runs in a child of this Deno (kernel/sandbox), as `deno task plumb` allows.
+      `--allow-run=${Deno.execPath()}`,
       "cells/main.ts",
       "export",
       doc,
