@@ -9,8 +9,7 @@
  *
  * @module
  */
-import { main } from "../kernel/cli/main.ts";
-import { registry } from "./mod.ts";
+import { relaunchEarly } from "../kernel/cli/run_args.ts";
 
 /** The compute worker's entry module. */
 export const WORKER_URL: URL = new URL("./worker.ts", import.meta.url);
@@ -23,6 +22,13 @@ export const RECORD_URL: URL = new URL("../ui/record/mod.ts", import.meta.url);
 
 if (import.meta.main) {
   const mainUrl = new URL(import.meta.url);
+  // A `plumb run` that will start itself again does so before loading the kinds (run_args.ts).
+  const early = await relaunchEarly(Deno.args, mainUrl);
+  if (early !== null) Deno.exit(early);
+  const [{ main }, { registry }] = await Promise.all([
+    import("../kernel/cli/main.ts"),
+    import("./mod.ts"),
+  ]);
   Deno.exit(
     await main(Deno.args, {
       registry,

@@ -30,7 +30,7 @@ export function mayRelaunch(): boolean {
  * @returns The child's exit status.
  */
 export async function relaunch(
-  product: Product,
+  product: Pick<Product, "mainUrl">,
   permissions: string[],
   args: string[],
 ): Promise<number> {

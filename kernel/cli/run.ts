@@ -17,8 +17,9 @@ import {
 } from "../document/mod.ts";
 import { fileTrouble, fromCaller } from "./caller.ts";
 import { sha256Hex } from "../hash.ts";
-import { historyPath, historyTempPath, type Recorded, recordRun } from "../history/mod.ts";
+import { historyPath, type Recorded, recordRun } from "../history/mod.ts";
 import { mayRelaunch, relaunch } from "./relaunch.ts";
+import { historyPermissions, parseRunArgs } from "./run_args.ts";
 import { formatHuman } from "./format_human.ts";
 import { progressOnStderr } from "./progress.ts";
 import type { Product } from "./product.ts";
@@ -110,36 +111,6 @@ async function writeJson(value: unknown): Promise<void> {
   await writeJsonStream(value, Deno.stdout);
 }
 
-/** `plumb run`'s arguments. */
-interface RunArgs {
-  path: string;
-  json: boolean;
-  /** `--no-history`: record nothing, report nothing. */
-  history: boolean;
-  /** `--without-rows`: RUN-JSON without the per-row fields (`CellKind.rows`). */
-  withoutRows: boolean;
-  /** Set by the relaunch that may write the history (never typed by a user). */
-  narrowed: boolean;
-}
-
-function parseRunArgs(args: string[]): RunArgs | string {
-  const a: RunArgs = { path: "", json: false, history: true, withoutRows: false, narrowed: false };
-  const paths: string[] = [];
-  for (const x of args) {
-    if (x === "--json") a.json = true;
-    else if (x === "--no-history") a.history = false;
-    else if (x === "--without-rows") a.withoutRows = true;
-    else if (x === "--narrowed") a.narrowed = true;
-    else if (x.startsWith("-")) return `Unknown option "${x}"`;
-    else paths.push(x);
-  }
-  if (paths.length !== 1) {
-    return "Usage: plumb run <document.md> [--json] [--without-rows] [--no-history]";
-  }
-  a.path = paths[0];
-  return a;
-}
-
 /**
  * Runs `plumb run` with its arguments. The run history is written beside the
  * document: a process that may not write there relaunches itself allowed to
@@ -173,13 +144,7 @@ export async function runCommand(args: string[], product: Product): Promise<numb
   const mayWrite = (p: string) =>
     Deno.permissions.querySync({ name: "write", path: p }).state === "granted";
   if (wantHistory && !a.narrowed && !mayWrite(hist) && mayRelaunch()) {
-    return await relaunch(product, [
-      "--allow-read",
-      `--allow-write=${hist},${historyTempPath(hist)}`,
-      "--allow-env=LOG_TOKENS,LOG_STREAM,INIT_CWD",
-      // calc cells: their code is checked and run in child processes of this Deno (kernel/sandbox).
-      `--allow-run=${Deno.execPath()}`,
-    ], ["run", ...args, "--narrowed"]);
+    return await relaunch(product, historyPermissions(hist), ["run", ...args, "--narrowed"]);
   }
   const session = new Session({
     registry: product.registry,

@@ -155,7 +155,7 @@ export function serveComputeWorker(registry: Registry): void {
               ? transientAnswer(msg.id, "Cancelled: a newer run took over", { cancelled: true })
               : await runCell(registry, store, msg, post),
           );
-          if (msg.letGo !== undefined) letGo(store, msg.letGo);
+          if (msg.letGo !== undefined) await letGo(store, msg.letGo);
         });
     }
   };
@@ -169,13 +169,13 @@ const COLLECT_FROM = 32 << 20;
  * at once by a collection (the worker's collector would otherwise wait, with
  * a fit's arrays beside them; kernel/collect.ts).
  */
-function letGo(store: WorkerStore, shas: readonly string[]): void {
+async function letGo(store: WorkerStore, shas: readonly string[]): Promise<void> {
   let dropped = 0;
   for (const sha of shas) {
     dropped += store.files.get(sha)?.bytes.length ?? 0;
     store.files.delete(sha);
   }
-  if (dropped >= COLLECT_FROM) collectGarbage();
+  if (dropped >= COLLECT_FROM) await collectGarbage();
 }
 
 /** Notes runs to answer as cancelled when their turn comes. */
