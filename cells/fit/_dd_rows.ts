@@ -82,7 +82,9 @@ export function ddRows(
   }
   for (const m of plans) {
     if (!("powers" in m)) continue;
-    for (const [c, k] of m.powers) if (exact.has(c) && !(scan(c).largest ** k < 2 ** 53)) exact.delete(c);
+    for (const [c, k] of m.powers) {
+      if (exact.has(c) && !(scan(c).largest ** k < 2 ** 53)) exact.delete(c);
+    }
   }
   return new MonomialRows(cols, plans, exact);
 }
