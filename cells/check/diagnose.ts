@@ -36,6 +36,7 @@
  *
  * @module
  */
+import { rowArray } from "../../kernel/arrays.ts";
 import {
   breuschPagan,
   breuschPaganOnFitted,
@@ -248,7 +249,7 @@ function sharedRowsPass(fit: Fit): DesignTraces | undefined {
     f.rLo !== null || f.p !== fit.design.length || n - f.p <= DURBIN_WATSON_EXACT_DF ||
     leverageKnown(fit)
   ) return undefined;
-  const h = new Float64Array(n);
+  const h = rowArray(n);
   const traces = durbinWatsonTracesOfFactor(f, fit.design, fit.weights, h);
   rememberLeverage(fit, h);
   return traces;

@@ -33,6 +33,7 @@ import { invertR, solveR } from "./solve_r.ts";
 import { singularValues } from "./singular_values.ts";
 import { powerOfTwoScales, scaledDesign } from "./_equilibrate.ts";
 import { type AliasedColumn, findAliasing } from "./_aliasing.ts";
+import { rowArray } from "../arrays.ts";
 
 export type { AliasedColumn };
 
@@ -115,7 +116,7 @@ export function leastSquares(
   const qty = applyQt(qr, y);
   const coefficients = solveCoefficients(qr, scale, qty);
   const fitted = evaluate(columns, coefficients, m);
-  const residuals = new Float64Array(m);
+  const residuals = rowArray(m);
   let rss = 0;
   for (let i = 0; i < m; i++) {
     residuals[i] = y[i] - fitted[i];
@@ -181,7 +182,7 @@ function solveCoefficients(
 }
 
 function evaluate(columns: readonly Float64Array[], beta: Float64Array, m: number): Float64Array {
-  const out = new Float64Array(m);
+  const out = rowArray(m);
   columns.forEach((c, j) => {
     const b = beta[j];
     for (let i = 0; i < m; i++) out[i] += b * c[i];

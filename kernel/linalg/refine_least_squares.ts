@@ -58,6 +58,7 @@ import {
 
 export { type DDRows, ROW_BLOCK };
 import * as K from "./_dd_kernels.ts";
+import { rowArray } from "../arrays.ts";
 import { applyQInPlace, applyQtInPlace } from "./apply_qt.ts";
 import { solveR } from "./solve_r.ts";
 import { scaledConditionNumber } from "./scaled_condition.ts";
@@ -121,14 +122,14 @@ export function refineLeastSquares(
   // The solution's own m-long arrays are the work space when offered (already touched: see
   // the module notes), else new ones.
   const own = options.reuse === true;
-  const f = own ? ls.fitted : new Float64Array(m);
+  const f = own ? ls.fitted : rowArray(m);
   // Start: x₀ from the QR. r₀ = the double residual b − A·x₀ when a first semi-normal step
   // (rate κ²·u·c(m)) converges at once, else Björck's r₀ = Q·(0, (Qᵀb)₂).
   const cheap = kappa * kappa * uc < CHEAP_START;
   let rh: Float64Array;
   if (cheap) rh = own ? ls.residuals : ls.residuals.slice();
   else {
-    rh = own ? ls.residuals : new Float64Array(m);
+    rh = own ? ls.residuals : rowArray(m);
     rh.set(ls.qty);
     rh.fill(0, 0, p);
     applyQInPlace(qr, rh);
@@ -237,7 +238,7 @@ function finish(d: Data, s: State) {
   }
   const rss = sh + sl, rssLo = fastSumError(sh, sl, rss);
   if (w === null) return { residuals: rh, residualsLo: rl, rss, rssLo };
-  const residuals = new Float64Array(m), residualsLo = new Float64Array(m);
+  const residuals = rowArray(m), residualsLo = new Float64Array(m);
   for (let i = 0; i < m; i++) {
     K.div(rh[i], rl[i], w[i], 0);
     residuals[i] = K.OUT[0];

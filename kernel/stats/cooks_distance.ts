@@ -7,6 +7,7 @@
  *
  * @module
  */
+import { rowArray } from "../arrays.ts";
 
 /**
  * Cook's distance per row.
@@ -33,7 +34,7 @@ export function cooksDistance(
       `Cannot compute Cook's distance: ${internal.length} residuals, ${hat.length} hat values`,
     );
   }
-  const out = new Float64Array(internal.length);
+  const out = rowArray(internal.length);
   for (let i = 0; i < internal.length; i++) {
     const r = internal[i];
     out[i] = r * r * hat[i] / (p * (1 - hat[i])); // NaN stays NaN

@@ -7,6 +7,7 @@
  *
  * @module
  */
+import { rowArray } from "../arrays.ts";
 
 /**
  * DFFITS per row.
@@ -28,7 +29,7 @@ export function dffits(external: Float64Array, hat: Float64Array): Float64Array 
       `Cannot compute DFFITS: ${external.length} residuals, ${hat.length} hat values`,
     );
   }
-  const out = new Float64Array(external.length);
+  const out = rowArray(external.length);
   for (let i = 0; i < external.length; i++) {
     out[i] = external[i] * Math.sqrt(hat[i] / (1 - hat[i])); // NaN stays NaN
   }

@@ -17,6 +17,7 @@
  *
  * @module
  */
+import { rowArray } from "../arrays.ts";
 import { LEVERAGE_ONE_TOLERANCE } from "./leverage.ts";
 
 /** Both kinds of studentized residual, per row; NaN where undefined. */
@@ -68,7 +69,7 @@ export function studentizedResiduals(
   }
   const df = n - p;
   const sigma = Math.sqrt(rss / df);
-  const internal = new Float64Array(n), external = new Float64Array(n);
+  const internal = rowArray(n), external = rowArray(n);
   for (let i = 0; i < n; i++) {
     const gap = 1 - hat[i];
     if (gap < LEVERAGE_ONE_TOLERANCE) {
