@@ -148,7 +148,8 @@ async function walk(v: unknown, indent: string, out: Out): Promise<void> {
     await out.text("\n" + inner + numberText(v[0]));
     for (let i = 1; i < v.length; i += NUMBER_BLOCK) {
       const end = Math.min(v.length, i + NUMBER_BLOCK);
-      if (sep.length < 1000 && smallInts(v, i, end)) {
+      // A block's text, at most 11 bytes a number after its separator, must fit the buffer.
+      if ((sepBytes.length + 11) * NUMBER_BLOCK <= CHUNK && smallInts(v, i, end)) {
         await out.ints(v, i, end, sepBytes);
         continue;
       }

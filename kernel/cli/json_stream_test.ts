@@ -59,3 +59,10 @@ Deno.test("writeJson writes whole numbers digit by digit as String does, beside 
   const v = { rows, edges, mixed, wide, ints: Int32Array.from(rows), nested: [{ r: rows }] };
   equal(await streamed(v), reference(v));
 });
+
+Deno.test("writeJson writes whole numbers nested deeper than the integer writer's buffer allows as String does", async () => {
+  // 300 levels: a separator of 602 bytes, too long for a block of 2,048 numbers in the 1 MiB buffer.
+  let v: unknown = Float64Array.from({ length: 3000 }, (_, i) => i - 7);
+  for (let d = 0; d < 300; d++) v = [v];
+  equal(await streamed(v), reference(v));
+});
