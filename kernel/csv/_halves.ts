@@ -310,13 +310,22 @@ export function cutInHalves(bytes: Uint8Array, dataStart: number, end: number): 
   return { mid, firstRows, feeds: firstRows + countLineFeeds(bytes, mid, end), helper: null };
 }
 
-/** Waits for the helper's count (or takes its job back when it has not begun); true if counted. */
-function waitForCount(st: Int32Array): boolean {
+/**
+ * Takes back a job the helper has not begun (waiting for it to begin first
+ * under `halvesForTests.waitForHelper`); true when taken back.
+ */
+function takenBack(st: Int32Array): boolean {
   const until = Date.now() + STALL_MS;
   while (halvesForTests.waitForHelper && Atomics.load(st, STATE) === POSTED && Date.now() < until) {
     Atomics.wait(st, STATE, POSTED, 10);
   }
-  if (Atomics.compareExchange(st, STATE, POSTED, TAKEN_BACK) === POSTED) return false;
+  return Atomics.compareExchange(st, STATE, POSTED, TAKEN_BACK) === POSTED;
+}
+
+/** Waits for the helper's count (or takes its job back when it has not begun); true if counted. */
+function waitForCount(st: Int32Array): boolean {
+  const until = Date.now() + STALL_MS;
+  if (takenBack(st)) return false;
   for (;;) {
     const state = Atomics.load(st, STATE);
     if (state === COUNTED) return true;
@@ -418,11 +427,7 @@ export function readInHalves(
  * taking back a job it has not begun), and says how it ended.
  */
 function settle(st: Int32Array, stop: boolean): number {
-  const until = Date.now() + STALL_MS;
-  while (halvesForTests.waitForHelper && Atomics.load(st, STATE) === POSTED && Date.now() < until) {
-    Atomics.wait(st, STATE, POSTED, 10);
-  }
-  if (Atomics.compareExchange(st, STATE, POSTED, TAKEN_BACK) === POSTED) return TAKEN_BACK;
+  if (takenBack(st)) return TAKEN_BACK;
   if (stop) Atomics.compareExchange(st, STATE, WORKING, STOP);
   let seen = Atomics.load(st, DONE), since = Date.now();
   for (;;) {
