@@ -18,8 +18,8 @@ import {
 import { fileTrouble, fromCaller } from "./caller.ts";
 import { sha256Hex } from "../hash.ts";
 import { historyPath, type Recorded, recordRun } from "../history/mod.ts";
-import { mayRelaunch, relaunch } from "./relaunch.ts";
-import { historyPermissions, parseRunArgs } from "./run_args.ts";
+import { relaunch } from "./relaunch.ts";
+import { historyPermissions, mayWrite, parseRunArgs, relaunchesForHistory } from "./run_args.ts";
 import { formatHuman } from "./format_human.ts";
 import { progressOnStderr } from "./progress.ts";
 import type { Product } from "./product.ts";
@@ -141,9 +141,7 @@ export async function runCommand(args: string[], product: Product): Promise<numb
   }
   const hist = historyPath(file);
   const wantHistory = a.history && (readSettings(parseDocument(source)).settings.history ?? 1) > 0;
-  const mayWrite = (p: string) =>
-    Deno.permissions.querySync({ name: "write", path: p }).state === "granted";
-  if (wantHistory && !a.narrowed && !mayWrite(hist) && mayRelaunch()) {
+  if (wantHistory && relaunchesForHistory(a, hist)) {
     return await relaunch(product, historyPermissions(hist), ["run", ...args, "--narrowed"]);
   }
   const session = new Session({

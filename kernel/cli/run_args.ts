@@ -76,6 +76,28 @@ export function historyPermissions(hist: string): string[] {
 }
 
 /**
+ * Whether this process may write `path`.
+ *
+ * @param path A file.
+ * @returns True when write leave for it is granted.
+ */
+export function mayWrite(path: string): boolean {
+  return Deno.permissions.querySync({ name: "write", path }).state === "granted";
+}
+
+/**
+ * Whether a run that records its history relaunches itself to write it: it may
+ * not write the history file here, but may start this Deno.
+ *
+ * @param a The run's arguments.
+ * @param hist The history file.
+ * @returns True to relaunch with {@link historyPermissions}.
+ */
+export function relaunchesForHistory(a: RunArgs, hist: string): boolean {
+  return a.history && !a.narrowed && !mayWrite(hist) && mayRelaunch();
+}
+
+/**
  * Relaunches `plumb run` with leave to write the history when it would relaunch
  * anyway (see the module notes), before anything else loads.
  *
@@ -86,9 +108,8 @@ export function historyPermissions(hist: string): string[] {
 export async function relaunchEarly(args: string[], mainUrl: URL): Promise<number | null> {
   if (args[0] !== "run") return null;
   const a = parseRunArgs(args.slice(1));
-  if (typeof a === "string" || !a.history || a.narrowed || !mayRelaunch()) return null;
+  if (typeof a === "string") return null;
   const hist = historyPath(fromCaller(a.path));
-  const mayWrite = Deno.permissions.querySync({ name: "write", path: hist }).state === "granted";
-  if (mayWrite) return null;
+  if (!relaunchesForHistory(a, hist)) return null;
   return await relaunch({ mainUrl }, historyPermissions(hist), [...args, "--narrowed"]);
 }
